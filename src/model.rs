@@ -1,0 +1,227 @@
+//! The reference data as plain records: what the store keeps and the catalog is built from.
+//!
+//! These types carry no behaviour beyond small helpers; the store owns how they are written
+//! and read, the science module owns what is computed from them.
+
+use serde::{Deserialize, Serialize};
+
+/// What kind of publication a source is.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum SourceKind {
+    Handbook,
+    Compilation,
+    Paper,
+    Standard,
+    Book,
+    Other,
+}
+
+/// A bibliographic record. Every dataset and every gas constant names one.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Source {
+    /// Stable key used by datasets, e.g. `crc-97-aqsol`.
+    pub key: String,
+    pub kind: SourceKind,
+    pub title: String,
+    pub authors: String,
+    pub publisher: Option<String>,
+    pub edition: Option<String>,
+    pub year: Option<i32>,
+    /// Table, page or section the numbers come from.
+    pub locator: Option<String>,
+    pub doi: Option<String>,
+    pub isbn: Option<String>,
+    pub url: Option<String>,
+    pub note: Option<String>,
+}
+
+/// Salt, molecular solute or gas.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum SoluteKind {
+    Salt,
+    Molecular,
+    Gas,
+}
+
+impl SoluteKind {
+    pub fn as_str(self) -> &'static str {
+        match self {
+            SoluteKind::Salt => "salt",
+            SoluteKind::Molecular => "molecular",
+            SoluteKind::Gas => "gas",
+        }
+    }
+}
+
+/// How a dataset came to be.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Provenance {
+    /// Measured by the authors of the source.
+    Measured,
+    /// Taken from an evaluated compilation or handbook table.
+    Compiled,
+    /// Typed from memory of a printed table; must be checked against the table.
+    FromMemory,
+    /// Computed from other data (for example converted from another unit).
+    Derived,
+}
+
+impl Provenance {
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Provenance::Measured => "measured",
+            Provenance::Compiled => "compiled",
+            Provenance::FromMemory => "from-memory",
+            Provenance::Derived => "derived",
+        }
+    }
+}
+
+/// Review state of a dataset.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Review {
+    Unreviewed,
+    Reviewed,
+    Rejected,
+}
+
+impl Review {
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Review::Unreviewed => "unreviewed",
+            Review::Reviewed => "reviewed",
+            Review::Rejected => "rejected",
+        }
+    }
+}
+
+/// A substance that dissolves in water.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Solute {
+    /// Stable slug, e.g. `potassium-nitrate`.
+    pub id: String,
+    pub name: String,
+    /// Formula of the anhydrous solute, e.g. `KNO3`.
+    pub formula: String,
+    pub kind: SoluteKind,
+    /// Molar mass of the anhydrous solute in g/mol, computed from the formula.
+    pub molar_mass: f64,
+    pub synonyms: Vec<String>,
+    pub tags: Vec<String>,
+    /// Cation name for salts, e.g. `potassium`.
+    pub cation: Option<String>,
+    /// Anion name for salts, e.g. `nitrate`.
+    pub anion: Option<String>,
+    /// Ions per formula unit when fully dissociated (van 't Hoff factor, ideal); 1 for
+    /// molecular solutes.
+    pub ions: u32,
+    /// Short hazard note (oxidiser, toxic, pressurised gas); shown with answers.
+    pub hazard: Option<String>,
+}
+
+/// The solid in equilibrium with the saturated solution.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Phase {
+    /// Formula of the solid, e.g. `Na2SO4·10H2O`.
+    pub formula: String,
+    /// Plain name, e.g. `decahydrate`.
+    pub name: String,
+    /// Molecules of water of crystallisation per formula unit of solute.
+    pub water: f64,
+}
+
+/// One tabulated point of a dataset.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct Point {
+    /// Temperature as reported, in the dataset's temperature unit.
+    pub temperature_reported: f64,
+    /// Canonical temperature in kelvin.
+    pub temperature_k: f64,
+    /// Value as reported, in the dataset's unit.
+    pub value_reported: f64,
+    /// Canonical composition: mass fraction of the anhydrous solute in the solution.
+    pub mass_fraction: f64,
+    /// Optional uncertainty, in the reported unit.
+    pub uncertainty: Option<f64>,
+}
+
+/// Points from one source for one solid phase of one solute in one solvent.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Dataset {
+    /// Stable key, unique across the reference, e.g. `potassium-nitrate/crc-97`.
+    pub key: String,
+    pub solute: String,
+    /// Always `water` for now.
+    pub solvent: String,
+    pub phase: Phase,
+    pub source: String,
+    /// Unit of the reported values, as written in output (`g/100g water`, `%w/w`, ...).
+    pub unit: String,
+    /// Unit of the reported temperatures: `C`, `K` or `F`.
+    pub temperature_unit: String,
+    pub provenance: Provenance,
+    pub review: Review,
+    /// Retired datasets are kept but hidden from queries.
+    pub retired: bool,
+    pub note: Option<String>,
+    pub points: Vec<Point>,
+}
+
+/// How a Henry's-law record expresses the gas's solubility and its temperature dependence.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(tag = "form", rename_all = "kebab-case")]
+pub enum GasLaw {
+    /// A Henry's-law constant at a reference temperature, in the named convention, with the
+    /// van 't Hoff temperature dependence `d ln H / d(1/T)` in kelvin (for the Hcp convention;
+    /// the science module converts).
+    VantHoff {
+        /// Convention and unit of `value`, e.g. `Hcp mol/(m3 Pa)`.
+        convention: String,
+        value: f64,
+        reference_temperature_k: f64,
+        /// `d ln Hcp / d(1/T)`, K. Positive for gases whose solubility falls as T rises.
+        temperature_term_k: f64,
+    },
+    /// Mole fraction of dissolved gas at a gas partial pressure of `reference_pressure_pa`:
+    /// `ln x = a + b/τ + c ln τ + d τ` with `τ = T / scale_k`.
+    MoleFractionFit {
+        a: f64,
+        b: f64,
+        c: f64,
+        d: f64,
+        scale_k: f64,
+        reference_pressure_pa: f64,
+        t_min_k: f64,
+        t_max_k: f64,
+    },
+}
+
+/// A Henry's-law record of a gas, with its source.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct GasConstant {
+    pub key: String,
+    pub solute: String,
+    pub source: String,
+    pub law: GasLaw,
+    pub provenance: Provenance,
+    pub review: Review,
+    pub note: Option<String>,
+}
+
+/// Tabulated freezing points (the ice line) of a solute's solutions, and its eutectic.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct FreezingData {
+    pub key: String,
+    pub solute: String,
+    pub source: String,
+    /// (mass fraction of anhydrous solute, freezing temperature in K), ascending in mass fraction.
+    pub points: Vec<(f64, f64)>,
+    /// Eutectic: (mass fraction, temperature in K) where the source gives it.
+    pub eutectic: Option<(f64, f64)>,
+    pub provenance: Provenance,
+    pub review: Review,
+}

@@ -6,8 +6,10 @@
 //! pure computations; `output` renders answers.
 #![forbid(unsafe_code)]
 
+pub mod answer;
 pub mod error;
 pub mod model;
+pub mod output;
 pub mod science;
 pub mod store;
 

@@ -1,0 +1,191 @@
+//! The answer to one statement: what was asked, whether it could be answered, rows, the basis
+//! of each number, caveats and citations. Every front end renders this one type; its JSON
+//! form is a documented contract (grammar/README.md, "The answer").
+
+use std::collections::BTreeMap;
+
+use serde::Serialize;
+
+/// What kind of statement an answer belongs to.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum AnswerKind {
+    Lookup,
+    Screening,
+    Saturation,
+    Ceiling,
+    Heat,
+    Gas,
+    Freezing,
+    Convert,
+    Describe,
+    Sources,
+    List,
+    Let,
+    Require,
+    /// A statement that could not be parsed.
+    Invalid,
+}
+
+impl AnswerKind {
+    pub fn as_str(self) -> &'static str {
+        match self {
+            AnswerKind::Lookup => "lookup",
+            AnswerKind::Screening => "screening",
+            AnswerKind::Saturation => "saturation",
+            AnswerKind::Ceiling => "ceiling",
+            AnswerKind::Heat => "heat",
+            AnswerKind::Gas => "gas",
+            AnswerKind::Freezing => "freezing",
+            AnswerKind::Convert => "convert",
+            AnswerKind::Describe => "describe",
+            AnswerKind::Sources => "sources",
+            AnswerKind::List => "list",
+            AnswerKind::Let => "let",
+            AnswerKind::Require => "require",
+            AnswerKind::Invalid => "invalid",
+        }
+    }
+}
+
+/// How a number was obtained from the data.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Basis {
+    /// A value printed in the source.
+    Tabulated,
+    /// Between printed values, by monotone cubic interpolation.
+    Interpolated,
+    /// From a fitted equation inside its valid range.
+    Fitted,
+    /// Outside the range of the data; asked for explicitly.
+    Extrapolated,
+    /// Computed from other answers (conversions, inversions).
+    Computed,
+}
+
+impl Basis {
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Basis::Tabulated => "tabulated",
+            Basis::Interpolated => "interpolated",
+            Basis::Fitted => "fitted",
+            Basis::Extrapolated => "extrapolated",
+            Basis::Computed => "computed",
+        }
+    }
+}
+
+/// One row of an answer. Fields that do not apply to a kind of answer are absent from JSON.
+#[derive(Debug, Clone, Default, PartialEq, Serialize)]
+pub struct Row {
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub solute: Option<String>,
+    /// What the value is: `solubility`, `saturation temperature`, `ceiling`, ...
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub quantity: Option<String>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub value: Option<f64>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub unit: Option<String>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub basis: Option<Basis>,
+    /// The solid phase in equilibrium where the value applies.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub phase: Option<String>,
+    /// The temperature the row is about, in °C (the limiting temperature of a screening row).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub temperature_c: Option<f64>,
+    /// Screening and require: whether the loading stays dissolved.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub holds: Option<bool>,
+    /// Screening and require: how far the saturation loading is above the loading, in percent.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub headroom_pct: Option<f64>,
+    /// Other fields of a kind of answer (describe, sources, list), in a stable order.
+    #[serde(flatten)]
+    pub extra: BTreeMap<String, serde_json::Value>,
+}
+
+/// A source an answer rests on.
+#[derive(Debug, Clone, PartialEq, Eq, Serialize)]
+pub struct SourceRef {
+    pub key: String,
+    pub citation: String,
+}
+
+/// Where a statement went wrong, ready for any renderer.
+#[derive(Debug, Clone, PartialEq, Eq, Serialize)]
+pub struct ErrorReport {
+    /// Which stage failed: `parse` or `evaluate`.
+    pub stage: &'static str,
+    pub message: String,
+    /// 1-based line of the fault in the script.
+    pub line: usize,
+    /// 1-based column (in characters) of the fault.
+    pub column: usize,
+    /// Byte range of the fault in the script, for renderers that draw carets.
+    #[serde(skip)]
+    pub span: (usize, usize),
+}
+
+/// The answer to one statement.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Answer {
+    /// The statement as written.
+    pub statement: String,
+    pub kind: AnswerKind,
+    /// False when the statement could not be parsed or answered.
+    pub ok: bool,
+    /// For `require`: whether the assertion held.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub holds: Option<bool>,
+    pub rows: Vec<Row>,
+    pub caveats: Vec<String>,
+    pub sources: Vec<SourceRef>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub error: Option<ErrorReport>,
+}
+
+impl Answer {
+    /// An answer with no rows yet.
+    pub fn new(statement: impl Into<String>, kind: AnswerKind) -> Self {
+        Answer {
+            statement: statement.into(),
+            kind,
+            ok: true,
+            holds: None,
+            rows: Vec::new(),
+            caveats: Vec::new(),
+            sources: Vec::new(),
+            error: None,
+        }
+    }
+
+    /// An answer for a statement that failed.
+    pub fn failed(statement: impl Into<String>, kind: AnswerKind, error: ErrorReport) -> Self {
+        Answer {
+            ok: false,
+            error: Some(error),
+            ..Answer::new(statement, kind)
+        }
+    }
+
+    /// Adds a caveat once.
+    pub fn caveat(&mut self, text: impl Into<String>) {
+        let text = text.into();
+        if !self.caveats.contains(&text) {
+            self.caveats.push(text);
+        }
+    }
+
+    /// Adds a source once.
+    pub fn cite(&mut self, key: &str, citation: impl Into<String>) {
+        if !self.sources.iter().any(|s| s.key == key) {
+            self.sources.push(SourceRef {
+                key: key.to_string(),
+                citation: citation.into(),
+            });
+        }
+    }
+}

@@ -36,7 +36,7 @@ mod tests {
     fn rounds_to_significant_figures() {
         assert_eq!(round_significant(31.600000001, 4), 31.6);
         assert_eq!(round_significant(0.000123456, 3), 0.000123);
-        assert_eq!(round_significant(-2.71828, 2), -2.7);
+        assert_eq!(round_significant(-2.345, 2), -2.3);
         assert_eq!(round_significant(123456.0, 3), 123000.0);
         assert_eq!(round_significant(0.0, 3), 0.0);
     }

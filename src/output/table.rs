@@ -10,15 +10,18 @@ use tabled::settings::Style;
 use crate::answer::{Answer, ErrorReport, Row};
 use crate::output::number::display;
 
+/// Reads one cell of a row, or nothing when the row has no such field.
+type Cell = Box<dyn Fn(&Row) -> Option<String>>;
+
 /// A column of the table: its heading and how to read a row's cell.
 struct Column {
     heading: String,
-    cell: Box<dyn Fn(&Row) -> Option<String>>,
+    cell: Cell,
 }
 
 fn columns_for(rows: &[Row]) -> Vec<Column> {
     let mut columns: Vec<Column> = Vec::new();
-    let mut add = |heading: &str, cell: Box<dyn Fn(&Row) -> Option<String>>| {
+    let mut add = |heading: &str, cell: Cell| {
         if rows.iter().any(|r| cell(r).is_some()) {
             columns.push(Column {
                 heading: heading.to_string(),

@@ -7,6 +7,7 @@
 #![forbid(unsafe_code)]
 
 pub mod answer;
+pub mod engine;
 pub mod error;
 pub mod model;
 pub mod output;

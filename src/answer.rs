@@ -134,6 +134,8 @@ pub struct ErrorReport {
 pub struct Answer {
     /// The statement as written.
     pub statement: String,
+    /// 1-based line of the script where the statement starts.
+    pub line: usize,
     pub kind: AnswerKind,
     /// False when the statement could not be parsed or answered.
     pub ok: bool,
@@ -152,6 +154,7 @@ impl Answer {
     pub fn new(statement: impl Into<String>, kind: AnswerKind) -> Self {
         Answer {
             statement: statement.into(),
+            line: 0,
             kind,
             ok: true,
             holds: None,

@@ -165,6 +165,9 @@ pub struct Dataset {
     pub temperature_unit: String,
     pub provenance: Provenance,
     pub review: Review,
+    /// Temperatures (K) over which this dataset's solid is the stable phase, where the source
+    /// or the curator says so; without it the branch covers its first to last point.
+    pub stable_range: Option<(f64, f64)>,
     /// Retired datasets are kept but hidden from queries.
     pub retired: bool,
     pub note: Option<String>,
@@ -189,6 +192,18 @@ pub enum GasLaw {
     /// Mole fraction of dissolved gas at a gas partial pressure of `reference_pressure_pa`:
     /// `ln x = a + b/τ + c ln τ + d τ` with `τ = T / scale_k`.
     MoleFractionFit {
+        a: f64,
+        b: f64,
+        c: f64,
+        d: f64,
+        scale_k: f64,
+        reference_pressure_pa: f64,
+        t_min_k: f64,
+        t_max_k: f64,
+    },
+    /// Molality of dissolved gas (mol/kg) at a gas partial pressure of
+    /// `reference_pressure_pa`: `ln m = a + b/τ + c ln τ + d τ` with `τ = T / scale_k`.
+    MolalityFit {
         a: f64,
         b: f64,
         c: f64,

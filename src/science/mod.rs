@@ -1,4 +1,5 @@
 //! The computations behind every answer: pure functions over plain data. No I/O, no SQLite.
 //! Every public function's doc comment gives its formula and its source.
 
+pub mod formula;
 pub mod units;

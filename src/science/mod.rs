@@ -1,5 +1,8 @@
 //! The computations behind every answer: pure functions over plain data. No I/O, no SQLite.
 //! Every public function's doc comment gives its formula and its source.
 
+pub mod error;
 pub mod formula;
 pub mod units;
+
+pub use error::ScienceError;

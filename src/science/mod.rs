@@ -6,3 +6,4 @@ pub mod formula;
 pub mod units;
 
 pub use error::ScienceError;
+pub mod curve;

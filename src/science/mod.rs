@@ -7,3 +7,5 @@ pub mod units;
 
 pub use error::ScienceError;
 pub mod curve;
+pub mod fit;
+pub mod solve;

@@ -8,4 +8,6 @@ pub mod units;
 pub use error::ScienceError;
 pub mod curve;
 pub mod fit;
+pub mod gas;
+pub mod heat;
 pub mod solve;

@@ -85,6 +85,7 @@ def water():
         sat = IAPWS95(T=t_k, x=0)
         row = {"t_k": t_k, "saturation_pressure_pa": sat.P * 1e6}
         if t < 100:
+            row["density_t_k"] = t + 273.15
             row["density_kg_per_m3_at_1atm"] = IAPWS95(T=t + 273.15, P=0.101325).rho
         rows.append(row)
     return rows

@@ -1,4 +1,14 @@
 //! The computations behind every answer: pure functions over plain data. No I/O, no SQLite.
 //! Every public function's doc comment gives its formula and its source.
 
+pub mod curve;
+pub mod error;
+pub mod fit;
+pub mod formula;
+pub mod freezing;
+pub mod gas;
+pub mod heat;
+pub mod solve;
 pub mod units;
+
+pub use error::ScienceError;

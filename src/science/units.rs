@@ -206,3 +206,291 @@ impl PressureUnit {
         }
     }
 }
+
+// ---------------------------------------------------------------------------------------
+// Conversions. Composition goes through the canonical mass fraction `w` of the anhydrous
+// solute in the solution; every unit converts to and from `w`.
+// ---------------------------------------------------------------------------------------
+
+use super::error::ScienceError;
+
+/// Molar mass of water, g/mol: 2 × 1.008 + 15.999 = 18.015 from the CIAAW 2021 conventional
+/// atomic weights (see `formula::ATOMIC_WEIGHTS`).
+pub const WATER_MOLAR_MASS: f64 = 18.015;
+
+/// What a composition conversion may need beyond the value and its unit.
+#[derive(Debug, Clone, Copy, Default, PartialEq)]
+pub struct Context {
+    /// Molar mass of the anhydrous solute, g/mol (needed by mol/kg, mmol/kg, umol/kg, x,
+    /// mol/L).
+    pub molar_mass: Option<f64>,
+    /// Density of the solution, g/mL (needed by g/L, mol/L, mg/L).
+    pub density: Option<f64>,
+}
+
+impl Context {
+    /// A context with only a molar mass, g/mol.
+    pub fn with_molar_mass(molar_mass: f64) -> Self {
+        Self {
+            molar_mass: Some(molar_mass),
+            density: None,
+        }
+    }
+
+    fn molar_mass_for(&self, unit: CompositionUnit) -> Result<f64, ScienceError> {
+        let m = self.molar_mass.ok_or(ScienceError::MissingMolarMass {
+            unit: unit.symbol(),
+        })?;
+        positive("molar mass (g/mol)", m)
+    }
+
+    fn density_for(&self, unit: CompositionUnit) -> Result<f64, ScienceError> {
+        let d = self.density.ok_or(ScienceError::MissingDensity {
+            unit: unit.symbol(),
+        })?;
+        positive("density (g/mL)", d)
+    }
+}
+
+pub(crate) fn positive(what: &'static str, value: f64) -> Result<f64, ScienceError> {
+    if value.is_finite() && value > 0.0 {
+        Ok(value)
+    } else {
+        Err(ScienceError::NotPositive { what, value })
+    }
+}
+
+fn invalid(value: f64, unit: CompositionUnit, why: &'static str) -> ScienceError {
+    ScienceError::InvalidComposition {
+        value,
+        unit: unit.symbol(),
+        why,
+    }
+}
+
+/// Converts a composition to the mass fraction of anhydrous solute in the solution.
+///
+/// With r the solute-to-water mass ratio (g solute per g water), M the solute's molar mass,
+/// M_w = 18.015 g/mol and ρ the solution density in g/mL (definitions, e.g. IUPAC Green
+/// Book, 3rd ed., §2.10):
+/// - `g/100g water`: r = v/100, w = r/(1+r); `%w/w`: w = v/100; `w`: w = v;
+/// - `mol/kg` (per kg water): r = v·M/1000; `mmol/kg`, `umol/kg` likewise with v/10³, v/10⁶;
+/// - `x`: w = xM / (xM + (1−x)M_w);
+/// - `mg/kg` (per kg solution): w = v/10⁶;
+/// - `g/L`: w = v/(1000ρ); `mg/L`: w = v/(10⁶ρ); `mol/L`: w = vM/(1000ρ).
+pub fn to_mass_fraction(
+    value: f64,
+    unit: CompositionUnit,
+    ctx: &Context,
+) -> Result<f64, ScienceError> {
+    use CompositionUnit::*;
+    if !value.is_finite() {
+        return Err(invalid(value, unit, "not a finite number"));
+    }
+    if value < 0.0 {
+        return Err(invalid(value, unit, "negative"));
+    }
+    let from_ratio = |r: f64| r / (1.0 + r);
+    let w = match unit {
+        GramsPer100gWater => from_ratio(value / 100.0),
+        MassPercent => value / 100.0,
+        MassFraction => value,
+        Molality => from_ratio(value * ctx.molar_mass_for(unit)? / 1000.0),
+        MillimolesPerKilogram => from_ratio(value * ctx.molar_mass_for(unit)? / 1.0e6),
+        MicromolesPerKilogram => from_ratio(value * ctx.molar_mass_for(unit)? / 1.0e9),
+        MoleFraction => {
+            if value >= 1.0 {
+                return Err(invalid(value, unit, "a mole fraction must be below 1"));
+            }
+            let m = ctx.molar_mass_for(unit)?;
+            value * m / (value * m + (1.0 - value) * WATER_MOLAR_MASS)
+        }
+        MilligramsPerKilogram => value / 1.0e6,
+        GramsPerLitre => value / (1000.0 * ctx.density_for(unit)?),
+        MilligramsPerLitre => value / (1.0e6 * ctx.density_for(unit)?),
+        MolesPerLitre => {
+            let m = ctx.molar_mass_for(unit)?;
+            value * m / (1000.0 * ctx.density_for(unit)?)
+        }
+    };
+    if w >= 1.0 {
+        return Err(invalid(
+            value,
+            unit,
+            "the solute would be all of the solution (mass fraction ≥ 1)",
+        ));
+    }
+    Ok(w)
+}
+
+/// Converts a mass fraction of anhydrous solute to a composition unit: the inverse of
+/// [`to_mass_fraction`], with the same formulas solved for v. `w` must lie in [0, 1).
+pub fn from_mass_fraction(
+    w: f64,
+    unit: CompositionUnit,
+    ctx: &Context,
+) -> Result<f64, ScienceError> {
+    use CompositionUnit::*;
+    if !w.is_finite() || !(0.0..1.0).contains(&w) {
+        return Err(invalid(
+            w,
+            MassFraction,
+            "a mass fraction must lie in [0, 1)",
+        ));
+    }
+    let r = w / (1.0 - w);
+    Ok(match unit {
+        GramsPer100gWater => 100.0 * r,
+        MassPercent => 100.0 * w,
+        MassFraction => w,
+        Molality => 1000.0 * r / ctx.molar_mass_for(unit)?,
+        MillimolesPerKilogram => 1.0e6 * r / ctx.molar_mass_for(unit)?,
+        MicromolesPerKilogram => 1.0e9 * r / ctx.molar_mass_for(unit)?,
+        MoleFraction => {
+            let m = ctx.molar_mass_for(unit)?;
+            let n = w / m;
+            n / (n + (1.0 - w) / WATER_MOLAR_MASS)
+        }
+        MilligramsPerKilogram => 1.0e6 * w,
+        GramsPerLitre => 1000.0 * ctx.density_for(unit)? * w,
+        MilligramsPerLitre => 1.0e6 * ctx.density_for(unit)? * w,
+        MolesPerLitre => {
+            let m = ctx.molar_mass_for(unit)?;
+            1000.0 * ctx.density_for(unit)? * w / m
+        }
+    })
+}
+
+/// Converts between any two composition units through the mass fraction.
+pub fn convert_composition(
+    value: f64,
+    from: CompositionUnit,
+    to: CompositionUnit,
+    ctx: &Context,
+) -> Result<f64, ScienceError> {
+    from_mass_fraction(to_mass_fraction(value, from, ctx)?, to, ctx)
+}
+
+/// Hydrate basis → anhydrous basis.
+///
+/// `hydrate_per_100g_water` grams of a hydrate (anhydrous molar mass `anhydrous_molar_mass`
+/// g/mol, `water` molecules of water of crystallisation) dissolved in 100 g of added water
+/// give, per 100 g of total water, 100·h·f / (100 + h·(1−f)) grams of anhydrous salt, where
+/// f = M_anh / (M_anh + n·M_w) is the anhydrous share of the hydrate's mass (mass balance).
+pub fn hydrate_to_anhydrous(
+    hydrate_per_100g_water: f64,
+    anhydrous_molar_mass: f64,
+    water: f64,
+) -> Result<f64, ScienceError> {
+    let f = anhydrous_share(anhydrous_molar_mass, water)?;
+    let h = hydrate_per_100g_water;
+    if !h.is_finite() || h < 0.0 {
+        return Err(invalid(
+            h,
+            CompositionUnit::GramsPer100gWater,
+            "negative or not finite",
+        ));
+    }
+    Ok(100.0 * h * f / (100.0 + h * (1.0 - f)))
+}
+
+/// Anhydrous basis → hydrate basis: the inverse of [`hydrate_to_anhydrous`],
+/// h = 100·r / (f − r·(1−f)) with r = anhydrous grams per gram of total water. A loading
+/// richer in salt than the hydrate itself (f − r(1−f) ≤ 0) cannot be made from the hydrate
+/// and water and is an error.
+pub fn anhydrous_to_hydrate(
+    anhydrous_per_100g_water: f64,
+    anhydrous_molar_mass: f64,
+    water: f64,
+) -> Result<f64, ScienceError> {
+    let f = anhydrous_share(anhydrous_molar_mass, water)?;
+    let a = anhydrous_per_100g_water;
+    if !a.is_finite() || a < 0.0 {
+        return Err(invalid(
+            a,
+            CompositionUnit::GramsPer100gWater,
+            "negative or not finite",
+        ));
+    }
+    let r = a / 100.0;
+    let denominator = f - r * (1.0 - f);
+    if denominator <= 0.0 {
+        return Err(invalid(
+            a,
+            CompositionUnit::GramsPer100gWater,
+            "more salt per water than the hydrate itself holds",
+        ));
+    }
+    Ok(100.0 * r / denominator)
+}
+
+fn anhydrous_share(anhydrous_molar_mass: f64, water: f64) -> Result<f64, ScienceError> {
+    let m = positive("molar mass (g/mol)", anhydrous_molar_mass)?;
+    if !water.is_finite() || water < 0.0 {
+        return Err(ScienceError::NotPositive {
+            what: "water of crystallisation",
+            value: water,
+        });
+    }
+    Ok(m / (m + water * WATER_MOLAR_MASS))
+}
+
+/// A pressure in `unit` → pascals (factors of [`PressureUnit::pascals`]).
+pub fn pressure_to_pa(value: f64, unit: PressureUnit) -> f64 {
+    value * unit.pascals()
+}
+
+/// Pascals → a pressure in `unit`.
+pub fn pressure_from_pa(pa: f64, unit: PressureUnit) -> f64 {
+    pa / unit.pascals()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn missing_things_are_named() {
+        let none = Context::default();
+        assert_eq!(
+            to_mass_fraction(250.0, CompositionUnit::GramsPerLitre, &none),
+            Err(ScienceError::MissingDensity { unit: "g/L" })
+        );
+        assert_eq!(
+            to_mass_fraction(1.5, CompositionUnit::Molality, &none),
+            Err(ScienceError::MissingMolarMass { unit: "mol/kg" })
+        );
+        assert_eq!(
+            from_mass_fraction(0.1, CompositionUnit::MoleFraction, &none),
+            Err(ScienceError::MissingMolarMass { unit: "x" })
+        );
+        assert!(to_mass_fraction(-3.0, CompositionUnit::GramsPer100gWater, &none).is_err());
+        assert!(to_mass_fraction(1.2, CompositionUnit::MassFraction, &none).is_err());
+    }
+
+    #[test]
+    fn worked_values() {
+        // By hand: 25 g/100g water is 25/125 = 0.2 mass fraction.
+        let c = Context::with_molar_mass(58.44);
+        let w = to_mass_fraction(25.0, CompositionUnit::GramsPer100gWater, &c).unwrap();
+        assert!((w - 0.2).abs() < 1e-12);
+        // 1 mol/kg NaCl: r = 0.05844, w = 0.05844/1.05844.
+        let w = to_mass_fraction(1.0, CompositionUnit::Molality, &c).unwrap();
+        assert!((w - 0.05844 / 1.05844).abs() < 1e-12);
+        // By hand: 1 atm = 760 torr.
+        assert!((pressure_from_pa(101_325.0, PressureUnit::Torr) - 760.0).abs() < 1e-9);
+    }
+
+    #[test]
+    fn hydrate_basis() {
+        // Worked by hand: 322.2 g Na2SO4·10H2O (1 mol, 142.04 g salt + 180.15 g water) in
+        // 100 g water: 142.04 g salt in 280.15 g water = 50.70 g/100g water.
+        let m = 142.04;
+        let a = hydrate_to_anhydrous(m + 10.0 * WATER_MOLAR_MASS, m, 10.0).unwrap();
+        assert!((a - 100.0 * m / (100.0 + 10.0 * WATER_MOLAR_MASS)).abs() < 1e-9);
+        let h = anhydrous_to_hydrate(a, m, 10.0).unwrap();
+        assert!((h - (m + 10.0 * WATER_MOLAR_MASS)).abs() < 1e-9);
+        // The decahydrate holds 142/180 g salt per g water = 78.8 g/100g; beyond is impossible.
+        assert!(anhydrous_to_hydrate(80.0, m, 10.0).is_err());
+    }
+}

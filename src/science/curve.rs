@@ -1,0 +1,568 @@
+//! Solubility curves: branches of tabulated points (one solid phase each) evaluated by
+//! monotone piecewise cubic interpolation, and curves that follow the stable branch.
+//!
+//! Units: temperatures in kelvin, compositions as the mass fraction of anhydrous solute.
+
+use super::error::ScienceError;
+
+/// How a value was obtained.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub enum Basis {
+    /// At a tabulated point.
+    Tabulated,
+    /// Between tabulated points, by monotone cubic interpolation.
+    Interpolated,
+    /// From a least-squares fit inside its range.
+    Fitted,
+    /// Outside the data (asked for explicitly).
+    Extrapolated,
+}
+
+impl Basis {
+    /// The word used in answers: `tabulated`, `interpolated`, `fitted`, `extrapolated`.
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Basis::Tabulated => "tabulated",
+            Basis::Interpolated => "interpolated",
+            Basis::Fitted => "fitted",
+            Basis::Extrapolated => "extrapolated",
+        }
+    }
+}
+
+/// A monotone piecewise cubic Hermite interpolant (PCHIP) through (x, y) knots.
+///
+/// Slopes by Fritsch & Carlson, "Monotone piecewise cubic interpolation", SIAM J. Numer.
+/// Anal. 17 (1980) 238–246, in the weighted-harmonic-mean form of Fritsch & Butland,
+/// SIAM J. Sci. Stat. Comput. 5 (1984) 300–304: at an interior knot the slope is 0 where the
+/// neighbouring secants differ in sign (a local extremum stays at the knot) and otherwise
+/// (w1+w2)/(w1/δ₋ + w2/δ₊) with w1 = 2h₊+h₋, w2 = h₊+2h₋; end slopes by the shape-preserving
+/// three-point formula, clamped to 3δ. On each interval the cubic then stays between its end
+/// values: it never overshoots.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Pchip {
+    x: Vec<f64>,
+    y: Vec<f64>,
+    d: Vec<f64>,
+}
+
+impl Pchip {
+    /// Builds the interpolant; `x` strictly ascending, at least one knot.
+    pub fn new(x: Vec<f64>, y: Vec<f64>) -> Result<Self, ScienceError> {
+        if x.is_empty() || x.len() != y.len() {
+            return Err(ScienceError::TooFewPoints {
+                what: "an interpolant",
+                needed: 1,
+                found: x.len().min(y.len()),
+            });
+        }
+        for v in x.iter().chain(&y) {
+            if !v.is_finite() {
+                return Err(ScienceError::NotPositive {
+                    what: "a tabulated value (finite)",
+                    value: *v,
+                });
+            }
+        }
+        for pair in x.windows(2) {
+            if pair[1] <= pair[0] {
+                return Err(ScienceError::NotAscending {
+                    previous_k: pair[0],
+                    next_k: pair[1],
+                });
+            }
+        }
+        let d = slopes(&x, &y);
+        Ok(Self { x, y, d })
+    }
+
+    /// The knots' abscissae.
+    pub fn knots(&self) -> &[f64] {
+        &self.x
+    }
+
+    /// The knots' ordinates.
+    pub fn values(&self) -> &[f64] {
+        &self.y
+    }
+
+    /// (lowest x, highest x).
+    pub fn range(&self) -> (f64, f64) {
+        (self.x[0], self.x[self.x.len() - 1])
+    }
+
+    /// Value and derivative at `x`. Outside the knots the end tangent line is followed
+    /// (linear extrapolation; callers flag it).
+    pub fn eval(&self, x: f64) -> (f64, f64) {
+        let n = self.x.len();
+        if n == 1 {
+            return (self.y[0], 0.0);
+        }
+        if x <= self.x[0] {
+            return (self.y[0] + self.d[0] * (x - self.x[0]), self.d[0]);
+        }
+        if x >= self.x[n - 1] {
+            return (
+                self.y[n - 1] + self.d[n - 1] * (x - self.x[n - 1]),
+                self.d[n - 1],
+            );
+        }
+        let k = match self.x.binary_search_by(|v| v.total_cmp(&x)) {
+            Ok(k) => return (self.y[k], self.d[k]),
+            Err(k) => k - 1,
+        };
+        let h = self.x[k + 1] - self.x[k];
+        let t = (x - self.x[k]) / h;
+        let (y0, y1, d0, d1) = (self.y[k], self.y[k + 1], self.d[k], self.d[k + 1]);
+        let t2 = t * t;
+        let t3 = t2 * t;
+        let h00 = 2.0 * t3 - 3.0 * t2 + 1.0;
+        let h10 = t3 - 2.0 * t2 + t;
+        let h01 = -2.0 * t3 + 3.0 * t2;
+        let h11 = t3 - t2;
+        let v = h00 * y0 + h10 * h * d0 + h01 * y1 + h11 * h * d1;
+        let dv = ((6.0 * t2 - 6.0 * t) * y0
+            + (3.0 * t2 - 4.0 * t + 1.0) * h * d0
+            + (-6.0 * t2 + 6.0 * t) * y1
+            + (3.0 * t2 - 2.0 * t) * h * d1)
+            / h;
+        // Rounding can put v a hair outside [y0, y1]; the interpolant promises it never does.
+        let (lo, hi) = if y0 <= y1 { (y0, y1) } else { (y1, y0) };
+        (v.clamp(lo, hi), dv)
+    }
+}
+
+fn slopes(x: &[f64], y: &[f64]) -> Vec<f64> {
+    let n = x.len();
+    if n == 1 {
+        return vec![0.0];
+    }
+    let h: Vec<f64> = x.windows(2).map(|w| w[1] - w[0]).collect();
+    let delta: Vec<f64> = (0..n - 1).map(|k| (y[k + 1] - y[k]) / h[k]).collect();
+    if n == 2 {
+        return vec![delta[0], delta[0]];
+    }
+    let mut d = vec![0.0; n];
+    for k in 1..n - 1 {
+        let (a, b) = (delta[k - 1], delta[k]);
+        if a == 0.0 || b == 0.0 || a.signum() != b.signum() {
+            d[k] = 0.0;
+        } else {
+            let w1 = 2.0 * h[k] + h[k - 1];
+            let w2 = h[k] + 2.0 * h[k - 1];
+            d[k] = (w1 + w2) / (w1 / a + w2 / b);
+        }
+    }
+    d[0] = end_slope(h[0], h[1], delta[0], delta[1]);
+    d[n - 1] = end_slope(h[n - 2], h[n - 3], delta[n - 2], delta[n - 3]);
+    d
+}
+
+/// Shape-preserving three-point end slope (Fritsch & Butland; as in Moler, Numerical
+/// Computing with MATLAB, §3.4).
+fn end_slope(h0: f64, h1: f64, d0: f64, d1: f64) -> f64 {
+    let s = ((2.0 * h0 + h1) * d0 - h0 * d1) / (h0 + h1);
+    if s.signum() != d0.signum() || d0 == 0.0 {
+        0.0
+    } else if d0.signum() != d1.signum() && s.abs() > 3.0 * d0.abs() {
+        3.0 * d0
+    } else {
+        s
+    }
+}
+
+/// One branch of a solubility curve: the solution in equilibrium with one solid phase.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Branch {
+    /// Formula of the solid phase, e.g. `Na2SO4·10H2O`.
+    pub phase: String,
+    interpolant: Pchip,
+}
+
+impl Branch {
+    /// Builds a branch from (temperature K, mass fraction) points, strictly ascending in
+    /// temperature; mass fractions in [0, 1). One point is allowed (a single temperature).
+    pub fn new(phase: impl Into<String>, points: &[(f64, f64)]) -> Result<Self, ScienceError> {
+        if points.is_empty() {
+            return Err(ScienceError::TooFewPoints {
+                what: "a branch",
+                needed: 1,
+                found: 0,
+            });
+        }
+        for &(t, w) in points {
+            if !(t.is_finite() && t > 0.0) {
+                return Err(ScienceError::NotPositive {
+                    what: "temperature (K)",
+                    value: t,
+                });
+            }
+            if !(w.is_finite() && (0.0..1.0).contains(&w)) {
+                return Err(ScienceError::InvalidComposition {
+                    value: w,
+                    unit: "w",
+                    why: "a mass fraction must lie in [0, 1)",
+                });
+            }
+        }
+        let interpolant = Pchip::new(
+            points.iter().map(|p| p.0).collect(),
+            points.iter().map(|p| p.1).collect(),
+        )?;
+        Ok(Self {
+            phase: phase.into(),
+            interpolant,
+        })
+    }
+
+    /// Builds a branch from a dataset's canonical points.
+    pub fn from_dataset(dataset: &crate::model::Dataset) -> Result<Self, ScienceError> {
+        let points: Vec<(f64, f64)> = dataset
+            .points
+            .iter()
+            .map(|p| (p.temperature_k, p.mass_fraction))
+            .collect();
+        Self::new(dataset.phase.formula.clone(), &points)
+    }
+
+    /// Tabulated temperatures, K.
+    pub fn knots(&self) -> &[f64] {
+        self.interpolant.knots()
+    }
+
+    /// Tabulated mass fractions.
+    pub fn values(&self) -> &[f64] {
+        self.interpolant.values()
+    }
+
+    /// (lowest, highest) tabulated temperature, K.
+    pub fn range(&self) -> (f64, f64) {
+        self.interpolant.range()
+    }
+
+    /// True when `t_k` lies within the tabulated range.
+    pub fn covers(&self, t_k: f64) -> bool {
+        let (lo, hi) = self.range();
+        t_k >= lo && t_k <= hi
+    }
+
+    /// Mass fraction and dw/dT (1/K) at `t_k`, with no range check: outside the range the
+    /// end tangent is followed and the value is kept in [0, 1).
+    pub fn value_unchecked(&self, t_k: f64) -> (f64, f64) {
+        let (w, d) = self.interpolant.eval(t_k);
+        (w.clamp(0.0, 1.0 - 1e-12), d)
+    }
+
+    fn basis_at(&self, t_k: f64) -> Basis {
+        if !self.covers(t_k) {
+            Basis::Extrapolated
+        } else if self.knots().iter().any(|k| (k - t_k).abs() <= 1e-9) {
+            Basis::Tabulated
+        } else {
+            Basis::Interpolated
+        }
+    }
+
+    /// Evaluates the branch alone (see [`Curve::evaluate`] for the rules).
+    pub fn evaluate(&self, t_k: f64, extrapolate: bool) -> Result<Evaluation, ScienceError> {
+        let (lo, hi) = self.range();
+        if !self.covers(t_k) && !extrapolate {
+            return Err(ScienceError::OutOfRange {
+                t_k,
+                t_min_k: lo,
+                t_max_k: hi,
+            });
+        }
+        let (w, slope) = self.value_unchecked(t_k);
+        Ok(Evaluation {
+            mass_fraction: w,
+            slope_per_k: slope,
+            phase: self.phase.clone(),
+            branch: 0,
+            basis: self.basis_at(t_k),
+        })
+    }
+}
+
+/// A value of a curve at one temperature.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Evaluation {
+    /// Mass fraction of anhydrous solute in the saturated solution.
+    pub mass_fraction: f64,
+    /// dw/dT of the stable branch, 1/K.
+    pub slope_per_k: f64,
+    /// Formula of the stable solid phase there.
+    pub phase: String,
+    /// Index of the stable branch in [`Curve::branches`].
+    pub branch: usize,
+    pub basis: Basis,
+}
+
+/// A temperature where the stable solid phase changes (e.g. a hydrate transition).
+#[derive(Debug, Clone, PartialEq)]
+pub struct Transition {
+    /// Temperature, K (to about 0.001 K where the branches overlap or meet).
+    pub t_k: f64,
+    /// Stable phase just below.
+    pub below: String,
+    /// Stable phase just above.
+    pub above: String,
+}
+
+/// A solubility curve: one or more branches. Where branches overlap, the stable one is the
+/// one with the lower solubility (the solid whose saturated solution holds less solute is
+/// the stable solid; the other is metastable there — phase-rule reasoning, common practice).
+#[derive(Debug, Clone, PartialEq)]
+pub struct Curve {
+    pub branches: Vec<Branch>,
+    transitions: Vec<Transition>,
+}
+
+impl Curve {
+    /// Builds a curve; branches are kept in the order given and need not be sorted.
+    pub fn new(branches: Vec<Branch>) -> Result<Self, ScienceError> {
+        if branches.is_empty() {
+            return Err(ScienceError::NoBranches);
+        }
+        let mut curve = Self {
+            branches,
+            transitions: Vec::new(),
+        };
+        curve.transitions = curve.find_transitions();
+        Ok(curve)
+    }
+
+    /// A curve of one branch.
+    pub fn single(branch: Branch) -> Self {
+        Self {
+            branches: vec![branch],
+            transitions: Vec::new(),
+        }
+    }
+
+    /// (lowest, highest) temperature with data on any branch, K.
+    pub fn temperature_range(&self) -> (f64, f64) {
+        let lo = self
+            .branches
+            .iter()
+            .map(|b| b.range().0)
+            .fold(f64::INFINITY, f64::min);
+        let hi = self
+            .branches
+            .iter()
+            .map(|b| b.range().1)
+            .fold(f64::NEG_INFINITY, f64::max);
+        (lo, hi)
+    }
+
+    /// Temperatures where the stable phase changes, ascending.
+    pub fn transitions(&self) -> &[Transition] {
+        &self.transitions
+    }
+
+    /// Every tabulated temperature of every branch, ascending, deduplicated, K.
+    pub fn knots(&self) -> Vec<f64> {
+        let mut k: Vec<f64> = self
+            .branches
+            .iter()
+            .flat_map(|b| b.knots().iter().copied())
+            .collect();
+        k.sort_by(f64::total_cmp);
+        k.dedup();
+        k
+    }
+
+    /// True when some branch has data at `t_k`.
+    pub fn covers(&self, t_k: f64) -> bool {
+        self.branches.iter().any(|b| b.covers(t_k))
+    }
+
+    /// The stable branch at `t_k`, among the branches covering it, or — where none does —
+    /// among all branches, by their end-tangent extrapolation.
+    fn stable(&self, t_k: f64) -> (usize, f64, f64) {
+        let covering = self.covers(t_k);
+        let mut best: Option<(usize, f64, f64)> = None;
+        for (i, b) in self.branches.iter().enumerate() {
+            if covering && !b.covers(t_k) {
+                continue;
+            }
+            let (w, d) = b.value_unchecked(t_k);
+            if best.is_none_or(|(_, bw, _)| w < bw) {
+                best = Some((i, w, d));
+            }
+        }
+        best.unwrap_or((0, 0.0, 0.0))
+    }
+
+    /// The saturated mass fraction at `t_k` (K), on the stable branch.
+    ///
+    /// The stable branch is the one with the lowest solubility among those with data at
+    /// `t_k`. Basis: `Tabulated` at a data point, `Interpolated` between (PCHIP, see
+    /// [`Pchip`]). Outside every branch's data the answer is an error
+    /// ([`ScienceError::OutOfRange`] beyond the ends, [`ScienceError::InGap`] between
+    /// branches) unless `extrapolate` is true; then the ends' tangent lines are followed and
+    /// the basis is `Extrapolated`.
+    pub fn evaluate(&self, t_k: f64, extrapolate: bool) -> Result<Evaluation, ScienceError> {
+        if !t_k.is_finite() || t_k <= 0.0 {
+            return Err(ScienceError::NotPositive {
+                what: "temperature (K)",
+                value: t_k,
+            });
+        }
+        if !self.covers(t_k) && !extrapolate {
+            let (lo, hi) = self.temperature_range();
+            if t_k < lo || t_k > hi {
+                return Err(ScienceError::OutOfRange {
+                    t_k,
+                    t_min_k: lo,
+                    t_max_k: hi,
+                });
+            }
+            let below_k = self
+                .branches
+                .iter()
+                .map(|b| b.range().1)
+                .filter(|&h| h < t_k)
+                .fold(lo, f64::max);
+            let above_k = self
+                .branches
+                .iter()
+                .map(|b| b.range().0)
+                .filter(|&l| l > t_k)
+                .fold(hi, f64::min);
+            return Err(ScienceError::InGap {
+                t_k,
+                below_k,
+                above_k,
+            });
+        }
+        let (i, w, d) = self.stable(t_k);
+        let branch = &self.branches[i];
+        Ok(Evaluation {
+            mass_fraction: w,
+            slope_per_k: d,
+            phase: branch.phase.clone(),
+            branch: i,
+            basis: branch.basis_at(t_k),
+        })
+    }
+
+    /// Where the stable branch changes: found on a grid of every knot plus 50 steps per
+    /// interval over the whole range, then refined by bisection to 1e-4 K.
+    fn find_transitions(&self) -> Vec<Transition> {
+        if self.branches.len() < 2 {
+            return Vec::new();
+        }
+        let grid = dense_grid(&self.knots(), 50);
+        let mut out = Vec::new();
+        for pair in grid.windows(2) {
+            let (a, b) = (pair[0], pair[1]);
+            let (ia, _, _) = self.stable(a);
+            let (ib, _, _) = self.stable(b);
+            if ia == ib {
+                continue;
+            }
+            let (mut lo, mut hi) = (a, b);
+            while hi - lo > 1e-4 {
+                let mid = 0.5 * (lo + hi);
+                if self.stable(mid).0 == ia {
+                    lo = mid;
+                } else {
+                    hi = mid;
+                }
+            }
+            out.push(Transition {
+                t_k: 0.5 * (lo + hi),
+                below: self.branches[ia].phase.clone(),
+                above: self.branches[self.stable(hi).0].phase.clone(),
+            });
+        }
+        out
+    }
+}
+
+/// Points `knots` with `steps` equal subdivisions between each neighbouring pair.
+pub(crate) fn dense_grid(knots: &[f64], steps: usize) -> Vec<f64> {
+    let mut g = Vec::with_capacity(knots.len() * steps + 1);
+    for pair in knots.windows(2) {
+        for s in 0..steps {
+            g.push(pair[0] + (pair[1] - pair[0]) * s as f64 / steps as f64);
+        }
+    }
+    if let Some(&last) = knots.last() {
+        g.push(last);
+    }
+    g
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    // Invented demo data (not reference values): a rising curve in mass fraction.
+    fn rising() -> Branch {
+        Branch::new(
+            "KX",
+            &[
+                (273.15, 0.10),
+                (293.15, 0.20),
+                (313.15, 0.35),
+                (333.15, 0.45),
+            ],
+        )
+        .unwrap()
+    }
+
+    #[test]
+    fn tabulated_interpolated_and_range() {
+        let c = Curve::single(rising());
+        let e = c.evaluate(293.15, false).unwrap();
+        assert_eq!(e.basis, Basis::Tabulated);
+        assert!((e.mass_fraction - 0.20).abs() < 1e-12);
+        let e = c.evaluate(300.0, false).unwrap();
+        assert_eq!(e.basis, Basis::Interpolated);
+        assert!(e.mass_fraction > 0.20 && e.mass_fraction < 0.35);
+        assert!(matches!(
+            c.evaluate(260.0, false),
+            Err(ScienceError::OutOfRange { .. })
+        ));
+        assert_eq!(c.evaluate(260.0, true).unwrap().basis, Basis::Extrapolated);
+    }
+
+    #[test]
+    fn stable_branch_is_lower_and_transition_found() {
+        // Invented: a hydrate branch rising steeply, an anhydrous branch falling slowly;
+        // they cross between 300 and 310 K.
+        let hydrate =
+            Branch::new("A·10H2O", &[(273.15, 0.05), (300.0, 0.30), (310.0, 0.45)]).unwrap();
+        let anhydrous = Branch::new("A", &[(295.0, 0.36), (310.0, 0.33), (373.15, 0.30)]).unwrap();
+        let c = Curve::new(vec![hydrate, anhydrous]).unwrap();
+        let tr = c.transitions();
+        assert_eq!(tr.len(), 1);
+        assert_eq!(tr[0].below, "A·10H2O");
+        assert_eq!(tr[0].above, "A");
+        assert!(tr[0].t_k > 300.0 && tr[0].t_k < 310.0);
+        assert_eq!(c.evaluate(280.0, false).unwrap().phase, "A·10H2O");
+        assert_eq!(c.evaluate(350.0, false).unwrap().phase, "A");
+    }
+
+    #[test]
+    fn gap_between_branches_is_an_error() {
+        let a = Branch::new("A·H2O", &[(273.15, 0.1), (298.15, 0.2)]).unwrap();
+        let b = Branch::new("A", &[(310.0, 0.25), (350.0, 0.3)]).unwrap();
+        let c = Curve::new(vec![a, b]).unwrap();
+        assert!(matches!(
+            c.evaluate(305.0, false),
+            Err(ScienceError::InGap { .. })
+        ));
+        assert_eq!(c.evaluate(305.0, true).unwrap().basis, Basis::Extrapolated);
+    }
+
+    #[test]
+    fn bad_branches() {
+        assert!(Branch::new("A", &[]).is_err());
+        assert!(Branch::new("A", &[(300.0, 0.1), (290.0, 0.2)]).is_err());
+        assert!(Branch::new("A", &[(300.0, 1.5)]).is_err());
+        assert!(Curve::new(vec![]).is_err());
+    }
+}

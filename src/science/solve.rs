@@ -1,0 +1,354 @@
+//! Inversions of a solubility curve: saturation temperatures of a loading, whether a loading
+//! stays dissolved over a temperature range with a margin, and the largest loading that does.
+//!
+//! Loadings are mass fractions of anhydrous solute; temperatures are kelvin. The margin is
+//! applied to the solute-to-water mass ratio r = w/(1−w) (g solute per g water): a loading
+//! r stays dissolved with margin m when the curve's r is at least r·(1+m) everywhere in the
+//! range. Only data-covered temperatures are used (no extrapolation).
+
+use super::curve::{Basis, Curve, dense_grid};
+use super::error::ScienceError;
+
+/// Steps per interval between knots of the scanning grid.
+const STEPS: usize = 200;
+
+/// One crossing of a loading with the curve.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Crossing {
+    /// Saturation temperature, K (to better than 0.01 K).
+    pub t_k: f64,
+    /// Stable solid phase there.
+    pub phase: String,
+    /// True when the curve rises through the loading (cooling below `t_k` crystallises the
+    /// solid); false when it falls (heating above `t_k` crystallises, a retrograde curve).
+    pub rising: bool,
+}
+
+fn ratio(w: f64) -> f64 {
+    w / (1.0 - w)
+}
+
+fn check_loading(w: f64) -> Result<f64, ScienceError> {
+    if w.is_finite() && w > 0.0 && w < 1.0 {
+        Ok(w)
+    } else {
+        Err(ScienceError::InvalidComposition {
+            value: w,
+            unit: "w",
+            why: "a loading must be a mass fraction in (0, 1)",
+        })
+    }
+}
+
+/// Grid over the data-covered temperatures: every knot, every transition and `STEPS`
+/// subdivisions between neighbours, restricted to [lo, hi] and to covered temperatures.
+fn scan_grid(curve: &Curve, lo: f64, hi: f64) -> Vec<f64> {
+    let mut knots: Vec<f64> = curve
+        .knots()
+        .into_iter()
+        .chain(curve.transitions().iter().map(|t| t.t_k))
+        .filter(|&t| t > lo && t < hi)
+        .collect();
+    knots.push(lo);
+    knots.push(hi);
+    knots.sort_by(f64::total_cmp);
+    knots.dedup();
+    dense_grid(&knots, STEPS)
+        .into_iter()
+        .filter(|&t| curve.covers(t))
+        .collect()
+}
+
+fn value(curve: &Curve, t: f64) -> f64 {
+    curve
+        .evaluate(t, true)
+        .map(|e| e.mass_fraction)
+        .unwrap_or(f64::NAN)
+}
+
+/// Every temperature inside the data range where the curve equals the loading `w`.
+///
+/// Method: the curve minus the loading is sampled on a grid of every knot and transition
+/// plus 200 steps between neighbours; each sign change is refined by bisection to 1e-5 K
+/// (the curve is continuous on each branch; at a transition the stable curve is continuous
+/// too, as the branches cross there). A grid point equal to the loading counts as a
+/// crossing. Temperatures between branches with no data are not searched.
+pub fn saturation_temperatures(curve: &Curve, w: f64) -> Result<Vec<Crossing>, ScienceError> {
+    let w = check_loading(w)?;
+    let (lo, hi) = curve.temperature_range();
+    let grid = scan_grid(curve, lo, hi);
+    let mut out: Vec<Crossing> = Vec::new();
+    let mut push = |t: f64, rising: bool| {
+        if out.last().is_none_or(|c| (c.t_k - t).abs() > 0.005) {
+            let phase = curve.evaluate(t, true).map(|e| e.phase).unwrap_or_default();
+            out.push(Crossing {
+                t_k: t,
+                phase,
+                rising,
+            });
+        }
+    };
+    for pair in grid.windows(2) {
+        let (a, b) = (pair[0], pair[1]);
+        let (fa, fb) = (value(curve, a) - w, value(curve, b) - w);
+        if fa == 0.0 {
+            push(a, fb > 0.0);
+            continue;
+        }
+        if fa.signum() == fb.signum() || fb == 0.0 {
+            continue;
+        }
+        // A sign change across a data gap is not a crossing the data support.
+        if !curve.covers(0.5 * (a + b)) {
+            continue;
+        }
+        let (mut x0, mut x1) = (a, b);
+        while x1 - x0 > 1e-5 {
+            let mid = 0.5 * (x0 + x1);
+            if (value(curve, mid) - w).signum() == fa.signum() {
+                x0 = mid;
+            } else {
+                x1 = mid;
+            }
+        }
+        push(0.5 * (x0 + x1), fb > fa);
+    }
+    if let Some(&last) = grid.last()
+        && value(curve, last) - w == 0.0
+    {
+        let before = grid.len().checked_sub(2).map(|i| value(curve, grid[i]) - w);
+        push(last, before.is_some_and(|v| v < 0.0));
+    }
+    Ok(out)
+}
+
+/// The lowest point of the curve over a range.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Minimum {
+    /// Where the curve is lowest, K.
+    pub t_k: f64,
+    /// The curve's mass fraction there.
+    pub mass_fraction: f64,
+    /// Stable phase there.
+    pub phase: String,
+    pub basis: Basis,
+}
+
+/// The minimum of the curve over [t1_k, t2_k] (every temperature, not only the ends).
+///
+/// Candidates: both ends, every knot and transition inside, and a 200-step scan between
+/// them; the best grid point is refined by golden-section search on its two neighbouring
+/// intervals. (PCHIP is monotone between knots, so the knots and transitions alone would
+/// do; the scan guards the branch selection.) The range must lie within the data.
+pub fn minimum(curve: &Curve, t1_k: f64, t2_k: f64) -> Result<Minimum, ScienceError> {
+    if !(t1_k.is_finite() && t2_k.is_finite()) || t2_k < t1_k {
+        return Err(ScienceError::BadRange { t1_k, t2_k });
+    }
+    // Both ends must have data; so must everything between (evaluate reports a gap).
+    curve.evaluate(t1_k, false)?;
+    curve.evaluate(t2_k, false)?;
+    let grid = scan_grid(curve, t1_k, t2_k);
+    let mut all = grid.clone();
+    all.sort_by(f64::total_cmp);
+    for pair in all.windows(2) {
+        let mid = 0.5 * (pair[0] + pair[1]);
+        if !curve.covers(mid) {
+            curve.evaluate(mid, false)?;
+        }
+    }
+    let (mut best_i, mut best_w) = (0, f64::INFINITY);
+    for (i, &t) in grid.iter().enumerate() {
+        let w = value(curve, t);
+        if w < best_w {
+            best_i = i;
+            best_w = w;
+        }
+    }
+    let mut best_t = grid.get(best_i).copied().unwrap_or(t1_k);
+    let lo = grid[best_i.saturating_sub(1)];
+    let hi = grid[(best_i + 1).min(grid.len() - 1)];
+    if hi > lo {
+        let (t, w) = golden_min(|t| value(curve, t), lo, hi);
+        if w < best_w {
+            best_t = t;
+        }
+    }
+    let e = curve.evaluate(best_t, false)?;
+    Ok(Minimum {
+        t_k: best_t,
+        mass_fraction: e.mass_fraction,
+        phase: e.phase,
+        basis: e.basis,
+    })
+}
+
+fn golden_min(f: impl Fn(f64) -> f64, mut a: f64, mut b: f64) -> (f64, f64) {
+    let g = 0.5 * (5f64.sqrt() - 1.0);
+    let mut c = b - g * (b - a);
+    let mut d = a + g * (b - a);
+    while b - a > 1e-6 {
+        if f(c) < f(d) {
+            b = d;
+        } else {
+            a = c;
+        }
+        c = b - g * (b - a);
+        d = a + g * (b - a);
+    }
+    let t = 0.5 * (a + b);
+    (t, f(t))
+}
+
+/// The answer to "does this loading stay dissolved over this range with this margin".
+#[derive(Debug, Clone, PartialEq)]
+pub struct Screening {
+    /// True exactly when r_min ≥ r_load·(1 + margin).
+    pub holds: bool,
+    /// Temperature where the curve is lowest in the range, K.
+    pub limiting_t_k: f64,
+    /// Stable phase at the limiting temperature.
+    pub phase: String,
+    /// The curve's mass fraction at the limiting temperature.
+    pub limiting_mass_fraction: f64,
+    /// Headroom in percent: (r_min / r_load − 1)·100 (negative when the loading exceeds the
+    /// solubility somewhere in the range).
+    pub headroom_pct: f64,
+    pub basis: Basis,
+}
+
+fn check_margin(margin: f64) -> Result<f64, ScienceError> {
+    if margin.is_finite() && margin >= 0.0 {
+        Ok(margin)
+    } else {
+        Err(ScienceError::BadMargin(margin))
+    }
+}
+
+/// Whether a loading `w` (mass fraction) stays dissolved over [t1_k, t2_k] with a margin
+/// (a fraction: 0.1 for 10 %).
+///
+/// Holds exactly when r_min ≥ r·(1 + margin), with r = w/(1−w) the loading's
+/// solute-to-water mass ratio and r_min the curve's ratio at its minimum over the whole
+/// range (see [`minimum`]). A single temperature is t1_k = t2_k.
+pub fn stays_dissolved(
+    curve: &Curve,
+    w: f64,
+    t1_k: f64,
+    t2_k: f64,
+    margin: f64,
+) -> Result<Screening, ScienceError> {
+    let w = check_loading(w)?;
+    let margin = check_margin(margin)?;
+    let m = minimum(curve, t1_k, t2_k)?;
+    let (r_min, r_load) = (ratio(m.mass_fraction), ratio(w));
+    Ok(Screening {
+        holds: r_min >= r_load * (1.0 + margin),
+        limiting_t_k: m.t_k,
+        phase: m.phase,
+        limiting_mass_fraction: m.mass_fraction,
+        headroom_pct: (r_min / r_load - 1.0) * 100.0,
+        basis: m.basis,
+    })
+}
+
+/// The largest loading that stays dissolved over a range with a margin.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Ceiling {
+    /// Largest loading, mass fraction: w = r/(1+r) with r = r_min/(1 + margin).
+    pub mass_fraction: f64,
+    /// Where the curve is lowest in the range, K.
+    pub limiting_t_k: f64,
+    pub phase: String,
+    pub basis: Basis,
+}
+
+/// The largest loading that [`stays_dissolved`] over [t1_k, t2_k] with `margin`.
+pub fn ceiling(curve: &Curve, t1_k: f64, t2_k: f64, margin: f64) -> Result<Ceiling, ScienceError> {
+    let margin = check_margin(margin)?;
+    let m = minimum(curve, t1_k, t2_k)?;
+    let r = ratio(m.mass_fraction) / (1.0 + margin);
+    Ok(Ceiling {
+        mass_fraction: r / (1.0 + r),
+        limiting_t_k: m.t_k,
+        phase: m.phase,
+        basis: m.basis,
+    })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::science::curve::Branch;
+
+    // Invented demo data: a curve with a maximum at 313.15 K.
+    fn peaked() -> Curve {
+        Curve::single(
+            Branch::new(
+                "A",
+                &[
+                    (273.15, 0.10),
+                    (293.15, 0.20),
+                    (313.15, 0.30),
+                    (333.15, 0.20),
+                    (353.15, 0.15),
+                ],
+            )
+            .unwrap(),
+        )
+    }
+
+    #[test]
+    fn two_crossings_on_a_peaked_curve() {
+        let c = peaked();
+        let x = saturation_temperatures(&c, 0.25).unwrap();
+        assert_eq!(x.len(), 2);
+        assert!(x[0].rising && !x[1].rising);
+        for cr in &x {
+            let w = c.evaluate(cr.t_k, false).unwrap().mass_fraction;
+            assert!((w - 0.25).abs() < 1e-6);
+        }
+        assert!(saturation_temperatures(&c, 0.5).unwrap().is_empty());
+        // At a knot value exactly.
+        let x = saturation_temperatures(&c, 0.20).unwrap();
+        assert_eq!(x.len(), 2);
+    }
+
+    #[test]
+    fn minimum_inside_the_range_not_at_the_ends() {
+        // Invented: dips at 300 K.
+        let c = Curve::single(
+            Branch::new("A", &[(280.0, 0.30), (300.0, 0.10), (320.0, 0.30)]).unwrap(),
+        );
+        let s = stays_dissolved(&c, 0.2, 280.0, 320.0, 0.0).unwrap();
+        assert!(!s.holds);
+        assert!((s.limiting_t_k - 300.0).abs() < 1e-3);
+        let s = stays_dissolved(&c, 0.05, 280.0, 320.0, 0.1).unwrap();
+        assert!(s.holds);
+        // r_min = 0.1/0.9, r_load = 0.05/0.95.
+        let want = ((0.1 / 0.9) / (0.05 / 0.95) - 1.0) * 100.0;
+        assert!((s.headroom_pct - want).abs() < 1e-6);
+        let ce = ceiling(&c, 280.0, 320.0, 0.1).unwrap();
+        let r = (0.1 / 0.9) / 1.1;
+        assert!((ce.mass_fraction - r / (1.0 + r)).abs() < 1e-9);
+        let s = stays_dissolved(&c, ce.mass_fraction, 280.0, 320.0, 0.1).unwrap();
+        assert!(s.holds || s.headroom_pct > 9.999_999);
+    }
+
+    #[test]
+    fn bad_inputs() {
+        let c = peaked();
+        assert!(matches!(
+            stays_dissolved(&c, 0.1, 300.0, 290.0, 0.1),
+            Err(ScienceError::BadRange { .. })
+        ));
+        assert!(matches!(
+            stays_dissolved(&c, 0.1, 260.0, 290.0, 0.1),
+            Err(ScienceError::OutOfRange { .. })
+        ));
+        assert!(matches!(
+            stays_dissolved(&c, 0.1, 280.0, 290.0, -0.1),
+            Err(ScienceError::BadMargin(_))
+        ));
+        assert!(saturation_temperatures(&c, 0.0).is_err());
+    }
+}

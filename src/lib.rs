@@ -8,6 +8,7 @@
 
 pub mod error;
 pub mod model;
+pub mod query;
 pub mod science;
 pub mod store;
 

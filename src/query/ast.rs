@@ -1,0 +1,415 @@
+//! The typed syntax tree of satline's query language: one `Statement` variant per statement,
+//! quantities whose unit decides their type, and byte spans into the script text on every node.
+//!
+//! Names bound by `let` never appear here: the parser replaces each use by the typed value it
+//! stands for, so the engine only ever sees numbers with units.
+
+use std::ops::Range;
+
+use serde::Serialize;
+
+use crate::science::units::{CompositionUnit, PressureUnit, TemperatureUnit};
+
+/// A byte range `start..end` into the text that was parsed (the whole script, not the line).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Default, Serialize)]
+pub struct Span {
+    pub start: usize,
+    pub end: usize,
+}
+
+impl Span {
+    pub fn new(start: usize, end: usize) -> Self {
+        Span { start, end }
+    }
+
+    pub fn range(self) -> Range<usize> {
+        self.start..self.end
+    }
+
+    /// The smallest span covering both.
+    pub fn to(self, other: Span) -> Span {
+        Span::new(self.start.min(other.start), self.end.max(other.end))
+    }
+
+    /// The text under the span, or `""` when the span does not fit `source`.
+    pub fn text(self, source: &str) -> &str {
+        source.get(self.range()).unwrap_or("")
+    }
+}
+
+/// A node with the span of the text it came from.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Located<T> {
+    pub node: T,
+    pub span: Span,
+}
+
+/// A name as written: a solute (formula, slug or words), a mixture, a filter value.
+/// Runs of blanks inside a multi-word name are folded to one space.
+#[derive(Debug, Clone, PartialEq, Eq, Serialize)]
+pub struct Name {
+    pub text: String,
+    pub span: Span,
+}
+
+/// A temperature as written (`5 C`, `278.15 K`, `41 F`).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Temperature {
+    pub value: f64,
+    pub unit: TemperatureUnit,
+    pub span: Span,
+}
+
+impl Temperature {
+    pub fn kelvin(&self) -> f64 {
+        self.unit.to_kelvin(self.value)
+    }
+
+    pub fn celsius(&self) -> f64 {
+        TemperatureUnit::Celsius.from_kelvin(self.kelvin())
+    }
+}
+
+/// `from 2 C to 8 C`: `low` is never above `high` (the parser checks).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct TemperatureRange {
+    pub low: Temperature,
+    pub high: Temperature,
+    pub span: Span,
+}
+
+/// Where a statement asks about temperature: one temperature or a range.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub enum Temperatures {
+    At(Temperature),
+    Range(TemperatureRange),
+}
+
+impl Temperatures {
+    pub fn span(&self) -> Span {
+        match self {
+            Temperatures::At(t) => t.span,
+            Temperatures::Range(r) => r.span,
+        }
+    }
+}
+
+/// How much solute is in the solution (`30 g/100g water`, `12 %w/w`, `1.5 mol/kg`). Never
+/// negative.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Loading {
+    pub value: f64,
+    pub unit: CompositionUnit,
+    pub span: Span,
+}
+
+/// A pressure (`2.5 bar`, `760 mmHg`). Never negative.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Pressure {
+    pub value: f64,
+    pub unit: PressureUnit,
+    pub span: Span,
+}
+
+impl Pressure {
+    pub fn pascals(&self) -> f64 {
+        self.value * self.unit.pascals()
+    }
+}
+
+/// A safety margin, `margin 10%`: `percent` is in `0 <= percent < 100`.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Margin {
+    pub percent: f64,
+    pub span: Span,
+}
+
+/// A unit asked for with `in <unit>` or `to <unit>`.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+pub struct UnitChoice<U> {
+    pub unit: U,
+    pub span: Span,
+}
+
+/// The gas side of `dissolved`: `under 0.21 bar` (the gas's own partial pressure),
+/// `under air`, `under air at 2 bar` or `under 2 bar of air` (a named mixture at a total
+/// pressure; no total means the engine's standard one).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub enum GasPressure {
+    Partial(Pressure),
+    Mixture {
+        mixture: Name,
+        total: Option<Pressure>,
+    },
+}
+
+/// Which solutes a screening or a list covers.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+pub enum SoluteClass {
+    /// `solutes`: every solute.
+    Solutes,
+    Salts,
+    Gases,
+    /// `molecular solutes`.
+    MolecularSolutes,
+}
+
+/// A `with ...` filter; several are joined with `and` and must all hold.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub enum Filter {
+    Cation(Name),
+    Anion(Name),
+    Tag(Name),
+    Element(Name),
+    /// A source key, e.g. `source crc-97`.
+    Source(Name),
+}
+
+/// Flags any statement that reads data may carry.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, Serialize)]
+pub struct Options {
+    /// `extrapolate`: answer outside the data's range (the answer says so).
+    pub extrapolate: bool,
+    /// `reviewed only`: use only reviewed data.
+    pub reviewed_only: bool,
+}
+
+/// A value `let` can bind.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub enum Value {
+    Temperature(Temperature),
+    Range(TemperatureRange),
+    Loading(Loading),
+    Pressure(Pressure),
+}
+
+impl Value {
+    pub fn kind(&self) -> ValueKind {
+        match self {
+            Value::Temperature(_) => ValueKind::Temperature,
+            Value::Range(_) => ValueKind::TemperatureRange,
+            Value::Loading(_) => ValueKind::Loading,
+            Value::Pressure(_) => ValueKind::Pressure,
+        }
+    }
+
+    /// The same value, pointing at `span` (where a name was used rather than bound).
+    pub(crate) fn at(self, span: Span) -> Value {
+        match self {
+            Value::Temperature(t) => Value::Temperature(Temperature { span, ..t }),
+            Value::Range(r) => Value::Range(TemperatureRange { span, ..r }),
+            Value::Loading(l) => Value::Loading(Loading { span, ..l }),
+            Value::Pressure(p) => Value::Pressure(Pressure { span, ..p }),
+        }
+    }
+}
+
+/// What kind of quantity a place in a statement wants, or a unit or name turned out to be.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+pub enum ValueKind {
+    Temperature,
+    TemperatureRange,
+    Loading,
+    Pressure,
+    Margin,
+}
+
+impl ValueKind {
+    /// "a temperature", for messages.
+    pub fn noun(self) -> &'static str {
+        match self {
+            ValueKind::Temperature => "a temperature",
+            ValueKind::TemperatureRange => "a temperature range",
+            ValueKind::Loading => "a loading",
+            ValueKind::Pressure => "a pressure",
+            ValueKind::Margin => "a margin",
+        }
+    }
+
+    /// "a temperature such as `5 C`", for "expected ..." messages.
+    pub fn example(self) -> &'static str {
+        match self {
+            ValueKind::Temperature => "a temperature such as `5 C`",
+            ValueKind::TemperatureRange => "a temperature range such as `from 2 C to 8 C`",
+            ValueKind::Loading => "a loading such as `30 g/100g water`",
+            ValueKind::Pressure => "a pressure such as `2.5 bar`",
+            ValueKind::Margin => "a margin such as `10%`",
+        }
+    }
+
+    /// "a temperature unit (`C`, `K`, `F`)", for unit messages.
+    pub fn unit_example(self) -> &'static str {
+        match self {
+            ValueKind::Temperature | ValueKind::TemperatureRange => {
+                "a temperature unit (`C`, `K`, `F`)"
+            }
+            ValueKind::Loading => "a composition unit such as `g/100g water` or `mol/kg`",
+            ValueKind::Pressure => "a pressure unit such as `bar` or `atm`",
+            ValueKind::Margin => "`%`",
+        }
+    }
+}
+
+/// `solubility of KNO3 at 20 C [in mol/kg]`.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Solubility {
+    pub solute: Name,
+    pub temperature: Temperature,
+    pub unit: Option<UnitChoice<CompositionUnit>>,
+    pub options: Options,
+}
+
+/// `which salts [with anion sulfate] stay dissolved at 30 g/100g water from 2 C to 8 C
+/// [margin 10%]`.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Screen {
+    pub class: SoluteClass,
+    pub filters: Vec<Filter>,
+    pub loading: Loading,
+    pub temperatures: Temperatures,
+    pub margin: Option<Margin>,
+    pub options: Options,
+}
+
+/// `saturation of KNO3 at 40 g/100g water [in F]`: the temperature(s) where the loading is
+/// saturated.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Saturation {
+    pub solute: Name,
+    pub loading: Loading,
+    pub unit: Option<UnitChoice<TemperatureUnit>>,
+    pub options: Options,
+}
+
+/// `ceiling of KCl from 2 C to 8 C [margin 10%] [in mol/kg]`: the largest safe loading.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Ceiling {
+    pub solute: Name,
+    pub temperatures: Temperatures,
+    pub margin: Option<Margin>,
+    pub unit: Option<UnitChoice<CompositionUnit>>,
+    pub options: Options,
+}
+
+/// `heat of solution of KNO3 at 25 C`.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct HeatOfSolution {
+    pub solute: Name,
+    pub temperature: Temperature,
+    pub options: Options,
+}
+
+/// `dissolved O2 at 25 C [under air] [in mg/L]`.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct DissolvedGas {
+    pub gas: Name,
+    pub temperature: Temperature,
+    /// `None`: no `under` clause; the engine's default applies.
+    pub pressure: Option<GasPressure>,
+    pub unit: Option<UnitChoice<CompositionUnit>>,
+    pub options: Options,
+}
+
+/// `freezing of NaCl at 10 g/100g water [at -10 C] [in F]`: without a temperature, the
+/// freezing point of the loading; with one, whether ice or salt comes out first.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Freezing {
+    pub solute: Name,
+    pub loading: Loading,
+    pub temperature: Option<Temperature>,
+    pub unit: Option<UnitChoice<TemperatureUnit>>,
+    pub options: Options,
+}
+
+/// `convert 30 g/100g water of Na2SO4 [as Na2SO4·10H2O] to mol/kg [as ...] [at 20 C]`.
+/// `as` after the solute says the given loading counts the hydrate's mass; `as` after the
+/// unit asks for the answer on that basis. `at` gives a temperature for density.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Convert {
+    pub loading: Loading,
+    pub solute: Name,
+    pub from_basis: Option<Name>,
+    pub to: UnitChoice<CompositionUnit>,
+    pub to_basis: Option<Name>,
+    pub temperature: Option<Temperature>,
+    pub options: Options,
+}
+
+/// `describe NaCl`.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Describe {
+    pub solute: Name,
+    pub options: Options,
+}
+
+/// `sources of NaCl`, or `sources` for every source.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Sources {
+    pub solute: Option<Name>,
+    pub options: Options,
+}
+
+/// `list salts [with anion sulfate]`.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct List {
+    pub class: SoluteClass,
+    pub filters: Vec<Filter>,
+    pub options: Options,
+}
+
+/// `let cold = from 2 C to 8 C`. Already applied to the parser's environment; the engine
+/// only acknowledges it.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Let {
+    pub name: Name,
+    pub value: Value,
+}
+
+/// `require KCl stays dissolved at 20 g/100g water over cold [margin 10%]`: holds or not.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Require {
+    pub solute: Name,
+    pub loading: Loading,
+    pub temperatures: Temperatures,
+    pub margin: Option<Margin>,
+    pub options: Options,
+}
+
+/// One statement of the language.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub enum Statement {
+    Solubility(Solubility),
+    Screen(Screen),
+    Saturation(Saturation),
+    Ceiling(Ceiling),
+    HeatOfSolution(HeatOfSolution),
+    DissolvedGas(DissolvedGas),
+    Freezing(Freezing),
+    Convert(Convert),
+    Describe(Describe),
+    Sources(Sources),
+    List(List),
+    Let(Let),
+    Require(Require),
+}
+
+impl Statement {
+    /// The statement's kind as a short word (`lookup`, `screening`, ...), for answers.
+    pub fn kind(&self) -> &'static str {
+        match self {
+            Statement::Solubility(_) => "lookup",
+            Statement::Screen(_) => "screening",
+            Statement::Saturation(_) => "saturation",
+            Statement::Ceiling(_) => "ceiling",
+            Statement::HeatOfSolution(_) => "heat-of-solution",
+            Statement::DissolvedGas(_) => "dissolved-gas",
+            Statement::Freezing(_) => "freezing",
+            Statement::Convert(_) => "convert",
+            Statement::Describe(_) => "describe",
+            Statement::Sources(_) => "sources",
+            Statement::List(_) => "list",
+            Statement::Let(_) => "let",
+            Statement::Require(_) => "require",
+        }
+    }
+}

@@ -1,0 +1,234 @@
+//! Parse errors as values: what was expected, what was found, where (a byte span), and a
+//! renderer that turns the span into line and column and draws a caret under the fault.
+
+use super::ast::{Span, ValueKind};
+
+/// A statement that could not be parsed: the fault and the byte span it covers in the
+/// script text.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+#[error("{kind}")]
+pub struct ParseError {
+    pub kind: ParseErrorKind,
+    pub span: Span,
+}
+
+fn show_found(text: &Option<String>) -> String {
+    match text {
+        Some(t) => format!("`{t}`"),
+        None => "the end of the statement".to_string(),
+    }
+}
+
+fn did_you_mean(suggestion: &Option<String>) -> String {
+    match suggestion {
+        Some(s) => format!("; did you mean `{s}`?"),
+        None => String::new(),
+    }
+}
+
+/// The classes of parse fault. Each doc comment shows a script that triggers it.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+#[non_exhaustive]
+pub enum ParseErrorKind {
+    /// A statement begins with a word that begins no statement:
+    /// `solubilty of KNO3 at 20 C`.
+    #[error(
+        "expected a statement such as `solubility of KNO3 at 20 C`, found `{found}`{}",
+        did_you_mean(suggestion)
+    )]
+    UnknownStatement {
+        found: String,
+        suggestion: Option<String>,
+    },
+
+    /// A keyword, a name or a clause was expected and something else came:
+    /// `solubility KNO3 at 20 C` (expected `of`).
+    #[error(
+        "expected {expected}, found {}{}",
+        show_found(found),
+        did_you_mean(suggestion)
+    )]
+    Expected {
+        expected: String,
+        /// `None` when the statement ended.
+        found: Option<String>,
+        suggestion: Option<String>,
+    },
+
+    /// A quantity of the wrong kind: `solubility of KNO3 at 5 g/L`.
+    #[error("expected {}, found `{found}`, which is {}", expected.example(), found_kind.noun())]
+    WrongQuantity {
+        expected: ValueKind,
+        found: String,
+        found_kind: ValueKind,
+    },
+
+    /// A unit of the wrong kind after `in` or `to`: `solubility of KNO3 at 20 C in F`.
+    #[error(
+        "expected {}, found `{found}`, which is a unit of {}",
+        expected.unit_example(),
+        found_kind.noun().trim_start_matches("a ")
+    )]
+    WrongUnit {
+        expected: ValueKind,
+        found: String,
+        found_kind: ValueKind,
+    },
+
+    /// A unit nobody knows: `convert 20 g/100g water of KCl to mol/kgg`.
+    #[error(
+        "expected {}, found `{found}`, which is not a unit satline knows{}",
+        expected.unit_example(),
+        did_you_mean(suggestion)
+    )]
+    UnknownUnit {
+        expected: ValueKind,
+        found: String,
+        suggestion: Option<String>,
+    },
+
+    /// A number with no unit: `solubility of KNO3 at 20`.
+    #[error("expected {}, found `{number}` with no unit", expected.example())]
+    MissingUnit { expected: ValueKind, number: String },
+
+    /// A number too large to use: `solubility of KNO3 at 1e999 C`.
+    #[error("expected a finite number, found `{found}`")]
+    InvalidNumber { found: String },
+
+    /// A temperature below 0 K: `solubility of KNO3 at -300 C`.
+    #[error("expected a temperature above absolute zero, found `{found}`")]
+    BelowAbsoluteZero { found: String },
+
+    /// A range whose first temperature is above its second:
+    /// `ceiling of KCl from 8 C to 2 C`.
+    #[error("expected the lower temperature first, found `from {low} to {high}`")]
+    ReversedRange { low: String, high: String },
+
+    /// A margin outside 0% to under 100%: `ceiling of KCl from 2 C to 8 C margin 120%`.
+    #[error("expected a margin from 0% to under 100%, found `{found}`")]
+    MarginOutOfRange { found: String },
+
+    /// A negative loading or pressure: `saturation of KNO3 at -5 g/100g water`.
+    #[error("expected an amount of zero or more, found `{found}`")]
+    NegativeAmount { found: String },
+
+    /// A name that no `let` has bound: `solubility of KNO3 at fridge`.
+    #[error(
+        "expected {}, found `{name}`, which no `let` has bound{}",
+        expected.example(),
+        did_you_mean(suggestion)
+    )]
+    UnboundName {
+        expected: ValueKind,
+        name: String,
+        suggestion: Option<String>,
+    },
+
+    /// A name bound to another kind of value:
+    /// `let dose = 20 g/100g water` then `solubility of KNO3 at dose`.
+    #[error(
+        "expected {}, found `{name}`, which `let` bound to {}",
+        expected.example(),
+        bound.noun()
+    )]
+    NameKindMismatch {
+        expected: ValueKind,
+        name: String,
+        bound: ValueKind,
+    },
+
+    /// `let` given a word of the language or a unit symbol: `let at = 5 C`.
+    #[error(
+        "expected a name of your own after `let`, found `{name}`, which is a word of the language"
+    )]
+    ReservedName { name: String },
+
+    /// The same clause twice: `ceiling of KCl from 2 C to 8 C margin 10% margin 5%`.
+    #[error("`{clause}` is given twice in one statement")]
+    DuplicateClause { clause: String },
+}
+
+impl ParseError {
+    pub fn new(kind: ParseErrorKind, span: Span) -> Self {
+        ParseError { kind, span }
+    }
+
+    /// Line and column (both from 1) of the start of the fault in `source`.
+    pub fn line_column(&self, source: &str) -> (usize, usize) {
+        line_column(source, self.span.start)
+    }
+
+    /// The fault drawn for a terminal: message, `file:line:column`, the line, and carets
+    /// under the faulty text.
+    pub fn render(&self, source: &str, file_name: &str) -> String {
+        let start = floor_boundary(source, self.span.start);
+        let (line, column) = line_column(source, start);
+        let line_start = source[..start].rfind('\n').map_or(0, |i| i + 1);
+        let line_end = source[start..]
+            .find('\n')
+            .map_or(source.len(), |i| start + i);
+        let line_text = source[line_start..line_end].trim_end_matches('\r');
+        let end = floor_boundary(source, self.span.end.clamp(start, line_end));
+        // Pad with the line's own tabs so the caret lines up however tabs are shown.
+        let pad: String = source[line_start..start]
+            .chars()
+            .map(|c| if c == '\t' { '\t' } else { ' ' })
+            .collect();
+        let width = source[start..end].chars().count().max(1);
+        let number = line.to_string();
+        let gutter = " ".repeat(number.len());
+        format!(
+            "error: {message}\n{gutter}--> {file_name}:{line}:{column}\n{gutter} |\n{number} | {line_text}\n{gutter} | {pad}{carets}\n",
+            message = self.kind,
+            carets = "^".repeat(width),
+        )
+    }
+}
+
+/// The largest char boundary at or below `offset`, within `source`.
+fn floor_boundary(source: &str, offset: usize) -> usize {
+    let mut at = offset.min(source.len());
+    while !source.is_char_boundary(at) {
+        at -= 1;
+    }
+    at
+}
+
+/// Line and column (both counted from 1, the column in characters) of byte `offset`.
+/// Offsets past the end or inside a character are moved back to the nearest boundary.
+pub fn line_column(source: &str, offset: usize) -> (usize, usize) {
+    let at = floor_boundary(source, offset);
+    let before = &source[..at];
+    let line = before.matches('\n').count() + 1;
+    let line_start = before.rfind('\n').map_or(0, |i| i + 1);
+    let column = source[line_start..at].chars().count() + 1;
+    (line, column)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn columns_count_characters() {
+        let text = "a\nb°c x";
+        assert_eq!(line_column(text, 0), (1, 1));
+        assert_eq!(line_column(text, 2), (2, 1));
+        // `x` is at byte 7 (° is two bytes) but column 5.
+        assert_eq!(line_column(text, 7), (2, 5));
+        assert_eq!(line_column(text, 999), (2, 6));
+    }
+
+    #[test]
+    fn render_draws_carets_under_the_span() {
+        let error = ParseError::new(
+            ParseErrorKind::InvalidNumber {
+                found: "1e999".into(),
+            },
+            Span::new(3, 8),
+        );
+        let shown = error.render("at 1e999 C", "x.satq");
+        assert!(shown.contains("x.satq:1:4"), "{shown}");
+        assert!(shown.contains("1 | at 1e999 C\n  |    ^^^^^\n"), "{shown}");
+    }
+}

@@ -1,0 +1,156 @@
+//! The words of the language (statement words, keywords, the words that end a name) and the
+//! edit distance behind every "did you mean".
+
+use crate::science::units::{CompositionUnit, PressureUnit, TemperatureUnit};
+
+/// Words that begin a statement.
+pub const STATEMENT_WORDS: [&str; 13] = [
+    "solubility",
+    "which",
+    "saturation",
+    "ceiling",
+    "heat",
+    "dissolved",
+    "freezing",
+    "convert",
+    "describe",
+    "sources",
+    "list",
+    "let",
+    "require",
+];
+
+/// Words that end a multi-word name: the name stops where one of these begins.
+pub const NAME_STOP: [&str; 15] = [
+    "at",
+    "from",
+    "to",
+    "in",
+    "over",
+    "stay",
+    "stays",
+    "under",
+    "margin",
+    "extrapolate",
+    "reviewed",
+    "as",
+    "of",
+    "with",
+    "and",
+];
+
+/// Other keywords; none of them may be bound by `let`.
+const OTHER_KEYWORDS: [&str; 17] = [
+    "dissolved",
+    "solution",
+    "temperature",
+    "salts",
+    "solutes",
+    "gases",
+    "molecular",
+    "cation",
+    "anion",
+    "tag",
+    "element",
+    "source",
+    "only",
+    "salt",
+    "solute",
+    "gas",
+    "air",
+];
+
+/// True when `word` (any case) is a word of the language.
+pub fn is_keyword(word: &str) -> bool {
+    let lower = word.to_lowercase();
+    STATEMENT_WORDS
+        .iter()
+        .chain(NAME_STOP.iter())
+        .chain(OTHER_KEYWORDS.iter())
+        .any(|k| *k == lower)
+}
+
+/// True when `word` (any case) ends a multi-word name.
+pub fn ends_name(word: &str) -> bool {
+    let lower = word.to_lowercase();
+    NAME_STOP.iter().any(|k| *k == lower)
+}
+
+/// Every unit symbol the parser knows, for suggestions.
+pub fn unit_symbols() -> Vec<&'static str> {
+    let mut all: Vec<&'static str> = TemperatureUnit::ALL.iter().map(|u| u.symbol()).collect();
+    all.extend(["°C", "°F"]);
+    all.extend(CompositionUnit::ALL.iter().map(|u| u.symbol()));
+    all.push("%");
+    all.extend(PressureUnit::ALL.iter().map(|u| u.symbol()));
+    all
+}
+
+/// Levenshtein distance over characters, ignoring case. Long inputs are cut to 64
+/// characters: nothing that long is a misspelt keyword.
+pub fn edit_distance(a: &str, b: &str) -> usize {
+    let a: Vec<char> = a.to_lowercase().chars().take(64).collect();
+    let b: Vec<char> = b.to_lowercase().chars().take(64).collect();
+    let mut previous: Vec<usize> = (0..=b.len()).collect();
+    let mut current = vec![0; b.len() + 1];
+    for (i, ca) in a.iter().enumerate() {
+        current[0] = i + 1;
+        for (j, cb) in b.iter().enumerate() {
+            let substitution = previous[j] + usize::from(ca != cb);
+            current[j + 1] = substitution.min(previous[j + 1] + 1).min(current[j] + 1);
+        }
+        std::mem::swap(&mut previous, &mut current);
+    }
+    previous[b.len()]
+}
+
+/// The candidate closest to `word`, if it is close enough to be a slip of the keyboard:
+/// one edit for words of up to four characters, two for longer ones.
+pub fn nearest<'c>(word: &str, candidates: &[&'c str]) -> Option<&'c str> {
+    let length = word.chars().count();
+    if length == 0 || length > 64 {
+        return None;
+    }
+    let allowed = if length <= 4 { 1 } else { 2 };
+    candidates
+        .iter()
+        .map(|c| (edit_distance(word, c), *c))
+        .filter(|(d, _)| *d > 0 && *d <= allowed && *d < length)
+        .min_by_key(|(d, _)| *d)
+        .map(|(_, c)| c)
+}
+
+/// "`at` or `from`", "`at`, `from` or `over`".
+pub fn one_of(words: &[&str]) -> String {
+    let quoted: Vec<String> = words.iter().map(|w| format!("`{w}`")).collect();
+    match quoted.split_last() {
+        None => String::new(),
+        Some((last, [])) => last.clone(),
+        Some((last, rest)) => format!("{} or {last}", rest.join(", ")),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn distance_counts_edits() {
+        assert_eq!(edit_distance("solubilty", "solubility"), 1);
+        assert_eq!(edit_distance("AT", "at"), 0);
+        assert_eq!(edit_distance("", "at"), 2);
+    }
+
+    #[test]
+    fn nearest_needs_a_close_word() {
+        assert_eq!(nearest("disolved", &["dissolved", "at"]), Some("dissolved"));
+        assert_eq!(nearest("banana", &["at", "from"]), None);
+        assert_eq!(nearest("a", &["at"]), None);
+    }
+
+    #[test]
+    fn lists_read_as_prose() {
+        assert_eq!(one_of(&["at"]), "`at`");
+        assert_eq!(one_of(&["at", "from", "over"]), "`at`, `from` or `over`");
+    }
+}

@@ -200,10 +200,22 @@ pub fn vant_hoff_hcp(
 
 /// Mole fraction of dissolved gas at the fit's reference partial pressure:
 /// ln x = a + b/τ + c ln τ + d τ, τ = T/scale_k (the form of the IUPAC Solubility Data
-/// Series fits; Clever & Battino). Returns (x, inside the fit's range).
+/// Series fits; Clever & Battino). Returns (x, inside the fit's range). For a molality fit
+/// (`ln m = a + b/τ + c ln τ + d τ`, m in mol/kg of water) the fitted value is returned the
+/// same way; the law's form says which quantity it is.
 pub fn mole_fraction_fit(law: &GasLaw, t_k: f64) -> Option<(f64, bool)> {
     match *law {
         GasLaw::MoleFractionFit {
+            a,
+            b,
+            c,
+            d,
+            scale_k,
+            t_min_k,
+            t_max_k,
+            ..
+        }
+        | GasLaw::MolalityFit {
             a,
             b,
             c,
@@ -301,6 +313,22 @@ pub fn dissolved(
                 },
             )
         }
+        GasLaw::MolalityFit {
+            reference_pressure_pa,
+            ..
+        } => {
+            // Henry's law on the molality: m = m_fit(T) · p / p_ref (mol per kg of water).
+            let p_ref = positive("reference pressure (Pa)", *reference_pressure_pa)?;
+            let (m_ref, inside) = mole_fraction_fit(law, t_k).unwrap_or((0.0, false));
+            (
+                m_ref * partial_pressure_pa / p_ref,
+                if inside {
+                    Basis::Fitted
+                } else {
+                    Basis::Extrapolated
+                },
+            )
+        }
     };
     let gas_kg_per_kg_water = n_per_kg_water * m / 1000.0;
     let n_per_kg_solution = n_per_kg_water / (1.0 + gas_kg_per_kg_water);
@@ -328,6 +356,9 @@ pub fn gas_heat_of_solution(law: &GasLaw, t_k: f64) -> Result<(f64, HeatSign), S
             temperature_term_k, ..
         } => temperature_term_k,
         GasLaw::MoleFractionFit {
+            b, c, d, scale_k, ..
+        }
+        | GasLaw::MolalityFit {
             b, c, d, scale_k, ..
         } => b * scale_k - c * t_k - d * t_k * t_k / scale_k,
     };

@@ -26,11 +26,20 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
     if seed.is_dir() {
         collect(&seed, &mut files)?;
     }
-    let mut code = String::from("/// Seed files compiled into the binary: (path relative to seed-data/, contents).\npub static SEED_FILES: &[(&str, &str)] = &[\n");
+    let mut code = String::from(
+        "/// Seed files compiled into the binary: (path relative to seed-data/, contents).\npub static SEED_FILES: &[(&str, &str)] = &[\n",
+    );
     for file in &files {
         println!("cargo:rerun-if-changed={}", file.display());
-        let rel = file.strip_prefix(&seed)?.to_string_lossy().replace('\\', "/");
-        writeln!(code, "    ({rel:?}, include_str!({:?})),", file.display().to_string())?;
+        let rel = file
+            .strip_prefix(&seed)?
+            .to_string_lossy()
+            .replace('\\', "/");
+        writeln!(
+            code,
+            "    ({rel:?}, include_str!({:?})),",
+            file.display().to_string()
+        )?;
     }
     code.push_str("];\n");
     let out = PathBuf::from(env::var("OUT_DIR")?).join("seed_files.rs");

@@ -64,7 +64,13 @@ CREATE TABLE datasets (
     provenance        TEXT NOT NULL CHECK (provenance IN ('measured', 'compiled', 'from-memory', 'derived')),
     review            TEXT NOT NULL CHECK (review IN ('unreviewed', 'reviewed', 'rejected')),
     retired           INTEGER NOT NULL DEFAULT 0 CHECK (retired IN (0, 1)),
-    note              TEXT
+    note              TEXT,
+    -- Where the dataset's solid is the stable phase, as reported and in kelvin (optional).
+    stable_low_reported   REAL,
+    stable_high_reported  REAL,
+    stable_low_k          REAL,
+    stable_high_k         REAL,
+    CHECK ((stable_low_reported IS NULL) = (stable_high_reported IS NULL))
 );
 
 CREATE TABLE points (
@@ -83,7 +89,7 @@ CREATE TABLE gas_constants (
     key                      TEXT PRIMARY KEY NOT NULL,
     solute                   TEXT NOT NULL REFERENCES solutes(id),
     source                   TEXT NOT NULL REFERENCES sources(key),
-    form                     TEXT NOT NULL CHECK (form IN ('vant-hoff', 'mole-fraction-fit')),
+    form                     TEXT NOT NULL CHECK (form IN ('vant-hoff', 'mole-fraction-fit', 'molality-fit')),
     convention               TEXT,
     value                    REAL,
     reference_temperature_k  REAL,
@@ -101,7 +107,7 @@ CREATE TABLE gas_constants (
     note                     TEXT,
     CHECK (form <> 'vant-hoff' OR (convention IS NOT NULL AND value IS NOT NULL
            AND reference_temperature_k IS NOT NULL AND temperature_term_k IS NOT NULL)),
-    CHECK (form <> 'mole-fraction-fit' OR (a IS NOT NULL AND b IS NOT NULL AND c IS NOT NULL
+    CHECK (form NOT IN ('mole-fraction-fit', 'molality-fit') OR (a IS NOT NULL AND b IS NOT NULL AND c IS NOT NULL
            AND d IS NOT NULL AND scale_k IS NOT NULL AND reference_pressure_pa IS NOT NULL
            AND t_min_k IS NOT NULL AND t_max_k IS NOT NULL))
 );
@@ -119,6 +125,7 @@ CREATE TABLE freezing (
     eutectic_temperature_reported  REAL,
     eutectic_mass_fraction         REAL,
     eutectic_temperature_k         REAL,
+    note                           TEXT,
     CHECK ((eutectic_composition_reported IS NULL) = (eutectic_temperature_reported IS NULL))
 );
 

@@ -6,8 +6,10 @@
 //! pure computations; `output` renders answers.
 #![forbid(unsafe_code)]
 
+pub mod catalog;
 pub mod error;
 pub mod model;
+pub mod report;
 pub mod science;
 pub mod store;
 

@@ -169,6 +169,12 @@ pub struct Dataset {
     pub retired: bool,
     pub note: Option<String>,
     pub points: Vec<Point>,
+    /// Temperatures over which this dataset's solid is the stable phase, where the source
+    /// or the seed says so: (low, high) in the dataset's temperature unit, as written.
+    /// Without it the branch covers its first to last point.
+    pub stable_range: Option<(f64, f64)>,
+    /// The same range in kelvin.
+    pub stable_range_k: Option<(f64, f64)>,
 }
 
 /// How a Henry's-law record expresses the gas's solubility and its temperature dependence.
@@ -189,6 +195,19 @@ pub enum GasLaw {
     /// Mole fraction of dissolved gas at a gas partial pressure of `reference_pressure_pa`:
     /// `ln x = a + b/τ + c ln τ + d τ` with `τ = T / scale_k`.
     MoleFractionFit {
+        a: f64,
+        b: f64,
+        c: f64,
+        d: f64,
+        scale_k: f64,
+        reference_pressure_pa: f64,
+        t_min_k: f64,
+        t_max_k: f64,
+    },
+    /// Molality of dissolved gas (mol/kg) at a gas partial pressure of
+    /// `reference_pressure_pa`: `ln m = a + b/τ + c ln τ + d τ` with `τ = T / scale_k`
+    /// (seed form `molality-fit`, for published fits that are not mole-fraction fits).
+    MolalityFit {
         a: f64,
         b: f64,
         c: f64,

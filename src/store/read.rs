@@ -28,6 +28,7 @@ pub struct FreezingRecord {
     pub points_reported: Vec<(f64, f64)>,
     /// The eutectic as reported.
     pub eutectic_reported: Option<(f64, f64)>,
+    pub note: Option<String>,
 }
 
 /// Everything a store holds, in key order: sources by key, solutes by id, datasets (retired
@@ -101,6 +102,16 @@ fn review(s: &str) -> Result<Review, StoreError> {
 
 fn missing(key: &str, column: &str) -> StoreError {
     corrupt(format!("gas constant \"{key}\" lacks {column}"))
+}
+
+/// Two nullable columns that are given together.
+fn pair(r: &rusqlite::Row<'_>, i: usize, j: usize) -> rusqlite::Result<Option<Pair>> {
+    Ok(
+        match (r.get::<_, Option<f64>>(i)?, r.get::<_, Option<f64>>(j)?) {
+            (Some(a), Some(b)) => Some((a, b)),
+            _ => None,
+        },
+    )
 }
 
 /// Reads every table into [`Contents`].
@@ -228,7 +239,8 @@ fn read_inside(conn: &Connection) -> Result<Contents, StoreError> {
 
     let mut stmt = conn.prepare_cached(
         "SELECT d.key, d.solute, d.solvent, p.formula, p.name, p.water, d.source, d.unit,
-                d.temperature_unit, d.provenance, d.review, d.retired, d.note
+                d.temperature_unit, d.provenance, d.review, d.retired, d.note,
+                d.stable_low_reported, d.stable_high_reported, d.stable_low_k, d.stable_high_k
          FROM datasets d JOIN phases p ON p.id = d.phase ORDER BY d.key",
     )?;
     let rows = stmt.query_map([], |r| {
@@ -248,10 +260,26 @@ fn read_inside(conn: &Connection) -> Result<Contents, StoreError> {
             r.get::<_, String>(10)?,
             r.get::<_, bool>(11)?,
             r.get::<_, Option<String>>(12)?,
+            pair(r, 13, 14)?,
+            pair(r, 15, 16)?,
         ))
     })?;
     for row in rows {
-        let (key, solute, solvent, phase, source, unit, t_unit, prov, rev, retired, note) = row?;
+        let (
+            key,
+            solute,
+            solvent,
+            phase,
+            source,
+            unit,
+            t_unit,
+            prov,
+            rev,
+            retired,
+            note,
+            stable_range,
+            stable_range_k,
+        ) = row?;
         contents.datasets.push(Dataset {
             points: points.remove(&key).unwrap_or_default(),
             key,
@@ -265,6 +293,8 @@ fn read_inside(conn: &Connection) -> Result<Contents, StoreError> {
             review: review(&rev)?,
             retired,
             note,
+            stable_range,
+            stable_range_k,
         });
     }
 
@@ -289,6 +319,16 @@ fn read_inside(conn: &Connection) -> Result<Contents, StoreError> {
                 value: f(5, "value")?,
                 reference_temperature_k: f(6, "reference_temperature_k")?,
                 temperature_term_k: f(7, "temperature_term_k")?,
+            },
+            "molality-fit" => GasLaw::MolalityFit {
+                a: f(8, "a")?,
+                b: f(9, "b")?,
+                c: f(10, "c")?,
+                d: f(11, "d")?,
+                scale_k: f(12, "scale_k")?,
+                reference_pressure_pa: f(13, "reference_pressure_pa")?,
+                t_min_k: f(14, "t_min_k")?,
+                t_max_k: f(15, "t_max_k")?,
             },
             "mole-fraction-fit" => GasLaw::MoleFractionFit {
                 a: f(8, "a")?,
@@ -331,26 +371,20 @@ fn read_inside(conn: &Connection) -> Result<Contents, StoreError> {
     let mut stmt = conn.prepare_cached(
         "SELECT key, solute, source, unit, temperature_unit, provenance, review,
                 eutectic_composition_reported, eutectic_temperature_reported,
-                eutectic_mass_fraction, eutectic_temperature_k
+                eutectic_mass_fraction, eutectic_temperature_k, note
          FROM freezing ORDER BY key",
     )?;
     let mut rows = stmt.query([])?;
     while let Some(r) = rows.next()? {
         let key: String = r.get(0)?;
         let pairs = freezing_points.remove(&key).unwrap_or_default();
-        let both = |i: usize, j: usize| -> rusqlite::Result<Option<(f64, f64)>> {
-            Ok(
-                match (r.get::<_, Option<f64>>(i)?, r.get::<_, Option<f64>>(j)?) {
-                    (Some(a), Some(b)) => Some((a, b)),
-                    _ => None,
-                },
-            )
-        };
+        let both = |i, j| pair(r, i, j);
         contents.freezing.push(FreezingRecord {
             unit: r.get(3)?,
             temperature_unit: r.get(4)?,
             points_reported: pairs.iter().map(|p| p.0).collect(),
             eutectic_reported: both(7, 8)?,
+            note: r.get(11)?,
             data: FreezingData {
                 solute: r.get(1)?,
                 source: r.get(2)?,

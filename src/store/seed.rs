@@ -286,6 +286,7 @@ struct RawDataset {
     review: Review,
     note: Option<String>,
     points: Vec<toml::Value>,
+    stable_range: Option<toml::Value>,
 }
 
 #[derive(Deserialize)]
@@ -322,6 +323,7 @@ struct RawFreezing {
     temperature_unit: String,
     points: Vec<toml::Value>,
     eutectic: Option<toml::Value>,
+    note: Option<String>,
 }
 
 // ---------------------------------------------------------------------------------------
@@ -754,6 +756,28 @@ fn parse_solute(
                 },
             ));
         }
+        let stable_range = match &d.stable_range {
+            None => None,
+            Some(v) => {
+                let record = format!("dataset \"{}\", stable_range", d.key);
+                let nums = tuple(file, &record, &["t_low", "t_high"], false, v)?;
+                if nums[1] <= nums[0] {
+                    return Err(problem(
+                        file,
+                        &record,
+                        SeedProblem::NotAscending {
+                            what: "the ends of stable_range".to_string(),
+                            previous: nums[0],
+                            current: nums[1],
+                        },
+                    ));
+                }
+                for t in &nums {
+                    check_liquid(file, &record, *t, t_unit, t_unit.to_kelvin(*t), pressurised)?;
+                }
+                Some((nums[0], nums[1]))
+            }
+        };
         let mut points = Vec::with_capacity(d.points.len());
         for (i, v) in d.points.iter().enumerate() {
             let record = format!("dataset \"{}\", point {}", d.key, i + 1);
@@ -781,6 +805,17 @@ fn parse_solute(
                 ));
             }
             check_liquid(file, &record, t, t_unit, kelvin, pressurised)?;
+            if let Some((low, high)) = stable_range
+                && !(low <= t && t <= high)
+            {
+                return Err(out_of_range(
+                    file,
+                    &record,
+                    t,
+                    t_unit,
+                    format!("outside the dataset's stable_range [{low}, {high}]"),
+                ));
+            }
             let w = to_mass_fraction(unit, value, molar_mass).unwrap_or(f64::NAN);
             check_mass_fraction(file, &record, value, unit, w)?;
             if uncertainty.is_some_and(|u| u < 0.0) {
@@ -820,6 +855,8 @@ fn parse_solute(
             retired: false,
             note,
             points,
+            stable_range,
+            stable_range_k: stable_range.map(|(l, h)| (t_unit.to_kelvin(l), t_unit.to_kelvin(h))),
         });
     }
 
@@ -997,6 +1034,7 @@ fn parse_freezing(
         temperature_unit: t_unit.symbol().to_string(),
         points_reported: reported,
         eutectic_reported,
+        note: optional(f.note),
     })
 }
 
@@ -1058,7 +1096,7 @@ fn parse_henry(
                     .ok_or_else(|| missing("temperature_term_k"))?,
             }
         }
-        "mole-fraction-fit" => {
+        "mole-fraction-fit" | "molality-fit" => {
             let t_min_k = h.t_min_k.ok_or_else(|| missing("t_min_k"))?;
             let t_max_k = h.t_max_k.ok_or_else(|| missing("t_max_k"))?;
             check_t(t_min_k)?;
@@ -1074,19 +1112,40 @@ fn parse_henry(
                     },
                 ));
             }
-            GasLaw::MoleFractionFit {
-                a: h.a.ok_or_else(|| missing("a"))?,
-                b: h.b.ok_or_else(|| missing("b"))?,
-                c: h.c.ok_or_else(|| missing("c"))?,
-                d: h.d.ok_or_else(|| missing("d"))?,
-                scale_k: positive("scale_k", h.scale_k.ok_or_else(|| missing("scale_k"))?)?,
-                reference_pressure_pa: positive(
-                    "reference_pressure_pa",
-                    h.reference_pressure_pa
-                        .ok_or_else(|| missing("reference_pressure_pa"))?,
-                )?,
-                t_min_k,
-                t_max_k,
+            let (a, b, c, d) = (
+                h.a.ok_or_else(|| missing("a"))?,
+                h.b.ok_or_else(|| missing("b"))?,
+                h.c.ok_or_else(|| missing("c"))?,
+                h.d.ok_or_else(|| missing("d"))?,
+            );
+            let scale_k = positive("scale_k", h.scale_k.ok_or_else(|| missing("scale_k"))?)?;
+            let reference_pressure_pa = positive(
+                "reference_pressure_pa",
+                h.reference_pressure_pa
+                    .ok_or_else(|| missing("reference_pressure_pa"))?,
+            )?;
+            if h.form == "molality-fit" {
+                GasLaw::MolalityFit {
+                    a,
+                    b,
+                    c,
+                    d,
+                    scale_k,
+                    reference_pressure_pa,
+                    t_min_k,
+                    t_max_k,
+                }
+            } else {
+                GasLaw::MoleFractionFit {
+                    a,
+                    b,
+                    c,
+                    d,
+                    scale_k,
+                    reference_pressure_pa,
+                    t_min_k,
+                    t_max_k,
+                }
             }
         }
         other => {
@@ -1095,7 +1154,7 @@ fn parse_henry(
                 record,
                 SeedProblem::Syntax {
                     message: format!(
-                        "unknown form \"{other}\"; expected vant-hoff or mole-fraction-fit"
+                        "unknown form \"{other}\"; expected vant-hoff, mole-fraction-fit or molality-fit"
                     ),
                 },
             ));
@@ -1141,9 +1200,18 @@ pub fn parse_seed<P: AsRef<str>, C: AsRef<str>>(files: &[(P, C)]) -> Result<Cont
             return Err(problem(path, "whole file", SeedProblem::UnexpectedFile));
         }
     }
-    let (sources_path, sources_text) = sources_file
-        .ok_or_else(|| problem("sources.toml", "whole file", SeedProblem::MissingSources))?;
-    let sources = parse_sources(sources_path, sources_text)?;
+    let sources = match sources_file {
+        Some((path, text)) => parse_sources(path, text)?,
+        // No files at all is an empty reference (a fresh checkout before any data).
+        None if solute_files.is_empty() => Vec::new(),
+        None => {
+            return Err(problem(
+                "sources.toml",
+                "whole file",
+                SeedProblem::MissingSources,
+            ));
+        }
+    };
     let source_keys: HashSet<&str> = sources.iter().map(|s| s.key.as_str()).collect();
 
     solute_files.sort();
@@ -1264,8 +1332,9 @@ pub(crate) fn write(
         let mut phase_id =
             tx.prepare_cached("SELECT id FROM phases WHERE formula = ?1 AND name = ?2")?;
         let mut insert_dataset = tx.prepare_cached(
-            "INSERT INTO datasets (key, solute, solvent, phase, source, unit, temperature_unit, provenance, review, retired, note)
-             VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10, ?11)",
+            "INSERT INTO datasets (key, solute, solvent, phase, source, unit, temperature_unit, provenance, review, retired, note,
+                                   stable_low_reported, stable_high_reported, stable_low_k, stable_high_k)
+             VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10, ?11, ?12, ?13, ?14, ?15)",
         )?;
         let mut insert_point = tx.prepare_cached(
             "INSERT INTO points (dataset, position, temperature_reported, temperature_k, value_reported, mass_fraction, uncertainty)
@@ -1286,7 +1355,11 @@ pub(crate) fn write(
                 d.provenance.as_str(),
                 d.review.as_str(),
                 d.retired,
-                d.note
+                d.note,
+                d.stable_range.map(|r| r.0),
+                d.stable_range.map(|r| r.1),
+                d.stable_range_k.map(|r| r.0),
+                d.stable_range_k.map(|r| r.1)
             ])?;
             for (i, p) in d.points.iter().enumerate() {
                 insert_point.execute(params![
@@ -1344,11 +1417,25 @@ pub(crate) fn write(
                     reference_pressure_pa,
                     t_min_k,
                     t_max_k,
+                }
+                | GasLaw::MolalityFit {
+                    a,
+                    b,
+                    c,
+                    d,
+                    scale_k,
+                    reference_pressure_pa,
+                    t_min_k,
+                    t_max_k,
                 } => insert_gas.execute(params![
                     g.key,
                     g.solute,
                     g.source,
-                    "mole-fraction-fit",
+                    if matches!(g.law, GasLaw::MolalityFit { .. }) {
+                        "molality-fit"
+                    } else {
+                        "mole-fraction-fit"
+                    },
                     None::<String>,
                     none,
                     none,
@@ -1371,8 +1458,8 @@ pub(crate) fn write(
         let mut insert_freezing = tx.prepare_cached(
             "INSERT INTO freezing (key, solute, source, unit, temperature_unit, provenance, review,
                                    eutectic_composition_reported, eutectic_temperature_reported,
-                                   eutectic_mass_fraction, eutectic_temperature_k)
-             VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10, ?11)",
+                                   eutectic_mass_fraction, eutectic_temperature_k, note)
+             VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10, ?11, ?12)",
         )?;
         let mut insert_freezing_point = tx.prepare_cached(
             "INSERT INTO freezing_points (freezing, position, composition_reported, temperature_reported, mass_fraction, temperature_k)
@@ -1391,7 +1478,8 @@ pub(crate) fn write(
                 f.eutectic_reported.map(|e| e.0),
                 f.eutectic_reported.map(|e| e.1),
                 d.eutectic.map(|e| e.0),
-                d.eutectic.map(|e| e.1)
+                d.eutectic.map(|e| e.1),
+                f.note
             ])?;
             for (i, (rep, can)) in f.points_reported.iter().zip(&d.points).enumerate() {
                 insert_freezing_point

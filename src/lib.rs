@@ -7,11 +7,13 @@
 #![forbid(unsafe_code)]
 
 pub mod answer;
+pub mod catalog;
 pub mod engine;
 pub mod error;
 pub mod model;
 pub mod output;
 pub mod query;
+pub mod report;
 pub mod science;
 pub mod store;
 

@@ -165,13 +165,16 @@ pub struct Dataset {
     pub temperature_unit: String,
     pub provenance: Provenance,
     pub review: Review,
-    /// Temperatures (K) over which this dataset's solid is the stable phase, where the source
-    /// or the curator says so; without it the branch covers its first to last point.
-    pub stable_range: Option<(f64, f64)>,
     /// Retired datasets are kept but hidden from queries.
     pub retired: bool,
     pub note: Option<String>,
     pub points: Vec<Point>,
+    /// Temperatures over which this dataset's solid is the stable phase, where the source
+    /// or the seed says so: (low, high) in the dataset's temperature unit, as written.
+    /// Without it the branch covers its first to last point.
+    pub stable_range: Option<(f64, f64)>,
+    /// The same range in kelvin.
+    pub stable_range_k: Option<(f64, f64)>,
 }
 
 /// How a Henry's-law record expresses the gas's solubility and its temperature dependence.
@@ -202,7 +205,8 @@ pub enum GasLaw {
         t_max_k: f64,
     },
     /// Molality of dissolved gas (mol/kg) at a gas partial pressure of
-    /// `reference_pressure_pa`: `ln m = a + b/τ + c ln τ + d τ` with `τ = T / scale_k`.
+    /// `reference_pressure_pa`: `ln m = a + b/τ + c ln τ + d τ` with `τ = T / scale_k`
+    /// (seed form `molality-fit`, for published fits that are not mole-fraction fits).
     MolalityFit {
         a: f64,
         b: f64,

@@ -1,0 +1,400 @@
+//! Reading the whole reference back out of SQLite into the model records, in one read
+//! transaction so the snapshot is consistent.
+
+use std::collections::HashMap;
+
+use rusqlite::Connection;
+use serde::Serialize;
+
+use super::StoreError;
+use crate::model::{
+    Dataset, FreezingData, GasConstant, GasLaw, Phase, Point, Provenance, Review, Solute,
+    SoluteKind, Source, SourceKind,
+};
+
+/// A (composition, temperature) pair.
+pub(crate) type Pair = (f64, f64);
+
+/// Tabulated freezing points with the values as the source reported them.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct FreezingRecord {
+    /// Canonical form: mass fraction and kelvin.
+    pub data: FreezingData,
+    /// Composition unit of the reported points, e.g. `%w/w`.
+    pub unit: String,
+    /// Temperature unit of the reported points: `C`, `K` or `F`.
+    pub temperature_unit: String,
+    /// (composition, temperature) as reported, in the same order as `data.points`.
+    pub points_reported: Vec<(f64, f64)>,
+    /// The eutectic as reported.
+    pub eutectic_reported: Option<(f64, f64)>,
+    pub note: Option<String>,
+}
+
+/// Everything a store holds, in key order: sources by key, solutes by id, datasets (retired
+/// ones included), gas constants and freezing data by key.
+#[derive(Debug, Clone, Default, PartialEq, Serialize)]
+pub struct Contents {
+    pub sources: Vec<Source>,
+    pub solutes: Vec<Solute>,
+    pub datasets: Vec<Dataset>,
+    pub gas_constants: Vec<GasConstant>,
+    pub freezing: Vec<FreezingRecord>,
+}
+
+impl Contents {
+    /// Puts every list in the order the store reads it back in.
+    pub fn sort(&mut self) {
+        self.sources.sort_by(|a, b| a.key.cmp(&b.key));
+        self.solutes.sort_by(|a, b| a.id.cmp(&b.id));
+        self.datasets.sort_by(|a, b| a.key.cmp(&b.key));
+        self.gas_constants.sort_by(|a, b| a.key.cmp(&b.key));
+        self.freezing.sort_by(|a, b| a.data.key.cmp(&b.data.key));
+    }
+}
+
+fn corrupt(what: String) -> StoreError {
+    StoreError::Corrupt {
+        location: "database".to_string(),
+        what,
+    }
+}
+
+fn source_kind(s: &str) -> Result<SourceKind, StoreError> {
+    Ok(match s {
+        "handbook" => SourceKind::Handbook,
+        "compilation" => SourceKind::Compilation,
+        "paper" => SourceKind::Paper,
+        "standard" => SourceKind::Standard,
+        "book" => SourceKind::Book,
+        "other" => SourceKind::Other,
+        _ => return Err(corrupt(format!("source kind \"{s}\""))),
+    })
+}
+
+fn solute_kind(s: &str) -> Result<SoluteKind, StoreError> {
+    Ok(match s {
+        "salt" => SoluteKind::Salt,
+        "molecular" => SoluteKind::Molecular,
+        "gas" => SoluteKind::Gas,
+        _ => return Err(corrupt(format!("solute kind \"{s}\""))),
+    })
+}
+
+fn provenance(s: &str) -> Result<Provenance, StoreError> {
+    Ok(match s {
+        "measured" => Provenance::Measured,
+        "compiled" => Provenance::Compiled,
+        "from-memory" => Provenance::FromMemory,
+        "derived" => Provenance::Derived,
+        _ => return Err(corrupt(format!("provenance \"{s}\""))),
+    })
+}
+
+fn review(s: &str) -> Result<Review, StoreError> {
+    Ok(match s {
+        "unreviewed" => Review::Unreviewed,
+        "reviewed" => Review::Reviewed,
+        "rejected" => Review::Rejected,
+        _ => return Err(corrupt(format!("review \"{s}\""))),
+    })
+}
+
+fn missing(key: &str, column: &str) -> StoreError {
+    corrupt(format!("gas constant \"{key}\" lacks {column}"))
+}
+
+/// Two nullable columns that are given together.
+fn pair(r: &rusqlite::Row<'_>, i: usize, j: usize) -> rusqlite::Result<Option<Pair>> {
+    Ok(
+        match (r.get::<_, Option<f64>>(i)?, r.get::<_, Option<f64>>(j)?) {
+            (Some(a), Some(b)) => Some((a, b)),
+            _ => None,
+        },
+    )
+}
+
+/// Reads every table into [`Contents`].
+pub(crate) fn read_all(conn: &Connection) -> Result<Contents, StoreError> {
+    // A deferred transaction that only reads: one consistent snapshot, even under WAL.
+    conn.execute_batch("BEGIN")?;
+    let result = read_inside(conn);
+    let end = conn.execute_batch("COMMIT");
+    let contents = result?;
+    end?;
+    Ok(contents)
+}
+
+fn read_inside(conn: &Connection) -> Result<Contents, StoreError> {
+    let mut contents = Contents::default();
+
+    let mut stmt = conn.prepare_cached(
+        "SELECT key, kind, title, authors, publisher, edition, year, locator, doi, isbn, url, note
+         FROM sources ORDER BY key",
+    )?;
+    let rows = stmt.query_map([], |r| {
+        Ok((
+            r.get::<_, String>(0)?,
+            r.get::<_, String>(1)?,
+            r.get::<_, String>(2)?,
+            r.get::<_, String>(3)?,
+            r.get::<_, Option<String>>(4)?,
+            r.get::<_, Option<String>>(5)?,
+            r.get::<_, Option<i32>>(6)?,
+            r.get::<_, Option<String>>(7)?,
+            r.get::<_, Option<String>>(8)?,
+            r.get::<_, Option<String>>(9)?,
+            r.get::<_, Option<String>>(10)?,
+            r.get::<_, Option<String>>(11)?,
+        ))
+    })?;
+    for row in rows {
+        let (key, kind, title, authors, publisher, edition, year, locator, doi, isbn, url, note) =
+            row?;
+        contents.sources.push(Source {
+            key,
+            kind: source_kind(&kind)?,
+            title,
+            authors,
+            publisher,
+            edition,
+            year,
+            locator,
+            doi,
+            isbn,
+            url,
+            note,
+        });
+    }
+
+    let mut synonyms: HashMap<String, Vec<String>> = HashMap::new();
+    let mut stmt = conn
+        .prepare_cached("SELECT solute, synonym FROM solute_synonyms ORDER BY solute, position")?;
+    for row in stmt.query_map([], |r| Ok((r.get::<_, String>(0)?, r.get::<_, String>(1)?)))? {
+        let (solute, synonym) = row?;
+        synonyms.entry(solute).or_default().push(synonym);
+    }
+    let mut tags: HashMap<String, Vec<String>> = HashMap::new();
+    let mut stmt =
+        conn.prepare_cached("SELECT solute, tag FROM solute_tags ORDER BY solute, position")?;
+    for row in stmt.query_map([], |r| Ok((r.get::<_, String>(0)?, r.get::<_, String>(1)?)))? {
+        let (solute, tag) = row?;
+        tags.entry(solute).or_default().push(tag);
+    }
+
+    let mut stmt = conn.prepare_cached(
+        "SELECT id, name, formula, kind, molar_mass, cation, anion, ions, hazard FROM solutes ORDER BY id",
+    )?;
+    let rows = stmt.query_map([], |r| {
+        Ok((
+            r.get::<_, String>(0)?,
+            r.get::<_, String>(1)?,
+            r.get::<_, String>(2)?,
+            r.get::<_, String>(3)?,
+            r.get::<_, f64>(4)?,
+            r.get::<_, Option<String>>(5)?,
+            r.get::<_, Option<String>>(6)?,
+            r.get::<_, u32>(7)?,
+            r.get::<_, Option<String>>(8)?,
+        ))
+    })?;
+    for row in rows {
+        let (id, name, formula, kind, molar_mass, cation, anion, ions, hazard) = row?;
+        contents.solutes.push(Solute {
+            synonyms: synonyms.remove(&id).unwrap_or_default(),
+            tags: tags.remove(&id).unwrap_or_default(),
+            id,
+            name,
+            formula,
+            kind: solute_kind(&kind)?,
+            molar_mass,
+            cation,
+            anion,
+            ions,
+            hazard,
+        });
+    }
+
+    let mut points: HashMap<String, Vec<Point>> = HashMap::new();
+    let mut stmt = conn.prepare_cached(
+        "SELECT dataset, temperature_reported, temperature_k, value_reported, mass_fraction, uncertainty
+         FROM points ORDER BY dataset, position",
+    )?;
+    let rows = stmt.query_map([], |r| {
+        Ok((
+            r.get::<_, String>(0)?,
+            Point {
+                temperature_reported: r.get(1)?,
+                temperature_k: r.get(2)?,
+                value_reported: r.get(3)?,
+                mass_fraction: r.get(4)?,
+                uncertainty: r.get(5)?,
+            },
+        ))
+    })?;
+    for row in rows {
+        let (dataset, point) = row?;
+        points.entry(dataset).or_default().push(point);
+    }
+
+    let mut stmt = conn.prepare_cached(
+        "SELECT d.key, d.solute, d.solvent, p.formula, p.name, p.water, d.source, d.unit,
+                d.temperature_unit, d.provenance, d.review, d.retired, d.note,
+                d.stable_low_reported, d.stable_high_reported, d.stable_low_k, d.stable_high_k
+         FROM datasets d JOIN phases p ON p.id = d.phase ORDER BY d.key",
+    )?;
+    let rows = stmt.query_map([], |r| {
+        Ok((
+            r.get::<_, String>(0)?,
+            r.get::<_, String>(1)?,
+            r.get::<_, String>(2)?,
+            Phase {
+                formula: r.get(3)?,
+                name: r.get(4)?,
+                water: r.get(5)?,
+            },
+            r.get::<_, String>(6)?,
+            r.get::<_, String>(7)?,
+            r.get::<_, String>(8)?,
+            r.get::<_, String>(9)?,
+            r.get::<_, String>(10)?,
+            r.get::<_, bool>(11)?,
+            r.get::<_, Option<String>>(12)?,
+            pair(r, 13, 14)?,
+            pair(r, 15, 16)?,
+        ))
+    })?;
+    for row in rows {
+        let (
+            key,
+            solute,
+            solvent,
+            phase,
+            source,
+            unit,
+            t_unit,
+            prov,
+            rev,
+            retired,
+            note,
+            stable_range,
+            stable_range_k,
+        ) = row?;
+        contents.datasets.push(Dataset {
+            points: points.remove(&key).unwrap_or_default(),
+            key,
+            solute,
+            solvent,
+            phase,
+            source,
+            unit,
+            temperature_unit: t_unit,
+            provenance: provenance(&prov)?,
+            review: review(&rev)?,
+            retired,
+            note,
+            stable_range,
+            stable_range_k,
+        });
+    }
+
+    let mut stmt = conn.prepare_cached(
+        "SELECT key, solute, source, form, convention, value, reference_temperature_k, temperature_term_k,
+                a, b, c, d, scale_k, reference_pressure_pa, t_min_k, t_max_k, provenance, review, note
+         FROM gas_constants ORDER BY key",
+    )?;
+    let mut rows = stmt.query([])?;
+    while let Some(r) = rows.next()? {
+        let key: String = r.get(0)?;
+        let form: String = r.get(3)?;
+        let f = |i: usize, name: &str| -> Result<f64, StoreError> {
+            r.get::<_, Option<f64>>(i)?
+                .ok_or_else(|| missing(&key, name))
+        };
+        let law = match form.as_str() {
+            "vant-hoff" => GasLaw::VantHoff {
+                convention: r
+                    .get::<_, Option<String>>(4)?
+                    .ok_or_else(|| missing(&key, "convention"))?,
+                value: f(5, "value")?,
+                reference_temperature_k: f(6, "reference_temperature_k")?,
+                temperature_term_k: f(7, "temperature_term_k")?,
+            },
+            "molality-fit" => GasLaw::MolalityFit {
+                a: f(8, "a")?,
+                b: f(9, "b")?,
+                c: f(10, "c")?,
+                d: f(11, "d")?,
+                scale_k: f(12, "scale_k")?,
+                reference_pressure_pa: f(13, "reference_pressure_pa")?,
+                t_min_k: f(14, "t_min_k")?,
+                t_max_k: f(15, "t_max_k")?,
+            },
+            "mole-fraction-fit" => GasLaw::MoleFractionFit {
+                a: f(8, "a")?,
+                b: f(9, "b")?,
+                c: f(10, "c")?,
+                d: f(11, "d")?,
+                scale_k: f(12, "scale_k")?,
+                reference_pressure_pa: f(13, "reference_pressure_pa")?,
+                t_min_k: f(14, "t_min_k")?,
+                t_max_k: f(15, "t_max_k")?,
+            },
+            other => return Err(corrupt(format!("gas constant form \"{other}\""))),
+        };
+        contents.gas_constants.push(GasConstant {
+            solute: r.get(1)?,
+            source: r.get(2)?,
+            law,
+            provenance: provenance(&r.get::<_, String>(16)?)?,
+            review: review(&r.get::<_, String>(17)?)?,
+            note: r.get(18)?,
+            key,
+        });
+    }
+
+    let mut freezing_points: HashMap<String, Vec<(Pair, Pair)>> = HashMap::new();
+    let mut stmt = conn.prepare_cached(
+        "SELECT freezing, composition_reported, temperature_reported, mass_fraction, temperature_k
+         FROM freezing_points ORDER BY freezing, position",
+    )?;
+    let rows = stmt.query_map([], |r| {
+        Ok((
+            r.get::<_, String>(0)?,
+            ((r.get(1)?, r.get(2)?), (r.get(3)?, r.get(4)?)),
+        ))
+    })?;
+    for row in rows {
+        let (key, pair) = row?;
+        freezing_points.entry(key).or_default().push(pair);
+    }
+    let mut stmt = conn.prepare_cached(
+        "SELECT key, solute, source, unit, temperature_unit, provenance, review,
+                eutectic_composition_reported, eutectic_temperature_reported,
+                eutectic_mass_fraction, eutectic_temperature_k, note
+         FROM freezing ORDER BY key",
+    )?;
+    let mut rows = stmt.query([])?;
+    while let Some(r) = rows.next()? {
+        let key: String = r.get(0)?;
+        let pairs = freezing_points.remove(&key).unwrap_or_default();
+        let both = |i, j| pair(r, i, j);
+        contents.freezing.push(FreezingRecord {
+            unit: r.get(3)?,
+            temperature_unit: r.get(4)?,
+            points_reported: pairs.iter().map(|p| p.0).collect(),
+            eutectic_reported: both(7, 8)?,
+            note: r.get(11)?,
+            data: FreezingData {
+                solute: r.get(1)?,
+                source: r.get(2)?,
+                points: pairs.iter().map(|p| p.1).collect(),
+                eutectic: both(9, 10)?,
+                provenance: provenance(&r.get::<_, String>(5)?)?,
+                review: review(&r.get::<_, String>(6)?)?,
+                key,
+            },
+        });
+    }
+    Ok(contents)
+}

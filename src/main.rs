@@ -100,9 +100,15 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<(), Failure> {
             report::write_solutes(&catalog, out)?;
         }
         None if !cli.statements.is_empty() => {
-            return Err(Failure::Usage(
-                "statements are not supported yet".to_string(),
-            ));
+            let engine = satline::engine::Engine::open(db)?;
+            let text = cli.statements.join("\n");
+            let mut session = engine.session();
+            let mut printer = satline::output::Printer::new(out, satline::output::Format::Table);
+            for answer in engine.run_text(&text, &mut session) {
+                printer.print(&answer, &text)?;
+            }
+            printer.flush()?;
+            return Ok(());
         }
         None => {
             return Err(Failure::Usage(

@@ -9,3 +9,8 @@ pub mod parse;
 pub use ast::*;
 pub use error::{ParseError, ParseErrorKind, line_column};
 pub use parse::{Env, parse_script, parse_statement, parse_with};
+
+/// Every word of the language, sorted and each once (for completion and help).
+pub fn keywords() -> Vec<&'static str> {
+    lexicon::keywords()
+}

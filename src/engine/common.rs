@@ -1,0 +1,224 @@
+//! Helpers every statement uses: finding a solute and its curve, converting loadings,
+//! citing the data an answer rests on, and turning science errors into messages in °C.
+
+use crate::answer::{Answer, Basis};
+use crate::catalog::citation;
+use crate::engine::error::EvalError;
+use crate::engine::snapshot::{BuiltCurve, Snapshot};
+use crate::model::{Provenance, Review, Solute, SoluteKind};
+use crate::output::number::round_significant;
+use crate::query::{Loading, Name, Options, Span, Temperatures};
+use crate::science::ScienceError;
+use crate::science::curve::Basis as CurveBasis;
+use crate::science::units::{self, CompositionUnit, Context};
+
+/// Significant figures of compositions in answers: the seed tables print three or four.
+pub const VALUE_DIGITS: usize = 4;
+
+impl From<CurveBasis> for Basis {
+    fn from(basis: CurveBasis) -> Self {
+        match basis {
+            CurveBasis::Tabulated => Basis::Tabulated,
+            CurveBasis::Interpolated => Basis::Interpolated,
+            CurveBasis::Fitted => Basis::Fitted,
+            CurveBasis::Extrapolated => Basis::Extrapolated,
+        }
+    }
+}
+
+/// Kelvin to °C, rounded to 0.01 K (the precision of the inversions).
+pub fn celsius(t_k: f64) -> f64 {
+    ((t_k - 273.15) * 100.0).round() / 100.0
+}
+
+/// A composition value for an answer, rounded to [`VALUE_DIGITS`].
+pub fn value(x: f64) -> f64 {
+    round_significant(x, VALUE_DIGITS)
+}
+
+/// Finds a solute by what was typed, or says what was meant.
+pub fn resolve<'a>(snap: &'a Snapshot, name: &Name) -> Result<&'a Solute, EvalError> {
+    snap.catalog
+        .find_solute(&name.text)
+        .map_err(|e| EvalError::UnknownSolute {
+            message: e.to_string(),
+            span: name.span,
+        })
+}
+
+/// The curve of a solid solute, or why there is none.
+pub fn curve_of<'a>(
+    snap: &'a Snapshot,
+    solute: &Solute,
+    name: &Name,
+    options: &Options,
+) -> Result<&'a BuiltCurve, EvalError> {
+    if solute.kind == SoluteKind::Gas {
+        return Err(EvalError::NoData {
+            message: format!(
+                "{} is a gas: its solubility depends on its pressure; ask `dissolved {} at 25 C under air`",
+                solute.name, solute.formula
+            ),
+            span: name.span,
+        });
+    }
+    snap.curve(&solute.id, options.reviewed_only)
+        .ok_or_else(|| EvalError::NoData {
+            message: if options.reviewed_only {
+                format!("{} has no reviewed solubility data", solute.name)
+            } else {
+                format!(
+                    "{} has no solubility data in this reference yet (its record awaits a checked source)",
+                    solute.name
+                )
+            },
+            span: name.span,
+        })
+}
+
+/// Adds the sources, provenance caveats and hazard note of the datasets behind a curve.
+pub fn cite_curve(snap: &Snapshot, built: &BuiltCurve, solute: &Solute, answer: &mut Answer) {
+    let datasets = snap.catalog.datasets();
+    for &i in &built.datasets {
+        let dataset = &datasets[i];
+        cite_source(snap, &dataset.source, answer);
+        if dataset.provenance == Provenance::FromMemory {
+            answer.caveat(format!(
+                "{}: data typed from memory of the cited table, not yet checked against it (from-memory)",
+                solute.name
+            ));
+        }
+        if dataset.review == Review::Unreviewed {
+            answer.caveat(format!("{}: rests on unreviewed data", solute.name));
+        }
+    }
+    hazard(solute, answer);
+}
+
+/// Adds one source by key, with its full citation.
+pub fn cite_source(snap: &Snapshot, key: &str, answer: &mut Answer) {
+    if let Some(source) = snap.catalog.source(key) {
+        answer.cite(key, citation(source));
+    }
+}
+
+/// The solute's hazard note, when it has one.
+pub fn hazard(solute: &Solute, answer: &mut Answer) {
+    if let Some(note) = &solute.hazard
+        && !note.trim().is_empty()
+    {
+        answer.caveat(format!(
+            "{}: {} Follow the safety data sheet.",
+            solute.name,
+            note.trim()
+        ));
+    }
+}
+
+/// Caveats for the basis of a number.
+pub fn basis_caveat(basis: Basis, answer: &mut Answer) {
+    if basis == Basis::Extrapolated {
+        answer.caveat("extrapolated beyond the data's temperature range, as asked: treat with care");
+    }
+}
+
+/// The conversion context for a solute (its molar mass; no density).
+pub fn context(solute: &Solute) -> Context {
+    Context::with_molar_mass(solute.molar_mass)
+}
+
+/// A loading as the mass fraction of anhydrous solute.
+pub fn loading_mass_fraction(loading: &Loading, solute: &Solute) -> Result<f64, EvalError> {
+    let w = units::to_mass_fraction(loading.value, loading.unit, &context(solute))
+        .map_err(|e| per_volume(e, loading.unit, loading.span))?;
+    if w >= 1.0 {
+        return Err(EvalError::Unanswerable {
+            message: format!(
+                "{} {} is not a possible loading of a solution",
+                loading.value,
+                loading.unit.symbol()
+            ),
+            span: loading.span,
+        });
+    }
+    Ok(w)
+}
+
+/// A mass fraction in the unit asked for.
+pub fn in_unit(w: f64, unit: CompositionUnit, solute: &Solute, span: Span) -> Result<f64, EvalError> {
+    units::from_mass_fraction(w, unit, &context(solute))
+        .map(value)
+        .map_err(|e| per_volume(e, unit, span))
+}
+
+/// A science error on a loading or unit, said in the words of a person asking.
+fn per_volume(error: ScienceError, unit: CompositionUnit, span: Span) -> EvalError {
+    match error {
+        ScienceError::MissingDensity { .. } => EvalError::Unanswerable {
+            message: format!(
+                "{} is per litre of solution and needs the solution's density, which the reference does not hold; use g/100g water, %w/w, mol/kg or x",
+                unit.symbol()
+            ),
+            span,
+        },
+        other => EvalError::Unanswerable {
+            message: other.to_string(),
+            span,
+        },
+    }
+}
+
+/// A science error from evaluating a curve, with temperatures in °C.
+pub fn curve_error(error: ScienceError, solute: &Solute, span: Span) -> EvalError {
+    match error {
+        ScienceError::OutOfRange {
+            t_k,
+            t_min_k,
+            t_max_k,
+        } => EvalError::OutOfRange {
+            message: format!(
+                "{} C is outside the data for {} ({} C to {} C); add `extrapolate` to go beyond it",
+                celsius(t_k),
+                solute.name,
+                celsius(t_min_k),
+                celsius(t_max_k)
+            ),
+            span,
+        },
+        ScienceError::InGap {
+            t_k,
+            below_k,
+            above_k,
+        } => EvalError::OutOfRange {
+            message: format!(
+                "{} C falls between two solid phases of {} with no data ({} C to {} C); add `extrapolate` to bridge it",
+                celsius(t_k),
+                solute.name,
+                celsius(below_k),
+                celsius(above_k)
+            ),
+            span,
+        },
+        other => EvalError::Unanswerable {
+            message: format!("{}: {other}", solute.name),
+            span,
+        },
+    }
+}
+
+/// (low, high) of a temperature or range, K.
+pub fn bounds(temperatures: &Temperatures) -> (f64, f64) {
+    match temperatures {
+        Temperatures::At(t) => (t.kelvin(), t.kelvin()),
+        Temperatures::Range(r) => (r.low.kelvin(), r.high.kelvin()),
+    }
+}
+
+/// The caveat for a curve followed across a change of solid phase, or of a hydrate basis.
+pub fn phase_caveat(phase: &str, answer: &mut Answer) {
+    if phase.contains('·') {
+        answer.caveat(format!(
+            "the solid in equilibrium is the hydrate {phase}; values are per anhydrous solute"
+        ));
+    }
+}

@@ -1,0 +1,276 @@
+//! Statements about gases: dissolved amount at a temperature and pressure, and a gas's heat
+//! of solution.
+
+use serde_json::json;
+
+use crate::answer::{Answer, Basis, Row};
+use crate::engine::CAUTION;
+use crate::engine::common::{basis_caveat, celsius, cite_source, hazard, resolve, value};
+use crate::engine::error::EvalError;
+use crate::engine::snapshot::Snapshot;
+use crate::model::{GasConstant, GasLaw, Provenance, Review, Solute, SoluteKind};
+use crate::output::number::round_significant;
+use crate::query::{DissolvedGas, GasPressure, HeatOfSolution, Options, Span};
+use crate::science::curve::Basis as CurveBasis;
+use crate::science::gas::{self as science_gas, Dissolved, STANDARD_ATMOSPHERE};
+use crate::science::units::CompositionUnit;
+
+/// The Henry's-law records of a gas, best first: multi-term fits before single van 't Hoff
+/// constants (a fit follows the curvature of ln H against 1/T), reviewed before unreviewed.
+fn laws<'a>(snap: &'a Snapshot, solute: &Solute, options: &Options) -> Vec<&'a GasConstant> {
+    let mut laws: Vec<&GasConstant> = snap
+        .catalog
+        .gas_constants_of(&solute.id)
+        .into_iter()
+        .filter(|g| g.review != Review::Rejected)
+        .filter(|g| !options.reviewed_only || g.review == Review::Reviewed)
+        .collect();
+    laws.sort_by_key(|g| {
+        (
+            matches!(g.law, GasLaw::VantHoff { .. }),
+            g.review != Review::Reviewed,
+            g.key.clone(),
+        )
+    });
+    laws
+}
+
+fn gas_of<'a>(
+    snap: &'a Snapshot,
+    name: &crate::query::Name,
+) -> Result<&'a Solute, EvalError> {
+    let solute = resolve(snap, name)?;
+    if solute.kind != SoluteKind::Gas {
+        return Err(EvalError::NoData {
+            message: format!(
+                "{} is not a gas; ask `solubility of {} at 20 C`",
+                solute.name, solute.formula
+            ),
+            span: name.span,
+        });
+    }
+    Ok(solute)
+}
+
+/// Evaluates the best record that gives a value inside its range, or, with `extrapolate`,
+/// the best record outside it.
+fn evaluate<'a>(
+    laws: &[&'a GasConstant],
+    solute: &Solute,
+    t_k: f64,
+    partial_pa: f64,
+    extrapolate: bool,
+    span: Span,
+) -> Result<(Dissolved, &'a GasConstant), EvalError> {
+    let mut outside = None;
+    let mut last_error = None;
+    for law in laws {
+        match science_gas::dissolved(&law.law, solute.molar_mass, t_k, partial_pa) {
+            Ok(d) if d.basis != CurveBasis::Extrapolated => return Ok((d, law)),
+            Ok(d) => {
+                if outside.is_none() {
+                    outside = Some((d, *law));
+                }
+            }
+            Err(e) => last_error = Some(e),
+        }
+    }
+    match (outside, extrapolate) {
+        (Some(found), true) => Ok(found),
+        (Some((_, law)), false) => {
+            let range = match law.law {
+                GasLaw::MoleFractionFit {
+                    t_min_k, t_max_k, ..
+                }
+                | GasLaw::MolalityFit {
+                    t_min_k, t_max_k, ..
+                } => format!(" ({} C to {} C)", celsius(t_min_k), celsius(t_max_k)),
+                GasLaw::VantHoff { .. } => String::new(),
+            };
+            Err(EvalError::OutOfRange {
+                message: format!(
+                    "{} C is outside the range of the Henry's-law data for {}{range}; add `extrapolate` to go beyond it",
+                    celsius(t_k),
+                    solute.name
+                ),
+                span,
+            })
+        }
+        (None, _) => Err(EvalError::NoData {
+            message: match last_error {
+                Some(e) => format!("{}: {e}", solute.name),
+                None => format!("{} has no Henry's-law data in this reference", solute.name),
+            },
+            span,
+        }),
+    }
+}
+
+fn cite_law(snap: &Snapshot, law: &GasConstant, solute: &Solute, answer: &mut Answer) {
+    cite_source(snap, &law.source, answer);
+    if law.provenance == Provenance::FromMemory {
+        answer.caveat(format!(
+            "{}: Henry's-law data typed from memory of the cited source, not yet checked against it (from-memory)",
+            solute.name
+        ));
+    }
+    if law.review == Review::Unreviewed {
+        answer.caveat(format!("{}: rests on unreviewed data", solute.name));
+    }
+}
+
+/// `dissolved O2 at 25 C under air`, `dissolved CO2 at 4 C under 2.5 bar in g/L`.
+pub fn dissolved(snap: &Snapshot, s: &DissolvedGas, answer: &mut Answer) -> Result<(), EvalError> {
+    let solute = gas_of(snap, &s.gas)?;
+    let t_k = s.temperature.kelvin();
+    let air = |total: f64, span: Span| {
+        science_gas::partial_pressure_in_air(&solute.formula, total, t_k).map_err(|e| {
+            EvalError::Unanswerable {
+                message: format!("{} in air: {e}", solute.name),
+                span,
+            }
+        })
+    };
+    let (partial_pa, described) = match &s.pressure {
+        None => (
+            air(STANDARD_ATMOSPHERE, s.gas.span)?,
+            "water saturated with humid air at 1 atm".to_string(),
+        ),
+        Some(GasPressure::Partial(p)) => (
+            p.pascals(),
+            format!(
+                "a partial pressure of {} {} of the gas",
+                p.value,
+                p.unit.symbol()
+            ),
+        ),
+        Some(GasPressure::Mixture { mixture, total }) => {
+            if !mixture.text.eq_ignore_ascii_case("air") {
+                return Err(EvalError::Unanswerable {
+                    message: format!(
+                        "unknown gas mixture `{}`; satline knows `air` (or give the gas's own partial pressure, e.g. `under 0.2 bar`)",
+                        mixture.text
+                    ),
+                    span: mixture.span,
+                });
+            }
+            let total_pa = total.map_or(STANDARD_ATMOSPHERE, |p| p.pascals());
+            let shown = total.map_or("1 atm".to_string(), |p| {
+                format!("{} {}", p.value, p.unit.symbol())
+            });
+            (
+                air(total_pa, mixture.span)?,
+                format!("water saturated with humid air at {shown}"),
+            )
+        }
+    };
+    let laws = laws(snap, solute, &s.options);
+    let (amount, law) = evaluate(
+        &laws,
+        solute,
+        t_k,
+        partial_pa,
+        s.options.extrapolate,
+        s.temperature.span,
+    )?;
+    let unit = s
+        .unit
+        .map_or(CompositionUnit::MilligramsPerLitre, |u| u.unit);
+    let span = s.unit.map_or(s.temperature.span, |u| u.span);
+    let number = match unit {
+        CompositionUnit::MilligramsPerLitre => amount.mg_per_l,
+        CompositionUnit::GramsPerLitre => amount.mg_per_l / 1000.0,
+        CompositionUnit::MolesPerLitre => amount.mol_per_m3 / 1000.0,
+        CompositionUnit::MilligramsPerKilogram => amount.mg_per_kg,
+        CompositionUnit::MillimolesPerKilogram => amount.mmol_per_kg,
+        CompositionUnit::MicromolesPerKilogram => amount.umol_per_kg,
+        CompositionUnit::Molality => amount.mmol_per_kg / 1000.0,
+        CompositionUnit::MoleFraction => amount.mole_fraction,
+        other => {
+            return Err(EvalError::Unanswerable {
+                message: format!(
+                    "dissolved gas is given in mg/L, g/L, mol/L, mg/kg, mmol/kg, umol/kg, mol/kg or x, not {}",
+                    other.symbol()
+                ),
+                span,
+            });
+        }
+    };
+    let basis = Basis::from(amount.basis);
+    answer.rows.push(Row {
+        solute: Some(solute.name.clone()),
+        quantity: Some("dissolved at saturation".into()),
+        value: Some(value(number)),
+        unit: Some(unit.symbol().into()),
+        basis: Some(basis),
+        temperature_c: Some(celsius(t_k)),
+        extra: [
+            (
+                "partial_pressure_kpa".to_string(),
+                json!(round_significant(partial_pa / 1000.0, 4)),
+            ),
+            (
+                "ml_stp_per_l".to_string(),
+                json!(value(amount.ml_stp_per_l)),
+            ),
+            ("henry_record".to_string(), json!(law.key)),
+        ]
+        .into_iter()
+        .collect(),
+        ..Row::default()
+    });
+    answer.caveat(format!(
+        "Henry's law for {described} in pure water; dilute solution taken as dense as pure water"
+    ));
+    if unit.needs_density() {
+        answer.caveat("per-litre amounts use the density of pure water at this temperature");
+    }
+    basis_caveat(basis, answer);
+    cite_law(snap, law, solute, answer);
+    hazard(solute, answer);
+    answer.caveat(CAUTION);
+    Ok(())
+}
+
+/// `heat of solution of O2 at 25 C`: from the temperature dependence of the Henry's-law
+/// record.
+pub fn heat(
+    snap: &Snapshot,
+    solute: &Solute,
+    s: &HeatOfSolution,
+    answer: &mut Answer,
+) -> Result<(), EvalError> {
+    let t_k = s.temperature.kelvin();
+    let laws = laws(snap, solute, &s.options);
+    let (_, law) = evaluate(
+        &laws,
+        solute,
+        t_k,
+        STANDARD_ATMOSPHERE,
+        s.options.extrapolate,
+        s.temperature.span,
+    )?;
+    let (kj, sign) =
+        science_gas::gas_heat_of_solution(&law.law, t_k).map_err(|e| EvalError::Unanswerable {
+            message: e.to_string(),
+            span: s.temperature.span,
+        })?;
+    answer.rows.push(Row {
+        solute: Some(solute.name.clone()),
+        quantity: Some("apparent heat of solution".into()),
+        value: Some(round_significant(kj, 3)),
+        unit: Some("kJ/mol".into()),
+        basis: Some(Basis::Fitted),
+        temperature_c: Some(celsius(t_k)),
+        extra: [
+            ("sign".to_string(), json!(sign.as_str())),
+            ("henry_record".to_string(), json!(law.key)),
+        ]
+        .into_iter()
+        .collect(),
+        ..Row::default()
+    });
+    answer.caveat("from the temperature dependence of the Henry's-law constant (van 't Hoff)");
+    cite_law(snap, law, solute, answer);
+    Ok(())
+}

@@ -1,0 +1,234 @@
+//! Statements about the records themselves: describe, sources, list, and `let`.
+
+use serde_json::{Value as Json, json};
+
+use crate::answer::{Answer, Basis, Row};
+use crate::catalog::citation;
+use crate::engine::common::{celsius, cite_source, hazard, resolve};
+use crate::engine::error::EvalError;
+use crate::engine::snapshot::Snapshot;
+use crate::model::{GasLaw, Solute, SoluteKind};
+use crate::output::number::round_significant;
+use crate::query::{Describe, Filter, Let, List, SoluteClass, Sources, Value};
+use crate::science::formula::parse_formula;
+
+/// True when a solute belongs to the class and passes every filter.
+pub fn selects(snap: &Snapshot, solute: &Solute, class: SoluteClass, filters: &[Filter]) -> bool {
+    let in_class = match class {
+        SoluteClass::Solutes => true,
+        SoluteClass::Salts => solute.kind == SoluteKind::Salt,
+        SoluteClass::Gases => solute.kind == SoluteKind::Gas,
+        SoluteClass::MolecularSolutes => solute.kind == SoluteKind::Molecular,
+    };
+    let same = |a: &Option<String>, b: &str| a.as_deref().is_some_and(|a| a.eq_ignore_ascii_case(b));
+    in_class
+        && filters.iter().all(|filter| match filter {
+            Filter::Cation(n) => same(&solute.cation, &n.text),
+            Filter::Anion(n) => same(&solute.anion, &n.text),
+            Filter::Tag(n) => solute.tags.iter().any(|t| t.eq_ignore_ascii_case(&n.text)),
+            Filter::Element(n) => parse_formula(&solute.formula)
+                .is_ok_and(|f| f.elements().keys().any(|e| e.eq_ignore_ascii_case(&n.text))),
+            Filter::Source(n) => {
+                snap.catalog
+                    .datasets_of(&solute.id)
+                    .iter()
+                    .any(|d| d.source.eq_ignore_ascii_case(&n.text))
+                    || snap
+                        .catalog
+                        .gas_constants_of(&solute.id)
+                        .iter()
+                        .any(|g| g.source.eq_ignore_ascii_case(&n.text))
+            }
+        })
+}
+
+fn extra(pairs: Vec<(&str, Json)>) -> std::collections::BTreeMap<String, Json> {
+    pairs
+        .into_iter()
+        .filter(|(_, v)| !v.is_null())
+        .map(|(k, v)| (k.to_string(), v))
+        .collect()
+}
+
+/// `describe NaCl`: the record, then one row per tabulated point and per Henry's-law record.
+pub fn describe(snap: &Snapshot, s: &Describe, answer: &mut Answer) -> Result<(), EvalError> {
+    let solute = resolve(snap, &s.solute)?;
+    answer.rows.push(Row {
+        solute: Some(solute.name.clone()),
+        quantity: Some("record".into()),
+        extra: extra(vec![
+            ("id", json!(solute.id)),
+            ("formula", json!(solute.formula)),
+            ("kind", json!(solute.kind.as_str())),
+            (
+                "molar_mass_g_per_mol",
+                json!(round_significant(solute.molar_mass, 6)),
+            ),
+            ("synonyms", json!(solute.synonyms)),
+            ("tags", json!(solute.tags)),
+            ("cation", json!(solute.cation)),
+            ("anion", json!(solute.anion)),
+        ]),
+        ..Row::default()
+    });
+    for dataset in snap.catalog.datasets_of(&solute.id) {
+        if s.options.reviewed_only && dataset.review != crate::model::Review::Reviewed {
+            continue;
+        }
+        cite_source(snap, &dataset.source, answer);
+        for point in &dataset.points {
+            answer.rows.push(Row {
+                solute: Some(solute.name.clone()),
+                quantity: Some("solubility".into()),
+                value: Some(point.value_reported),
+                unit: Some(dataset.unit.clone()),
+                basis: Some(Basis::Tabulated),
+                phase: Some(dataset.phase.formula.clone()),
+                temperature_c: Some(celsius(point.temperature_k)),
+                extra: extra(vec![
+                    ("dataset", json!(dataset.key)),
+                    ("provenance", json!(dataset.provenance.as_str())),
+                    ("review", json!(dataset.review.as_str())),
+                    ("source", json!(dataset.source)),
+                ]),
+                ..Row::default()
+            });
+        }
+    }
+    for law in snap.catalog.gas_constants_of(&solute.id) {
+        cite_source(snap, &law.source, answer);
+        let form = match &law.law {
+            GasLaw::VantHoff {
+                convention,
+                value,
+                reference_temperature_k,
+                temperature_term_k,
+            } => format!(
+                "{convention} = {value} at {reference_temperature_k} K, d ln H/d(1/T) = {temperature_term_k} K"
+            ),
+            GasLaw::MoleFractionFit {
+                a, b, c, d, scale_k, ..
+            } => format!("ln x = {a} + {b}/τ + {c} ln τ + {d} τ, τ = T/{scale_k} K"),
+            GasLaw::MolalityFit {
+                a, b, c, d, scale_k, ..
+            } => format!("ln m = {a} + {b}/τ + {c} ln τ + {d} τ, τ = T/{scale_k} K"),
+        };
+        answer.rows.push(Row {
+            solute: Some(solute.name.clone()),
+            quantity: Some("Henry's law".into()),
+            extra: extra(vec![
+                ("record", json!(law.key)),
+                ("equation", json!(form)),
+                ("provenance", json!(law.provenance.as_str())),
+                ("review", json!(law.review.as_str())),
+                ("source", json!(law.source)),
+            ]),
+            ..Row::default()
+        });
+    }
+    for data in snap.catalog.freezing_of(&solute.id) {
+        cite_source(snap, &data.source, answer);
+    }
+    if answer.rows.len() == 1 {
+        answer.caveat(format!(
+            "{} has no data in this reference yet",
+            solute.name
+        ));
+    }
+    hazard(solute, answer);
+    Ok(())
+}
+
+/// `sources of NaCl`, or `sources` for every source in the reference.
+pub fn sources(snap: &Snapshot, s: &Sources, answer: &mut Answer) -> Result<(), EvalError> {
+    let keys: Vec<String> = match &s.solute {
+        Some(name) => {
+            let solute = resolve(snap, name)?;
+            let mut keys: Vec<String> = Vec::new();
+            let cited = snap
+                .catalog
+                .datasets_of(&solute.id)
+                .into_iter()
+                .map(|d| d.source.clone())
+                .chain(
+                    snap.catalog
+                        .gas_constants_of(&solute.id)
+                        .into_iter()
+                        .map(|g| g.source.clone()),
+                )
+                .chain(
+                    snap.catalog
+                        .freezing_of(&solute.id)
+                        .into_iter()
+                        .map(|f| f.source.clone()),
+                );
+            for key in cited {
+                if !keys.contains(&key) {
+                    keys.push(key);
+                }
+            }
+            keys
+        }
+        None => snap.catalog.sources().iter().map(|s| s.key.clone()).collect(),
+    };
+    for key in keys {
+        if let Some(source) = snap.catalog.source(&key) {
+            answer.rows.push(Row {
+                extra: extra(vec![
+                    ("key", json!(source.key)),
+                    ("citation", json!(citation(source))),
+                ]),
+                ..Row::default()
+            });
+            answer.cite(&key, citation(source));
+        }
+    }
+    Ok(())
+}
+
+/// `list salts with anion sulfate`.
+pub fn list(snap: &Snapshot, s: &List, answer: &mut Answer) -> Result<(), EvalError> {
+    for solute in snap.catalog.solutes() {
+        if !selects(snap, solute, s.class, &s.filters) {
+            continue;
+        }
+        let range = snap.curve(&solute.id, s.options.reviewed_only).map(|b| {
+            let (lo, hi) = b.curve.temperature_range();
+            format!("{} C to {} C", celsius(lo), celsius(hi))
+        });
+        let henry = snap.catalog.gas_constants_of(&solute.id).len();
+        answer.rows.push(Row {
+            solute: Some(solute.name.clone()),
+            extra: extra(vec![
+                ("id", json!(solute.id)),
+                ("formula", json!(solute.formula)),
+                ("kind", json!(solute.kind.as_str())),
+                ("data", json!(range.or_else(|| (henry > 0).then(|| format!("{henry} Henry's-law records"))).unwrap_or_else(|| "none yet".into()))),
+            ]),
+            ..Row::default()
+        });
+    }
+    if answer.rows.is_empty() {
+        answer.caveat("no solute matches");
+    }
+    Ok(())
+}
+
+/// `let cold = from 2 C to 8 C`: already bound by the parser; the answer says what it holds.
+pub fn binding(s: &Let, text: &str, answer: &mut Answer) -> Result<(), EvalError> {
+    let span = match s.value {
+        Value::Temperature(t) => t.span,
+        Value::Range(r) => r.span,
+        Value::Loading(l) => l.span,
+        Value::Pressure(p) => p.span,
+    };
+    answer.rows.push(Row {
+        extra: extra(vec![
+            ("name", json!(s.name.text)),
+            ("value", json!(span.text(text).trim())),
+            ("kind", json!(s.value.kind().noun())),
+        ]),
+        ..Row::default()
+    });
+    Ok(())
+}

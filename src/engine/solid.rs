@@ -1,0 +1,589 @@
+//! Statements about solid solutes: lookup, screening, require, saturation, ceiling, heat of
+//! solution, freezing and conversion.
+
+use serde_json::json;
+
+use crate::answer::{Answer, Basis, Row};
+use crate::engine::common::{
+    basis_caveat, bounds, celsius, cite_curve, cite_source, curve_error, curve_of, hazard,
+    in_unit, loading_mass_fraction, phase_caveat, resolve, value,
+};
+use crate::engine::error::EvalError;
+use crate::engine::records::selects;
+use crate::engine::snapshot::Snapshot;
+use crate::engine::{CAUTION, gas};
+use crate::model::{Provenance, Review, SoluteKind};
+use crate::output::number::round_significant;
+use crate::query::{
+    Ceiling, Convert, Freezing, HeatOfSolution, Require, Saturation, Screen, Solubility,
+};
+use crate::science::formula::parse_formula;
+use crate::science::freezing::{FirstSolid, IceBasis, first_solid_on_cooling, ice_line};
+use crate::science::heat::heat_of_solution;
+use crate::science::solve::{self, stays_dissolved};
+use crate::science::units::{
+    self, CompositionUnit, TemperatureUnit, anhydrous_to_hydrate, hydrate_to_anhydrous,
+};
+
+/// `solubility of KNO3 at 20 C [in mol/kg]`.
+pub fn lookup(snap: &Snapshot, s: &Solubility, answer: &mut Answer) -> Result<(), EvalError> {
+    let solute = resolve(snap, &s.solute)?;
+    let built = curve_of(snap, solute, &s.solute, &s.options)?;
+    let evaluation = built
+        .curve
+        .evaluate(s.temperature.kelvin(), s.options.extrapolate)
+        .map_err(|e| curve_error(e, solute, s.temperature.span))?;
+    let unit = s
+        .unit
+        .map_or(CompositionUnit::GramsPer100gWater, |u| u.unit);
+    let span = s.unit.map_or(s.temperature.span, |u| u.span);
+    let basis = Basis::from(evaluation.basis);
+    answer.rows.push(Row {
+        solute: Some(solute.name.clone()),
+        quantity: Some("solubility".into()),
+        value: Some(in_unit(evaluation.mass_fraction, unit, solute, span)?),
+        unit: Some(unit.symbol().into()),
+        basis: Some(basis),
+        phase: Some(evaluation.phase.clone()),
+        temperature_c: Some(celsius(s.temperature.kelvin())),
+        ..Row::default()
+    });
+    basis_caveat(basis, answer);
+    phase_caveat(&evaluation.phase, answer);
+    cite_curve(snap, built, solute, answer);
+    Ok(())
+}
+
+/// Headroom in percent, to 0.1 %.
+fn headroom(pct: f64) -> f64 {
+    (pct * 10.0).round() / 10.0
+}
+
+/// `which salts stay dissolved at 30 g/100g water from 2 C to 8 C margin 10%`.
+pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), EvalError> {
+    let (t1, t2) = bounds(&s.temperatures);
+    let margin = s.margin.map_or(0.0, |m| m.percent / 100.0);
+    if s.loading.unit.needs_density() {
+        return Err(EvalError::Unanswerable {
+            message: format!(
+                "a loading in {} needs each solution's density, which the reference does not hold; give it in g/100g water, %w/w, mol/kg or x",
+                s.loading.unit.symbol()
+            ),
+            span: s.loading.span,
+        });
+    }
+    let mut ranked: Vec<(f64, Row)> = Vec::new();
+    let mut no_data: Vec<Row> = Vec::new();
+    let (mut from_memory, mut unreviewed) = (0usize, 0usize);
+    for solute in snap.catalog.solutes() {
+        if !selects(snap, solute, s.class, &s.filters) {
+            continue;
+        }
+        let missing = |reason: String| Row {
+            solute: Some(solute.name.clone()),
+            extra: [
+                ("status".to_string(), json!("no data")),
+                ("reason".to_string(), json!(reason)),
+            ]
+            .into_iter()
+            .collect(),
+            ..Row::default()
+        };
+        if solute.kind == SoluteKind::Gas {
+            no_data.push(missing(
+                "a gas: its solubility depends on its pressure (ask `dissolved`)".into(),
+            ));
+            continue;
+        }
+        let Some(built) = snap.curve(&solute.id, s.options.reviewed_only) else {
+            no_data.push(missing(if s.options.reviewed_only {
+                "no reviewed solubility data".into()
+            } else {
+                "no solubility data yet".into()
+            }));
+            continue;
+        };
+        let w = loading_mass_fraction(&s.loading, solute)?;
+        let screening = match stays_dissolved(&built.curve, w, t1, t2, margin) {
+            Ok(screening) => screening,
+            Err(_) => {
+                let (lo, hi) = built.curve.temperature_range();
+                no_data.push(missing(format!(
+                    "data do not cover the whole range (they cover {} C to {} C)",
+                    celsius(lo),
+                    celsius(hi)
+                )));
+                continue;
+            }
+        };
+        let datasets = snap.catalog.datasets();
+        if built
+            .datasets
+            .iter()
+            .any(|&i| datasets[i].provenance == Provenance::FromMemory)
+        {
+            from_memory += 1;
+        }
+        if built
+            .datasets
+            .iter()
+            .any(|&i| datasets[i].review == Review::Unreviewed)
+        {
+            unreviewed += 1;
+        }
+        for &i in &built.datasets {
+            cite_source(snap, &datasets[i].source, answer);
+        }
+        let saturated = in_unit(
+            screening.limiting_mass_fraction,
+            s.loading.unit,
+            solute,
+            s.loading.span,
+        )
+        .ok();
+        ranked.push((
+            screening.headroom_pct,
+            Row {
+                solute: Some(solute.name.clone()),
+                quantity: Some("solubility at the limiting temperature".into()),
+                value: saturated,
+                unit: saturated.map(|_| s.loading.unit.symbol().to_string()),
+                basis: Some(Basis::from(screening.basis)),
+                phase: Some(screening.phase.clone()),
+                temperature_c: Some(celsius(screening.limiting_t_k)),
+                holds: Some(screening.holds),
+                headroom_pct: Some(headroom(screening.headroom_pct)),
+                extra: [(
+                    "status".to_string(),
+                    json!(if screening.holds {
+                        "stays dissolved"
+                    } else {
+                        "crystallises"
+                    }),
+                )]
+                .into_iter()
+                .collect(),
+            },
+        ));
+    }
+    ranked.sort_by(|a, b| {
+        b.0.total_cmp(&a.0)
+            .then_with(|| a.1.solute.cmp(&b.1.solute))
+    });
+    let held = ranked.iter().filter(|(_, r)| r.holds == Some(true)).count();
+    let with_data = ranked.len();
+    let no_data_count = no_data.len();
+    answer.rows.extend(ranked.into_iter().map(|(_, r)| r));
+    answer.rows.extend(no_data);
+    answer.caveat(format!(
+        "{held} of {with_data} solutes with data stay dissolved; {no_data_count} without data over the range are listed apart as \"no data\", never as passing"
+    ));
+    if margin > 0.0 {
+        answer.caveat(format!(
+            "margin {}%: the solubility must exceed the loading by that share of its solute-to-water ratio",
+            round_significant(margin * 100.0, 4)
+        ));
+    }
+    if from_memory > 0 {
+        answer.caveat(format!(
+            "{from_memory} of the solutes screened rest on data typed from memory of the cited tables, not yet checked against them (from-memory)"
+        ));
+    }
+    if unreviewed > 0 {
+        answer.caveat(format!("{unreviewed} of the solutes screened rest on unreviewed data"));
+    }
+    answer.caveat(CAUTION);
+    Ok(())
+}
+
+/// `require KCl stays dissolved at 20 g/100g water over cold margin 10%`.
+pub fn require(snap: &Snapshot, s: &Require, answer: &mut Answer) -> Result<(), EvalError> {
+    let solute = resolve(snap, &s.solute)?;
+    let built = curve_of(snap, solute, &s.solute, &s.options)?;
+    let w = loading_mass_fraction(&s.loading, solute)?;
+    let (t1, t2) = bounds(&s.temperatures);
+    let margin = s.margin.map_or(0.0, |m| m.percent / 100.0);
+    let screening = stays_dissolved(&built.curve, w, t1, t2, margin)
+        .map_err(|e| curve_error(e, solute, s.temperatures.span()))?;
+    let saturated = in_unit(
+        screening.limiting_mass_fraction,
+        s.loading.unit,
+        solute,
+        s.loading.span,
+    )?;
+    answer.holds = Some(screening.holds);
+    answer.rows.push(Row {
+        solute: Some(solute.name.clone()),
+        quantity: Some("solubility at the limiting temperature".into()),
+        value: Some(saturated),
+        unit: Some(s.loading.unit.symbol().into()),
+        basis: Some(Basis::from(screening.basis)),
+        phase: Some(screening.phase.clone()),
+        temperature_c: Some(celsius(screening.limiting_t_k)),
+        holds: Some(screening.holds),
+        headroom_pct: Some(headroom(screening.headroom_pct)),
+        ..Row::default()
+    });
+    if !screening.holds {
+        let needed = (1.0 + margin) * 100.0;
+        answer.caveat(format!(
+            "does not hold: at {} C the solubility is {} {}, {} % of the loading where {} % is required",
+            celsius(screening.limiting_t_k),
+            saturated,
+            s.loading.unit.symbol(),
+            headroom(100.0 + screening.headroom_pct),
+            round_significant(needed, 4)
+        ));
+    }
+    phase_caveat(&screening.phase, answer);
+    cite_curve(snap, built, solute, answer);
+    answer.caveat(CAUTION);
+    Ok(())
+}
+
+/// `saturation of KNO3 at 40 g/100g water [in F]`.
+pub fn saturation(snap: &Snapshot, s: &Saturation, answer: &mut Answer) -> Result<(), EvalError> {
+    let solute = resolve(snap, &s.solute)?;
+    let built = curve_of(snap, solute, &s.solute, &s.options)?;
+    let w = loading_mass_fraction(&s.loading, solute)?;
+    let crossings = solve::saturation_temperatures(&built.curve, w)
+        .map_err(|e| curve_error(e, solute, s.loading.span))?;
+    let unit = s.unit.map_or(TemperatureUnit::Celsius, |u| u.unit);
+    for crossing in &crossings {
+        let t = unit.from_kelvin(crossing.t_k);
+        answer.rows.push(Row {
+            solute: Some(solute.name.clone()),
+            quantity: Some("saturation temperature".into()),
+            value: Some((t * 100.0).round() / 100.0),
+            unit: Some(unit.symbol().into()),
+            basis: Some(Basis::Computed),
+            phase: Some(crossing.phase.clone()),
+            extra: [(
+                "crystals".to_string(),
+                json!(if crossing.rising {
+                    "below this temperature"
+                } else {
+                    "above this temperature"
+                }),
+            )]
+            .into_iter()
+            .collect(),
+            ..Row::default()
+        });
+        phase_caveat(&crossing.phase, answer);
+    }
+    if crossings.is_empty() {
+        let (lo, hi) = built.curve.temperature_range();
+        let at_low = built.curve.evaluate(lo, false).map(|e| e.mass_fraction);
+        let text = match at_low {
+            Ok(w_low) if w_low > w => format!(
+                "the loading stays below the solubility over the whole data range ({} C to {} C): no saturation temperature there",
+                celsius(lo),
+                celsius(hi)
+            ),
+            _ => format!(
+                "the loading is above the solubility over the whole data range ({} C to {} C): no saturation temperature there",
+                celsius(lo),
+                celsius(hi)
+            ),
+        };
+        answer.caveat(text);
+    }
+    cite_curve(snap, built, solute, answer);
+    answer.caveat(CAUTION);
+    Ok(())
+}
+
+/// `ceiling of KCl from 2 C to 8 C margin 10% [in mol/kg]`.
+pub fn ceiling(snap: &Snapshot, s: &Ceiling, answer: &mut Answer) -> Result<(), EvalError> {
+    let solute = resolve(snap, &s.solute)?;
+    let built = curve_of(snap, solute, &s.solute, &s.options)?;
+    let (t1, t2) = bounds(&s.temperatures);
+    let margin = s.margin.map_or(0.0, |m| m.percent / 100.0);
+    let ceiling = solve::ceiling(&built.curve, t1, t2, margin)
+        .map_err(|e| curve_error(e, solute, s.temperatures.span()))?;
+    let unit = s
+        .unit
+        .map_or(CompositionUnit::GramsPer100gWater, |u| u.unit);
+    let span = s.unit.map_or(s.temperatures.span(), |u| u.span);
+    answer.rows.push(Row {
+        solute: Some(solute.name.clone()),
+        quantity: Some("largest safe loading".into()),
+        value: Some(in_unit(ceiling.mass_fraction, unit, solute, span)?),
+        unit: Some(unit.symbol().into()),
+        basis: Some(Basis::Computed),
+        phase: Some(ceiling.phase.clone()),
+        temperature_c: Some(celsius(ceiling.limiting_t_k)),
+        ..Row::default()
+    });
+    if margin > 0.0 {
+        answer.caveat(format!(
+            "margin {}% below the lowest solubility over the range (on the solute-to-water ratio)",
+            round_significant(margin * 100.0, 4)
+        ));
+    }
+    phase_caveat(&ceiling.phase, answer);
+    cite_curve(snap, built, solute, answer);
+    answer.caveat(CAUTION);
+    Ok(())
+}
+
+/// `heat of solution of KNO3 at 25 C`.
+pub fn heat(snap: &Snapshot, s: &HeatOfSolution, answer: &mut Answer) -> Result<(), EvalError> {
+    let solute = resolve(snap, &s.solute)?;
+    if solute.kind == SoluteKind::Gas {
+        return gas::heat(snap, solute, s, answer);
+    }
+    let built = curve_of(snap, solute, &s.solute, &s.options)?;
+    let heat = heat_of_solution(
+        &built.curve,
+        solute.molar_mass,
+        s.temperature.kelvin(),
+        s.options.extrapolate,
+    )
+    .map_err(|e| curve_error(e, solute, s.temperature.span))?;
+    let basis = Basis::from(heat.basis);
+    answer.rows.push(Row {
+        solute: Some(solute.name.clone()),
+        quantity: Some("apparent heat of solution".into()),
+        value: Some(round_significant(heat.kj_per_mol, 3)),
+        unit: Some("kJ/mol".into()),
+        basis: Some(basis),
+        phase: Some(heat.phase.clone()),
+        temperature_c: Some(celsius(s.temperature.kelvin())),
+        extra: [("sign".to_string(), json!(heat.sign.as_str()))]
+            .into_iter()
+            .collect(),
+        ..Row::default()
+    });
+    answer.caveat(
+        "apparent value from the slope of the solubility curve (van 't Hoff, ΔH = −R·d ln x/d(1/T)); activity coefficients are ignored",
+    );
+    basis_caveat(basis, answer);
+    phase_caveat(&heat.phase, answer);
+    cite_curve(snap, built, solute, answer);
+    Ok(())
+}
+
+/// `freezing of NaCl at 10 g/100g water [at -10 C] [in F]`.
+pub fn freezing(snap: &Snapshot, s: &Freezing, answer: &mut Answer) -> Result<(), EvalError> {
+    let solute = resolve(snap, &s.solute)?;
+    if solute.kind == SoluteKind::Gas {
+        return Err(EvalError::NoData {
+            message: format!("{} is a gas: ask `dissolved` for it", solute.name),
+            span: s.solute.span,
+        });
+    }
+    let w = loading_mass_fraction(&s.loading, solute)?;
+    let data = snap.catalog.freezing_of(&solute.id).into_iter().next();
+    let curve = snap.curve(&solute.id, s.options.reviewed_only);
+    let unit = s.unit.map_or(TemperatureUnit::Celsius, |u| u.unit);
+    let shown = |t_k: f64| (unit.from_kelvin(t_k) * 100.0).round() / 100.0;
+    let ice_basis = |b: IceBasis| match b {
+        IceBasis::Tabulated => Basis::Tabulated,
+        IceBasis::Interpolated => Basis::Interpolated,
+        IceBasis::Ideal => Basis::Computed,
+    };
+    let ions = solute.ions.max(1);
+    if let Some(d) = data {
+        cite_source(snap, &d.source, answer);
+        if d.provenance == Provenance::FromMemory {
+            answer.caveat(format!(
+                "{}: freezing data typed from memory of the cited table, not yet checked against it (from-memory)",
+                solute.name
+            ));
+        }
+    }
+    match s.temperature {
+        None => {
+            let ice = ice_line(w, solute.molar_mass, ions, data)
+                .map_err(|e| curve_error(e, solute, s.loading.span))?;
+            answer.rows.push(Row {
+                solute: Some(solute.name.clone()),
+                quantity: Some("ice appears on cooling below".into()),
+                value: Some(shown(ice.t_k)),
+                unit: Some(unit.symbol().into()),
+                basis: Some(ice_basis(ice.basis)),
+                ..Row::default()
+            });
+            if ice.basis == IceBasis::Ideal {
+                ideal_caveat(ions, answer);
+            }
+        }
+        Some(t) => {
+            let check = first_solid_on_cooling(
+                curve.map(|b| &b.curve),
+                w,
+                solute.molar_mass,
+                ions,
+                data,
+                t.kelvin(),
+            )
+            .map_err(|e| EvalError::Unanswerable {
+                message: e.to_string(),
+                span: t.span,
+            })?;
+            answer.rows.push(Row {
+                solute: Some(solute.name.clone()),
+                quantity: Some("ice appears on cooling below".into()),
+                value: Some(shown(check.ice_t_k)),
+                unit: Some(unit.symbol().into()),
+                basis: Some(ice_basis(check.ice_basis)),
+                ..Row::default()
+            });
+            if let Some(ts) = check.saturation_t_k {
+                answer.rows.push(Row {
+                    solute: Some(solute.name.clone()),
+                    quantity: Some("salt crystallises on cooling below".into()),
+                    value: Some(shown(ts)),
+                    unit: Some(unit.symbol().into()),
+                    basis: Some(Basis::Computed),
+                    ..Row::default()
+                });
+            }
+            if let Some((we, te)) = check.eutectic {
+                answer.rows.push(Row {
+                    solute: Some(solute.name.clone()),
+                    quantity: Some("eutectic".into()),
+                    value: Some(shown(te)),
+                    unit: Some(unit.symbol().into()),
+                    basis: Some(Basis::Tabulated),
+                    extra: [(
+                        "eutectic_g_per_100g_water".to_string(),
+                        json!(value(we / (1.0 - we) * 100.0)),
+                    )]
+                    .into_iter()
+                    .collect(),
+                    ..Row::default()
+                });
+            }
+            let first = match check.first {
+                Some(FirstSolid::Ice) => "ice",
+                Some(FirstSolid::Salt) => "salt",
+                Some(FirstSolid::Both) => "ice and salt together (eutectic)",
+                None => "unknown: the data cannot tell",
+            };
+            answer.rows.push(Row {
+                solute: Some(solute.name.clone()),
+                quantity: Some("first solid on cooling".into()),
+                temperature_c: check.first_t_k.map(celsius),
+                extra: [
+                    ("first".to_string(), json!(first)),
+                    (
+                        format!("solid_at_{}_c", celsius(t.kelvin())).replace('-', "minus_"),
+                        json!(check.solid_at_t),
+                    ),
+                ]
+                .into_iter()
+                .collect(),
+                ..Row::default()
+            });
+            if check.below_eutectic {
+                answer.caveat(format!(
+                    "{} C is below the eutectic: at equilibrium the whole solution is solid",
+                    celsius(t.kelvin())
+                ));
+            }
+            if check.ice_basis == IceBasis::Ideal {
+                ideal_caveat(ions, answer);
+            }
+            if let Some(built) = curve {
+                cite_curve(snap, built, solute, answer);
+            }
+        }
+    }
+    hazard(solute, answer);
+    answer.caveat(CAUTION);
+    Ok(())
+}
+
+fn ideal_caveat(ions: u32, answer: &mut Answer) {
+    answer.caveat(format!(
+        "ice line from the ideal freezing-point depression ΔT = i·Kf·m with i = {ions} and Kf = 1.86 K·kg/mol; real solutions differ, more so when concentrated"
+    ));
+}
+
+/// `convert 20 g/100g water of KCl to mol/kg`, with `as <hydrate>` on either side.
+pub fn convert(snap: &Snapshot, s: &Convert, answer: &mut Answer) -> Result<(), EvalError> {
+    let solute = resolve(snap, &s.solute)?;
+    let hydrate_water = |basis: &crate::query::Name| -> Result<f64, EvalError> {
+        let formula = parse_formula(&basis.text).map_err(|e| EvalError::Unanswerable {
+            message: format!("`{}` is not a formula: {e}", basis.text),
+            span: basis.span,
+        })?;
+        let anhydrous = formula.anhydrous_molar_mass();
+        if (anhydrous - solute.molar_mass).abs() > 1e-6 * solute.molar_mass.max(1.0) {
+            return Err(EvalError::Unanswerable {
+                message: format!(
+                    "`{}` is not a hydrate of {} ({})",
+                    basis.text, solute.name, solute.formula
+                ),
+                span: basis.span,
+            });
+        }
+        Ok(formula.hydrate_water())
+    };
+    let needs_grams = |unit: CompositionUnit, span| {
+        if unit == CompositionUnit::GramsPer100gWater {
+            Ok(())
+        } else {
+            Err(EvalError::Unanswerable {
+                message: "a hydrate basis is given in g/100g water (grams of hydrate per 100 g of added water)".into(),
+                span,
+            })
+        }
+    };
+    let mut loading = s.loading;
+    if let Some(basis) = &s.from_basis {
+        needs_grams(loading.unit, loading.span)?;
+        let water = hydrate_water(basis)?;
+        loading.value = hydrate_to_anhydrous(loading.value, solute.molar_mass, water).map_err(
+            |e| EvalError::Unanswerable {
+                message: e.to_string(),
+                span: loading.span,
+            },
+        )?;
+        answer.caveat(format!(
+            "the loading counts grams of {} per 100 g of added water; converted to anhydrous {} per 100 g of total water",
+            basis.text, solute.formula
+        ));
+    }
+    let w = loading_mass_fraction(&loading, solute)?;
+    let mut result = in_unit(w, s.to.unit, solute, s.to.span)?;
+    if let Some(basis) = &s.to_basis {
+        needs_grams(s.to.unit, s.to.span)?;
+        let water = hydrate_water(basis)?;
+        let anhydrous = units::from_mass_fraction(w, CompositionUnit::GramsPer100gWater, &Default::default())
+            .map_err(|e| EvalError::Unanswerable {
+                message: e.to_string(),
+                span: s.to.span,
+            })?;
+        result = value(
+            anhydrous_to_hydrate(anhydrous, solute.molar_mass, water).map_err(|e| {
+                EvalError::Unanswerable {
+                    message: e.to_string(),
+                    span: basis.span,
+                }
+            })?,
+        );
+        answer.caveat(format!(
+            "the answer counts grams of {} per 100 g of added water",
+            basis.text
+        ));
+    }
+    answer.rows.push(Row {
+        solute: Some(solute.name.clone()),
+        quantity: Some("loading".into()),
+        value: Some(result),
+        unit: Some(s.to.unit.symbol().into()),
+        basis: Some(Basis::Computed),
+        extra: [(
+            "molar_mass_g_per_mol".to_string(),
+            json!(round_significant(solute.molar_mass, 6)),
+        )]
+        .into_iter()
+        .collect(),
+        ..Row::default()
+    });
+    Ok(())
+}

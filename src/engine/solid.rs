@@ -469,10 +469,8 @@ pub fn freezing(snap: &Snapshot, s: &Freezing, answer: &mut Answer) -> Result<()
                 temperature_c: check.first_t_k.map(celsius),
                 extra: [
                     ("first".to_string(), json!(first)),
-                    (
-                        format!("solid_at_{}_c", celsius(t.kelvin())).replace('-', "minus_"),
-                        json!(check.solid_at_t),
-                    ),
+                    ("solid_at_temperature".to_string(), json!(check.solid_at_t)),
+                    ("temperature_asked_c".to_string(), json!(celsius(t.kelvin()))),
                 ]
                 .into_iter()
                 .collect(),

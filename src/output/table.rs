@@ -7,7 +7,7 @@ use std::io::{self, Write};
 use tabled::builder::Builder;
 use tabled::settings::Style;
 
-use crate::answer::{Answer, ErrorReport, Row};
+use crate::answer::{Answer, AnswerKind, ErrorReport, Row};
 use crate::output::number::display;
 
 /// Reads one cell of a row, or nothing when the row has no such field.
@@ -135,8 +135,11 @@ pub fn write_answer(out: &mut impl Write, answer: &Answer, script: &str) -> io::
     for caveat in &answer.caveats {
         writeln!(out, "  note: {caveat}")?;
     }
-    for source in &answer.sources {
-        writeln!(out, "  [{}] {}", source.key, source.citation)?;
+    // A `sources` answer's rows are the citations already.
+    if answer.kind != AnswerKind::Sources {
+        for source in &answer.sources {
+            writeln!(out, "  [{}] {}", source.key, source.citation)?;
+        }
     }
     writeln!(out)
 }
@@ -144,7 +147,7 @@ pub fn write_answer(out: &mut impl Write, answer: &Answer, script: &str) -> io::
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::answer::{AnswerKind, Basis};
+    use crate::answer::Basis;
 
     #[test]
     fn table_has_only_used_columns() {

@@ -126,9 +126,7 @@ impl Pchip {
             + (-6.0 * t2 + 6.0 * t) * y1
             + (3.0 * t2 - 2.0 * t) * h * d1)
             / h;
-        // Rounding can put v a hair outside [y0, y1]; the interpolant promises it never does.
-        let (lo, hi) = if y0 <= y1 { (y0, y1) } else { (y1, y0) };
-        (v.clamp(lo, hi), dv)
+        (v, dv)
     }
 }
 

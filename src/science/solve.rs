@@ -69,7 +69,7 @@ fn value(curve: &Curve, t: f64) -> f64 {
 /// Every temperature inside the data range where the curve equals the loading `w`.
 ///
 /// Method: the curve minus the loading is sampled on a grid of every knot and transition
-/// plus 200 steps between neighbours; each sign change is refined by bisection to 1e-5 K
+/// plus 200 steps between neighbours; each sign change is refined by bisection to 1e-7 K
 /// (the curve is continuous on each branch; at a transition the stable curve is continuous
 /// too, as the branches cross there). A grid point equal to the loading counts as a
 /// crossing. Temperatures between branches with no data are not searched.
@@ -103,7 +103,7 @@ pub fn saturation_temperatures(curve: &Curve, w: f64) -> Result<Vec<Crossing>, S
             continue;
         }
         let (mut x0, mut x1) = (a, b);
-        while x1 - x0 > 1e-5 {
+        while x1 - x0 > 1e-7 {
             let mid = 0.5 * (x0 + x1);
             if (value(curve, mid) - w).signum() == fa.signum() {
                 x0 = mid;

@@ -330,6 +330,19 @@ impl Curve {
         Ok(curve)
     }
 
+    /// Builds a curve from a solute's datasets, one branch per dataset that is not retired
+    /// and not rejected (phases as in each dataset).
+    pub fn from_datasets<'a>(
+        datasets: impl IntoIterator<Item = &'a crate::model::Dataset>,
+    ) -> Result<Self, ScienceError> {
+        let branches = datasets
+            .into_iter()
+            .filter(|d| !d.retired && d.review != crate::model::Review::Rejected)
+            .map(Branch::from_dataset)
+            .collect::<Result<Vec<_>, _>>()?;
+        Self::new(branches)
+    }
+
     /// A curve of one branch.
     pub fn single(branch: Branch) -> Self {
         Self {
@@ -554,6 +567,18 @@ mod tests {
             Err(ScienceError::InGap { .. })
         ));
         assert_eq!(c.evaluate(305.0, true).unwrap().basis, Basis::Extrapolated);
+    }
+
+    #[test]
+    fn branches_with_a_gap_meet_where_their_extrapolations_cross() {
+        // Invented: hydrate rising to 303 K, anhydrous falling from 313 K; the tangent lines
+        // cross inside the gap, where the transition is reported.
+        let a = Branch::new("A·10H2O", &[(283.15, 0.1), (293.15, 0.15), (303.15, 0.25)]).unwrap();
+        let b = Branch::new("A", &[(313.15, 0.33), (333.15, 0.31)]).unwrap();
+        let c = Curve::new(vec![a, b]).unwrap();
+        assert_eq!(c.transitions().len(), 1);
+        let t = c.transitions()[0].t_k;
+        assert!(t > 303.15 && t < 313.15, "{t}");
     }
 
     #[test]

@@ -184,3 +184,26 @@ proptest! {
         }
     }
 }
+
+proptest! {
+    /// The formula parser never panics, and an error's position lies inside the text.
+    #[test]
+    fn formula_parser_never_panics(text in "[A-Za-z0-9()\\[\\]·*. ]{0,24}|\\PC{0,16}") {
+        match satline::science::formula::parse_formula(&text) {
+            Ok(f) => prop_assert!(f.molar_mass().is_finite()),
+            Err(e) => {
+                use satline::science::formula::FormulaError as E;
+                let position = match e {
+                    E::UnknownElement { position, .. }
+                    | E::UnexpectedChar { position, .. }
+                    | E::UnexpectedEnd { position, .. }
+                    | E::MismatchedBracket { position, .. }
+                    | E::ZeroCount { position }
+                    | E::TooDeep { position } => position,
+                    _ => 0,
+                };
+                prop_assert!(position <= text.len());
+            }
+        }
+    }
+}

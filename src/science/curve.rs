@@ -49,6 +49,11 @@ pub struct Pchip {
 impl Pchip {
     /// Builds the interpolant; `x` strictly ascending, at least one knot.
     pub fn new(x: Vec<f64>, y: Vec<f64>) -> Result<Self, ScienceError> {
+        Self::named("knots", x, y)
+    }
+
+    /// [`Pchip::new`], naming the abscissae in errors (e.g. `temperatures (K)`).
+    pub fn named(what: &'static str, x: Vec<f64>, y: Vec<f64>) -> Result<Self, ScienceError> {
         if x.is_empty() || x.len() != y.len() {
             return Err(ScienceError::TooFewPoints {
                 what: "an interpolant",
@@ -58,8 +63,8 @@ impl Pchip {
         }
         for v in x.iter().chain(&y) {
             if !v.is_finite() {
-                return Err(ScienceError::NotPositive {
-                    what: "a tabulated value (finite)",
+                return Err(ScienceError::NotFinite {
+                    what: "a tabulated value",
                     value: *v,
                 });
             }
@@ -67,8 +72,9 @@ impl Pchip {
         for pair in x.windows(2) {
             if pair[1] <= pair[0] {
                 return Err(ScienceError::NotAscending {
-                    previous_k: pair[0],
-                    next_k: pair[1],
+                    what,
+                    previous: pair[0],
+                    next: pair[1],
                 });
             }
         }
@@ -203,7 +209,8 @@ impl Branch {
                 });
             }
         }
-        let interpolant = Pchip::new(
+        let interpolant = Pchip::named(
+            "temperatures (K)",
             points.iter().map(|p| p.0).collect(),
             points.iter().map(|p| p.1).collect(),
         )?;

@@ -54,10 +54,17 @@ pub enum ScienceError {
         needed: usize,
         found: usize,
     },
-    /// Temperatures of a branch not strictly ascending: points at 293.15 K then 283.15 K, or
-    /// twice 293.15 K.
-    #[error("temperatures must be strictly ascending: {previous_k} K then {next_k} K")]
-    NotAscending { previous_k: f64, next_k: f64 },
+    /// Knots not strictly ascending: a branch's temperatures 293.15 K then 283.15 K, or
+    /// twice 293.15 K; freezing data's mass fractions 0.1 then 0.05.
+    #[error("{what} must be strictly ascending: {previous} then {next}")]
+    NotAscending {
+        what: &'static str,
+        previous: f64,
+        next: f64,
+    },
+    /// A tabulated number that is not finite: a branch point `(293.15, NaN)`.
+    #[error("{what} must be a finite number, got {value}")]
+    NotFinite { what: &'static str, value: f64 },
     /// A curve with no branch: `Curve::new(vec![])`.
     #[error("a curve needs at least one branch")]
     NoBranches,
@@ -168,6 +175,10 @@ mod tests {
             ));
         }
         assert!(matches!(Curve::new(vec![]), Err(ScienceError::NoBranches)));
+        assert!(matches!(
+            crate::science::curve::Pchip::new(vec![293.15], vec![f64::NAN]),
+            Err(ScienceError::NotFinite { .. })
+        ));
         assert!(matches!(
             stays_dissolved(&curve(), 0.05, 308.15, 278.15, 0.1),
             Err(ScienceError::BadRange { .. })

@@ -241,6 +241,14 @@ pub fn water_molar_mass() -> f64 {
 }
 
 /// Parses a formula such as `Na2SO4·10H2O`, `KAl(SO4)2·12H2O`, `(NH4)2SO4`, `C12H22O11`.
+///
+/// ```
+/// use satline::science::formula::parse_formula;
+/// let f = parse_formula("Na2SO4·10H2O").unwrap();
+/// assert_eq!(f.hydrate_water(), 10.0);
+/// assert!((f.molar_mass() - 322.19).abs() < 0.01);
+/// assert_eq!(f.elements()["O"], 14.0);
+/// ```
 pub fn parse_formula(text: &str) -> Result<Formula, FormulaError> {
     if text.is_empty() {
         return Err(FormulaError::Empty);

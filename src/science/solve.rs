@@ -273,6 +273,16 @@ fn check_margin(margin: f64) -> Result<f64, ScienceError> {
 /// Holds exactly when r_min ≥ r·(1 + margin), with r = w/(1−w) the loading's
 /// solute-to-water mass ratio and r_min the curve's ratio at its minimum over the whole
 /// range (see [`minimum`]). A single temperature is t1_k = t2_k.
+///
+/// ```
+/// use satline::science::curve::{Branch, Curve};
+/// use satline::science::solve::stays_dissolved;
+/// // Invented demo data: (K, mass fraction).
+/// let curve = Curve::single(Branch::new("KX", &[(273.15, 0.10), (293.15, 0.20)]).unwrap());
+/// let s = stays_dissolved(&curve, 0.08, 275.15, 281.15, 0.10).unwrap();
+/// assert!(s.holds);
+/// assert_eq!(s.limiting_t_k, 275.15);
+/// ```
 pub fn stays_dissolved(
     curve: &Curve,
     w: f64,

@@ -52,6 +52,30 @@ fn molar_masses_match_periodictable() {
     );
 }
 
+/// Source: periodictable (PyPI), element masses Z = 1–92, against our CIAAW table; within
+/// 0.005 g/mol (the formula tolerance). Known difference: Zr, ours 91.222 (CIAAW 2021, from
+/// memory) vs periodictable 91.224 (the earlier standard value).
+#[test]
+fn atomic_weights_match_periodictable() {
+    let f = fixture("elements.json");
+    let rows = rows(&f);
+    assert_eq!(rows.len(), 92);
+    for row in rows {
+        let symbol = row["symbol"].as_str().unwrap();
+        let want = num(row, "mass_g_per_mol");
+        let got = satline::science::formula::atomic_weight(symbol)
+            .unwrap_or_else(|| panic!("no atomic weight for {symbol}"));
+        let diff = got - want;
+        if diff.abs() > 1e-6 {
+            eprintln!("{symbol}: ours {got}, periodictable {want} ({diff:+.4})");
+        }
+        assert!(
+            diff.abs() <= 0.005,
+            "{symbol}: {got} vs periodictable {want}"
+        );
+    }
+}
+
 /// Source: iapws (PyPI), IAPWS-95 saturation pressure, 0–100 °C. Within 0.2 %.
 #[test]
 fn vapour_pressure_matches_iapws95() {

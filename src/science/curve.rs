@@ -49,6 +49,11 @@ pub struct Pchip {
 impl Pchip {
     /// Builds the interpolant; `x` strictly ascending, at least one knot.
     pub fn new(x: Vec<f64>, y: Vec<f64>) -> Result<Self, ScienceError> {
+        Self::named("knots", x, y)
+    }
+
+    /// [`Pchip::new`], naming the abscissae in errors (e.g. `temperatures (K)`).
+    pub fn named(what: &'static str, x: Vec<f64>, y: Vec<f64>) -> Result<Self, ScienceError> {
         if x.is_empty() || x.len() != y.len() {
             return Err(ScienceError::TooFewPoints {
                 what: "an interpolant",
@@ -58,8 +63,8 @@ impl Pchip {
         }
         for v in x.iter().chain(&y) {
             if !v.is_finite() {
-                return Err(ScienceError::NotPositive {
-                    what: "a tabulated value (finite)",
+                return Err(ScienceError::NotFinite {
+                    what: "a tabulated value",
                     value: *v,
                 });
             }
@@ -67,8 +72,9 @@ impl Pchip {
         for pair in x.windows(2) {
             if pair[1] <= pair[0] {
                 return Err(ScienceError::NotAscending {
-                    previous_k: pair[0],
-                    next_k: pair[1],
+                    what,
+                    previous: pair[0],
+                    next: pair[1],
                 });
             }
         }
@@ -126,9 +132,7 @@ impl Pchip {
             + (-6.0 * t2 + 6.0 * t) * y1
             + (3.0 * t2 - 2.0 * t) * h * d1)
             / h;
-        // Rounding can put v a hair outside [y0, y1]; the interpolant promises it never does.
-        let (lo, hi) = if y0 <= y1 { (y0, y1) } else { (y1, y0) };
-        (v.clamp(lo, hi), dv)
+        (v, dv)
     }
 }
 
@@ -205,7 +209,8 @@ impl Branch {
                 });
             }
         }
-        let interpolant = Pchip::new(
+        let interpolant = Pchip::named(
+            "temperatures (K)",
             points.iter().map(|p| p.0).collect(),
             points.iter().map(|p| p.1).collect(),
         )?;
@@ -330,6 +335,19 @@ impl Curve {
         };
         curve.transitions = curve.find_transitions();
         Ok(curve)
+    }
+
+    /// Builds a curve from a solute's datasets, one branch per dataset that is not retired
+    /// and not rejected (phases as in each dataset).
+    pub fn from_datasets<'a>(
+        datasets: impl IntoIterator<Item = &'a crate::model::Dataset>,
+    ) -> Result<Self, ScienceError> {
+        let branches = datasets
+            .into_iter()
+            .filter(|d| !d.retired && d.review != crate::model::Review::Rejected)
+            .map(Branch::from_dataset)
+            .collect::<Result<Vec<_>, _>>()?;
+        Self::new(branches)
     }
 
     /// A curve of one branch.
@@ -556,6 +574,18 @@ mod tests {
             Err(ScienceError::InGap { .. })
         ));
         assert_eq!(c.evaluate(305.0, true).unwrap().basis, Basis::Extrapolated);
+    }
+
+    #[test]
+    fn branches_with_a_gap_meet_where_their_extrapolations_cross() {
+        // Invented: hydrate rising to 303 K, anhydrous falling from 313 K; the tangent lines
+        // cross inside the gap, where the transition is reported.
+        let a = Branch::new("A·10H2O", &[(283.15, 0.1), (293.15, 0.15), (303.15, 0.25)]).unwrap();
+        let b = Branch::new("A", &[(313.15, 0.33), (333.15, 0.31)]).unwrap();
+        let c = Curve::new(vec![a, b]).unwrap();
+        assert_eq!(c.transitions().len(), 1);
+        let t = c.transitions()[0].t_k;
+        assert!(t > 303.15 && t < 313.15, "{t}");
     }
 
     #[test]

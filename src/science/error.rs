@@ -54,10 +54,17 @@ pub enum ScienceError {
         needed: usize,
         found: usize,
     },
-    /// Temperatures of a branch not strictly ascending: points at 293.15 K then 283.15 K, or
-    /// twice 293.15 K.
-    #[error("temperatures must be strictly ascending: {previous_k} K then {next_k} K")]
-    NotAscending { previous_k: f64, next_k: f64 },
+    /// Knots not strictly ascending: a branch's temperatures 293.15 K then 283.15 K, or
+    /// twice 293.15 K; freezing data's mass fractions 0.1 then 0.05.
+    #[error("{what} must be strictly ascending: {previous} then {next}")]
+    NotAscending {
+        what: &'static str,
+        previous: f64,
+        next: f64,
+    },
+    /// A tabulated number that is not finite: a branch point `(293.15, NaN)`.
+    #[error("{what} must be a finite number, got {value}")]
+    NotFinite { what: &'static str, value: f64 },
     /// A curve with no branch: `Curve::new(vec![])`.
     #[error("a curve needs at least one branch")]
     NoBranches,
@@ -74,7 +81,7 @@ pub enum ScienceError {
     /// A Henry's-law convention that is not known: `"H mol/kg/bar"`.
     #[error("unknown Henry's-law convention `{0}`")]
     UnknownConvention(String),
-    /// A mixture component not in the dry-air table: `"Xe"` under air.
+    /// A mixture component not in the dry-air table: `"SF6"` under air.
     #[error("`{0}` is not a component of the dry-air table")]
     UnknownAirComponent(String),
     /// Water vapour alone exceeds the total pressure: humid air at 0.01 bar and 50 °C.
@@ -83,4 +90,131 @@ pub enum ScienceError {
     /// A freezing question above 0 °C or an ice line with no usable data: `freezing at 5 C`.
     #[error("{0}")]
     Freezing(&'static str),
+}
+
+#[cfg(test)]
+mod tests {
+    //! Each variant's documented input, as a test.
+    use super::*;
+    use crate::science::curve::{Branch, Curve};
+    use crate::science::fit::{fit_apelblat, fit_vant_hoff};
+    use crate::science::freezing::first_solid_on_cooling;
+    use crate::science::gas::{HenryConvention, dry_air_fraction, partial_pressure};
+    use crate::science::solve::stays_dissolved;
+    use crate::science::units::{CompositionUnit as U, Context, to_mass_fraction};
+
+    fn curve() -> Curve {
+        Curve::single(Branch::new("A", &[(273.15, 0.1), (373.15, 0.3)]).unwrap())
+    }
+
+    #[test]
+    fn every_documented_input_triggers_its_variant() {
+        let none = Context::default();
+        let e: ScienceError = crate::science::formula::molar_mass("Xy2")
+            .unwrap_err()
+            .into();
+        assert!(matches!(e, ScienceError::Formula(_)));
+        assert!(matches!(
+            to_mass_fraction(250.0, U::GramsPerLitre, &none),
+            Err(ScienceError::MissingDensity { .. })
+        ));
+        assert!(matches!(
+            to_mass_fraction(1.5, U::Molality, &none),
+            Err(ScienceError::MissingMolarMass { .. })
+        ));
+        for (v, u) in [
+            (-3.0, U::GramsPer100gWater),
+            (1.2, U::MassFraction),
+            (f64::NAN, U::MassPercent),
+        ] {
+            assert!(matches!(
+                to_mass_fraction(v, u, &none),
+                Err(ScienceError::InvalidComposition { .. })
+            ));
+        }
+        let zero_density = Context {
+            molar_mass: None,
+            density: Some(0.0),
+        };
+        assert!(matches!(
+            to_mass_fraction(250.0, U::GramsPerLitre, &zero_density),
+            Err(ScienceError::NotPositive { .. })
+        ));
+        assert!(matches!(
+            curve().evaluate(-5.0, false),
+            Err(ScienceError::NotPositive { .. })
+        ));
+        assert!(matches!(
+            curve().evaluate(200.0, false),
+            Err(ScienceError::OutOfRange { .. })
+        ));
+        let gap = Curve::new(vec![
+            Branch::new("A·H2O", &[(273.0, 0.1), (298.0, 0.2)]).unwrap(),
+            Branch::new("A", &[(310.0, 0.25), (373.0, 0.3)]).unwrap(),
+        ])
+        .unwrap();
+        assert!(matches!(
+            gap.evaluate(305.0, false),
+            Err(ScienceError::InGap { .. })
+        ));
+        assert!(matches!(
+            Branch::new("A", &[]),
+            Err(ScienceError::TooFewPoints { .. })
+        ));
+        assert!(matches!(
+            fit_apelblat(&[(280.0, 0.1), (290.0, 0.2)]),
+            Err(ScienceError::TooFewPoints { .. })
+        ));
+        for pts in [
+            [(293.15, 0.1), (283.15, 0.2)],
+            [(293.15, 0.1), (293.15, 0.2)],
+        ] {
+            assert!(matches!(
+                Branch::new("A", &pts),
+                Err(ScienceError::NotAscending { .. })
+            ));
+        }
+        assert!(matches!(Curve::new(vec![]), Err(ScienceError::NoBranches)));
+        assert!(matches!(
+            crate::science::curve::Pchip::new(vec![293.15], vec![f64::NAN]),
+            Err(ScienceError::NotFinite { .. })
+        ));
+        assert!(matches!(
+            stays_dissolved(&curve(), 0.05, 308.15, 278.15, 0.1),
+            Err(ScienceError::BadRange { .. })
+        ));
+        assert!(matches!(
+            stays_dissolved(&curve(), 0.05, 278.15, 308.15, -0.1),
+            Err(ScienceError::BadMargin(_))
+        ));
+        assert!(matches!(
+            fit_vant_hoff(&[(300.0, 0.1), (300.0, 0.2)]),
+            Err(ScienceError::FitFailed(_))
+        ));
+        assert!(matches!(
+            fit_vant_hoff(&[(300.0, 0.0), (310.0, 0.2)]),
+            Err(ScienceError::FitFailed(_))
+        ));
+        assert!(matches!(
+            HenryConvention::parse("H mol/kg/bar"),
+            Err(ScienceError::UnknownConvention(_))
+        ));
+        assert!(matches!(
+            dry_air_fraction("SF6"),
+            Err(ScienceError::UnknownAirComponent(_))
+        ));
+        assert!(matches!(
+            partial_pressure(0.2, 1000.0, 323.15, true),
+            Err(ScienceError::VapourExceedsTotal { .. })
+        ));
+        assert!(matches!(
+            first_solid_on_cooling(None, 0.1, 58.44, 2, None, 278.15),
+            Err(ScienceError::Freezing(_))
+        ));
+        // Messages name what was wrong.
+        let msg = to_mass_fraction(250.0, U::GramsPerLitre, &none)
+            .unwrap_err()
+            .to_string();
+        assert!(msg.contains("g/L") && msg.contains("density"), "{msg}");
+    }
 }

@@ -11,6 +11,7 @@
 //! count    := digits
 //! ```
 //!
+//! Spaces are allowed around a hydrate dot (`CuSO4 · 5H2O`) and nowhere else.
 //! The first part is the anhydrous formula; every later part that is exactly H2O counts as
 //! water of crystallisation (`Na2SO4·10H2O` has 10).
 
@@ -155,7 +156,13 @@ pub enum FormulaError {
     /// A count or coefficient of zero: `H0O` (position 1), `CuSO4·0H2O`.
     #[error("count of zero at byte {position}")]
     ZeroCount { position: usize },
+    /// Brackets nested deeper than 16 levels: 17 × `(` then `H)` 17 times.
+    #[error("brackets nested too deep at byte {position}")]
+    TooDeep { position: usize },
 }
+
+/// Deepest bracket nesting accepted (real formulas use two or three levels).
+const MAX_DEPTH: usize = 16;
 
 /// One part of a formula between hydrate dots, e.g. `10H2O` in `Na2SO4·10H2O`.
 #[derive(Debug, Clone, PartialEq)]
@@ -234,6 +241,14 @@ pub fn water_molar_mass() -> f64 {
 }
 
 /// Parses a formula such as `Na2SO4·10H2O`, `KAl(SO4)2·12H2O`, `(NH4)2SO4`, `C12H22O11`.
+///
+/// ```
+/// use satline::science::formula::parse_formula;
+/// let f = parse_formula("Na2SO4·10H2O").unwrap();
+/// assert_eq!(f.hydrate_water(), 10.0);
+/// assert!((f.molar_mass() - 322.19).abs() < 0.01);
+/// assert_eq!(f.elements()["O"], 14.0);
+/// ```
 pub fn parse_formula(text: &str) -> Result<Formula, FormulaError> {
     if text.is_empty() {
         return Err(FormulaError::Empty);
@@ -242,20 +257,37 @@ pub fn parse_formula(text: &str) -> Result<Formula, FormulaError> {
         text,
         bytes: text.as_bytes(),
         pos: 0,
+        depth: 0,
     };
     let mut parts = Vec::new();
     loop {
         parts.push(p.part()?);
+        // Spaces are allowed around a hydrate dot only (`CuSO4 · 5H2O`).
+        let before_spaces = p.pos;
+        p.skip_spaces();
         match p.peek_char() {
+            None if p.pos > before_spaces => {
+                return Err(FormulaError::UnexpectedChar {
+                    found: ' ',
+                    position: before_spaces,
+                });
+            }
             None => break,
             Some(c) if is_dot(c) => {
                 p.pos += c.len_utf8();
+                p.skip_spaces();
                 if p.pos >= p.bytes.len() {
                     return Err(FormulaError::UnexpectedEnd {
                         expected: "a formula after the hydrate dot",
                         position: p.pos,
                     });
                 }
+            }
+            Some(_) if p.pos > before_spaces => {
+                return Err(FormulaError::UnexpectedChar {
+                    found: ' ',
+                    position: before_spaces,
+                });
             }
             Some(c) => {
                 return Err(FormulaError::UnexpectedChar {
@@ -284,11 +316,18 @@ struct Parser<'a> {
     text: &'a str,
     bytes: &'a [u8],
     pos: usize,
+    depth: usize,
 }
 
 impl Parser<'_> {
     fn peek_char(&self) -> Option<char> {
         self.text[self.pos..].chars().next()
+    }
+
+    fn skip_spaces(&mut self) {
+        while self.pos < self.bytes.len() && self.bytes[self.pos] == b' ' {
+            self.pos += 1;
+        }
     }
 
     fn digits(&mut self) -> Option<(usize, &str)> {
@@ -387,9 +426,14 @@ impl Parser<'_> {
                 *into.entry(sym).or_insert(0.0) += n;
                 read_any = true;
             } else if c == '(' || c == '[' {
+                if self.depth >= MAX_DEPTH {
+                    return Err(FormulaError::TooDeep { position: self.pos });
+                }
                 self.pos += 1;
+                self.depth += 1;
                 let mut inner = BTreeMap::new();
                 self.groups(&mut inner, Some(if c == '(' { ')' } else { ']' }))?;
+                self.depth -= 1;
                 let n = self.count()?;
                 for (s, k) in inner {
                     *into.entry(s).or_insert(0.0) += k * n;
@@ -414,7 +458,7 @@ impl Parser<'_> {
                         });
                     }
                 }
-            } else if is_dot(c) && close.is_none() && read_any {
+            } else if (is_dot(c) || c == ' ') && close.is_none() && read_any {
                 break;
             } else {
                 return Err(FormulaError::UnexpectedChar {
@@ -474,6 +518,15 @@ mod tests {
         assert_eq!(parse_formula("C12H22O11").unwrap().hydrate_water(), 0.0);
         assert_eq!(parse_formula("Na2SO4·10H2O").unwrap().hydrate_water(), 10.0);
         assert_eq!(parse_formula("Ca(NO3)2·4H2O").unwrap().hydrate_water(), 4.0);
+        assert_eq!(parse_formula("CuSO4 · 5H2O").unwrap().hydrate_water(), 5.0);
+        assert!(matches!(
+            parse_formula("Na Cl"),
+            Err(FormulaError::UnexpectedChar {
+                found: ' ',
+                position: 2
+            })
+        ));
+        assert!(parse_formula("NaCl ").is_err());
     }
 
     #[test]
@@ -518,6 +571,14 @@ mod tests {
             Err(FormulaError::ZeroCount { .. })
         ));
         assert!(parse_formula("NaCl)").is_err());
+        let deep = format!("{}H{}", "(".repeat(17), ")".repeat(17));
+        assert!(matches!(
+            parse_formula(&deep),
+            Err(FormulaError::TooDeep { position: 16 })
+        ));
+        let ok = format!("{}H{}", "(".repeat(16), ")".repeat(16));
+        assert!(parse_formula(&ok).is_ok());
+        assert!(parse_formula(&"(".repeat(100_000)).is_err());
         assert!(parse_formula("()").is_err());
     }
 

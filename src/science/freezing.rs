@@ -96,7 +96,8 @@ pub fn ice_line(
             && w <= last.0
         {
             let tabulated = pts.iter().any(|p| (p.0 - w).abs() <= 1e-12);
-            let interp = Pchip::new(
+            let interp = Pchip::named(
+                "mass fractions of the freezing data",
                 pts.iter().map(|p| p.0).collect(),
                 pts.iter().map(|p| p.1).collect(),
             )?;

@@ -330,11 +330,17 @@ pub fn dissolved(
             )
         }
     };
+    Ok(amounts(n_per_kg_water, m, rho, basis))
+}
+
+/// All the units of [`Dissolved`] from moles of gas per kg of water, molar mass (g/mol) and
+/// solution density ρ (kg/m³, taken as pure water's).
+fn amounts(n_per_kg_water: f64, m: f64, rho: f64, basis: Basis) -> Dissolved {
     let gas_kg_per_kg_water = n_per_kg_water * m / 1000.0;
     let n_per_kg_solution = n_per_kg_water / (1.0 + gas_kg_per_kg_water);
     let mol_per_m3 = n_per_kg_solution * rho;
     let water_mol_per_kg = 1000.0 / WATER_MOLAR_MASS;
-    Ok(Dissolved {
+    Dissolved {
         mol_per_m3,
         mg_per_l: mol_per_m3 * m,
         mg_per_kg: n_per_kg_solution * m * 1000.0,
@@ -343,7 +349,74 @@ pub fn dissolved(
         ml_stp_per_l: mol_per_m3 * stp_molar_volume_l(),
         mole_fraction: n_per_kg_water / (n_per_kg_water + water_mol_per_kg),
         basis,
-    })
+    }
+}
+
+/// A solubility fit in molality form, as some sources give it (e.g. R. F. Weiss, Marine
+/// Chemistry 2 (1974) 203–215, for CO2): ln K = a + b/τ + c ln τ + d τ, τ = T/scale_k, with
+/// K the moles of gas per kg of solution at a gas partial pressure of
+/// `reference_pressure_pa`. (Not yet a [`GasLaw`] form; the seed format calls it
+/// `molality-fit`.)
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct MolalityFit {
+    pub a: f64,
+    pub b: f64,
+    pub c: f64,
+    pub d: f64,
+    pub scale_k: f64,
+    pub reference_pressure_pa: f64,
+    pub t_min_k: f64,
+    pub t_max_k: f64,
+}
+
+impl MolalityFit {
+    /// K at `t_k`, mol per kg of solution at the reference pressure, and whether `t_k` is
+    /// inside the fit's range.
+    pub fn value(&self, t_k: f64) -> (f64, bool) {
+        let tau = t_k / self.scale_k;
+        let k = (self.a + self.b / tau + self.c * tau.ln() + self.d * tau).exp();
+        (k, t_k >= self.t_min_k && t_k <= self.t_max_k)
+    }
+
+    /// d ln K / d(1/T) at `t_k`, K: b·s − c·T − d·T²/s.
+    pub fn slope_k(&self, t_k: f64) -> f64 {
+        self.b * self.scale_k - self.c * t_k - self.d * t_k * t_k / self.scale_k
+    }
+}
+
+/// [`dissolved`] for a [`MolalityFit`]: n = K(T)·p/p_ref mol per kg of solution (Henry's law),
+/// other units as in [`dissolved`]. Fugacity is taken equal to partial pressure (for CO2 at
+/// 1 atm about 0.5 % apart).
+pub fn dissolved_molality_fit(
+    fit: &MolalityFit,
+    molar_mass: f64,
+    t_k: f64,
+    partial_pressure_pa: f64,
+) -> Result<Dissolved, ScienceError> {
+    let m = positive("molar mass (g/mol)", molar_mass)?;
+    let t_k = positive("temperature (K)", t_k)?;
+    if !(partial_pressure_pa.is_finite() && partial_pressure_pa >= 0.0) {
+        return Err(ScienceError::NotPositive {
+            what: "partial pressure (Pa)",
+            value: partial_pressure_pa,
+        });
+    }
+    let p_ref = positive("reference pressure (Pa)", fit.reference_pressure_pa)?;
+    let rho = water_density(t_k)?;
+    let (k, inside) = fit.value(t_k);
+    let n_per_kg_solution = k * partial_pressure_pa / p_ref;
+    // Per kg of water: the solution's kg holds n·M/1000 kg of gas.
+    let n_per_kg_water = n_per_kg_solution / (1.0 - n_per_kg_solution * m / 1000.0);
+    Ok(amounts(
+        n_per_kg_water,
+        m,
+        rho,
+        if inside {
+            Basis::Fitted
+        } else {
+            Basis::Extrapolated
+        },
+    ))
 }
 
 /// Apparent enthalpy of solution of a gas at `t_k`, kJ/mol, with its sign word:
@@ -495,6 +568,31 @@ mod tests {
         // At T_ref: c = Hcp·p exactly (dilute).
         let at_ref = dissolved(&law, 31.998, 298.15, 21_000.0).unwrap();
         assert!((at_ref.mol_per_m3 / (1.3e-5 * 21_000.0) - 1.0).abs() < 1e-6);
+    }
+
+    #[test]
+    fn molality_fit_is_henrys_law() {
+        // Invented parameters: ln K = −4 at every T (a = −4), so K = e⁻⁴ mol/kg per atm.
+        let fit = MolalityFit {
+            a: -4.0,
+            b: 0.0,
+            c: 0.0,
+            d: 0.0,
+            scale_k: 100.0,
+            reference_pressure_pa: 101_325.0,
+            t_min_k: 273.15,
+            t_max_k: 313.15,
+        };
+        let d = dissolved_molality_fit(&fit, 44.0, 293.15, 50_662.5).unwrap();
+        let n = (-4.0f64).exp() * 0.5;
+        assert!((d.mg_per_kg - n * 44.0 * 1000.0).abs() < 1e-9);
+        assert_eq!(d.basis, Basis::Fitted);
+        assert_eq!(
+            dissolved_molality_fit(&fit, 44.0, 330.0, 1e5)
+                .unwrap()
+                .basis,
+            Basis::Extrapolated
+        );
     }
 
     #[test]

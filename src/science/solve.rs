@@ -22,6 +22,9 @@ pub struct Crossing {
     /// True when the curve rises through the loading (cooling below `t_k` crystallises the
     /// solid); false when it falls (heating above `t_k` crystallises, a retrograde curve).
     pub rising: bool,
+    /// `Tabulated` or `Interpolated` where the data cover `t_k`; `Extrapolated` in a gap
+    /// between branches (only with [`saturation_temperatures_with`]).
+    pub basis: Basis,
 }
 
 fn ratio(w: f64) -> f64 {
@@ -40,9 +43,9 @@ fn check_loading(w: f64) -> Result<f64, ScienceError> {
     }
 }
 
-/// Grid over the data-covered temperatures: every knot, every transition and `STEPS`
-/// subdivisions between neighbours, restricted to [lo, hi] and to covered temperatures.
-fn scan_grid(curve: &Curve, lo: f64, hi: f64) -> Vec<f64> {
+/// Grid of every knot, every transition and `STEPS` subdivisions between neighbours,
+/// restricted to [lo, hi] and, unless `uncovered_too`, to temperatures with data.
+fn scan_grid(curve: &Curve, lo: f64, hi: f64, uncovered_too: bool) -> Vec<f64> {
     let mut knots: Vec<f64> = curve
         .knots()
         .into_iter()
@@ -55,7 +58,7 @@ fn scan_grid(curve: &Curve, lo: f64, hi: f64) -> Vec<f64> {
     knots.dedup();
     dense_grid(&knots, STEPS)
         .into_iter()
-        .filter(|&t| curve.covers(t))
+        .filter(|&t| uncovered_too || curve.covers(t))
         .collect()
 }
 
@@ -69,22 +72,39 @@ fn value(curve: &Curve, t: f64) -> f64 {
 /// Every temperature inside the data range where the curve equals the loading `w`.
 ///
 /// Method: the curve minus the loading is sampled on a grid of every knot and transition
-/// plus 200 steps between neighbours; each sign change is refined by bisection to 1e-5 K
+/// plus 200 steps between neighbours; each sign change is refined by bisection to 1e-7 K
 /// (the curve is continuous on each branch; at a transition the stable curve is continuous
 /// too, as the branches cross there). A grid point equal to the loading counts as a
-/// crossing. Temperatures between branches with no data are not searched.
+/// crossing. Temperatures between branches with no data are not searched (see
+/// [`saturation_temperatures_with`]).
 pub fn saturation_temperatures(curve: &Curve, w: f64) -> Result<Vec<Crossing>, ScienceError> {
+    saturation_temperatures_with(curve, w, false)
+}
+
+/// [`saturation_temperatures`]; with `extrapolate`, gaps between branches are searched too,
+/// on the branches' end tangents (the same values [`Curve::evaluate`] gives there when
+/// extrapolating), and crossings there are flagged `Extrapolated`. Beyond the ends of the
+/// data nothing is searched.
+pub fn saturation_temperatures_with(
+    curve: &Curve,
+    w: f64,
+    extrapolate: bool,
+) -> Result<Vec<Crossing>, ScienceError> {
     let w = check_loading(w)?;
     let (lo, hi) = curve.temperature_range();
-    let grid = scan_grid(curve, lo, hi);
+    let grid = scan_grid(curve, lo, hi, extrapolate);
     let mut out: Vec<Crossing> = Vec::new();
     let mut push = |t: f64, rising: bool| {
         if out.last().is_none_or(|c| (c.t_k - t).abs() > 0.005) {
-            let phase = curve.evaluate(t, true).map(|e| e.phase).unwrap_or_default();
+            let (phase, basis) = curve
+                .evaluate(t, true)
+                .map(|e| (e.phase, e.basis))
+                .unwrap_or((String::new(), Basis::Extrapolated));
             out.push(Crossing {
                 t_k: t,
                 phase,
                 rising,
+                basis,
             });
         }
     };
@@ -99,11 +119,11 @@ pub fn saturation_temperatures(curve: &Curve, w: f64) -> Result<Vec<Crossing>, S
             continue;
         }
         // A sign change across a data gap is not a crossing the data support.
-        if !curve.covers(0.5 * (a + b)) {
+        if !extrapolate && !curve.covers(0.5 * (a + b)) {
             continue;
         }
         let (mut x0, mut x1) = (a, b);
-        while x1 - x0 > 1e-5 {
+        while x1 - x0 > 1e-7 {
             let mid = 0.5 * (x0 + x1);
             if (value(curve, mid) - w).signum() == fa.signum() {
                 x0 = mid;
@@ -139,23 +159,39 @@ pub struct Minimum {
 /// Candidates: both ends, every knot and transition inside, and a 200-step scan between
 /// them; the best grid point is refined by golden-section search on its two neighbouring
 /// intervals. (PCHIP is monotone between knots, so the knots and transitions alone would
-/// do; the scan guards the branch selection.) The range must lie within the data.
-pub fn minimum(curve: &Curve, t1_k: f64, t2_k: f64) -> Result<Minimum, ScienceError> {
+/// do; the scan guards the branch selection.) Without `extrapolate` every temperature of
+/// the range must have data (else [`ScienceError::OutOfRange`] or [`ScienceError::InGap`]);
+/// with it, missing parts are extrapolated and the basis is `Extrapolated`.
+pub fn minimum(
+    curve: &Curve,
+    t1_k: f64,
+    t2_k: f64,
+    extrapolate: bool,
+) -> Result<Minimum, ScienceError> {
     if !(t1_k.is_finite() && t2_k.is_finite()) || t2_k < t1_k {
         return Err(ScienceError::BadRange { t1_k, t2_k });
     }
-    // Both ends must have data; so must everything between (evaluate reports a gap).
-    curve.evaluate(t1_k, false)?;
-    curve.evaluate(t2_k, false)?;
-    let grid = scan_grid(curve, t1_k, t2_k);
-    let mut all = grid.clone();
-    all.sort_by(f64::total_cmp);
-    for pair in all.windows(2) {
-        let mid = 0.5 * (pair[0] + pair[1]);
-        if !curve.covers(mid) {
-            curve.evaluate(mid, false)?;
+    // Every end of a branch inside the range: a side of it without data is a gap.
+    let mut uncovered = None;
+    for t in [t1_k, t2_k] {
+        if !curve.covers(t) {
+            uncovered = Some(t);
         }
     }
+    for b in &curve.branches {
+        let (lo, hi) = b.range();
+        for t in [lo - 1e-9, hi + 1e-9] {
+            if t > t1_k && t < t2_k && !curve.covers(t) {
+                uncovered = Some(t);
+            }
+        }
+    }
+    if let Some(t) = uncovered
+        && !extrapolate
+    {
+        curve.evaluate(t, false)?;
+    }
+    let grid = scan_grid(curve, t1_k, t2_k, uncovered.is_some());
     let (mut best_i, mut best_w) = (0, f64::INFINITY);
     for (i, &t) in grid.iter().enumerate() {
         let w = value(curve, t);
@@ -165,20 +201,27 @@ pub fn minimum(curve: &Curve, t1_k: f64, t2_k: f64) -> Result<Minimum, ScienceEr
         }
     }
     let mut best_t = grid.get(best_i).copied().unwrap_or(t1_k);
-    let lo = grid[best_i.saturating_sub(1)];
-    let hi = grid[(best_i + 1).min(grid.len() - 1)];
+    let lo = grid
+        .get(best_i.saturating_sub(1))
+        .copied()
+        .unwrap_or(best_t);
+    let hi = grid.get(best_i + 1).copied().unwrap_or(best_t);
     if hi > lo {
         let (t, w) = golden_min(|t| value(curve, t), lo, hi);
         if w < best_w {
             best_t = t;
         }
     }
-    let e = curve.evaluate(best_t, false)?;
+    let e = curve.evaluate(best_t, true)?;
     Ok(Minimum {
         t_k: best_t,
         mass_fraction: e.mass_fraction,
         phase: e.phase,
-        basis: e.basis,
+        basis: if uncovered.is_some() {
+            Basis::Extrapolated
+        } else {
+            e.basis
+        },
     })
 }
 
@@ -230,6 +273,16 @@ fn check_margin(margin: f64) -> Result<f64, ScienceError> {
 /// Holds exactly when r_min ≥ r·(1 + margin), with r = w/(1−w) the loading's
 /// solute-to-water mass ratio and r_min the curve's ratio at its minimum over the whole
 /// range (see [`minimum`]). A single temperature is t1_k = t2_k.
+///
+/// ```
+/// use satline::science::curve::{Branch, Curve};
+/// use satline::science::solve::stays_dissolved;
+/// // Invented demo data: (K, mass fraction).
+/// let curve = Curve::single(Branch::new("KX", &[(273.15, 0.10), (293.15, 0.20)]).unwrap());
+/// let s = stays_dissolved(&curve, 0.08, 275.15, 281.15, 0.10).unwrap();
+/// assert!(s.holds);
+/// assert_eq!(s.limiting_t_k, 275.15);
+/// ```
 pub fn stays_dissolved(
     curve: &Curve,
     w: f64,
@@ -237,9 +290,22 @@ pub fn stays_dissolved(
     t2_k: f64,
     margin: f64,
 ) -> Result<Screening, ScienceError> {
+    stays_dissolved_with(curve, w, t1_k, t2_k, margin, false)
+}
+
+/// [`stays_dissolved`], extrapolating where the range has no data when `extrapolate` is
+/// true (the result's basis is then `Extrapolated`).
+pub fn stays_dissolved_with(
+    curve: &Curve,
+    w: f64,
+    t1_k: f64,
+    t2_k: f64,
+    margin: f64,
+    extrapolate: bool,
+) -> Result<Screening, ScienceError> {
     let w = check_loading(w)?;
     let margin = check_margin(margin)?;
-    let m = minimum(curve, t1_k, t2_k)?;
+    let m = minimum(curve, t1_k, t2_k, extrapolate)?;
     let (r_min, r_load) = (ratio(m.mass_fraction), ratio(w));
     Ok(Screening {
         holds: r_min >= r_load * (1.0 + margin),
@@ -264,8 +330,19 @@ pub struct Ceiling {
 
 /// The largest loading that [`stays_dissolved`] over [t1_k, t2_k] with `margin`.
 pub fn ceiling(curve: &Curve, t1_k: f64, t2_k: f64, margin: f64) -> Result<Ceiling, ScienceError> {
+    ceiling_with(curve, t1_k, t2_k, margin, false)
+}
+
+/// [`ceiling`], extrapolating where the range has no data when `extrapolate` is true.
+pub fn ceiling_with(
+    curve: &Curve,
+    t1_k: f64,
+    t2_k: f64,
+    margin: f64,
+    extrapolate: bool,
+) -> Result<Ceiling, ScienceError> {
     let margin = check_margin(margin)?;
-    let m = minimum(curve, t1_k, t2_k)?;
+    let m = minimum(curve, t1_k, t2_k, extrapolate)?;
     let r = ratio(m.mass_fraction) / (1.0 + margin);
     Ok(Ceiling {
         mass_fraction: r / (1.0 + r),
@@ -332,6 +409,28 @@ mod tests {
         assert!((ce.mass_fraction - r / (1.0 + r)).abs() < 1e-9);
         let s = stays_dissolved(&c, ce.mass_fraction, 280.0, 320.0, 0.1).unwrap();
         assert!(s.holds || s.headroom_pct > 9.999_999);
+    }
+
+    #[test]
+    fn a_range_over_a_gap_needs_extrapolation() {
+        // Invented: two branches with no data between 303.15 and 313.15 K.
+        let a = Branch::new("A·H2O", &[(283.15, 0.1), (303.15, 0.25)]).unwrap();
+        let b = Branch::new("A", &[(313.15, 0.33), (333.15, 0.31)]).unwrap();
+        let c = Curve::new(vec![a, b]).unwrap();
+        assert!(matches!(
+            stays_dissolved(&c, 0.05, 290.0, 320.0, 0.1),
+            Err(ScienceError::InGap { .. })
+        ));
+        let s = stays_dissolved_with(&c, 0.05, 290.0, 320.0, 0.1, true).unwrap();
+        assert!(s.holds);
+        assert_eq!(s.basis, Basis::Extrapolated);
+        assert!(stays_dissolved(&c, 0.05, 315.0, 320.0, 0.1).unwrap().holds);
+        // 0.28 is reached only in the gap, on the hydrate's tangent line.
+        assert!(saturation_temperatures(&c, 0.28).unwrap().is_empty());
+        let x = saturation_temperatures_with(&c, 0.28, true).unwrap();
+        assert_eq!(x.len(), 1);
+        assert_eq!(x[0].basis, Basis::Extrapolated);
+        assert!(x[0].t_k > 303.15 && x[0].t_k < 313.15);
     }
 
     #[test]

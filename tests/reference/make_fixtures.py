@@ -69,6 +69,16 @@ def molar_masses():
     ]
 
 
+def elements():
+    # Element masses Z = 1..92 as periodictable tabulates them (for elements without a
+    # standard atomic weight it gives the mass of a long-lived isotope).
+    return [
+        {"symbol": el.symbol, "z": el.number, "mass_g_per_mol": el.mass}
+        for el in periodictable.elements
+        if 1 <= el.number <= 92
+    ]
+
+
 def oxygen():
     # O2 in fresh water (practical salinity 0) in equilibrium with water-saturated air at
     # 1 atm total pressure, TEOS-10 gsw.O2sol_SP_pt, umol/kg of solution.
@@ -94,6 +104,7 @@ def water():
 def main():
     fixtures = {
         "molar_masses.json": {"versions": VERSIONS, "source": "periodictable", "rows": molar_masses()},
+        "elements.json": {"versions": VERSIONS, "source": "periodictable element masses", "rows": elements()},
         "oxygen_gsw.json": {
             "versions": VERSIONS,
             "source": "gsw.O2sol_SP_pt(SP=0, pt=t), umol/kg",

@@ -314,20 +314,26 @@ pub fn dissolved(
             )
         }
         GasLaw::MolalityFit {
+            a,
+            b,
+            c,
+            d,
+            scale_k,
             reference_pressure_pa,
-            ..
+            t_min_k,
+            t_max_k,
         } => {
-            // Henry's law on the molality: m = m_fit(T) · p / p_ref (mol per kg of water).
-            let p_ref = positive("reference pressure (Pa)", *reference_pressure_pa)?;
-            let (m_ref, inside) = mole_fraction_fit(law, t_k).unwrap_or((0.0, false));
-            (
-                m_ref * partial_pressure_pa / p_ref,
-                if inside {
-                    Basis::Fitted
-                } else {
-                    Basis::Extrapolated
-                },
-            )
+            let fit = MolalityFit {
+                a: *a,
+                b: *b,
+                c: *c,
+                d: *d,
+                scale_k: *scale_k,
+                reference_pressure_pa: *reference_pressure_pa,
+                t_min_k: *t_min_k,
+                t_max_k: *t_max_k,
+            };
+            return dissolved_molality_fit(&fit, m, t_k, partial_pressure_pa);
         }
     };
     Ok(amounts(n_per_kg_water, m, rho, basis))
@@ -355,8 +361,7 @@ fn amounts(n_per_kg_water: f64, m: f64, rho: f64, basis: Basis) -> Dissolved {
 /// A solubility fit in molality form, as some sources give it (e.g. R. F. Weiss, Marine
 /// Chemistry 2 (1974) 203–215, for CO2): ln K = a + b/τ + c ln τ + d τ, τ = T/scale_k, with
 /// K the moles of gas per kg of solution at a gas partial pressure of
-/// `reference_pressure_pa`. (Not yet a [`GasLaw`] form; the seed format calls it
-/// `molality-fit`.)
+/// `reference_pressure_pa`; the seed form `molality-fit` ([`GasLaw::MolalityFit`]).
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct MolalityFit {
     pub a: f64,

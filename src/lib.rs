@@ -9,6 +9,7 @@
 pub mod answer;
 pub mod engine;
 pub mod error;
+pub mod frontend;
 pub mod model;
 pub mod output;
 pub mod science;

@@ -237,11 +237,41 @@ pub fn overview() -> String {
     text
 }
 
+/// The width help text is wrapped to: fits an 80-column terminal.
+pub const WIDTH: usize = 78;
+
+/// Wraps each line of `text` longer than `width` at spaces (a word longer than the width
+/// stays whole). Lines that fit are left as they are, so aligned lines keep their spacing.
+pub fn wrap(text: &str, width: usize) -> String {
+    let mut wrapped = String::new();
+    for line in text.lines() {
+        if line.chars().count() <= width {
+            wrapped.push_str(line);
+            wrapped.push('\n');
+            continue;
+        }
+        let mut current = String::new();
+        for word in line.split_whitespace() {
+            let needed = current.chars().count() + 1 + word.chars().count();
+            if !current.is_empty() && needed > width {
+                wrapped.push_str(&current);
+                wrapped.push('\n');
+                current.clear();
+            }
+            if !current.is_empty() {
+                current.push(' ');
+            }
+            current.push_str(word);
+        }
+        wrapped.push_str(&current);
+        wrapped.push('\n');
+    }
+    wrapped
+}
+
 /// The text of `help TOPIC`.
 pub fn render(topic: &Topic) -> String {
-    let mut text = String::new();
-    text.push_str(topic.body);
-    text.push('\n');
+    let mut text = wrap(topic.body, WIDTH);
     if topic.name == "units" {
         text.push_str(&units_text());
     }
@@ -264,13 +294,24 @@ pub fn render(topic: &Topic) -> String {
 /// parser.
 fn units_text() -> String {
     let join = |symbols: Vec<&str>| symbols.join(", ");
+    let loadings = |per_litre: bool| {
+        join(
+            CompositionUnit::ALL
+                .iter()
+                .filter(|u| u.needs_density() == per_litre)
+                .map(|u| u.symbol())
+                .collect(),
+        )
+    };
     format!(
         "  temperatures: {}   (5 C, 278.15 K, 41 F)\n  \
          loadings:     {}\n  \
-         pressures:    {}   (2.5 bar, 760 mmHg; `under air` for air)\n  \
+         per litre:    {}   (these need the solution's density)\n  \
+         pressures:    {}   (2.5 bar; or `under air`)\n  \
          margins:      a percentage of headroom, as in `margin 10%`\n",
         join(TemperatureUnit::ALL.iter().map(|u| u.symbol()).collect()),
-        join(CompositionUnit::ALL.iter().map(|u| u.symbol()).collect()),
+        loadings(false),
+        loadings(true),
         join(PressureUnit::ALL.iter().map(|u| u.symbol()).collect()),
     )
 }
@@ -329,6 +370,17 @@ mod tests {
         assert_eq!(find("heat   of solution").map(|t| t.name), Some("heat"));
         assert_eq!(find("gas").map(|t| t.name), Some("dissolved"));
         assert!(find("nothing").is_none());
+    }
+
+    #[test]
+    fn wraps_long_lines_only() {
+        assert_eq!(wrap("a bb ccc dddd", 6), "a bb\nccc\ndddd\n");
+        assert_eq!(wrap("short  spaced\nx", 20), "short  spaced\nx\n");
+        for topic in TOPICS {
+            for line in render(topic).lines() {
+                assert!(line.chars().count() <= WIDTH, "too long: {line}");
+            }
+        }
     }
 
     #[test]

@@ -150,9 +150,9 @@ impl Continuation {
 pub fn banner() -> String {
     format!(
         "satline {}: a cited solubility reference for aqueous products.\n\
-         Type `help` for statements and examples, Ctrl-D to leave.\n\n{}\n",
+         Type `help` for statements and examples, Ctrl-D to leave.\n\n{}",
         env!("CARGO_PKG_VERSION"),
-        help::CAUTION
+        help::wrap(help::CAUTION, help::WIDTH)
     )
 }
 
@@ -367,7 +367,9 @@ mod tests {
 
     #[test]
     fn banner_carries_the_caution() {
-        assert!(banner().contains(help::CAUTION));
+        let banner = banner();
+        assert!(banner.contains("Caution: reference data are for screening."));
+        assert!(banner.contains("pressurised gases)."));
     }
 
     #[test]

@@ -6,7 +6,7 @@
 //! it has printed anything. One session spans all the scripts of a run, so a first file can
 //! bind names with `let` for the files after it; each file's line numbers are its own.
 
-use std::io::{self, Read, Write};
+use std::io::{self, IsTerminal, Read, Write};
 use std::path::{Path, PathBuf};
 
 use crate::answer::{Answer, Row};
@@ -147,17 +147,25 @@ pub fn run_std(db: Option<&Path>, sources: &[ScriptSource], format: Format) -> O
     let stdin = io::stdin();
     let stdout = io::stdout();
     let stderr = io::stderr();
-    // Answers are many small writes; buffering keeps a long script from costing a system
-    // call per line. The buffer is flushed before returning.
-    let mut out = io::BufWriter::new(stdout.lock());
-    run(
-        db,
-        sources,
-        format,
-        &mut stdin.lock(),
-        &mut out,
-        &mut stderr.lock(),
-    )
+    let mut stdin = stdin.lock();
+    let mut stderr = stderr.lock();
+    if stdout.is_terminal() {
+        // A person is reading: each answer appears as it is ready, in step with the
+        // messages on the error stream (standard output is line-buffered).
+        run(
+            db,
+            sources,
+            format,
+            &mut stdin,
+            &mut stdout.lock(),
+            &mut stderr,
+        )
+    } else {
+        // A program is reading: answers are many small writes, and a buffer keeps a long
+        // script from costing a system call per line. It is flushed before returning.
+        let mut out = io::BufWriter::new(stdout.lock());
+        run(db, sources, format, &mut stdin, &mut out, &mut stderr)
+    }
 }
 
 /// Runs scripts that are already read, in order, in one session.

@@ -373,6 +373,21 @@ mod tests {
     }
 
     #[test]
+    #[ignore = "needs the engine"]
+    fn let_names_last_until_forgotten() {
+        let engine = open_engine(None).unwrap();
+        let mut repl = Repl::new(&engine);
+        handle(&mut repl, "let cold = from 2 C to 8 C");
+        let require = "require KCl stays dissolved at 5 g/100g water over cold margin 10%";
+        let (_, text) = handle(&mut repl, require);
+        assert!(text.contains("requirement holds"), "{text}");
+        handle(&mut repl, "forget");
+        let (flow, text) = handle(&mut repl, require);
+        assert_eq!(flow, Flow::Continue);
+        assert!(text.contains("error at line 1"), "{text}");
+    }
+
+    #[test]
     fn blank_input_does_nothing() {
         let engine = open_engine(None).unwrap();
         let mut repl = Repl::new(&engine);

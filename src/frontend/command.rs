@@ -151,6 +151,13 @@ mod tests {
         );
     }
 
+    proptest::proptest! {
+        #[test]
+        fn any_line_parses_without_panic(line in "\\PC{0,40}") {
+            let _ = parse(&line);
+        }
+    }
+
     #[test]
     fn commands_without_arguments() {
         assert_eq!(parse("forget"), Some(Ok(SessionCommand::Forget)));

@@ -264,6 +264,20 @@ mod tests {
         assert_eq!(v.hint("satu x", 4), None);
     }
 
+    proptest::proptest! {
+        #[test]
+        fn never_panics_and_offers_only_entries(line in "\\PC{0,40}", cut in 0usize..48) {
+            let v = vocabulary();
+            let pos = cut.min(line.len());
+            let (start, matches) = v.complete(&line, pos);
+            proptest::prop_assert!(start <= pos);
+            for m in &matches {
+                proptest::prop_assert!(v.entries.contains(m));
+            }
+            let _ = v.hint(&line, pos);
+        }
+    }
+
     #[test]
     fn vocabulary_has_no_repeats() {
         let v = Vocabulary::from_entries(vec!["b".into(), "a".into(), "b".into(), " ".into()]);

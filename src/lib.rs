@@ -10,6 +10,7 @@ pub mod answer;
 pub mod catalog;
 pub mod engine;
 pub mod error;
+pub mod frontend;
 pub mod model;
 pub mod output;
 pub mod query;

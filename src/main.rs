@@ -1,16 +1,24 @@
 //! The satline command line: reads arguments and dispatches to the library.
 //!
-//! Exit codes: 0 done, 2 bad input (an unknown solute, bad arguments), 3 store or I/O
-//! trouble. A closed pipe (`satline solutes | head`) ends quietly with 0.
+//! Exit codes: 0 done (every statement answered, every `require` held); 1 a `require` did
+//! not hold; 2 a statement could not be parsed or answered, an unknown solute, or bad
+//! arguments; 3 the store or a file could not be read. A closed pipe (`satline solutes |
+//! head`) ends quietly.
 use std::io::{self, Write};
 use std::path::PathBuf;
 use std::process::ExitCode;
 
+use clap::builder::TypedValueParser as _;
 use clap::{Parser, Subcommand};
 use satline::catalog::Catalog;
+use satline::frontend::{self, Outcome, batch};
+use satline::output::Format;
 use satline::{Error, report, store};
 
 /// A cited, temperature-dependent solubility reference for people who make aqueous products.
+///
+/// Give statements as arguments (`satline "solubility of KNO3 at 20 C"`), run scripts with
+/// `satline run FILE`, or start the interactive session with `satline` alone.
 #[derive(Debug, Parser)]
 #[command(
     name = "satline",
@@ -19,19 +27,43 @@ use satline::{Error, report, store};
     args_conflicts_with_subcommands = true
 )]
 struct Cli {
-    /// The database file to use; without it, the embedded default database.
+    /// The database file to use [default: the embedded database built from the seed data].
     #[arg(long, global = true, env = "SATLINE_DB", value_name = "PATH")]
     db: Option<PathBuf>,
+
+    /// How answers are written: a table for people, JSON lines or CSV for programs.
+    #[arg(
+        long,
+        global = true,
+        value_name = "FORMAT",
+        default_value = "table",
+        value_parser = clap::builder::PossibleValuesParser::new(Format::NAMES)
+            .map(|name| Format::from_name(&name).unwrap_or_default())
+    )]
+    format: Format,
 
     #[command(subcommand)]
     command: Option<Command>,
 
-    /// Statements to answer, e.g. "solubility of KNO3 at 20 C".
+    /// Statements to answer, e.g. "solubility of KNO3 at 20 C" (one per argument, or
+    /// several separated by `;`).
     statements: Vec<String>,
 }
 
 #[derive(Debug, Subcommand)]
 enum Command {
+    /// Run scripts of statements, in order; `-` reads standard input.
+    ///
+    /// Exit codes: 0 every statement answered and every require held; 1 a require did not
+    /// hold; 2 a statement could not be parsed or answered (or the command line was wrong);
+    /// 3 the database or a file could not be read.
+    Run {
+        /// Script files, run in order; `-` for standard input.
+        #[arg(required = true, value_name = "FILE")]
+        files: Vec<PathBuf>,
+    },
+    /// Start the interactive session (also what `satline` alone does on a terminal).
+    Repl,
     /// Write a fresh database file from the embedded seed data (needs --db PATH).
     Init {
         /// Replace the file if it exists.
@@ -47,7 +79,7 @@ enum Command {
     Solutes,
 }
 
-/// What went wrong at the command line's edge, with its exit code.
+/// What went wrong in a librarian's command, with its exit code.
 enum Failure {
     Library(Error),
     Usage(String),
@@ -72,10 +104,9 @@ impl From<io::Error> for Failure {
     }
 }
 
-fn run(cli: Cli, out: &mut dyn Write) -> Result<(), Failure> {
-    let db = cli.db.as_deref();
-    match cli.command {
-        Some(Command::Init { force }) => {
+fn librarian(db: Option<&std::path::Path>, command: Command, out: &mut dyn Write) -> Result<(), Failure> {
+    match command {
+        Command::Init { force } => {
             let path = db.ok_or_else(|| {
                 Failure::Usage("init needs a file: satline init --db PATH".to_string())
             })?;
@@ -90,54 +121,58 @@ fn run(cli: Cli, out: &mut dyn Write) -> Result<(), Failure> {
                 summary.sources
             )?;
         }
-        Some(Command::Describe { solute }) => {
+        Command::Describe { solute } => {
             let catalog = Catalog::open(db)?;
             let description = catalog.describe(&solute).map_err(Error::from)?;
             report::write_description(&description, out)?;
         }
-        Some(Command::Solutes) => {
+        Command::Solutes => {
             let catalog = Catalog::open(db)?;
             report::write_solutes(&catalog, out)?;
         }
-        None if !cli.statements.is_empty() => {
-            let engine = satline::engine::Engine::open(db)?;
-            let text = cli.statements.join("\n");
-            let mut session = engine.session();
-            let mut printer = satline::output::Printer::new(out, satline::output::Format::Table);
-            for answer in engine.run_text(&text, &mut session) {
-                printer.print(&answer, &text)?;
-            }
-            printer.flush()?;
-            return Ok(());
-        }
-        None => {
-            return Err(Failure::Usage(
-                "nothing to do; try `satline --help`".to_string(),
-            ));
-        }
+        Command::Run { .. } | Command::Repl => {}
     }
     out.flush()?;
     Ok(())
 }
 
+fn exit(outcome: Outcome) -> ExitCode {
+    ExitCode::from(outcome.code())
+}
+
 fn main() -> ExitCode {
     let cli = Cli::parse();
-    let stdout = io::stdout();
-    let mut out = stdout.lock();
-    match run(cli, &mut out) {
-        Ok(()) => ExitCode::SUCCESS,
-        Err(Failure::Io(e)) if e.kind() == io::ErrorKind::BrokenPipe => ExitCode::SUCCESS,
-        Err(Failure::Io(e)) => {
-            eprintln!("satline: output: {e}");
-            ExitCode::from(3)
+    let db = cli.db.as_deref();
+    match cli.command {
+        Some(Command::Run { files }) => {
+            let sources: Vec<batch::ScriptSource> =
+                files.iter().map(|f| batch::ScriptSource::from_arg(f)).collect();
+            exit(batch::run_std(db, &sources, cli.format))
         }
-        Err(Failure::Usage(message)) => {
-            eprintln!("satline: {message}");
-            ExitCode::from(2)
+        Some(Command::Repl) => exit(frontend::repl::run(db)),
+        Some(command) => {
+            let stdout = io::stdout();
+            let mut out = stdout.lock();
+            match librarian(db, command, &mut out) {
+                Ok(()) => ExitCode::SUCCESS,
+                Err(Failure::Io(e)) if e.kind() == io::ErrorKind::BrokenPipe => ExitCode::SUCCESS,
+                Err(Failure::Io(e)) => {
+                    eprintln!("satline: output: {e}");
+                    ExitCode::from(3)
+                }
+                Err(Failure::Usage(message)) => {
+                    eprintln!("satline: {message}");
+                    ExitCode::from(2)
+                }
+                Err(Failure::Library(e)) => {
+                    eprintln!("satline: {e}");
+                    ExitCode::from(e.exit_code())
+                }
+            }
         }
-        Err(Failure::Library(e)) => {
-            eprintln!("satline: {e}");
-            ExitCode::from(e.exit_code())
+        None if !cli.statements.is_empty() => {
+            exit(batch::run_arguments(db, &cli.statements, cli.format))
         }
+        None => exit(frontend::run_default(db)),
     }
 }

@@ -1,0 +1,551 @@
+//! Batch mode: runs scripts of statements in order, writes every answer through the output
+//! printer, reports problems on the error stream as `file:line:column: message` and decides
+//! the exit status (see `Outcome`). Build tools read the JSON lines and the exit code.
+//!
+//! All scripts are read before any statement runs, so a missing file stops the run before
+//! it has printed anything. One session spans all the scripts of a run, so a first file can
+//! bind names with `let` for the files after it; each file's line numbers are its own.
+
+use std::io::{self, IsTerminal, Read, Write};
+use std::path::{Path, PathBuf};
+
+use crate::answer::{Answer, Row};
+use crate::engine::Engine;
+use crate::frontend::{Outcome, database_name, open_engine};
+use crate::output::number::{display, round_significant};
+use crate::output::{Format, Printer};
+
+/// How standard input is named in messages.
+pub const STDIN_NAME: &str = "<stdin>";
+
+/// How statements given as command-line arguments are named in messages.
+pub const ARGUMENTS_NAME: &str = "<arguments>";
+
+/// Where a script comes from.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum ScriptSource {
+    /// Standard input, given as `-`.
+    Stdin,
+    /// A file.
+    File(PathBuf),
+    /// Statements given on the command line, one per argument.
+    Arguments(Vec<String>),
+}
+
+impl ScriptSource {
+    /// `-` is standard input; anything else is a file.
+    pub fn from_arg(arg: &Path) -> ScriptSource {
+        if arg.as_os_str() == "-" {
+            ScriptSource::Stdin
+        } else {
+            ScriptSource::File(arg.to_path_buf())
+        }
+    }
+
+    /// The name used in messages: the path as given, or `<stdin>`.
+    pub fn name(&self) -> String {
+        match self {
+            ScriptSource::Stdin => STDIN_NAME.to_string(),
+            ScriptSource::File(path) => path.display().to_string(),
+            ScriptSource::Arguments(_) => ARGUMENTS_NAME.to_string(),
+        }
+    }
+}
+
+/// A script read into memory, with the name its messages use.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct Script {
+    pub name: String,
+    pub text: String,
+}
+
+/// What can stop a batch run before or outside the statements themselves (exit 3).
+#[derive(Debug, thiserror::Error)]
+#[non_exhaustive]
+pub enum BatchError {
+    /// A script could not be read: `satline run no-such-file.sl`.
+    #[error("{name}: cannot read the script: {source}")]
+    ReadScript {
+        name: String,
+        #[source]
+        source: io::Error,
+    },
+    /// A script is not UTF-8 text: `satline run notes.sl` where notes.sl was saved as UTF-16.
+    #[error("{name}: the script is not UTF-8 text (invalid byte at offset {offset})")]
+    NotText { name: String, offset: usize },
+    /// The database could not be opened: `satline --db no-such.db run check.sl`.
+    #[error("cannot open {database}: {source}")]
+    OpenStore {
+        database: String,
+        #[source]
+        source: crate::Error,
+    },
+    /// The output could not be written, for a reason other than a closed pipe:
+    /// `satline run check.sl > /dev/full`.
+    #[error("cannot write the output: {0}")]
+    WriteOutput(#[source] io::Error),
+}
+
+/// Reads every script; `stdin` is read for each `-`. Returns the scripts read and the
+/// failures, each naming its file.
+pub fn read_scripts(
+    sources: &[ScriptSource],
+    stdin: &mut impl Read,
+) -> (Vec<Script>, Vec<BatchError>) {
+    let mut scripts = Vec::new();
+    let mut failures = Vec::new();
+    for source in sources {
+        let name = source.name();
+        let bytes = match source {
+            ScriptSource::Stdin => {
+                let mut buf = Vec::new();
+                stdin.read_to_end(&mut buf).map(|_| buf)
+            }
+            ScriptSource::File(path) => std::fs::read(path),
+            ScriptSource::Arguments(statements) => Ok(statements.join("\n").into_bytes()),
+        };
+        match bytes {
+            Ok(bytes) => match String::from_utf8(bytes) {
+                Ok(text) => scripts.push(Script { name, text }),
+                Err(e) => failures.push(BatchError::NotText {
+                    name,
+                    offset: e.utf8_error().valid_up_to(),
+                }),
+            },
+            Err(source) => failures.push(BatchError::ReadScript { name, source }),
+        }
+    }
+    (scripts, failures)
+}
+
+/// A whole batch run: reads the scripts, opens the database, runs every statement.
+/// Answers go to `out` in `format`; problems go to `err`, one per line.
+pub fn run(
+    db: Option<&Path>,
+    sources: &[ScriptSource],
+    format: Format,
+    stdin: &mut impl Read,
+    out: &mut impl Write,
+    err: &mut impl Write,
+) -> Outcome {
+    let (scripts, failures) = read_scripts(sources, stdin);
+    if !failures.is_empty() {
+        for failure in &failures {
+            report(err, &failure.to_string());
+        }
+        return Outcome::Trouble;
+    }
+    let engine = match open_engine(db) {
+        Ok(engine) => engine,
+        Err(source) => {
+            let failure = BatchError::OpenStore {
+                database: database_name(db),
+                source,
+            };
+            report(err, &failure.to_string());
+            return Outcome::Trouble;
+        }
+    };
+    run_scripts(&engine, &scripts, format, out, err)
+}
+
+/// A batch run over the process's standard streams.
+pub fn run_std(db: Option<&Path>, sources: &[ScriptSource], format: Format) -> Outcome {
+    let stdin = io::stdin();
+    let stdout = io::stdout();
+    let stderr = io::stderr();
+    let mut stdin = stdin.lock();
+    let mut stderr = stderr.lock();
+    if stdout.is_terminal() {
+        // A person is reading: each answer appears as it is ready, in step with the
+        // messages on the error stream (standard output is line-buffered).
+        run(
+            db,
+            sources,
+            format,
+            &mut stdin,
+            &mut stdout.lock(),
+            &mut stderr,
+        )
+    } else {
+        // A program is reading: answers are many small writes, and a buffer keeps a long
+        // script from costing a system call per line. It is flushed before returning.
+        let mut out = io::BufWriter::new(stdout.lock());
+        run(db, sources, format, &mut stdin, &mut out, &mut stderr)
+    }
+}
+
+/// Answers statements given as command-line arguments (`satline "<statements>"`), with
+/// the exit codes and messages of a batch run.
+pub fn run_arguments(db: Option<&Path>, statements: &[String], format: Format) -> Outcome {
+    run_std(db, &[ScriptSource::Arguments(statements.to_vec())], format)
+}
+
+/// Runs scripts that are already read, in order, in one session.
+pub fn run_scripts(
+    engine: &Engine,
+    scripts: &[Script],
+    format: Format,
+    out: &mut impl Write,
+    err: &mut impl Write,
+) -> Outcome {
+    let mut printer = Printer::new(out, format);
+    let mut session = engine.session();
+    let mut outcome = Outcome::Success;
+    for script in scripts {
+        let answers = engine.run_text(&script.text, &mut session);
+        let mut locator = Locator::new(&script.text);
+        for answer in &answers {
+            let position = locator.position(answer);
+            if let Some(problem) = judge(&script.name, position, answer) {
+                report(err, &problem.message);
+                outcome = outcome.worst(problem.outcome);
+            }
+            match printer.print(answer, &script.text) {
+                Ok(()) => {}
+                // The reader has gone (`| head`): nobody wants the rest.
+                Err(e) if e.kind() == io::ErrorKind::BrokenPipe => return outcome,
+                Err(e) => {
+                    report(err, &BatchError::WriteOutput(e).to_string());
+                    return Outcome::Trouble;
+                }
+            }
+        }
+    }
+    match printer.flush() {
+        Ok(()) => outcome,
+        Err(e) if e.kind() == io::ErrorKind::BrokenPipe => outcome,
+        Err(e) => {
+            report(err, &BatchError::WriteOutput(e).to_string());
+            Outcome::Trouble
+        }
+    }
+}
+
+/// Writes one problem line. A failure to write to the error stream cannot be reported
+/// anywhere, so it is ignored; the exit status still tells.
+fn report(err: &mut impl Write, message: &str) {
+    let _ = writeln!(err, "{message}");
+}
+
+/// Something wrong with one answer: the line for the error stream and its outcome.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Problem {
+    pub message: String,
+    pub outcome: Outcome,
+}
+
+/// Decides whether an answer is a problem: a statement that could not be answered
+/// (exit 2) or a `require` that did not hold (exit 1). `position` is the statement's line
+/// and column in the script, where known.
+pub fn judge(name: &str, position: Option<(usize, usize)>, answer: &Answer) -> Option<Problem> {
+    if !answer.ok {
+        let message = match &answer.error {
+            Some(error) => format!(
+                "{name}:{}:{}: {} error: {}",
+                error.line, error.column, error.stage, error.message
+            ),
+            None => format!(
+                "{}: could not answer `{}`",
+                located(name, position),
+                answer.statement
+            ),
+        };
+        return Some(Problem {
+            message,
+            outcome: Outcome::Unanswered,
+        });
+    }
+    if answer.holds == Some(false) {
+        let mut message = format!(
+            "{}: requirement did not hold: {}",
+            located(name, position),
+            answer.statement
+        );
+        if let Some(detail) = shortfall(&answer.rows) {
+            message.push_str(": ");
+            message.push_str(&detail);
+        }
+        return Some(Problem {
+            message,
+            outcome: Outcome::RequirementFailed,
+        });
+    }
+    None
+}
+
+fn located(name: &str, position: Option<(usize, usize)>) -> String {
+    match position {
+        Some((line, column)) => format!("{name}:{line}:{column}"),
+        None => name.to_string(),
+    }
+}
+
+/// A number for a message: four significant figures, shortest form.
+fn figure(x: f64) -> String {
+    display(round_significant(x, 4))
+}
+
+/// The limiting row of a failed requirement (the failing row with the least headroom) said
+/// in words: its solute, limiting temperature, headroom and shortfall.
+///
+/// The shortfall is how much headroom is missing: the margin asked for minus the headroom
+/// found. The margin is read from the row's `margin_pct` field when the engine gives it;
+/// without it the shortfall is measured from zero headroom (saturation itself).
+pub fn shortfall(rows: &[Row]) -> Option<String> {
+    let failing = rows.iter().filter(|r| r.holds == Some(false));
+    let limiting = failing
+        .min_by(|a, b| {
+            let a = a.headroom_pct.unwrap_or(f64::INFINITY);
+            let b = b.headroom_pct.unwrap_or(f64::INFINITY);
+            a.total_cmp(&b)
+        })
+        .or_else(|| rows.first())?;
+    let mut parts = Vec::new();
+    if let Some(solute) = &limiting.solute {
+        parts.push(solute.clone());
+    }
+    if let Some(t) = limiting.temperature_c {
+        parts.push(format!("limiting temperature {} C", figure(t)));
+    }
+    if let Some(headroom) = limiting.headroom_pct {
+        let margin = limiting
+            .extra
+            .get("margin_pct")
+            .and_then(|v| v.as_f64())
+            .unwrap_or(0.0);
+        let missing = margin - headroom;
+        let mut text = format!("headroom {}%", figure(headroom));
+        if margin != 0.0 {
+            text.push_str(&format!(" against a margin of {}%", figure(margin)));
+        }
+        if missing > 0.0 {
+            text.push_str(&format!(", short by {} percentage points", figure(missing)));
+        }
+        parts.push(text);
+    }
+    if parts.is_empty() {
+        None
+    } else {
+        Some(parts.join(", "))
+    }
+}
+
+/// Finds where each answered statement stands in its script, for messages about answers
+/// that carry no position of their own (a `require` that did not hold). Statements are
+/// looked for in order, each after the one before.
+struct Locator<'s> {
+    script: &'s str,
+    cursor: usize,
+}
+
+impl<'s> Locator<'s> {
+    fn new(script: &'s str) -> Self {
+        Locator { script, cursor: 0 }
+    }
+
+    /// The 1-based line and column of the answer's statement, if it can be found.
+    fn position(&mut self, answer: &Answer) -> Option<(usize, usize)> {
+        if let Some(error) = &answer.error {
+            self.cursor = self.cursor.max(error.span.1.min(self.script.len()));
+            return Some((error.line, error.column));
+        }
+        let wanted = answer.statement.trim();
+        if wanted.is_empty() {
+            return None;
+        }
+        let rest = self.script.get(self.cursor..)?;
+        let found = self.cursor + rest.find(wanted)?;
+        self.cursor = found + wanted.len();
+        Some(line_and_column(self.script, found))
+    }
+}
+
+/// The 1-based line and column (in characters) of a byte offset.
+fn line_and_column(text: &str, offset: usize) -> (usize, usize) {
+    let before = text.get(..offset).unwrap_or(text);
+    let line = before.matches('\n').count() + 1;
+    let line_start = before.rfind('\n').map(|i| i + 1).unwrap_or(0);
+    let column = before.get(line_start..).unwrap_or("").chars().count() + 1;
+    (line, column)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::answer::{AnswerKind, ErrorReport};
+
+    fn require_answer(statement: &str, rows: Vec<Row>) -> Answer {
+        let mut answer = Answer::new(statement, AnswerKind::Require);
+        answer.holds = Some(rows.iter().all(|r| r.holds == Some(true)));
+        answer.rows = rows;
+        answer
+    }
+
+    fn row(solute: &str, holds: bool, headroom: f64, t: f64) -> Row {
+        Row {
+            solute: Some(solute.into()),
+            holds: Some(holds),
+            headroom_pct: Some(headroom),
+            temperature_c: Some(t),
+            ..Row::default()
+        }
+    }
+
+    #[test]
+    fn failed_requirement_names_statement_temperature_and_shortfall() {
+        let answer = require_answer(
+            "require KCl stays dissolved at 40 g/100g water over cold",
+            vec![row("potassium chloride", false, -12.5, 2.0)],
+        );
+        let problem = judge("check.sl", Some((3, 1)), &answer).unwrap();
+        assert_eq!(problem.outcome, Outcome::RequirementFailed);
+        assert_eq!(
+            problem.message,
+            "check.sl:3:1: requirement did not hold: require KCl stays dissolved at 40 g/100g \
+             water over cold: potassium chloride, limiting temperature 2 C, headroom -12.5%, \
+             short by 12.5 percentage points"
+        );
+    }
+
+    #[test]
+    fn shortfall_against_margin() {
+        let mut limiting = row("potassium chloride", false, 4.0, 2.0);
+        limiting
+            .extra
+            .insert("margin_pct".into(), serde_json::json!(10.0));
+        let rows = vec![row("potassium chloride", true, 30.0, 8.0), limiting];
+        assert_eq!(
+            shortfall(&rows).unwrap(),
+            "potassium chloride, limiting temperature 2 C, headroom 4% against a margin of 10%, \
+             short by 6 percentage points"
+        );
+    }
+
+    #[test]
+    fn held_requirement_and_plain_answers_are_no_problem() {
+        let answer = require_answer("require x", vec![row("x", true, 20.0, 2.0)]);
+        assert!(judge("a", None, &answer).is_none());
+        assert!(
+            judge(
+                "a",
+                None,
+                &Answer::new("describe NaCl", AnswerKind::Describe)
+            )
+            .is_none()
+        );
+    }
+
+    #[test]
+    fn unanswered_statement_reported_with_file_line_column() {
+        let error = ErrorReport {
+            stage: "parse",
+            message: "expected a temperature, found `g/L`".into(),
+            line: 2,
+            column: 23,
+            span: (36, 39),
+        };
+        let answer = Answer::failed("solubility of KNO3 at 5 g/L", AnswerKind::Invalid, error);
+        let problem = judge(STDIN_NAME, None, &answer).unwrap();
+        assert_eq!(problem.outcome, Outcome::Unanswered);
+        assert_eq!(
+            problem.message,
+            "<stdin>:2:23: parse error: expected a temperature, found `g/L`"
+        );
+    }
+
+    #[test]
+    fn locator_finds_statements_in_order() {
+        let script = "let cold = from 2 C to 8 C\n# note\n  require a\nrequire a\n";
+        let mut locator = Locator::new(script);
+        let first = Answer::new("let cold = from 2 C to 8 C", AnswerKind::Let);
+        let second = Answer::new("require a", AnswerKind::Require);
+        assert_eq!(locator.position(&first), Some((1, 1)));
+        assert_eq!(locator.position(&second), Some((3, 3)));
+        assert_eq!(locator.position(&second), Some((4, 1)));
+        assert_eq!(locator.position(&second), None);
+    }
+
+    #[test]
+    fn sources_from_arguments() {
+        assert_eq!(ScriptSource::from_arg(Path::new("-")), ScriptSource::Stdin);
+        assert_eq!(ScriptSource::Stdin.name(), "<stdin>");
+        let file = ScriptSource::from_arg(Path::new("checks/cold.sl"));
+        assert_eq!(file.name(), "checks/cold.sl");
+    }
+
+    #[test]
+    fn unreadable_and_non_text_scripts_are_named() {
+        let missing = ScriptSource::File(PathBuf::from("/no/such/dir/check.sl"));
+        let mut stdin: &[u8] = &[0x66, 0xff, 0x0a];
+        let (scripts, failures) = read_scripts(&[missing, ScriptSource::Stdin], &mut stdin);
+        assert!(scripts.is_empty());
+        assert_eq!(failures.len(), 2);
+        assert!(
+            failures[0]
+                .to_string()
+                .starts_with("/no/such/dir/check.sl: ")
+        );
+        assert_eq!(
+            failures[1].to_string(),
+            "<stdin>: the script is not UTF-8 text (invalid byte at offset 1)"
+        );
+    }
+
+    #[test]
+    fn run_reports_every_unanswered_statement_and_writes_all_answers() {
+        let engine = open_engine(None).unwrap();
+        let scripts = vec![
+            Script {
+                name: "a.sl".into(),
+                text: "\n".into(),
+            },
+            Script {
+                name: "b.sl".into(),
+                text: "nonsense here\n# comment\nmore nonsense\n".into(),
+            },
+        ];
+        let mut out = Vec::new();
+        let mut err = Vec::new();
+        let outcome = run_scripts(&engine, &scripts, Format::Json, &mut out, &mut err);
+        // With any engine these two lines are not statements of the language.
+        assert_eq!(outcome, Outcome::Unanswered);
+        let err = String::from_utf8(err).unwrap();
+        let lines: Vec<&str> = err.lines().collect();
+        assert_eq!(lines.len(), 2, "{err}");
+        assert!(lines[0].starts_with("b.sl:1:"), "{err}");
+        assert!(lines[1].starts_with("b.sl:3:"), "{err}");
+        assert_eq!(String::from_utf8(out).unwrap().lines().count(), 2);
+    }
+
+    /// A writer whose reader has gone, like a pipe into `head` that has closed.
+    struct ClosedPipe;
+
+    impl Write for ClosedPipe {
+        fn write(&mut self, _: &[u8]) -> io::Result<usize> {
+            Err(io::Error::from(io::ErrorKind::BrokenPipe))
+        }
+        fn flush(&mut self) -> io::Result<()> {
+            Err(io::Error::from(io::ErrorKind::BrokenPipe))
+        }
+    }
+
+    #[test]
+    fn closed_pipe_ends_quietly() {
+        let engine = open_engine(None).unwrap();
+        let scripts = vec![Script {
+            name: "a.sl".into(),
+            text: "describe NaCl\ndescribe KCl\n".into(),
+        }];
+        let mut err = Vec::new();
+        let outcome = run_scripts(&engine, &scripts, Format::Table, &mut ClosedPipe, &mut err);
+        assert_ne!(outcome, Outcome::Trouble);
+        assert!(!String::from_utf8(err).unwrap().contains("cannot write"));
+    }
+
+    #[test]
+    fn line_and_column_count_characters() {
+        assert_eq!(line_and_column("ab\ncé x", 7), (2, 4));
+        assert_eq!(line_and_column("abc", 0), (1, 1));
+    }
+}

@@ -1,0 +1,402 @@
+//! Help texts of the interactive session: `help` gives the overview, `help TOPIC` one
+//! statement or subject, with examples that are statements of the acceptance set.
+
+use crate::science::units::{CompositionUnit, PressureUnit, TemperatureUnit};
+
+/// The caution shown once per session (see DESIGN.md, "Cautions").
+pub const CAUTION: &str = "Caution: reference data are for screening. A real formulation \
+(other solutes, pH, supersaturation, seeding, container) can behave differently: confirm \
+with stability testing of the actual product. Follow the safety data sheet, local \
+regulations and licensed practice for hazardous substances (oxidisers, toxic salts, \
+pressurised gases).";
+
+/// One help topic.
+#[derive(Debug, PartialEq, Eq)]
+pub struct Topic {
+    /// The name shown in the topic list and used after `help`.
+    pub name: &'static str,
+    /// Other words that find this topic.
+    pub aliases: &'static [&'static str],
+    /// One line for the overview.
+    pub summary: &'static str,
+    /// The form of the statement, or what the topic is about.
+    pub body: &'static str,
+    /// Statements to try.
+    pub examples: &'static [&'static str],
+}
+
+/// Every topic, statements first, in the order the overview lists them.
+pub const TOPICS: &[Topic] = &[
+    Topic {
+        name: "solubility",
+        aliases: &["lookup"],
+        summary: "how much of a solute dissolves at a temperature",
+        body: "solubility of SOLUTE at TEMPERATURE [in UNIT]\n\
+               The saturated loading of a solute in water. SOLUTE is a formula, a name or a \
+               synonym. The answer is in g/100g water (anhydrous basis) unless a unit is \
+               asked for.",
+        examples: &[
+            "solubility of KNO3 at 20 C",
+            "solubility of potassium nitrate at 68 F in mol/kg",
+        ],
+    },
+    Topic {
+        name: "which",
+        aliases: &["screening", "screen", "stay", "salts", "solutes"],
+        summary: "which solutes stay dissolved at a loading over a range",
+        body: "which salts|solutes stay dissolved at LOADING RANGE [margin PERCENT]\n\
+               Screens every solute of the reference at one loading over a temperature \
+               range. Each row says whether the loading stays dissolved, the headroom to \
+               saturation in percent, and the limiting temperature. With a margin, a solute \
+               passes only when its headroom is at least the margin.",
+        examples: &[
+            "which salts stay dissolved at 30 g/100g water from 2 C to 8 C margin 10%",
+            "which solutes stay dissolved at 1.5 mol/kg at 5 C",
+        ],
+    },
+    Topic {
+        name: "saturation",
+        aliases: &["crystals"],
+        summary: "the temperature below which a loading crystallises",
+        body: "saturation of SOLUTE at LOADING\n\
+               The saturation temperature of a loading: below it crystals can appear. There \
+               is one row per crossing of the solubility curve, in C.",
+        examples: &["saturation of KNO3 at 40 g/100g water"],
+    },
+    Topic {
+        name: "ceiling",
+        aliases: &["maximum", "largest"],
+        summary: "the largest loading that is safe over a range",
+        body: "ceiling of SOLUTE RANGE [margin PERCENT] [in UNIT]\n\
+               The largest loading that stays dissolved over the whole range, less the \
+               margin.",
+        examples: &["ceiling of KCl from 2 C to 8 C margin 10% in mol/kg"],
+    },
+    Topic {
+        name: "heat",
+        aliases: &["heat of solution", "enthalpy"],
+        summary: "the heat of solution at a temperature",
+        body: "heat of solution of SOLUTE at TEMPERATURE\n\
+               The heat of solution in kJ/mol. Positive: the solute dissolves \
+               endothermically and its solubility rises with temperature.",
+        examples: &["heat of solution of KNO3 at 25 C"],
+    },
+    Topic {
+        name: "dissolved",
+        aliases: &["gas", "gases", "henry"],
+        summary: "dissolved gas at a temperature and pressure",
+        body: "dissolved GAS at TEMPERATURE under PRESSURE|air [in UNIT]\n\
+               Gas dissolved in water in equilibrium with the gas at a partial pressure, or \
+               with air. The answer is in mg/L unless a unit is asked for.",
+        examples: &[
+            "dissolved O2 at 25 C under air",
+            "dissolved CO2 at 4 C under 2.5 bar in g/L",
+        ],
+    },
+    Topic {
+        name: "freezing",
+        aliases: &["ice", "eutectic", "chill"],
+        summary: "whether ice or salt comes first when a brine is chilled",
+        body: "freezing of SOLUTE at LOADING at TEMPERATURE\n\
+               Below 0 C: whether the solution at this loading freezes (ice), crystallises \
+               (salt) or stays liquid at the temperature.",
+        examples: &["freezing of NaCl at 10 g/100g water at -10 C"],
+    },
+    Topic {
+        name: "convert",
+        aliases: &["conversion"],
+        summary: "a loading in another unit",
+        body: "convert LOADING of SOLUTE to UNIT\n\
+               Converts a loading of a solute between composition units (the molar mass \
+               comes from the formula; per-litre units need a density).",
+        examples: &["convert 20 g/100g water of KCl to mol/kg"],
+    },
+    Topic {
+        name: "describe",
+        aliases: &["solute"],
+        summary: "what the reference holds about a solute",
+        body: "describe SOLUTE\n\
+               Formula, names, molar mass, the solid phases and the range of the data.",
+        examples: &["describe NaCl"],
+    },
+    Topic {
+        name: "sources",
+        aliases: &["citations", "cite"],
+        summary: "the sources behind a solute's data",
+        body: "sources of SOLUTE\n\
+               Every source of the solute's data, with provenance and review state.",
+        examples: &["sources of NaCl"],
+    },
+    Topic {
+        name: "list",
+        aliases: &["find"],
+        summary: "solutes with a property",
+        body: "list salts|solutes|gases [with anion|cation NAME]\n\
+               Lists the solutes of the reference, optionally by ion.",
+        examples: &["list salts with anion sulfate"],
+    },
+    Topic {
+        name: "let",
+        aliases: &["names", "range", "ranges", "temperature"],
+        summary: "give a temperature range a name",
+        body: "let NAME = RANGE\n\
+               A temperature range is `at T`, `from T1 to T2`, or a name bound with let. \
+               Names last for the session (in a batch run, for the rest of the run); \
+               `forget` unbinds them.",
+        examples: &["let cold = from 2 C to 8 C"],
+    },
+    Topic {
+        name: "require",
+        aliases: &["check", "assert"],
+        summary: "a check for build tools: fails the run when it does not hold",
+        body: "require SOLUTE stays dissolved at LOADING over RANGE [margin PERCENT]\n\
+               Holds when the loading stays dissolved over the whole range with at least \
+               the margin of headroom. In a batch run, one that does not hold makes the \
+               exit code 1 and is named on the error stream with its limiting temperature \
+               and shortfall.",
+        examples: &[
+            "let cold = from 2 C to 8 C",
+            "require KCl stays dissolved at 20 g/100g water over cold margin 10%",
+        ],
+    },
+    Topic {
+        name: "units",
+        aliases: &["unit", "quantities"],
+        summary: "how to write temperatures, loadings and pressures",
+        body: "A quantity is a number and a unit, and the unit decides what it is.",
+        examples: &[],
+    },
+    Topic {
+        name: "session",
+        aliases: &[
+            "commands", "settings", "output", "format", "keys", "forget", "quit",
+        ],
+        summary: "commands and keys of this session",
+        body: "help [TOPIC]       this help, or one topic\n\
+               output [FORMAT]    show answers as table, json or csv (alone: the current one)\n\
+               forget             unbind every name bound with let\n\
+               quit, exit         leave (so does Ctrl-D on an empty line)\n\
+               A line ending in \\ continues on the next line. Tab completes keywords, units \
+               and solute names; Ctrl-C drops the line being typed; the arrow keys walk \
+               the history, which is kept between sessions (set SATLINE_HISTORY to choose \
+               the file).",
+        examples: &[],
+    },
+    Topic {
+        name: "batch",
+        aliases: &["run", "exit", "exit codes", "ci", "scripts"],
+        summary: "running scripts from build tools",
+        body: "satline run FILE... [--format table|json|csv]   (`-` reads standard input)\n\
+               Statements end at a newline or `;`, `#` starts a comment. Exit codes: 0 every \
+               statement answered and every require held; 1 a require did not hold; 2 a \
+               statement could not be parsed or answered (each is reported as \
+               file:line:column: message); 3 the database or a file could not be read.",
+        examples: &[],
+    },
+    Topic {
+        name: "caution",
+        aliases: &["safety"],
+        summary: "what the reference is for, and what it is not",
+        body: CAUTION,
+        examples: &[],
+    },
+];
+
+/// The names of all topics, in overview order.
+pub fn topic_names() -> Vec<&'static str> {
+    TOPICS.iter().map(|t| t.name).collect()
+}
+
+/// Finds a topic by name or alias, ignoring case and extra spaces.
+pub fn find(name: &str) -> Option<&'static Topic> {
+    let wanted = name
+        .split_whitespace()
+        .collect::<Vec<_>>()
+        .join(" ")
+        .to_lowercase();
+    TOPICS
+        .iter()
+        .find(|t| t.name == wanted || t.aliases.contains(&wanted.as_str()))
+}
+
+/// The text of `help`: one line per topic and how to ask for more.
+pub fn overview() -> String {
+    let width = TOPICS.iter().map(|t| t.name.len()).max().unwrap_or(0);
+    let mut text = String::from(
+        "Ask in plain words, one statement per line. For example:\n  \
+         solubility of KNO3 at 20 C\n\nTopics (help TOPIC):\n",
+    );
+    for topic in TOPICS {
+        text.push_str(&format!(
+            "  {:width$}  {}\n",
+            topic.name,
+            topic.summary,
+            width = width
+        ));
+    }
+    text
+}
+
+/// The width help text is wrapped to: fits an 80-column terminal.
+pub const WIDTH: usize = 78;
+
+/// Wraps each line of `text` longer than `width` at spaces (a word longer than the width
+/// stays whole). Lines that fit are left as they are, so aligned lines keep their spacing.
+pub fn wrap(text: &str, width: usize) -> String {
+    let mut wrapped = String::new();
+    for line in text.lines() {
+        if line.chars().count() <= width {
+            wrapped.push_str(line);
+            wrapped.push('\n');
+            continue;
+        }
+        let mut current = String::new();
+        for word in line.split_whitespace() {
+            let needed = current.chars().count() + 1 + word.chars().count();
+            if !current.is_empty() && needed > width {
+                wrapped.push_str(&current);
+                wrapped.push('\n');
+                current.clear();
+            }
+            if !current.is_empty() {
+                current.push(' ');
+            }
+            current.push_str(word);
+        }
+        wrapped.push_str(&current);
+        wrapped.push('\n');
+    }
+    wrapped
+}
+
+/// The text of `help TOPIC`.
+pub fn render(topic: &Topic) -> String {
+    let mut text = wrap(topic.body, WIDTH);
+    if topic.name == "units" {
+        text.push_str(&units_text());
+    }
+    if !topic.examples.is_empty() {
+        text.push_str(if topic.examples.len() == 1 {
+            "Example:\n"
+        } else {
+            "Examples:\n"
+        });
+        for example in topic.examples {
+            text.push_str("  ");
+            text.push_str(example);
+            text.push('\n');
+        }
+    }
+    text
+}
+
+/// The unit symbols, from the one vocabulary of units, so help never disagrees with the
+/// parser.
+fn units_text() -> String {
+    let join = |symbols: Vec<&str>| symbols.join(", ");
+    let loadings = |per_litre: bool| {
+        join(
+            CompositionUnit::ALL
+                .iter()
+                .filter(|u| u.needs_density() == per_litre)
+                .map(|u| u.symbol())
+                .collect(),
+        )
+    };
+    format!(
+        "  temperatures: {}   (5 C, 278.15 K, 41 F)\n  \
+         loadings:     {}\n  \
+         per litre:    {}   (these need the solution's density)\n  \
+         pressures:    {}   (2.5 bar; or `under air`)\n  \
+         margins:      a percentage of headroom, as in `margin 10%`\n",
+        join(TemperatureUnit::ALL.iter().map(|u| u.symbol()).collect()),
+        loadings(false),
+        loadings(true),
+        join(PressureUnit::ALL.iter().map(|u| u.symbol()).collect()),
+    )
+}
+
+/// Every example statement of every topic, in order (for tests that run them).
+pub fn examples() -> impl Iterator<Item = &'static str> {
+    TOPICS.iter().flat_map(|t| t.examples.iter().copied())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// The acceptance set of DESIGN.md ("The query language").
+    const ACCEPTANCE: [&str; 16] = [
+        "solubility of KNO3 at 20 C",
+        "solubility of potassium nitrate at 68 F in mol/kg",
+        "which salts stay dissolved at 30 g/100g water from 2 C to 8 C margin 10%",
+        "which solutes stay dissolved at 1.5 mol/kg at 5 C",
+        "saturation of KNO3 at 40 g/100g water",
+        "ceiling of KCl from 2 C to 8 C margin 10% in mol/kg",
+        "heat of solution of KNO3 at 25 C",
+        "dissolved O2 at 25 C under air",
+        "dissolved CO2 at 4 C under 2.5 bar in g/L",
+        "freezing of NaCl at 10 g/100g water at -10 C",
+        "convert 20 g/100g water of KCl to mol/kg",
+        "describe NaCl",
+        "sources of NaCl",
+        "list salts with anion sulfate",
+        "let cold = from 2 C to 8 C",
+        "require KCl stays dissolved at 20 g/100g water over cold margin 10%",
+    ];
+
+    #[test]
+    fn every_acceptance_statement_is_an_example() {
+        let examples: Vec<&str> = examples().collect();
+        for statement in ACCEPTANCE {
+            assert!(examples.contains(&statement), "no help shows `{statement}`");
+        }
+    }
+
+    #[test]
+    fn names_and_aliases_are_unique() {
+        let mut seen = std::collections::BTreeSet::new();
+        for topic in TOPICS {
+            for word in std::iter::once(&topic.name).chain(topic.aliases) {
+                assert!(seen.insert(*word), "`{word}` names two topics");
+                assert_eq!(find(word).map(|t| t.name), Some(topic.name));
+            }
+        }
+    }
+
+    #[test]
+    fn finds_topics_loosely() {
+        assert_eq!(find("REQUIRE").map(|t| t.name), Some("require"));
+        assert_eq!(find("heat   of solution").map(|t| t.name), Some("heat"));
+        assert_eq!(find("gas").map(|t| t.name), Some("dissolved"));
+        assert!(find("nothing").is_none());
+    }
+
+    #[test]
+    fn wraps_long_lines_only() {
+        assert_eq!(wrap("a bb ccc dddd", 6), "a bb\nccc\ndddd\n");
+        assert_eq!(wrap("short  spaced\nx", 20), "short  spaced\nx\n");
+        for topic in TOPICS {
+            for line in render(topic).lines() {
+                assert!(line.chars().count() <= WIDTH, "too long: {line}");
+            }
+        }
+    }
+
+    #[test]
+    fn overview_lists_every_topic() {
+        let text = overview();
+        for topic in TOPICS {
+            assert!(text.contains(topic.name));
+        }
+    }
+
+    #[test]
+    fn units_topic_lists_the_vocabulary() {
+        let text = render(find("units").unwrap());
+        assert!(text.contains("g/100g water"));
+        assert!(text.contains("mmHg"));
+        let require = render(find("require").unwrap());
+        assert!(require.contains("Examples:\n  let cold = from 2 C to 8 C\n"));
+    }
+}

@@ -222,6 +222,12 @@ pub fn require(snap: &Snapshot, s: &Require, answer: &mut Answer) -> Result<(), 
         temperature_c: Some(celsius(screening.limiting_t_k)),
         holds: Some(screening.holds),
         headroom_pct: Some(headroom(screening.headroom_pct)),
+        extra: [(
+            "margin_pct".to_string(),
+            json!(round_significant(margin * 100.0, 4)),
+        )]
+        .into_iter()
+        .collect(),
         ..Row::default()
     });
     if !screening.holds {

@@ -141,6 +141,35 @@ fn the_default_database_is_built_on_first_use_and_reused() {
 }
 
 #[test]
+fn processes_starting_at_once_share_one_default_database() {
+    let dir = tempfile::tempdir().unwrap();
+    let children: Vec<_> = (0..4)
+        .map(|_| {
+            let mut cmd = std::process::Command::new(assert_cmd::cargo::cargo_bin("satline"));
+            cmd.env_remove("SATLINE_DB")
+                .env("XDG_DATA_HOME", dir.path().join("data"))
+                .arg("solutes")
+                .stdout(std::process::Stdio::piped())
+                .stderr(std::process::Stdio::piped());
+            cmd.spawn().unwrap()
+        })
+        .collect();
+    let outputs: Vec<_> = children
+        .into_iter()
+        .map(|c| c.wait_with_output().unwrap())
+        .collect();
+    for out in &outputs {
+        assert!(out.status.success(), "{}", stderr(out));
+        assert_eq!(stdout(out), stdout(&outputs[0]));
+    }
+    let names: Vec<String> = std::fs::read_dir(dir.path().join("data/satline"))
+        .unwrap()
+        .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
+        .collect();
+    assert_eq!(names, ["default.db"], "temporary files left behind");
+}
+
+#[test]
 fn a_stale_default_database_is_rebuilt_but_a_named_one_is_not() {
     let dir = tempfile::tempdir().unwrap();
     let db = dir.path().join("data/satline/default.db");

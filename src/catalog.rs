@@ -214,6 +214,22 @@ impl Catalog {
 
     /// Finds a solute by slug, name, formula or synonym, ignoring case, extra white space
     /// and the kind of hydrate dot. An exact-case match wins over a case-folded one.
+    ///
+    /// ```
+    /// use satline::catalog::Catalog;
+    /// use satline::store::Store;
+    ///
+    /// // Invented demo seed, not reference data.
+    /// let sources = "[[source]]\nkey = \"demo\"\nkind = \"other\"\ntitle = \"Invented\"\nauthors = \"nobody\"\n";
+    /// let solute = "id = \"demo-salt\"\nname = \"demo salt\"\nformula = \"KNO3\"\nkind = \"salt\"\nions = 2\nsynonyms = [\"saltpetre\"]\n";
+    /// let mut store = Store::open_in_memory()?;
+    /// store.load_seed(&[("sources.toml", sources), ("solutes/demo-salt.toml", solute)])?;
+    /// let catalog = Catalog::from_store(&store)?;
+    /// assert_eq!(catalog.find_solute("kno3").unwrap().id, "demo-salt");
+    /// assert_eq!(catalog.find_solute("Saltpetre").unwrap().id, "demo-salt");
+    /// assert!(catalog.find_solute("KNO4").unwrap_err().to_string().contains("did you mean KNO3?"));
+    /// # Ok::<(), satline::store::StoreError>(())
+    /// ```
     pub fn find_solute(&self, name: &str) -> Result<&Solute, CatalogError> {
         self.exact_names
             .get(&normalise(name))

@@ -10,20 +10,21 @@ use crate::science::units::TemperatureUnit;
 /// The usual caution, said once per report (DESIGN.md, Cautions).
 pub const CAUTION: &str = "Reference data are for screening: a real formulation can behave differently, so confirm with stability testing of the actual product, and follow the safety data sheet for hazardous substances.";
 
-/// Writes the table of solutes: id, name, formula, kind and number of datasets.
+/// Writes the table of solutes: id, name, formula, kind, number of solubility datasets and
+/// of Henry's-law records.
 pub fn write_solutes(catalog: &Catalog, out: &mut dyn Write) -> io::Result<()> {
-    let header = ["id", "name", "formula", "kind", "datasets"];
-    let rows: Vec<[String; 5]> = catalog
+    let header = ["id", "name", "formula", "kind", "datasets", "henry"];
+    let rows: Vec<[String; 6]> = catalog
         .solutes()
         .iter()
         .map(|s| {
-            let datasets = catalog.datasets_of(&s.id).len() + catalog.gas_constants_of(&s.id).len();
             [
                 s.id.clone(),
                 s.name.clone(),
                 s.formula.clone(),
                 s.kind.as_str().to_string(),
-                datasets.to_string(),
+                catalog.datasets_of(&s.id).len().to_string(),
+                catalog.gas_constants_of(&s.id).len().to_string(),
             ]
         })
         .collect();
@@ -35,11 +36,14 @@ pub fn write_solutes(catalog: &Catalog, out: &mut dyn Write) -> io::Result<()> {
     }
     let line = |cells: &[&str]| {
         let mut s = String::new();
+        // Text columns left-aligned, the two counts right-aligned.
         for (i, (cell, w)) in cells.iter().zip(widths).enumerate() {
-            if i + 1 == cells.len() {
-                s.push_str(&format!("{cell:>w$}"));
+            if i >= 4 {
+                s.push_str(&format!("  {cell:>w$}"));
+            } else if i == 0 {
+                s.push_str(&format!("{cell:<w$}"));
             } else {
-                s.push_str(&format!("{cell:<w$}  "));
+                s.push_str(&format!("  {cell:<w$}"));
             }
         }
         s

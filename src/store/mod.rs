@@ -335,6 +335,35 @@ mod tests {
     }
 
     #[test]
+    fn a_file_that_is_not_a_database_is_a_database_error() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = dir.path().join("notes.txt");
+        std::fs::write(
+            &path,
+            "these are notes, not a database, and long enough to have a header",
+        )
+        .unwrap();
+        let err = Store::open(&path).unwrap_err();
+        assert!(matches!(err, StoreError::Sqlite(_)), "{err:?}");
+        assert!(err.to_string().contains("not a database"), "{err}");
+    }
+
+    #[test]
+    fn an_unreadable_stored_value_is_reported() {
+        let store = Store::open_in_memory().unwrap();
+        store
+            .conn
+            .execute_batch(
+                "PRAGMA ignore_check_constraints = ON;
+                 INSERT INTO sources (key, kind, title, authors) VALUES ('s', 'rumour', 't', 'a');",
+            )
+            .unwrap();
+        let err = store.read_all().unwrap_err();
+        assert!(matches!(err, StoreError::Corrupt { .. }), "{err:?}");
+        assert!(err.to_string().contains("source kind \"rumour\""), "{err}");
+    }
+
+    #[test]
     fn opening_a_missing_file_says_so() {
         let err = Store::open(Path::new("/nonexistent/satline.db")).unwrap_err();
         assert!(

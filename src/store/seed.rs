@@ -339,7 +339,7 @@ fn problem(file: &str, record: impl Into<String>, problem: SeedProblem) -> Store
 fn syntax(file: &str, text: &str, e: &toml::de::Error) -> StoreError {
     let record = match e.span() {
         Some(span) => {
-            let before = &text[..span.start.min(text.len())];
+            let before = text.get(..span.start).unwrap_or(text);
             let line = before.matches('\n').count() + 1;
             let column = before.rsplit('\n').next().map_or(0, |l| l.chars().count()) + 1;
             format!("line {line}, column {column}")
@@ -1625,6 +1625,93 @@ points = {points}
         assert!(
             err.to_string().contains("expected [temperature, value]"),
             "{err}"
+        );
+    }
+
+    fn reason(result: Result<Contents, StoreError>) -> String {
+        result.unwrap_err().to_string()
+    }
+
+    #[test]
+    fn solute_files_need_a_sources_file() {
+        let text = solute("[[0, 1.0]]");
+        let message = reason(parse_seed(&[("solutes/demo-salt.toml", text.as_str())]));
+        assert_eq!(
+            message,
+            "seed file sources.toml, whole file: the seed has no sources.toml"
+        );
+        // No files at all is an empty reference.
+        assert_eq!(parse_seed::<&str, &str>(&[]).unwrap(), Contents::default());
+    }
+
+    #[test]
+    fn a_file_outside_the_layout_is_refused() {
+        let message = reason(parse_seed(&[
+            ("sources.toml", SOURCES),
+            ("notes/extra.toml", ""),
+        ]));
+        assert!(message.starts_with("seed file notes/extra.toml, whole file: not a seed file"));
+    }
+
+    #[test]
+    fn a_key_that_is_not_a_slug_is_refused() {
+        let text = solute("[[0, 1.0]]").replace("key = \"d\"", "key = \"Crc 97\"");
+        let message = reason(parse_seed(&[
+            ("sources.toml", SOURCES),
+            ("solutes/demo-salt.toml", text.as_str()),
+        ]));
+        assert!(
+            message.contains("dataset \"Crc 97\": \"Crc 97\" is not a valid key"),
+            "{message}"
+        );
+    }
+
+    #[test]
+    fn impossible_values_are_refused() {
+        let message = reason(parse("[[0, -3.0]]"));
+        assert!(
+            message.contains("point 1: -3 g/100g water is not a possible composition"),
+            "{message}"
+        );
+        let text = solute("[[0, 120]]").replace("g/100g water", "%w/w");
+        let message = reason(parse_seed(&[
+            ("sources.toml", SOURCES),
+            ("solutes/demo-salt.toml", text.as_str()),
+        ]));
+        assert!(
+            message.contains("120 %w/w is not a possible composition"),
+            "{message}"
+        );
+        let text = solute("[[0, 1.0]]").replace("ions = 2\n", "");
+        let message = reason(parse_seed(&[
+            ("sources.toml", SOURCES),
+            ("solutes/demo-salt.toml", text.as_str()),
+        ]));
+        assert!(message.contains("a salt needs `ions`"), "{message}");
+        let text = format!(
+            "{}\n[[henry]]\nkey = \"h\"\nsource = \"demo\"\nprovenance = \"derived\"\nreview = \"unreviewed\"\nform = \"vant-hoff\"\nconvention = \"Hcc\"\nvalue = 1.0\nreference_temperature_k = 298.15\ntemperature_term_k = 0\n",
+            solute("[[0, 1.0]]")
+        );
+        let message = reason(parse_seed(&[
+            ("sources.toml", SOURCES),
+            ("solutes/demo-salt.toml", text.as_str()),
+        ]));
+        assert!(
+            message.contains("henry \"h\": Henry's-law records belong to gases"),
+            "{message}"
+        );
+    }
+
+    #[test]
+    fn a_hydrate_formula_for_the_solute_is_refused() {
+        let text = solute("[[0, 1.0]]").replace("formula = \"KCl\"", "formula = \"KCl·2H2O\"");
+        let message = reason(parse_seed(&[
+            ("sources.toml", SOURCES),
+            ("solutes/demo-salt.toml", text.as_str()),
+        ]));
+        assert!(
+            message.contains("includes water of crystallisation"),
+            "{message}"
         );
     }
 

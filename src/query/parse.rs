@@ -452,16 +452,20 @@ fn unit_at(i: &str) -> Option<UnitMatch> {
     })
 }
 
-fn suggest_unit(word: &str, after_word: &str) -> Option<String> {
-    let symbols = unit_symbols();
-    if let Some(s) = nearest(word, &symbols) {
-        return Some(s.to_string());
-    }
+/// The closest unit symbol, preferring the kind the statement wants there.
+fn suggest_unit(word: &str, after_word: &str, expected: ValueKind) -> Option<String> {
     let (second, _) = next_word(after_word);
-    if second.is_empty() {
-        return None;
-    }
-    nearest(&format!("{word} {second}"), &symbols).map(str::to_string)
+    let two_words = format!("{word} {second}");
+    [Some(expected), None].into_iter().find_map(|kind| {
+        let symbols = unit_symbols(kind);
+        nearest(word, &symbols)
+            .or_else(|| {
+                (!second.is_empty())
+                    .then(|| nearest(&two_words, &symbols))
+                    .flatten()
+            })
+            .map(str::to_string)
+    })
 }
 
 /// A unit nobody knows at `i`, or a missing one after `number`.
@@ -479,7 +483,7 @@ fn unit_fault(cx: Cx, number_start: &str, after_number: &str, expected: ValueKin
             ParseErrorKind::UnknownUnit {
                 expected,
                 found: shorten(word),
-                suggestion: suggest_unit(word, after),
+                suggestion: suggest_unit(word, after, expected),
             },
             cx.span(t, after),
         )
@@ -711,7 +715,7 @@ fn unit_choice<'a>(cx: Cx<'a>, i: &'a str, expected: ValueKind) -> R<'a, (AnyUni
         ParseErrorKind::UnknownUnit {
             expected,
             found: shorten(word),
-            suggestion: suggest_unit(word, after),
+            suggestion: suggest_unit(word, after, expected),
         },
         cx.span(t, after),
     ))

@@ -41,8 +41,8 @@ pub enum ParseErrorKind {
         suggestion: Option<String>,
     },
 
-    /// A keyword, a name or a clause was expected and something else came:
-    /// `solubility KNO3 at 20 C` (expected `of`).
+    /// A keyword, a name or a clause was expected and something else came (here `of`):
+    /// `solubility KNO3 at 20 C`.
     #[error(
         "expected {expected}, found {}{}",
         show_found(found),

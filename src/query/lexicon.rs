@@ -61,6 +61,15 @@ const OTHER_KEYWORDS: [&str; 17] = [
     "air",
 ];
 
+/// Every keyword of the language, for completion in the REPL.
+pub fn keywords() -> impl Iterator<Item = &'static str> {
+    STATEMENT_WORDS
+        .iter()
+        .chain(NAME_STOP.iter())
+        .chain(OTHER_KEYWORDS.iter())
+        .copied()
+}
+
 /// True when `word` (any case) is a word of the language.
 pub fn is_keyword(word: &str) -> bool {
     let lower = word.to_lowercase();

@@ -3,7 +3,7 @@
 
 pub mod ast;
 pub mod error;
-mod lexicon;
+pub mod lexicon;
 pub mod parse;
 
 pub use ast::*;

@@ -196,8 +196,9 @@ fn let_then_require_over_the_name() {
         panic!()
     };
     assert!(close(range.low.value, 2.0) && close(range.high.value, 8.0));
-    // The resolved range points at the name where it was used.
+    // The resolved range points at the name where it was used, inside and out.
     assert_eq!(range.span.text(text), "cold");
+    assert_eq!(range.low.span.text(text), "cold");
 }
 
 #[test]
@@ -757,6 +758,19 @@ fn error_duplicate_clause() {
         ParseErrorKind::DuplicateClause {
             clause: "margin".into()
         }
+    );
+}
+
+#[test]
+fn typeset_minus_and_decimal_comma() {
+    let Statement::Freezing(f) = one("freezing of NaCl at 10 g/100g water at −10 C") else {
+        panic!()
+    };
+    assert!(close(f.temperature.map_or(0.0, |t| t.value), -10.0));
+    let e = fault("which solutes stay dissolved at 1,5 mol/kg at 5 C");
+    assert_eq!(
+        e.to_string(),
+        "expected a number with a decimal point, such as `1.5`, found `1,5`; did you mean `1.5`?"
     );
 }
 

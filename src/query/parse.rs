@@ -376,14 +376,15 @@ fn has_keyword<'a>(i: &'a str, word: &'static str) -> Option<&'a str> {
 // numbers and units
 
 fn starts_number(t: &str) -> bool {
-    let s = t.strip_prefix(['+', '-']).unwrap_or(t);
+    let s = t.strip_prefix(['+', '-', '−']).unwrap_or(t);
     let s = s.strip_prefix('.').unwrap_or(s);
     s.starts_with(|c: char| c.is_ascii_digit())
 }
 
 fn number_text(i: &str) -> R<'_, &str> {
     recognize((
-        opt(one_char_of("+-")),
+        // U+2212, the minus sign of typeset tables, is accepted for `-`.
+        opt(one_char_of("+-−")),
         alt((
             recognize((digit1, opt((char('.'), digit0)))),
             recognize((char('.'), digit1)),
@@ -473,6 +474,17 @@ fn unit_fault(cx: Cx, number_start: &str, after_number: &str, expected: ValueKin
     let t = skip(after_number);
     let (word, after) = next_word(t);
     let number = number_start[..number_start.len() - after_number.len()].to_string();
+    if after_number.starts_with(',') && word.len() > 1 && starts_number(&word[1..]) {
+        // `1,5 mol/kg`: a decimal comma.
+        return failure(
+            ParseErrorKind::Expected {
+                expected: "a number with a decimal point, such as `1.5`".into(),
+                found: Some(shorten(&format!("{number}{word}"))),
+                suggestion: Some(format!("{number}.{}", &word[1..])),
+            },
+            cx.span(number_start, after),
+        );
+    }
     if word.is_empty() || is_keyword(word) {
         failure(
             ParseErrorKind::MissingUnit { expected, number },
@@ -504,7 +516,7 @@ fn quantity<'a>(cx: Cx<'a>, i: &'a str, expected: ValueKind) -> R<'a, Quantity> 
         return Err(soft(t));
     }
     let (after, number) = number_text(t)?;
-    let value = match number.parse::<f64>() {
+    let value = match number.replace('−', "-").parse::<f64>() {
         Ok(v) if v.is_finite() => v,
         _ => {
             return Err(failure(

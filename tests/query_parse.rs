@@ -645,6 +645,8 @@ fn error_unknown_unit() {
             suggestion: Some("mol/kg".into())
         }
     );
+    let e = fault("solubility of KNO3 at 20 C in MOL/KG");
+    assert!(e.to_string().ends_with("did you mean `mol/kg`?"), "{e}");
     let e = fault("solubility of KNO3 at 20 Q");
     assert!(matches!(
         e.kind,

@@ -459,7 +459,13 @@ fn suggest_unit(word: &str, after_word: &str, expected: ValueKind) -> Option<Str
     let two_words = format!("{word} {second}");
     [Some(expected), None].into_iter().find_map(|kind| {
         let symbols = unit_symbols(kind);
-        nearest(word, &symbols)
+        // Units keep their case (`M` is mol/L, `m` mol/kg): `MOL/KG` is a slip of case.
+        let same_letters = symbols
+            .iter()
+            .find(|s| s.eq_ignore_ascii_case(word))
+            .copied();
+        same_letters
+            .or_else(|| nearest(word, &symbols))
             .or_else(|| {
                 (!second.is_empty())
                     .then(|| nearest(&two_words, &symbols))

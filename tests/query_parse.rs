@@ -731,6 +731,15 @@ fn error_unbound_name() {
 }
 
 #[test]
+fn a_unit_where_a_value_belongs_is_not_an_unbound_name() {
+    let e = fault("convert bar of KCl to mol/kg");
+    assert_eq!(
+        e.to_string(),
+        "expected a loading such as `30 g/100g water`, found `bar`"
+    );
+}
+
+#[test]
 fn error_name_kind_mismatch() {
     let e = fault("let dose = 20 g/100g water\nsolubility of KNO3 at dose");
     assert_eq!(

@@ -559,7 +559,8 @@ fn is_name_of_own(word: &str) -> bool {
 fn resolve<'a>(cx: Cx<'a>, i: &'a str, expected: ValueKind) -> R<'a, (String, Value)> {
     let t = skip(i);
     let (word, after) = next_word(t);
-    if !is_name_of_own(word) || is_keyword(word) {
+    // Keywords and unit symbols can never be bound, so they are never "unbound names".
+    if !is_name_of_own(word) || is_keyword(word) || classify(word).is_some() {
         return Err(soft(t));
     }
     let span = cx.span(t, after);

@@ -22,5 +22,5 @@ pub mod lexicon;
 pub mod parse;
 
 pub use ast::*;
-pub use error::{ParseError, ParseErrorKind, line_column};
+pub use error::{ErrorReport, ParseError, ParseErrorKind, line_column};
 pub use parse::{Env, parse_script, parse_statement, parse_with};

@@ -193,11 +193,16 @@ impl Value {
         }
     }
 
-    /// The same value, pointing at `span` (where a name was used rather than bound).
+    /// The same value, every span pointing at `span` (where a name was used rather than
+    /// bound): in a REPL the text of the `let` may be long gone.
     pub(crate) fn at(self, span: Span) -> Value {
         match self {
             Value::Temperature(t) => Value::Temperature(Temperature { span, ..t }),
-            Value::Range(r) => Value::Range(TemperatureRange { span, ..r }),
+            Value::Range(r) => Value::Range(TemperatureRange {
+                low: Temperature { span, ..r.low },
+                high: Temperature { span, ..r.high },
+                span,
+            }),
             Value::Loading(l) => Value::Loading(Loading { span, ..l }),
             Value::Pressure(p) => Value::Pressure(Pressure { span, ..p }),
         }

@@ -41,8 +41,8 @@ pub enum ParseErrorKind {
         suggestion: Option<String>,
     },
 
-    /// A keyword, a name or a clause was expected and something else came:
-    /// `solubility KNO3 at 20 C` (expected `of`).
+    /// A keyword, a name or a clause was expected and something else came (here `of`):
+    /// `solubility KNO3 at 20 C`.
     #[error(
         "expected {expected}, found {}{}",
         show_found(found),
@@ -148,9 +148,55 @@ pub enum ParseErrorKind {
     DuplicateClause { clause: String },
 }
 
+/// A parse error as plain data for a printer (the JSON `error` object): the message, where
+/// it starts (line and column from 1), the byte span and a stable code for the class.
+#[derive(Debug, Clone, PartialEq, Eq, serde::Serialize)]
+pub struct ErrorReport {
+    pub message: String,
+    pub line: usize,
+    pub column: usize,
+    pub span: Span,
+    pub code: &'static str,
+}
+
+impl ParseErrorKind {
+    /// A stable name for the class of fault, for tests and machine readers.
+    pub fn code(&self) -> &'static str {
+        match self {
+            ParseErrorKind::UnknownStatement { .. } => "unknown-statement",
+            ParseErrorKind::Expected { .. } => "expected",
+            ParseErrorKind::WrongQuantity { .. } => "wrong-quantity",
+            ParseErrorKind::WrongUnit { .. } => "wrong-unit",
+            ParseErrorKind::UnknownUnit { .. } => "unknown-unit",
+            ParseErrorKind::MissingUnit { .. } => "missing-unit",
+            ParseErrorKind::InvalidNumber { .. } => "invalid-number",
+            ParseErrorKind::BelowAbsoluteZero { .. } => "below-absolute-zero",
+            ParseErrorKind::ReversedRange { .. } => "reversed-range",
+            ParseErrorKind::MarginOutOfRange { .. } => "margin-out-of-range",
+            ParseErrorKind::NegativeAmount { .. } => "negative-amount",
+            ParseErrorKind::UnboundName { .. } => "unbound-name",
+            ParseErrorKind::NameKindMismatch { .. } => "name-kind-mismatch",
+            ParseErrorKind::ReservedName { .. } => "reserved-name",
+            ParseErrorKind::DuplicateClause { .. } => "duplicate-clause",
+        }
+    }
+}
+
 impl ParseError {
     pub fn new(kind: ParseErrorKind, span: Span) -> Self {
         ParseError { kind, span }
+    }
+
+    /// The error as data, with line and column taken from `source`.
+    pub fn report(&self, source: &str) -> ErrorReport {
+        let (line, column) = self.line_column(source);
+        ErrorReport {
+            message: self.kind.to_string(),
+            line,
+            column,
+            span: self.span,
+            code: self.kind.code(),
+        }
     }
 
     /// Line and column (both from 1) of the start of the fault in `source`.
@@ -217,6 +263,20 @@ mod tests {
         // `x` is at byte 7 (° is two bytes) but column 5.
         assert_eq!(line_column(text, 7), (2, 5));
         assert_eq!(line_column(text, 999), (2, 6));
+    }
+
+    #[test]
+    fn report_gives_line_column_and_code() {
+        let error = ParseError::new(
+            ParseErrorKind::ReservedName { name: "at".into() },
+            Span::new(13, 15),
+        );
+        let report = error.report("describe\nlet at = 5 C");
+        assert_eq!(
+            (report.line, report.column, report.code),
+            (2, 5, "reserved-name")
+        );
+        assert!(report.message.starts_with("expected a name of your own"));
     }
 
     #[test]

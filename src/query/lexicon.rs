@@ -1,6 +1,7 @@
 //! The words of the language (statement words, keywords, the words that end a name) and the
 //! edit distance behind every "did you mean".
 
+use super::ast::ValueKind;
 use crate::science::units::{CompositionUnit, PressureUnit, TemperatureUnit};
 
 /// Words that begin a statement.
@@ -60,6 +61,15 @@ const OTHER_KEYWORDS: [&str; 17] = [
     "air",
 ];
 
+/// Every keyword of the language, for completion in the REPL.
+pub fn keywords() -> impl Iterator<Item = &'static str> {
+    STATEMENT_WORDS
+        .iter()
+        .chain(NAME_STOP.iter())
+        .chain(OTHER_KEYWORDS.iter())
+        .copied()
+}
+
 /// True when `word` (any case) is a word of the language.
 pub fn is_keyword(word: &str) -> bool {
     let lower = word.to_lowercase();
@@ -76,32 +86,51 @@ pub fn ends_name(word: &str) -> bool {
     NAME_STOP.iter().any(|k| *k == lower)
 }
 
-/// Every unit symbol the parser knows, for suggestions.
-pub fn unit_symbols() -> Vec<&'static str> {
-    let mut all: Vec<&'static str> = TemperatureUnit::ALL.iter().map(|u| u.symbol()).collect();
-    all.extend(["°C", "°F"]);
-    all.extend(CompositionUnit::ALL.iter().map(|u| u.symbol()));
-    all.push("%");
-    all.extend(PressureUnit::ALL.iter().map(|u| u.symbol()));
+/// The unit symbols of one kind of quantity, or of every kind (`None`), for suggestions.
+pub fn unit_symbols(kind: Option<ValueKind>) -> Vec<&'static str> {
+    let mut all = Vec::new();
+    let wants = |k: ValueKind| kind.is_none_or(|want| want == k);
+    if wants(ValueKind::Temperature) || kind == Some(ValueKind::TemperatureRange) {
+        all.extend(TemperatureUnit::ALL.iter().map(|u| u.symbol()));
+        all.extend(["°C", "°F"]);
+    }
+    if wants(ValueKind::Loading) {
+        all.extend(CompositionUnit::ALL.iter().map(|u| u.symbol()));
+        all.push("%");
+    }
+    if wants(ValueKind::Pressure) {
+        all.extend(PressureUnit::ALL.iter().map(|u| u.symbol()));
+    }
     all
 }
 
-/// Levenshtein distance over characters, ignoring case. Long inputs are cut to 64
+/// Edit distance over characters, ignoring case: insertions, deletions, substitutions and
+/// swaps of two neighbours (`form` for `from`) each count one. Long inputs are cut to 64
 /// characters: nothing that long is a misspelt keyword.
 pub fn edit_distance(a: &str, b: &str) -> usize {
     let a: Vec<char> = a.to_lowercase().chars().take(64).collect();
     let b: Vec<char> = b.to_lowercase().chars().take(64).collect();
-    let mut previous: Vec<usize> = (0..=b.len()).collect();
-    let mut current = vec![0; b.len() + 1];
-    for (i, ca) in a.iter().enumerate() {
-        current[0] = i + 1;
-        for (j, cb) in b.iter().enumerate() {
-            let substitution = previous[j] + usize::from(ca != cb);
-            current[j + 1] = substitution.min(previous[j + 1] + 1).min(current[j] + 1);
-        }
-        std::mem::swap(&mut previous, &mut current);
+    // d[i][j]: distance between the first i characters of a and the first j of b.
+    let mut d = vec![vec![0usize; b.len() + 1]; a.len() + 1];
+    for (i, row) in d.iter_mut().enumerate() {
+        row[0] = i;
     }
-    previous[b.len()]
+    for (j, cell) in d[0].iter_mut().enumerate() {
+        *cell = j;
+    }
+    for i in 1..=a.len() {
+        for j in 1..=b.len() {
+            let cost = usize::from(a[i - 1] != b[j - 1]);
+            let mut best = (d[i - 1][j] + 1)
+                .min(d[i][j - 1] + 1)
+                .min(d[i - 1][j - 1] + cost);
+            if i > 1 && j > 1 && a[i - 1] == b[j - 2] && a[i - 2] == b[j - 1] {
+                best = best.min(d[i - 2][j - 2] + 1);
+            }
+            d[i][j] = best;
+        }
+    }
+    d[a.len()][b.len()]
 }
 
 /// The candidate closest to `word`, if it is close enough to be a slip of the keyboard:
@@ -139,6 +168,7 @@ mod tests {
         assert_eq!(edit_distance("solubilty", "solubility"), 1);
         assert_eq!(edit_distance("AT", "at"), 0);
         assert_eq!(edit_distance("", "at"), 2);
+        assert_eq!(edit_distance("form", "from"), 1);
     }
 
     #[test]

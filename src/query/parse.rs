@@ -376,14 +376,15 @@ fn has_keyword<'a>(i: &'a str, word: &'static str) -> Option<&'a str> {
 // numbers and units
 
 fn starts_number(t: &str) -> bool {
-    let s = t.strip_prefix(['+', '-']).unwrap_or(t);
+    let s = t.strip_prefix(['+', '-', '−']).unwrap_or(t);
     let s = s.strip_prefix('.').unwrap_or(s);
     s.starts_with(|c: char| c.is_ascii_digit())
 }
 
 fn number_text(i: &str) -> R<'_, &str> {
     recognize((
-        opt(one_char_of("+-")),
+        // U+2212, the minus sign of typeset tables, is accepted for `-`.
+        opt(one_char_of("+-−")),
         alt((
             recognize((digit1, opt((char('.'), digit0)))),
             recognize((char('.'), digit1)),
@@ -452,16 +453,26 @@ fn unit_at(i: &str) -> Option<UnitMatch> {
     })
 }
 
-fn suggest_unit(word: &str, after_word: &str) -> Option<String> {
-    let symbols = unit_symbols();
-    if let Some(s) = nearest(word, &symbols) {
-        return Some(s.to_string());
-    }
+/// The closest unit symbol, preferring the kind the statement wants there.
+fn suggest_unit(word: &str, after_word: &str, expected: ValueKind) -> Option<String> {
     let (second, _) = next_word(after_word);
-    if second.is_empty() {
-        return None;
-    }
-    nearest(&format!("{word} {second}"), &symbols).map(str::to_string)
+    let two_words = format!("{word} {second}");
+    [Some(expected), None].into_iter().find_map(|kind| {
+        let symbols = unit_symbols(kind);
+        // Units keep their case (`M` is mol/L, `m` mol/kg): `MOL/KG` is a slip of case.
+        let same_letters = symbols
+            .iter()
+            .find(|s| s.eq_ignore_ascii_case(word))
+            .copied();
+        same_letters
+            .or_else(|| nearest(word, &symbols))
+            .or_else(|| {
+                (!second.is_empty())
+                    .then(|| nearest(&two_words, &symbols))
+                    .flatten()
+            })
+            .map(str::to_string)
+    })
 }
 
 /// A unit nobody knows at `i`, or a missing one after `number`.
@@ -469,6 +480,17 @@ fn unit_fault(cx: Cx, number_start: &str, after_number: &str, expected: ValueKin
     let t = skip(after_number);
     let (word, after) = next_word(t);
     let number = number_start[..number_start.len() - after_number.len()].to_string();
+    if after_number.starts_with(',') && word.len() > 1 && starts_number(&word[1..]) {
+        // `1,5 mol/kg`: a decimal comma.
+        return failure(
+            ParseErrorKind::Expected {
+                expected: "a number with a decimal point, such as `1.5`".into(),
+                found: Some(shorten(&format!("{number}{word}"))),
+                suggestion: Some(format!("{number}.{}", &word[1..])),
+            },
+            cx.span(number_start, after),
+        );
+    }
     if word.is_empty() || is_keyword(word) {
         failure(
             ParseErrorKind::MissingUnit { expected, number },
@@ -479,7 +501,7 @@ fn unit_fault(cx: Cx, number_start: &str, after_number: &str, expected: ValueKin
             ParseErrorKind::UnknownUnit {
                 expected,
                 found: shorten(word),
-                suggestion: suggest_unit(word, after),
+                suggestion: suggest_unit(word, after, expected),
             },
             cx.span(t, after),
         )
@@ -500,7 +522,7 @@ fn quantity<'a>(cx: Cx<'a>, i: &'a str, expected: ValueKind) -> R<'a, Quantity> 
         return Err(soft(t));
     }
     let (after, number) = number_text(t)?;
-    let value = match number.parse::<f64>() {
+    let value = match number.replace('−', "-").parse::<f64>() {
         Ok(v) if v.is_finite() => v,
         _ => {
             return Err(failure(
@@ -537,7 +559,8 @@ fn is_name_of_own(word: &str) -> bool {
 fn resolve<'a>(cx: Cx<'a>, i: &'a str, expected: ValueKind) -> R<'a, (String, Value)> {
     let t = skip(i);
     let (word, after) = next_word(t);
-    if !is_name_of_own(word) || is_keyword(word) {
+    // Keywords and unit symbols can never be bound, so they are never "unbound names".
+    if !is_name_of_own(word) || is_keyword(word) || classify(word).is_some() {
         return Err(soft(t));
     }
     let span = cx.span(t, after);
@@ -711,7 +734,7 @@ fn unit_choice<'a>(cx: Cx<'a>, i: &'a str, expected: ValueKind) -> R<'a, (AnyUni
         ParseErrorKind::UnknownUnit {
             expected,
             found: shorten(word),
-            suggestion: suggest_unit(word, after),
+            suggestion: suggest_unit(word, after, expected),
         },
         cx.span(t, after),
     ))

@@ -119,6 +119,8 @@ pub struct SourceRef {
 pub struct ErrorReport {
     /// Which stage failed: `parse` or `evaluate`.
     pub stage: &'static str,
+    /// A stable name for the class of fault, e.g. `unknown-solute`, `wrong-quantity`.
+    pub code: &'static str,
     pub message: String,
     /// 1-based line of the fault in the script.
     pub line: usize,

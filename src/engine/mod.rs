@@ -87,19 +87,10 @@ impl Engine {
             .map(|parsed| match parsed {
                 Ok(statement) => self.run(&statement, text),
                 Err(error) => {
-                    let (line, column) = error.line_column(text);
+                    let report = error.report(text);
+                    let line = report.line;
                     let statement = statement_text(text, error.span.start);
-                    let mut answer = Answer::failed(
-                        statement,
-                        AnswerKind::Invalid,
-                        ErrorReport {
-                            stage: "parse",
-                            message: error.to_string(),
-                            line,
-                            column,
-                            span: (error.span.start, error.span.end),
-                        },
-                    );
+                    let mut answer = Answer::failed(statement, AnswerKind::Invalid, report);
                     answer.line = line;
                     answer
                 }
@@ -138,6 +129,7 @@ impl Engine {
                     kind,
                     ErrorReport {
                         stage: "evaluate",
+                        code: error.code(),
                         message: error.to_string(),
                         line,
                         column,

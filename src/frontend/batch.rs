@@ -440,6 +440,7 @@ mod tests {
     fn unanswered_statement_reported_with_file_line_column() {
         let error = ErrorReport {
             stage: "parse",
+            code: "test",
             message: "expected a temperature, found `g/L`".into(),
             line: 2,
             column: 23,

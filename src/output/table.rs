@@ -169,6 +169,7 @@ mod tests {
         let script = "describe NaCl\nsolubility of KNO3 at 5 g/L\n";
         let error = ErrorReport {
             stage: "parse",
+            code: "test",
             message: "expected a temperature".into(),
             line: 2,
             column: 23,

@@ -148,17 +148,6 @@ pub enum ParseErrorKind {
     DuplicateClause { clause: String },
 }
 
-/// A parse error as plain data for a printer (the JSON `error` object): the message, where
-/// it starts (line and column from 1), the byte span and a stable code for the class.
-#[derive(Debug, Clone, PartialEq, Eq, serde::Serialize)]
-pub struct ErrorReport {
-    pub message: String,
-    pub line: usize,
-    pub column: usize,
-    pub span: Span,
-    pub code: &'static str,
-}
-
 impl ParseErrorKind {
     /// A stable name for the class of fault, for tests and machine readers.
     pub fn code(&self) -> &'static str {
@@ -188,14 +177,15 @@ impl ParseError {
     }
 
     /// The error as data, with line and column taken from `source`.
-    pub fn report(&self, source: &str) -> ErrorReport {
+    pub fn report(&self, source: &str) -> crate::answer::ErrorReport {
         let (line, column) = self.line_column(source);
-        ErrorReport {
+        crate::answer::ErrorReport {
+            stage: "parse",
+            code: self.kind.code(),
             message: self.kind.to_string(),
             line,
             column,
-            span: self.span,
-            code: self.kind.code(),
+            span: (self.span.start, self.span.end),
         }
     }
 

@@ -185,15 +185,3 @@ mod tests {
     }
 }
 
-/// Every word of the language, sorted and each once (for completion and help).
-pub fn keywords() -> Vec<&'static str> {
-    let mut words: Vec<&'static str> = STATEMENT_WORDS
-        .iter()
-        .chain(NAME_STOP.iter())
-        .chain(OTHER_KEYWORDS.iter())
-        .copied()
-        .collect();
-    words.sort_unstable();
-    words.dedup();
-    words
-}

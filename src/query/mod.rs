@@ -22,10 +22,13 @@ pub mod lexicon;
 pub mod parse;
 
 pub use ast::*;
-pub use error::{ErrorReport, ParseError, ParseErrorKind, line_column};
+pub use error::{ParseError, ParseErrorKind, line_column};
 pub use parse::{Env, parse_script, parse_statement, parse_with};
 
 /// Every word of the language, sorted and each once (for completion and help).
 pub fn keywords() -> Vec<&'static str> {
-    lexicon::keywords()
+    let mut words: Vec<&'static str> = lexicon::keywords().collect();
+    words.sort_unstable();
+    words.dedup();
+    words
 }

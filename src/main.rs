@@ -104,7 +104,11 @@ impl From<io::Error> for Failure {
     }
 }
 
-fn librarian(db: Option<&std::path::Path>, command: Command, out: &mut dyn Write) -> Result<(), Failure> {
+fn librarian(
+    db: Option<&std::path::Path>,
+    command: Command,
+    out: &mut dyn Write,
+) -> Result<(), Failure> {
     match command {
         Command::Init { force } => {
             let path = db.ok_or_else(|| {
@@ -145,8 +149,10 @@ fn main() -> ExitCode {
     let db = cli.db.as_deref();
     match cli.command {
         Some(Command::Run { files }) => {
-            let sources: Vec<batch::ScriptSource> =
-                files.iter().map(|f| batch::ScriptSource::from_arg(f)).collect();
+            let sources: Vec<batch::ScriptSource> = files
+                .iter()
+                .map(|f| batch::ScriptSource::from_arg(f))
+                .collect();
             exit(batch::run_std(db, &sources, cli.format))
         }
         Some(Command::Repl) => exit(frontend::repl::run(db)),

@@ -112,7 +112,6 @@ fn directory_or_non_text_script_exits_3() {
 }
 
 #[test]
-#[ignore = "needs the engine"]
 fn missing_database_exits_3_and_names_it() {
     let dir = tempfile::tempdir().unwrap();
     write(dir.path(), "check.sl", "describe NaCl\n");
@@ -260,7 +259,6 @@ fn table_output_draws_a_caret_under_the_fault() {
 }
 
 #[test]
-#[ignore = "needs the engine"]
 fn syntax_error_points_at_the_fault() {
     let dir = tempfile::tempdir().unwrap();
     write(
@@ -379,7 +377,6 @@ fn closed_pipe_is_a_clean_exit() {
 // ---- with the engine: exit 0 and exit 1 ----
 
 #[test]
-#[ignore = "needs the engine"]
 fn script_of_answered_statements_and_held_requirements_exits_0() {
     let dir = tempfile::tempdir().unwrap();
     write(
@@ -395,7 +392,6 @@ fn script_of_answered_statements_and_held_requirements_exits_0() {
 }
 
 #[test]
-#[ignore = "needs the engine"]
 fn failing_requirement_exits_1_and_names_the_failing_one() {
     let dir = tempfile::tempdir().unwrap();
     // Potassium nitrate is far less soluble near 2 C than 60 g/100g water (its solubility
@@ -434,7 +430,6 @@ fn failing_requirement_exits_1_and_names_the_failing_one() {
 }
 
 #[test]
-#[ignore = "needs the engine"]
 fn unanswered_statement_outranks_a_failed_requirement() {
     let dir = tempfile::tempdir().unwrap();
     write(
@@ -453,7 +448,6 @@ fn unanswered_statement_outranks_a_failed_requirement() {
 }
 
 #[test]
-#[ignore = "needs the engine"]
 fn every_help_example_is_answered() {
     let dir = tempfile::tempdir().unwrap();
     let script: String = satline::frontend::help::examples()

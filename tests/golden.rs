@@ -59,7 +59,11 @@ fn differs(expected: &Value, actual: &Value, path: &str) -> Option<String> {
         }
         (Value::Array(a), Value::Array(b)) => {
             if a.len() != b.len() {
-                return Some(format!("{path}: expected {} items, got {}", a.len(), b.len()));
+                return Some(format!(
+                    "{path}: expected {} items, got {}",
+                    a.len(),
+                    b.len()
+                ));
             }
             a.iter()
                 .zip(b)
@@ -73,7 +77,10 @@ fn differs(expected: &Value, actual: &Value, path: &str) -> Option<String> {
 #[test]
 fn example_scripts_give_their_golden_answers() {
     let scripts = examples();
-    assert!(!scripts.is_empty(), "no example scripts in grammar/examples");
+    assert!(
+        !scripts.is_empty(),
+        "no example scripts in grammar/examples"
+    );
     let engine = Engine::open(None).expect("embedded default database opens");
     let bless = std::env::var_os("SATLINE_BLESS").is_some();
     let mut failures = Vec::new();
@@ -123,5 +130,9 @@ fn example_scripts_give_their_golden_answers() {
             }
         }
     }
-    assert!(failures.is_empty(), "golden mismatches:\n{}", failures.join("\n"));
+    assert!(
+        failures.is_empty(),
+        "golden mismatches:\n{}",
+        failures.join("\n")
+    );
 }

@@ -62,7 +62,6 @@ fn statement_is_answered_and_the_banner_shows_once() {
 }
 
 #[test]
-#[ignore = "needs the engine"]
 fn statement_shows_its_table() {
     let dir = tempfile::tempdir().unwrap();
     let mut session = start(&dir.path().join("history"), &["repl"]);

@@ -118,7 +118,8 @@ pub fn hazard(solute: &Solute, answer: &mut Answer) {
 /// Caveats for the basis of a number.
 pub fn basis_caveat(basis: Basis, answer: &mut Answer) {
     if basis == Basis::Extrapolated {
-        answer.caveat("extrapolated beyond the data's temperature range, as asked: treat with care");
+        answer
+            .caveat("extrapolated beyond the data's temperature range, as asked: treat with care");
     }
 }
 
@@ -145,7 +146,12 @@ pub fn loading_mass_fraction(loading: &Loading, solute: &Solute) -> Result<f64, 
 }
 
 /// A mass fraction in the unit asked for.
-pub fn in_unit(w: f64, unit: CompositionUnit, solute: &Solute, span: Span) -> Result<f64, EvalError> {
+pub fn in_unit(
+    w: f64,
+    unit: CompositionUnit,
+    solute: &Solute,
+    span: Span,
+) -> Result<f64, EvalError> {
     units::from_mass_fraction(w, unit, &context(solute))
         .map(value)
         .map_err(|e| per_volume(e, unit, span))

@@ -35,10 +35,7 @@ fn laws<'a>(snap: &'a Snapshot, solute: &Solute, options: &Options) -> Vec<&'a G
     laws
 }
 
-fn gas_of<'a>(
-    snap: &'a Snapshot,
-    name: &crate::query::Name,
-) -> Result<&'a Solute, EvalError> {
+fn gas_of<'a>(snap: &'a Snapshot, name: &crate::query::Name) -> Result<&'a Solute, EvalError> {
     let solute = resolve(snap, name)?;
     if solute.kind != SoluteKind::Gas {
         return Err(EvalError::NoData {

@@ -20,7 +20,8 @@ pub fn selects(snap: &Snapshot, solute: &Solute, class: SoluteClass, filters: &[
         SoluteClass::Gases => solute.kind == SoluteKind::Gas,
         SoluteClass::MolecularSolutes => solute.kind == SoluteKind::Molecular,
     };
-    let same = |a: &Option<String>, b: &str| a.as_deref().is_some_and(|a| a.eq_ignore_ascii_case(b));
+    let same =
+        |a: &Option<String>, b: &str| a.as_deref().is_some_and(|a| a.eq_ignore_ascii_case(b));
     in_class
         && filters.iter().all(|filter| match filter {
             Filter::Cation(n) => same(&solute.cation, &n.text),
@@ -107,10 +108,20 @@ pub fn describe(snap: &Snapshot, s: &Describe, answer: &mut Answer) -> Result<()
                 "{convention} = {value} at {reference_temperature_k} K, d ln H/d(1/T) = {temperature_term_k} K"
             ),
             GasLaw::MoleFractionFit {
-                a, b, c, d, scale_k, ..
+                a,
+                b,
+                c,
+                d,
+                scale_k,
+                ..
             } => format!("ln x = {a} + {b}/τ + {c} ln τ + {d} τ, τ = T/{scale_k} K"),
             GasLaw::MolalityFit {
-                a, b, c, d, scale_k, ..
+                a,
+                b,
+                c,
+                d,
+                scale_k,
+                ..
             } => format!("ln m = {a} + {b}/τ + {c} ln τ + {d} τ, τ = T/{scale_k} K"),
         };
         answer.rows.push(Row {
@@ -130,10 +141,7 @@ pub fn describe(snap: &Snapshot, s: &Describe, answer: &mut Answer) -> Result<()
         cite_source(snap, &data.source, answer);
     }
     if answer.rows.len() == 1 {
-        answer.caveat(format!(
-            "{} has no data in this reference yet",
-            solute.name
-        ));
+        answer.caveat(format!("{} has no data in this reference yet", solute.name));
     }
     hazard(solute, answer);
     Ok(())
@@ -169,7 +177,12 @@ pub fn sources(snap: &Snapshot, s: &Sources, answer: &mut Answer) -> Result<(), 
             }
             keys
         }
-        None => snap.catalog.sources().iter().map(|s| s.key.clone()).collect(),
+        None => snap
+            .catalog
+            .sources()
+            .iter()
+            .map(|s| s.key.clone())
+            .collect(),
     };
     for key in keys {
         if let Some(source) = snap.catalog.source(&key) {
@@ -203,7 +216,14 @@ pub fn list(snap: &Snapshot, s: &List, answer: &mut Answer) -> Result<(), EvalEr
                 ("id", json!(solute.id)),
                 ("formula", json!(solute.formula)),
                 ("kind", json!(solute.kind.as_str())),
-                ("data", json!(range.or_else(|| (henry > 0).then(|| format!("{henry} Henry's-law records"))).unwrap_or_else(|| "none yet".into()))),
+                (
+                    "data",
+                    json!(
+                        range
+                            .or_else(|| (henry > 0).then(|| format!("{henry} Henry's-law records")))
+                            .unwrap_or_else(|| "none yet".into())
+                    ),
+                ),
             ]),
             ..Row::default()
         });

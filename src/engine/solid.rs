@@ -5,8 +5,8 @@ use serde_json::json;
 
 use crate::answer::{Answer, Basis, Row};
 use crate::engine::common::{
-    basis_caveat, bounds, celsius, cite_curve, cite_source, curve_error, curve_of, hazard,
-    in_unit, loading_mass_fraction, phase_caveat, resolve, value,
+    basis_caveat, bounds, celsius, cite_curve, cite_source, curve_error, curve_of, hazard, in_unit,
+    loading_mass_fraction, phase_caveat, resolve, value,
 };
 use crate::engine::error::EvalError;
 use crate::engine::records::selects;
@@ -190,7 +190,9 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
         ));
     }
     if unreviewed > 0 {
-        answer.caveat(format!("{unreviewed} of the solutes screened rest on unreviewed data"));
+        answer.caveat(format!(
+            "{unreviewed} of the solutes screened rest on unreviewed data"
+        ));
     }
     answer.caveat(CAUTION);
     Ok(())
@@ -228,7 +230,6 @@ pub fn require(snap: &Snapshot, s: &Require, answer: &mut Answer) -> Result<(), 
         )]
         .into_iter()
         .collect(),
-        ..Row::default()
     });
     if !screening.holds {
         let needed = (1.0 + margin) * 100.0;
@@ -476,7 +477,10 @@ pub fn freezing(snap: &Snapshot, s: &Freezing, answer: &mut Answer) -> Result<()
                 extra: [
                     ("first".to_string(), json!(first)),
                     ("solid_at_temperature".to_string(), json!(check.solid_at_t)),
-                    ("temperature_asked_c".to_string(), json!(celsius(t.kelvin()))),
+                    (
+                        "temperature_asked_c".to_string(),
+                        json!(celsius(t.kelvin())),
+                    ),
                 ]
                 .into_iter()
                 .collect(),
@@ -541,12 +545,13 @@ pub fn convert(snap: &Snapshot, s: &Convert, answer: &mut Answer) -> Result<(), 
     if let Some(basis) = &s.from_basis {
         needs_grams(loading.unit, loading.span)?;
         let water = hydrate_water(basis)?;
-        loading.value = hydrate_to_anhydrous(loading.value, solute.molar_mass, water).map_err(
-            |e| EvalError::Unanswerable {
-                message: e.to_string(),
-                span: loading.span,
-            },
-        )?;
+        loading.value =
+            hydrate_to_anhydrous(loading.value, solute.molar_mass, water).map_err(|e| {
+                EvalError::Unanswerable {
+                    message: e.to_string(),
+                    span: loading.span,
+                }
+            })?;
         answer.caveat(format!(
             "the loading counts grams of {} per 100 g of added water; converted to anhydrous {} per 100 g of total water",
             basis.text, solute.formula
@@ -557,8 +562,9 @@ pub fn convert(snap: &Snapshot, s: &Convert, answer: &mut Answer) -> Result<(), 
     if let Some(basis) = &s.to_basis {
         needs_grams(s.to.unit, s.to.span)?;
         let water = hydrate_water(basis)?;
-        let anhydrous = units::from_mass_fraction(w, CompositionUnit::GramsPer100gWater, &Default::default())
-            .map_err(|e| EvalError::Unanswerable {
+        let anhydrous =
+            units::from_mass_fraction(w, CompositionUnit::GramsPer100gWater, &Default::default())
+                .map_err(|e| EvalError::Unanswerable {
                 message: e.to_string(),
                 span: s.to.span,
             })?;

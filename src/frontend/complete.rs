@@ -223,7 +223,7 @@ mod tests {
         let v = vocabulary();
         assert_eq!(
             v.complete("solu", 4).1,
-            ["solubility", "solutes", "solution"]
+            ["solubility", "solute", "solutes", "solution"]
         );
         let line = "convert 20 g/1";
         assert_eq!(v.complete(line, line.len()).1, ["g/100g water"]);

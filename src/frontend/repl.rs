@@ -373,7 +373,6 @@ mod tests {
     }
 
     #[test]
-    #[ignore = "needs the engine"]
     fn let_names_last_until_forgotten() {
         let engine = open_engine(None).unwrap();
         let mut repl = Repl::new(&engine);

@@ -184,4 +184,3 @@ mod tests {
         assert_eq!(one_of(&["at", "from", "over"]), "`at`, `from` or `over`");
     }
 }
-

@@ -16,6 +16,7 @@ pub mod output;
 pub mod query;
 pub mod report;
 pub mod science;
+pub mod server;
 pub mod store;
 
 pub use error::Error;

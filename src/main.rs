@@ -13,7 +13,7 @@ use clap::{Parser, Subcommand};
 use satline::catalog::Catalog;
 use satline::frontend::{self, Outcome, batch};
 use satline::output::Format;
-use satline::{Error, report, store};
+use satline::{Error, report, server, store};
 
 /// A cited, temperature-dependent solubility reference for people who make aqueous products.
 ///
@@ -77,6 +77,71 @@ enum Command {
     },
     /// List the solutes.
     Solutes,
+    /// Serve the query language and the catalog as HTTP JSON under /v1 (loopback by
+    /// default; read-only unless a token file is given). Stops on Ctrl-C or SIGTERM.
+    Serve(ServeArgs),
+}
+
+/// The flags of `satline serve`; each limit has its documented default.
+#[derive(Debug, clap::Args)]
+struct ServeArgs {
+    /// Address to listen on; anything beyond loopback only when given here.
+    #[arg(long, value_name = "IP:PORT", default_value_t = server::DEFAULT_ADDR)]
+    addr: std::net::SocketAddr,
+    /// File holding the bearer token that write operations need (without it: read-only).
+    #[arg(long, value_name = "FILE")]
+    token_file: Option<PathBuf>,
+    /// Largest request body in bytes (413 past it).
+    #[arg(long, value_name = "BYTES", default_value_t = server::DEFAULT_BODY_BYTES,
+          value_parser = clap::value_parser!(u64).range(1..).map(|n| n as usize))]
+    max_body_bytes: usize,
+    /// Most statements in one query (413 past it).
+    #[arg(long, value_name = "N", default_value_t = server::DEFAULT_STATEMENTS,
+          value_parser = clap::value_parser!(u64).range(1..).map(|n| n as usize))]
+    max_statements: usize,
+    /// Time for a query to arrive and be answered, in milliseconds (408 past it).
+    #[arg(long, value_name = "MS", default_value_t = server::DEFAULT_TIME.as_millis() as u64,
+          value_parser = clap::value_parser!(u64).range(1..))]
+    time_limit_ms: u64,
+    /// Most requests in progress at once (503 past it).
+    #[arg(long, value_name = "N", default_value_t = server::DEFAULT_CONCURRENT,
+          value_parser = clap::value_parser!(u64).range(1..).map(|n| n as usize))]
+    max_concurrent: usize,
+    /// Write no request log lines on the error stream.
+    #[arg(long)]
+    quiet: bool,
+}
+
+/// `satline serve`: the configuration from the flags, then the library serves.
+fn serve(db: Option<&std::path::Path>, args: ServeArgs) -> ExitCode {
+    let token = match args.token_file.as_deref().map(server::Token::from_file) {
+        Some(Err(e)) => {
+            eprintln!("satline: {e}");
+            return ExitCode::from(e.exit_code());
+        }
+        Some(Ok(token)) => Some(token),
+        None => None,
+    };
+    let config = server::Config {
+        addr: args.addr,
+        db: db.map(PathBuf::from),
+        token,
+        limits: server::Limits {
+            body_bytes: args.max_body_bytes,
+            statements: args.max_statements,
+            time: std::time::Duration::from_millis(args.time_limit_ms),
+            concurrent: args.max_concurrent,
+        },
+        log_requests: !args.quiet,
+        stop_on_signals: true,
+    };
+    match server::serve(config) {
+        Ok(()) => ExitCode::SUCCESS,
+        Err(e) => {
+            eprintln!("satline: {e}");
+            ExitCode::from(e.exit_code())
+        }
+    }
 }
 
 /// What went wrong in a librarian's command, with its exit code.
@@ -134,7 +199,7 @@ fn librarian(
             let catalog = Catalog::open(db)?;
             report::write_solutes(&catalog, out)?;
         }
-        Command::Run { .. } | Command::Repl => {}
+        Command::Run { .. } | Command::Repl | Command::Serve(_) => {}
     }
     out.flush()?;
     Ok(())
@@ -156,6 +221,7 @@ fn main() -> ExitCode {
             exit(batch::run_std(db, &sources, cli.format))
         }
         Some(Command::Repl) => exit(frontend::repl::run(db)),
+        Some(Command::Serve(args)) => serve(db, args),
         Some(command) => {
             let stdout = io::stdout();
             let mut out = stdout.lock();

@@ -82,20 +82,36 @@ impl Engine {
     /// Parses and answers every statement of `text`, in order: one answer per statement,
     /// failed ones included (`ok: false`, with line and column relative to `text`).
     pub fn run_text(&self, text: &str, session: &mut Session) -> Vec<Answer> {
-        query::parse_with(text, &mut session.env)
-            .into_iter()
-            .map(|parsed| match parsed {
-                Ok(statement) => self.run(&statement, text),
-                Err(error) => {
-                    let report = error.report(text);
-                    let line = report.line;
-                    let statement = statement_text(text, error.span.start);
-                    let mut answer = Answer::failed(statement, AnswerKind::Invalid, report);
-                    answer.line = line;
-                    answer
-                }
-            })
-            .collect()
+        self.prepare(text, session).answers(self).collect()
+    }
+
+    /// Parses every statement of `text` (binding `let` names in `session`) without answering
+    /// any: `run_text` in two steps, for callers that count the statements first or stop
+    /// between them (the server's limits).
+    pub fn prepare<'t>(&self, text: &'t str, session: &mut Session) -> Prepared<'t> {
+        Prepared {
+            text,
+            parsed: query::parse_with(text, &mut session.env),
+        }
+    }
+
+    /// The answer to one parsed piece of `text`: evaluated, or the parse error as an answer.
+    fn answer_parsed(
+        &self,
+        parsed: &Result<Located<Statement>, query::ParseError>,
+        text: &str,
+    ) -> Answer {
+        match parsed {
+            Ok(statement) => self.run(statement, text),
+            Err(error) => {
+                let report = error.report(text);
+                let line = report.line;
+                let statement = statement_text(text, error.span.start);
+                let mut answer = Answer::failed(statement, AnswerKind::Invalid, report);
+                answer.line = line;
+                answer
+            }
+        }
     }
 
     /// Answers one parsed statement; `text` is the script its spans point into.
@@ -145,6 +161,33 @@ impl Engine {
     /// Solute names, ids, formulas and synonyms, sorted, for completion in the REPL.
     pub fn solute_names(&self) -> &[String] {
         self.snapshot.names()
+    }
+}
+
+/// Statements parsed by [`Engine::prepare`], waiting to be answered in order.
+#[derive(Debug)]
+pub struct Prepared<'t> {
+    text: &'t str,
+    parsed: Vec<Result<Located<Statement>, query::ParseError>>,
+}
+
+impl<'t> Prepared<'t> {
+    /// How many statements the text holds, failed parses included.
+    pub fn len(&self) -> usize {
+        self.parsed.len()
+    }
+
+    /// True when the text holds no statement (only blanks and comments).
+    pub fn is_empty(&self) -> bool {
+        self.parsed.is_empty()
+    }
+
+    /// The answers, one per statement, computed as the iterator is advanced: a caller can
+    /// stop between statements.
+    pub fn answers<'a>(&'a self, engine: &'a Engine) -> impl Iterator<Item = Answer> + 'a {
+        self.parsed
+            .iter()
+            .map(move |parsed| engine.answer_parsed(parsed, self.text))
     }
 }
 

@@ -1,0 +1,554 @@
+//! The routes under `/v1` and their handlers: statements, the catalog's solutes and sources,
+//! its version, health, and the guarded reload. Handlers only read the shared engine; the
+//! statements are answered on blocking threads, off the async workers.
+
+use std::panic::{AssertUnwindSafe, catch_unwind};
+use std::sync::Arc;
+use std::time::Instant;
+
+use axum::Router;
+use axum::body::Body;
+use axum::extract::rejection::{PathRejection, QueryRejection};
+use axum::extract::{Path, Query, State};
+use axum::http::{HeaderMap, Method, StatusCode, Uri, header};
+use axum::middleware;
+use axum::response::{IntoResponse, Response};
+use axum::routing::{get, post};
+use serde::Deserialize;
+use serde_json::{Value, json};
+
+use super::layers::{catch_panic, log_request, panic_message};
+use super::limits::{Permit, admit, read_body};
+use super::reply::{self, ApiError, ErrorFields, line_column};
+use super::{Shared, auth};
+use crate::answer::{Answer, AnswerKind};
+use crate::catalog::{Catalog, citation};
+use crate::engine::Engine;
+use crate::model::{Solute, SoluteKind, Source};
+
+/// Every route, for the 404 message.
+const ROUTES: &str = "POST /v1/query, GET /v1/solutes, GET /v1/solutes/{name}, GET /v1/sources, \
+GET /v1/sources/{key}, GET /v1/version, GET /v1/health, POST /v1/admin/reload";
+
+/// The routes with the layers every request goes through.
+pub(crate) fn router(state: Shared) -> Router {
+    routes()
+        .fallback(no_such_route)
+        .method_not_allowed_fallback(method_not_allowed)
+        .layer(middleware::from_fn_with_state(state.clone(), admit))
+        .layer(middleware::from_fn(catch_panic))
+        .layer(middleware::from_fn_with_state(state.clone(), log_request))
+        .with_state(state)
+}
+
+fn routes() -> Router<Shared> {
+    Router::new()
+        .route("/v1/query", post(query))
+        .route("/v1/solutes", get(solutes))
+        .route("/v1/solutes/{name}", get(solute))
+        .route("/v1/sources", get(sources))
+        .route("/v1/sources/{key}", get(source))
+        .route("/v1/version", get(version))
+        .route("/v1/health", get(health))
+        .route("/v1/admin/reload", post(reload))
+}
+
+async fn no_such_route(method: Method, uri: Uri) -> ApiError {
+    ApiError::new(
+        StatusCode::NOT_FOUND,
+        "no-such-route",
+        format!("no route {method} {}; the routes are {ROUTES}", uri.path()),
+    )
+}
+
+async fn method_not_allowed(method: Method, uri: Uri) -> ApiError {
+    ApiError::new(
+        StatusCode::METHOD_NOT_ALLOWED,
+        "method-not-allowed",
+        format!(
+            "{} does not take {method}; the routes are {ROUTES}",
+            uri.path()
+        ),
+    )
+}
+
+/// A query sent as JSON.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct QueryBody {
+    query: String,
+}
+
+/// Whether the body is JSON by its content type (`application/json` or `...+json`).
+fn is_json(headers: &HeaderMap) -> bool {
+    headers
+        .get(header::CONTENT_TYPE)
+        .and_then(|v| v.to_str().ok())
+        .and_then(|v| v.split(';').next())
+        .map(|v| v.trim().to_ascii_lowercase())
+        .is_some_and(|v| v == "application/json" || v.ends_with("+json"))
+}
+
+fn time_limit(state: &Shared) -> ApiError {
+    ApiError::new(
+        StatusCode::REQUEST_TIMEOUT,
+        "time-limit",
+        format!(
+            "the query was not read and answered within {} ms (--time-limit-ms)",
+            state.limits.time.as_millis()
+        ),
+    )
+}
+
+/// The query text of a body: plain text, or the `query` field of a JSON object.
+fn query_text(headers: &HeaderMap, body: &[u8]) -> Result<String, ApiError> {
+    let text = std::str::from_utf8(body).map_err(|e| {
+        let valid = e.valid_up_to();
+        // The prefix before the bad byte is valid UTF-8, so its lines and columns count.
+        let prefix = std::str::from_utf8(&body[..valid]).unwrap_or("");
+        let (line, column) = line_column(prefix, prefix.len());
+        ApiError::with_fields(
+            StatusCode::BAD_REQUEST,
+            ErrorFields::new(
+                "not-utf8",
+                format!("the body is not UTF-8 text (invalid byte at offset {valid})"),
+            )
+            .at(line, column),
+        )
+    })?;
+    if !is_json(headers) {
+        return Ok(text.to_string());
+    }
+    serde_json::from_str::<QueryBody>(text)
+        .map(|q| q.query)
+        .map_err(|e| {
+            ApiError::with_fields(
+                StatusCode::BAD_REQUEST,
+                ErrorFields::new(
+                    "bad-json",
+                    format!("the body is not a JSON object {{\"query\": \"...\"}}: {e}"),
+                )
+                .at(e.line().max(1), e.column().max(1)),
+            )
+        })
+}
+
+/// What answering a query came to, decided on the blocking thread.
+enum Evaluated {
+    /// The status and the serialised reply.
+    Reply(StatusCode, Vec<u8>),
+    TooMany(usize),
+    TimedOut,
+}
+
+/// Answers every statement of `text` in one fresh session, stopping when the deadline
+/// passes. The status: 200 when at least one statement was answered (failed ones have
+/// `ok: false`); 400 when every statement failed to parse; 422 when every statement failed
+/// and at least one parsed but could not be answered; 400 for a query with no statement.
+fn evaluate(engine: &Engine, text: &str, max_statements: usize, deadline: Instant) -> Evaluated {
+    let mut session = engine.session();
+    let prepared = engine.prepare(text, &mut session);
+    if prepared.is_empty() {
+        let fields = ErrorFields::new("empty-query", "the query holds no statement");
+        return Evaluated::Reply(StatusCode::BAD_REQUEST, reply::error_body(&fields, None));
+    }
+    if prepared.len() > max_statements {
+        return Evaluated::TooMany(prepared.len());
+    }
+    let mut answers: Vec<Answer> = Vec::with_capacity(prepared.len());
+    for answer in prepared.answers(engine) {
+        if Instant::now() > deadline {
+            return Evaluated::TimedOut;
+        }
+        answers.push(answer);
+    }
+    if answers.iter().any(|a| a.ok) {
+        return match serde_json::to_vec(&answers) {
+            Ok(body) => Evaluated::Reply(StatusCode::OK, body),
+            Err(e) => internal(format!("could not write the answers: {e}")),
+        };
+    }
+    let all_parse = answers.iter().all(|a| a.kind == AnswerKind::Invalid);
+    let status = if all_parse {
+        StatusCode::BAD_REQUEST
+    } else {
+        StatusCode::UNPROCESSABLE_ENTITY
+    };
+    // The first failure the status is about: the first parse error, or the first
+    // statement that parsed but could not be answered.
+    let first = answers
+        .iter()
+        .find(|a| all_parse || a.kind != AnswerKind::Invalid)
+        .and_then(|a| a.error.as_ref());
+    let fields = match first {
+        Some(report) => ErrorFields::from_report(report),
+        None => ErrorFields::new("unanswered", "no statement could be answered"),
+    };
+    Evaluated::Reply(status, reply::error_body(&fields, Some(&answers)))
+}
+
+fn internal(message: String) -> Evaluated {
+    let fields = ErrorFields::new("internal", message);
+    Evaluated::Reply(
+        StatusCode::INTERNAL_SERVER_ERROR,
+        reply::error_body(&fields, None),
+    )
+}
+
+/// `POST /v1/query`: the answers to the statements of the body, the same JSON objects as
+/// `satline run --format json`, as one array.
+async fn query(
+    State(state): State<Shared>,
+    permit: Option<axum::Extension<Permit>>,
+    headers: HeaderMap,
+    body: Body,
+) -> Response {
+    let started = Instant::now();
+    let deadline = started + state.limits.time;
+    let read = tokio::time::timeout(
+        state.limits.time,
+        read_body(&headers, body, state.limits.body_bytes),
+    );
+    let bytes = match read.await {
+        Err(_) => return time_limit(&state).into_response(),
+        Ok(Err(e)) => return e.into_response(),
+        Ok(Ok(bytes)) => bytes,
+    };
+    let text = match query_text(&headers, &bytes) {
+        Ok(text) => text,
+        Err(e) => return e.into_response(),
+    };
+    let engine = state.engine();
+    let max_statements = state.limits.statements;
+    let task = tokio::task::spawn_blocking(move || {
+        // The permit lives as long as the evaluation, even past a timed-out reply.
+        let _permit = permit;
+        catch_unwind(AssertUnwindSafe(|| {
+            evaluate(&engine, &text, max_statements, deadline)
+        }))
+    });
+    let remaining = deadline.saturating_duration_since(Instant::now());
+    match tokio::time::timeout(remaining, task).await {
+        Err(_) | Ok(Ok(Ok(Evaluated::TimedOut))) => time_limit(&state).into_response(),
+        Ok(Ok(Ok(Evaluated::Reply(status, body)))) => reply::bytes(status, body),
+        Ok(Ok(Ok(Evaluated::TooMany(n)))) => ApiError::new(
+            StatusCode::PAYLOAD_TOO_LARGE,
+            "too-many-statements",
+            format!(
+                "the query holds {n} statements; at most {} are answered per request \
+                 (--max-statements)",
+                state.limits.statements
+            ),
+        )
+        .into_response(),
+        Ok(Ok(Err(payload))) => ApiError::internal(format!(
+            "the engine failed while answering: {}",
+            panic_message(payload.as_ref())
+        ))
+        .into_response(),
+        Ok(Err(e)) => ApiError::internal(format!("the evaluation was lost: {e}")).into_response(),
+    }
+}
+
+fn bad_parameter(message: String) -> ApiError {
+    ApiError::new(StatusCode::BAD_REQUEST, "bad-parameter", message)
+}
+
+/// The filters of `GET /v1/solutes`; each matches case-insensitively.
+#[derive(Debug, Default)]
+struct Filters {
+    kind: Option<SoluteKind>,
+    tag: Option<String>,
+    cation: Option<String>,
+    anion: Option<String>,
+}
+
+impl Filters {
+    fn from_pairs(pairs: Vec<(String, String)>) -> Result<Filters, ApiError> {
+        let mut f = Filters::default();
+        for (name, value) in pairs {
+            let value = value.trim().to_string();
+            let slot = match name.as_str() {
+                "kind" => {
+                    let kind = match value.to_ascii_lowercase().as_str() {
+                        "salt" => SoluteKind::Salt,
+                        "molecular" => SoluteKind::Molecular,
+                        "gas" => SoluteKind::Gas,
+                        _ => {
+                            return Err(bad_parameter(format!(
+                                "kind must be salt, molecular or gas, not \"{value}\""
+                            )));
+                        }
+                    };
+                    if f.kind.replace(kind).is_some() {
+                        return Err(bad_parameter("kind is given twice".into()));
+                    }
+                    continue;
+                }
+                "tag" => &mut f.tag,
+                "cation" => &mut f.cation,
+                "anion" => &mut f.anion,
+                other => {
+                    return Err(bad_parameter(format!(
+                        "unknown filter \"{other}\"; the filters are kind, tag, cation, anion"
+                    )));
+                }
+            };
+            if slot.replace(value).is_some() {
+                return Err(bad_parameter(format!("{name} is given twice")));
+            }
+        }
+        Ok(f)
+    }
+
+    fn admits(&self, s: &Solute) -> bool {
+        let same = |want: &Option<String>, have: Option<&str>| match want {
+            None => true,
+            Some(w) => have.is_some_and(|h| h.eq_ignore_ascii_case(w)),
+        };
+        self.kind.is_none_or(|k| k == s.kind)
+            && (self.tag.is_none() || s.tags.iter().any(|t| same(&self.tag, Some(t))))
+            && same(&self.cation, s.cation.as_deref())
+            && same(&self.anion, s.anion.as_deref())
+    }
+}
+
+/// A solute's record with how many datasets and Henry's-law records it has.
+fn solute_summary(catalog: &Catalog, s: &Solute) -> Value {
+    let mut v = serde_json::to_value(s).unwrap_or(Value::Null);
+    if let Value::Object(map) = &mut v {
+        map.insert("datasets".into(), catalog.datasets_of(&s.id).len().into());
+        map.insert("henry".into(), catalog.gas_constants_of(&s.id).len().into());
+    }
+    v
+}
+
+/// A source's record with its full citation.
+fn source_record(s: &Source) -> Value {
+    let mut v = serde_json::to_value(s).unwrap_or(Value::Null);
+    if let Value::Object(map) = &mut v {
+        map.insert("citation".into(), citation(s).into());
+    }
+    v
+}
+
+/// `GET /v1/solutes?kind=&tag=&cation=&anion=`: the solutes that pass every filter given.
+async fn solutes(
+    State(state): State<Shared>,
+    query: Result<Query<Vec<(String, String)>>, QueryRejection>,
+) -> Response {
+    let pairs = match query {
+        Ok(Query(pairs)) => pairs,
+        Err(e) => {
+            return bad_parameter(format!("the query string cannot be read: {e}")).into_response();
+        }
+    };
+    let filters = match Filters::from_pairs(pairs) {
+        Ok(f) => f,
+        Err(e) => return e.into_response(),
+    };
+    let engine = state.engine();
+    let catalog = engine.catalog();
+    let list: Vec<Value> = catalog
+        .solutes()
+        .iter()
+        .filter(|s| filters.admits(s))
+        .map(|s| solute_summary(catalog, s))
+        .collect();
+    reply::json(
+        StatusCode::OK,
+        &json!({"count": list.len(), "solutes": list}),
+    )
+}
+
+fn path_error(e: PathRejection) -> ApiError {
+    bad_parameter(format!("the path cannot be read: {e}"))
+}
+
+/// `GET /v1/solutes/{name}`: one solute (by slug, name, formula or synonym) with its
+/// datasets and their points, Henry's-law records, freezing data and full citations.
+async fn solute(
+    State(state): State<Shared>,
+    name: Result<Path<String>, PathRejection>,
+) -> Response {
+    let name = match name {
+        Ok(Path(name)) => name,
+        Err(e) => return path_error(e).into_response(),
+    };
+    let engine = state.engine();
+    let description = match engine.catalog().describe(&name) {
+        Ok(d) => d,
+        Err(e) => {
+            return ApiError::new(StatusCode::NOT_FOUND, "unknown-solute", e.to_string())
+                .into_response();
+        }
+    };
+    let sources: Vec<Value> = description
+        .sources
+        .iter()
+        .map(|s| source_record(s))
+        .collect();
+    reply::json(
+        StatusCode::OK,
+        &json!({
+            "solute": solute_summary(engine.catalog(), description.solute),
+            "datasets": description.datasets,
+            "gas_constants": description.gas_constants,
+            "freezing": description.freezing,
+            "sources": sources,
+        }),
+    )
+}
+
+/// `GET /v1/sources`: every source with its citation.
+async fn sources(State(state): State<Shared>) -> Response {
+    let engine = state.engine();
+    let list: Vec<Value> = engine
+        .catalog()
+        .sources()
+        .iter()
+        .map(source_record)
+        .collect();
+    reply::json(
+        StatusCode::OK,
+        &json!({"count": list.len(), "sources": list}),
+    )
+}
+
+/// `GET /v1/sources/{key}`: one source by its key.
+async fn source(State(state): State<Shared>, key: Result<Path<String>, PathRejection>) -> Response {
+    let key = match key {
+        Ok(Path(key)) => key,
+        Err(e) => return path_error(e).into_response(),
+    };
+    let engine = state.engine();
+    match engine.catalog().source(&key) {
+        Some(s) => reply::json(StatusCode::OK, &json!({"source": source_record(s)})),
+        None => ApiError::new(
+            StatusCode::NOT_FOUND,
+            "unknown-source",
+            format!("no source has the key \"{key}\""),
+        )
+        .into_response(),
+    }
+}
+
+fn version_of(engine: &Engine) -> Value {
+    json!({
+        "satline": env!("CARGO_PKG_VERSION"),
+        "schema_version": engine.catalog().schema_version(),
+        "fingerprint": engine.catalog().fingerprint(),
+    })
+}
+
+/// `GET /v1/version`: the crate version, the store's schema version, the data fingerprint.
+async fn version(State(state): State<Shared>) -> Response {
+    reply::json(StatusCode::OK, &version_of(&state.engine()))
+}
+
+/// `GET /v1/health`: the server is up and answering.
+async fn health() -> Response {
+    reply::json(StatusCode::OK, &json!({"status": "ok"}))
+}
+
+/// `POST /v1/admin/reload`: re-reads the database and swaps in a fresh engine; requests
+/// already running finish on the snapshot they started with. Needs the bearer token.
+async fn reload(State(state): State<Shared>, headers: HeaderMap) -> Response {
+    if let Err(e) = auth::authorize(state.token.as_ref(), &headers) {
+        return e.into_response();
+    }
+    let db = state.db.clone();
+    let opened = tokio::task::spawn_blocking(move || Engine::open(db.as_deref())).await;
+    let fresh = match opened {
+        Ok(Ok(engine)) => engine,
+        Ok(Err(e)) => {
+            return ApiError::new(
+                StatusCode::INTERNAL_SERVER_ERROR,
+                "store",
+                format!("the database could not be read again; the old data stay: {e}"),
+            )
+            .into_response();
+        }
+        Err(e) => {
+            return ApiError::internal(format!("the reload was lost: {e}")).into_response();
+        }
+    };
+    let previous = state.swap(Arc::new(fresh));
+    let now = state.engine();
+    let mut body = version_of(&now);
+    if let Value::Object(map) = &mut body {
+        map.insert("reloaded".into(), true.into());
+        map.insert(
+            "previous_fingerprint".into(),
+            previous.catalog().fingerprint().into(),
+        );
+    }
+    reply::json(StatusCode::OK, &body)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn pairs(list: &[(&str, &str)]) -> Vec<(String, String)> {
+        list.iter()
+            .map(|(a, b)| (a.to_string(), b.to_string()))
+            .collect()
+    }
+
+    #[test]
+    fn filters_refuse_unknown_names_values_and_repeats() {
+        assert!(Filters::from_pairs(pairs(&[("kind", "salt"), ("anion", "sulfate")])).is_ok());
+        for bad in [
+            pairs(&[("colour", "blue")]),
+            pairs(&[("kind", "metal")]),
+            pairs(&[("tag", "a"), ("tag", "b")]),
+        ] {
+            let e = Filters::from_pairs(bad).unwrap_err();
+            assert_eq!(e.status, StatusCode::BAD_REQUEST);
+            assert_eq!(e.fields.code, "bad-parameter");
+        }
+    }
+
+    #[test]
+    fn json_content_types() {
+        let mut h = HeaderMap::new();
+        assert!(!is_json(&h));
+        h.insert(
+            header::CONTENT_TYPE,
+            "application/json; charset=utf-8".parse().unwrap(),
+        );
+        assert!(is_json(&h));
+        h.insert(header::CONTENT_TYPE, "text/plain".parse().unwrap());
+        assert!(!is_json(&h));
+    }
+
+    #[test]
+    fn statuses_of_failed_queries() {
+        let engine = Engine::open_embedded().unwrap();
+        let far = Instant::now() + std::time::Duration::from_secs(60);
+        let status = |text: &str| match evaluate(&engine, text, 100, far) {
+            Evaluated::Reply(status, _) => status,
+            Evaluated::TooMany(_) => StatusCode::PAYLOAD_TOO_LARGE,
+            Evaluated::TimedOut => StatusCode::REQUEST_TIMEOUT,
+        };
+        assert_eq!(status("solubility of KNO3 at 20 C"), StatusCode::OK);
+        assert_eq!(status("solubilty of KNO3 at 20 C"), StatusCode::BAD_REQUEST);
+        assert_eq!(status("describe KNO4"), StatusCode::UNPROCESSABLE_ENTITY);
+        assert_eq!(
+            status("solubilty of KNO3\ndescribe KNO4"),
+            StatusCode::UNPROCESSABLE_ENTITY
+        );
+        assert_eq!(status("solubilty of KNO3\ndescribe KNO3"), StatusCode::OK);
+        assert_eq!(status("# nothing\n"), StatusCode::BAD_REQUEST);
+        let past = Instant::now() - std::time::Duration::from_millis(1);
+        assert!(matches!(
+            evaluate(&engine, "describe KNO3", 100, past),
+            Evaluated::TimedOut
+        ));
+        assert!(matches!(
+            evaluate(&engine, "describe KNO3; describe KCl", 1, far),
+            Evaluated::TooMany(2)
+        ));
+    }
+}

@@ -110,6 +110,10 @@ struct ServeArgs {
     /// Write no request log lines on the error stream.
     #[arg(long)]
     quiet: bool,
+    /// Answer every query on the blocking pool, even a single lookup (by default a short
+    /// query of light statements is answered on the async worker).
+    #[arg(long)]
+    offload_all: bool,
 }
 
 /// `satline serve`: the configuration from the flags, then the library serves.
@@ -133,6 +137,7 @@ fn serve(db: Option<&std::path::Path>, args: ServeArgs) -> ExitCode {
             concurrent: args.max_concurrent,
         },
         log_requests: !args.quiet,
+        inline_light: !args.offload_all,
         stop_on_signals: true,
     };
     match server::serve(config) {

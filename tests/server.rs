@@ -236,6 +236,15 @@ fn acceptance_set_answers_match_batch_mode() {
     assert_eq!(reply.status, 200);
     assert_eq!(reply.json(), Value::Array(expected));
 
+    // Every statement on the blocking pool gives the same answers.
+    let offloaded = start(Config {
+        inline_light: false,
+        ..quiet(Limits::default())
+    })
+    .unwrap();
+    let reply = Client::connect(offloaded.addr()).query(ACCEPTANCE);
+    assert_eq!(reply.json(), Value::Array(batch_answers(ACCEPTANCE)));
+
     // Statement by statement too (the require with the let it uses).
     let lines: Vec<&str> = ACCEPTANCE.lines().collect();
     for line in &lines[..14] {

@@ -182,6 +182,18 @@ impl<'t> Prepared<'t> {
         self.parsed.is_empty()
     }
 
+    /// Whether every statement is light: answered from one or two curve evaluations or
+    /// records, in microseconds (a lookup at one temperature, heat of solution, dissolved
+    /// gas, conversion, sources, `let`, `require`, and statements that failed to parse).
+    /// Screening, saturation, ceiling, freezing, describe and list walk curves or the whole
+    /// catalog and can take a millisecond or more.
+    pub fn is_light(&self) -> bool {
+        self.parsed.iter().all(|parsed| match parsed {
+            Ok(statement) => is_light(&statement.node),
+            Err(_) => true,
+        })
+    }
+
     /// The answers, one per statement, computed as the iterator is advanced: a caller can
     /// stop between statements.
     pub fn answers<'a>(&'a self, engine: &'a Engine) -> impl Iterator<Item = Answer> + 'a {
@@ -199,6 +211,24 @@ fn statement_text(text: &str, offset: usize) -> String {
         .find(['\n', ';'])
         .map_or(text.len(), |i| offset + i);
     text.get(start..end).unwrap_or("").trim().to_string()
+}
+
+fn is_light(statement: &Statement) -> bool {
+    match statement {
+        Statement::Solubility(_)
+        | Statement::HeatOfSolution(_)
+        | Statement::DissolvedGas(_)
+        | Statement::Convert(_)
+        | Statement::Sources(_)
+        | Statement::Let(_)
+        | Statement::Require(_) => true,
+        Statement::Screen(_)
+        | Statement::Saturation(_)
+        | Statement::Ceiling(_)
+        | Statement::Freezing(_)
+        | Statement::Describe(_)
+        | Statement::List(_) => false,
+    }
 }
 
 fn kind_of(statement: &Statement) -> AnswerKind {
@@ -222,4 +252,32 @@ fn kind_of(statement: &Statement) -> AnswerKind {
 /// Keywords of the query language, for completion and help.
 pub fn keywords() -> Vec<&'static str> {
     query::keywords()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn prepare_counts_and_answers_like_run_text() {
+        let engine = Engine::open_embedded().unwrap();
+        let text = "solubility of KNO3 at 20 C; solubilty of KCl\ndescribe NaCl";
+        let mut session = engine.session();
+        let prepared = engine.prepare(text, &mut session);
+        assert_eq!(prepared.len(), 3);
+        assert!(!prepared.is_light());
+        let answers: Vec<Answer> = prepared.answers(&engine).collect();
+        assert_eq!(answers, engine.run_text(text, &mut engine.session()));
+    }
+
+    #[test]
+    fn one_value_statements_are_light() {
+        let engine = Engine::open_embedded().unwrap();
+        let mut session = engine.session();
+        let light = "solubility of KNO3 at 20 C\nconvert 20 g/100g water of KCl to mol/kg";
+        assert!(engine.prepare(light, &mut session).is_light());
+        let heavy = "which salts stay dissolved at 30 g/100g water at 5 C";
+        assert!(!engine.prepare(heavy, &mut session).is_light());
+        assert!(engine.prepare("", &mut session).is_empty());
+    }
 }

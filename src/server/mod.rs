@@ -109,6 +109,10 @@ pub struct Config {
     pub limits: Limits,
     /// One JSON line per request on the error stream.
     pub log_requests: bool,
+    /// Answer a short query of light statements (a lookup, a conversion: microseconds) on
+    /// the async worker instead of handing it to the blocking pool; heavier queries always
+    /// go to the pool. `--offload-all` turns this off.
+    pub inline_light: bool,
     /// Stop gracefully on SIGINT or SIGTERM (the command line); tests stop by `Running::stop`.
     pub stop_on_signals: bool,
 }
@@ -121,6 +125,7 @@ impl Default for Config {
             token: None,
             limits: Limits::default(),
             log_requests: true,
+            inline_light: true,
             stop_on_signals: false,
         }
     }
@@ -134,6 +139,7 @@ pub(crate) struct AppState {
     limits: Limits,
     permits: Arc<Semaphore>,
     log_requests: bool,
+    inline_light: bool,
 }
 
 pub(crate) type Shared = Arc<AppState>;
@@ -231,6 +237,7 @@ pub fn start(config: Config) -> Result<Running, ServerError> {
         limits: config.limits,
         permits: Arc::new(Semaphore::new(config.limits.concurrent.max(1))),
         log_requests: config.log_requests,
+        inline_light: config.inline_light,
     });
     let app = routes::router(state);
     let (stop, stopped) = oneshot::channel::<()>();

@@ -23,7 +23,7 @@ use super::reply::{self, ApiError, ErrorFields, line_column};
 use super::{Shared, auth};
 use crate::answer::{Answer, AnswerKind};
 use crate::catalog::{Catalog, citation};
-use crate::engine::Engine;
+use crate::engine::{Engine, Prepared};
 use crate::model::{Solute, SoluteKind, Source};
 
 /// Every route, for the 404 message.
@@ -71,6 +71,11 @@ async fn method_not_allowed(method: Method, uri: Uri) -> ApiError {
         ),
     )
 }
+
+/// The longest query text that may be answered on the async worker when it is light.
+const INLINE_BYTES: usize = 1024;
+/// The most statements a query answered on the async worker may hold.
+const INLINE_STATEMENTS: usize = 4;
 
 /// A query sent as JSON.
 #[derive(Debug, Deserialize)]
@@ -148,6 +153,16 @@ enum Evaluated {
 fn evaluate(engine: &Engine, text: &str, max_statements: usize, deadline: Instant) -> Evaluated {
     let mut session = engine.session();
     let prepared = engine.prepare(text, &mut session);
+    answer_prepared(engine, &prepared, max_statements, deadline)
+}
+
+/// [`evaluate`] once the statements are parsed.
+fn answer_prepared(
+    engine: &Engine,
+    prepared: &Prepared<'_>,
+    max_statements: usize,
+    deadline: Instant,
+) -> Evaluated {
     if prepared.is_empty() {
         let fields = ErrorFields::new("empty-query", "the query holds no statement");
         return Evaluated::Reply(StatusCode::BAD_REQUEST, reply::error_body(&fields, None));
@@ -220,6 +235,17 @@ async fn query(
     };
     let engine = state.engine();
     let max_statements = state.limits.statements;
+    // A short query of light statements costs microseconds, less than the hand-over to a
+    // blocking thread and back; it is answered here. Everything else goes to the blocking
+    // pool, off the async workers.
+    if state.inline_light && text.len() <= INLINE_BYTES {
+        let mut session = engine.session();
+        let prepared = engine.prepare(&text, &mut session);
+        if prepared.len() <= INLINE_STATEMENTS && prepared.is_light() {
+            let evaluated = answer_prepared(&engine, &prepared, max_statements, deadline);
+            return evaluated_reply(&state, evaluated);
+        }
+    }
     let task = tokio::task::spawn_blocking(move || {
         // The permit lives as long as the evaluation, even past a timed-out reply.
         let _permit = permit;
@@ -229,9 +255,22 @@ async fn query(
     });
     let remaining = deadline.saturating_duration_since(Instant::now());
     match tokio::time::timeout(remaining, task).await {
-        Err(_) | Ok(Ok(Ok(Evaluated::TimedOut))) => time_limit(&state).into_response(),
-        Ok(Ok(Ok(Evaluated::Reply(status, body)))) => reply::bytes(status, body),
-        Ok(Ok(Ok(Evaluated::TooMany(n)))) => ApiError::new(
+        Err(_) => time_limit(&state).into_response(),
+        Ok(Ok(Ok(evaluated))) => evaluated_reply(&state, evaluated),
+        Ok(Ok(Err(payload))) => ApiError::internal(format!(
+            "the engine failed while answering: {}",
+            panic_message(payload.as_ref())
+        ))
+        .into_response(),
+        Ok(Err(e)) => ApiError::internal(format!("the evaluation was lost: {e}")).into_response(),
+    }
+}
+
+fn evaluated_reply(state: &Shared, evaluated: Evaluated) -> Response {
+    match evaluated {
+        Evaluated::TimedOut => time_limit(state).into_response(),
+        Evaluated::Reply(status, body) => reply::bytes(status, body),
+        Evaluated::TooMany(n) => ApiError::new(
             StatusCode::PAYLOAD_TOO_LARGE,
             "too-many-statements",
             format!(
@@ -241,12 +280,6 @@ async fn query(
             ),
         )
         .into_response(),
-        Ok(Ok(Err(payload))) => ApiError::internal(format!(
-            "the engine failed while answering: {}",
-            panic_message(payload.as_ref())
-        ))
-        .into_response(),
-        Ok(Err(e)) => ApiError::internal(format!("the evaluation was lost: {e}")).into_response(),
     }
 }
 

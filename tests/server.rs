@@ -704,3 +704,23 @@ fn the_command_line_serves_logs_and_stops_on_sigint() {
     assert!(rest.contains("\"path\":\"/v1/admin/reload\""), "{rest}");
     assert!(rest.contains("satline: stopped"), "{rest}");
 }
+
+#[test]
+fn start_reports_a_missing_database_and_a_taken_port() {
+    use satline::server::ServerError;
+    let dir = tempfile::tempdir().unwrap();
+    let missing = start(Config {
+        db: Some(dir.path().join("missing.db")),
+        ..quiet(Limits::default())
+    });
+    assert!(
+        matches!(missing, Err(ServerError::OpenStore { .. })),
+        "{missing:?}"
+    );
+    let running = server();
+    let taken = start(Config {
+        addr: running.addr(),
+        ..quiet(Limits::default())
+    });
+    assert!(matches!(taken, Err(ServerError::Bind { .. })), "{taken:?}");
+}

@@ -342,3 +342,22 @@ fn salts_whose_curve_rises_have_a_positive_heat_of_solution() {
     }
     assert!(checked >= 25, "only {checked} salts checked");
 }
+
+#[test]
+fn an_ion_filter_names_the_family() {
+    // Seed anions "hydrogen phosphate" and "dihydrogen phosphate" are phosphates; the seed
+    // cation "copper(II)" is copper.
+    let e = engine();
+    let a = answer(&e, "list salts with anion phosphate");
+    let names: Vec<&str> = a.rows.iter().filter_map(|r| r.solute.as_deref()).collect();
+    assert!(names.contains(&"disodium hydrogen phosphate"), "{names:?}");
+    assert!(
+        names.contains(&"potassium dihydrogen phosphate"),
+        "{names:?}"
+    );
+    assert!(!names.contains(&"sodium sulfate"));
+    let a = answer(&e, "list salts with cation copper");
+    assert_eq!(a.rows.len(), 1);
+    let a = answer(&e, "list salts with cation sodium and anion sulfate");
+    assert_eq!(a.rows[0].solute.as_deref(), Some("sodium sulfate"));
+}

@@ -159,10 +159,12 @@ impl Store {
             report
                 .outliers
                 .extend(findings::outliers(d, solute.molar_mass));
+            // Each pair once, looked at from whichever side has points inside the other.
             for o in live.iter().skip(i + 1) {
-                report
-                    .conflicts
-                    .extend(findings::conflict(d, o, solute, tolerance));
+                report.conflicts.extend(
+                    findings::conflict(d, o, solute, tolerance)
+                        .or_else(|| findings::conflict(o, d, solute, tolerance)),
+                );
             }
         }
         Ok(report)

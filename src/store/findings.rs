@@ -8,11 +8,12 @@ use crate::model::{Dataset, Solute};
 use crate::science::formula::water_molar_mass;
 use crate::science::units::CompositionUnit;
 
-/// How far (relative, in mass fraction) a point may lie from the straight line through its
-/// two neighbours before it is reported as an outlier. Solubility curves of one solid phase
-/// are smooth; over the 10–20 K steps of printed tables the curvature of a steep curve (such
-/// as potassium nitrate's) puts an interior point about 5 % off that line, so 20 % is well
-/// clear of it (common practice: a generous screen, not a statistical test).
+/// How far (relative, in mass fraction) a point may lie from the curve through its two
+/// neighbours before it is reported as an outlier. The curve is a straight line in
+/// ln(mass fraction) against 1/T, the van 't Hoff form a solubility follows when its heat
+/// of solution changes slowly (a fact of the trade); steep hydrate branches and gentle
+/// retrograde ones both sit close to it over the 10–20 K steps of printed tables, so 20 %
+/// is a generous screen for a typing mistake, not a statistical test.
 pub const OUTLIER_TOLERANCE: f64 = 0.20;
 
 /// The default tolerance for a conflict between two sources: 5 % of the other source's
@@ -67,15 +68,13 @@ pub fn outliers(d: &Dataset, molar_mass: f64) -> Vec<Finding> {
     let mut out = Vec::new();
     for (i, w) in d.points.windows(3).enumerate() {
         let (a, p, b) = (w[0], w[1], w[2]);
-        let span = b.temperature_k - a.temperature_k;
-        if span <= 0.0 {
+        let span = 1.0 / b.temperature_k - 1.0 / a.temperature_k;
+        if span == 0.0 || a.mass_fraction <= 0.0 || b.mass_fraction <= 0.0 {
             continue;
         }
-        let expected = a.mass_fraction
-            + (b.mass_fraction - a.mass_fraction) * (p.temperature_k - a.temperature_k) / span;
-        if expected <= 0.0 {
-            continue;
-        }
+        let (la, lb) = (a.mass_fraction.ln(), b.mass_fraction.ln());
+        let expected =
+            (la + (lb - la) * (1.0 / p.temperature_k - 1.0 / a.temperature_k) / span).exp();
         let off = (p.mass_fraction - expected).abs() / expected;
         if off > OUTLIER_TOLERANCE {
             let expected_reported = unit
@@ -105,6 +104,9 @@ pub fn outliers(d: &Dataset, molar_mass: f64) -> Vec<Finding> {
 /// The other dataset's mass fraction at `t_k`, by straight lines between its points; `None`
 /// outside its first to last point.
 fn mass_fraction_at(d: &Dataset, t_k: f64) -> Option<f64> {
+    if let [only] = d.points.as_slice() {
+        return ((only.temperature_k - t_k).abs() < 1e-9).then_some(only.mass_fraction);
+    }
     d.points.windows(2).find_map(|w| {
         let (a, b) = (w[0], w[1]);
         (a.temperature_k <= t_k && t_k <= b.temperature_k && b.temperature_k > a.temperature_k)
@@ -112,10 +114,6 @@ fn mass_fraction_at(d: &Dataset, t_k: f64) -> Option<f64> {
                 a.mass_fraction
                     + (b.mass_fraction - a.mass_fraction) * (t_k - a.temperature_k)
                         / (b.temperature_k - a.temperature_k)
-            })
-            .or_else(|| {
-                (d.points.len() == 1 && (a.temperature_k - t_k).abs() < 1e-9)
-                    .then_some(a.mass_fraction)
             })
     })
 }

@@ -577,12 +577,16 @@ fn compare(incoming: &Contents, existing: &Contents, options: &ImportOptions) ->
                 });
                 continue;
             }
-            plan.findings
-                .extend(findings::conflict(d, o, solute, options.tolerance));
+            plan.findings.extend(
+                findings::conflict(d, o, solute, options.tolerance)
+                    .or_else(|| findings::conflict(o, d, solute, options.tolerance)),
+            );
         }
         for o in written.iter().skip(i + 1) {
-            plan.findings
-                .extend(findings::conflict(d, o, solute, options.tolerance));
+            plan.findings.extend(
+                findings::conflict(d, o, solute, options.tolerance)
+                    .or_else(|| findings::conflict(o, d, solute, options.tolerance)),
+            );
         }
     }
     plan

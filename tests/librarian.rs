@@ -559,3 +559,85 @@ fn a_reader_during_an_import_sees_before_or_after() {
     }
     assert_eq!(seen.last(), Some(&(40, 40, 4000)));
 }
+
+// ---- the documented inputs of the librarian's error variants --------------------------
+
+#[test]
+fn each_librarian_error_is_triggered_by_its_documented_input() {
+    let dir = tempfile::tempdir().unwrap();
+    let (_, mut store) = database(dir.path());
+    // UnknownSolute: `satline history KNO4`.
+    assert!(matches!(
+        store.history("KNO4"),
+        Err(StoreError::UnknownSolute { .. })
+    ));
+    // UnknownDataset: `satline review approve kno3/crc-97`.
+    let err = store
+        .review("kno3/crc-97", Decision::Approve, "n", "t")
+        .unwrap_err();
+    assert!(matches!(err, StoreError::UnknownDataset { .. }), "{err}");
+    assert!(err.is_bad_input());
+    // UnknownSourceKey: `satline source edit crc-98 --year 2017`.
+    let err = store
+        .edit_source(
+            "crc-98",
+            &satline::store::sources::SourceFields {
+                year: Some(2017),
+                ..Default::default()
+            },
+            "t",
+        )
+        .unwrap_err();
+    assert!(matches!(err, StoreError::UnknownSourceKey { .. }), "{err}");
+    // NotEmptyDirectory: `satline export --to toml --out DIR` into a directory with files.
+    let out = dir.path().join("out");
+    std::fs::create_dir_all(&out).unwrap();
+    std::fs::write(out.join("keep.txt"), "x").unwrap();
+    let err = satline::store::export::export(
+        &store.read_all().unwrap(),
+        satline::store::export::ExportFormat::Toml,
+        &out,
+        false,
+    )
+    .unwrap_err();
+    assert!(matches!(err, StoreError::NotEmptyDirectory { .. }), "{err}");
+    // Import: a CSV row with `value` = `abc` (see the large import test) and an unknown
+    // column.
+    let message = refused(
+        &store,
+        &[file(
+            "x.csv",
+            &format!("{HEADER},colour\ninvented-x,KCl,KCl,0,C,1,%w/w,invented-a,red\n"),
+        )],
+    );
+    assert!(
+        message.contains("line 1: unknown column \"colour\""),
+        "{message}"
+    );
+    // A file that is neither TOML nor CSV.
+    let message = refused(&store, &[file("notes.txt", "hello")]);
+    assert!(message.contains("not an import file"), "{message}");
+}
+
+#[test]
+fn henry_records_are_reviewed_like_datasets() {
+    let dir = tempfile::tempdir().unwrap();
+    let (_, mut store) = database(dir.path());
+    let gas = "id = \"invented-gas\"\nname = \"invented gas\"\nformula = \"O2\"\nkind = \"gas\"\n\
+               [[henry]]\nkey = \"h\"\nsource = \"invented-a\"\nprovenance = \"derived\"\n\
+               review = \"reviewed\"\nform = \"vant-hoff\"\nconvention = \"Hcc\"\nvalue = 0.03\n\
+               reference_temperature_k = 298.15\ntemperature_term_k = 1500\n";
+    import(&mut store, &[file("invented-gas.toml", gas)]);
+    let waiting = store.unreviewed().unwrap();
+    assert_eq!(waiting.len(), 1);
+    assert_eq!(
+        (waiting[0].kind, waiting[0].key.as_str()),
+        ("henry", "invented-gas/h")
+    );
+    store
+        .review("invented-gas/h", Decision::Approve, "checked", "t")
+        .unwrap();
+    assert!(store.unreviewed().unwrap().is_empty());
+    let (_, history) = store.history("invented-gas").unwrap();
+    assert_eq!(history.last().unwrap().entity, "henry:invented-gas/h");
+}

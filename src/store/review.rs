@@ -9,9 +9,11 @@ use serde::Serialize;
 use super::{Store, StoreError, audit};
 use crate::model::Review;
 
-/// A dataset waiting for review.
+/// A record waiting for review: a dataset, a Henry's-law record or freezing data.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Unreviewed {
+    /// `dataset`, `henry` or `freezing`.
+    pub kind: &'static str,
     pub key: String,
     pub solute: String,
     pub source: String,
@@ -23,15 +25,27 @@ pub struct Unreviewed {
 /// Writes the datasets waiting for review, one a line.
 pub fn write_unreviewed(list: &[Unreviewed], out: &mut dyn std::io::Write) -> std::io::Result<()> {
     if list.is_empty() {
-        return writeln!(out, "no unreviewed datasets");
+        return writeln!(out, "nothing is waiting for review");
     }
-    writeln!(out, "{} unreviewed dataset(s):", list.len())?;
+    writeln!(out, "{} unreviewed record(s):", list.len())?;
     for u in list {
-        writeln!(
-            out,
-            "  {}  phase {}, source {}, {}, {} points",
-            u.key, u.phase, u.source, u.provenance, u.points
-        )?;
+        match u.kind {
+            "dataset" => writeln!(
+                out,
+                "  {}  phase {}, source {}, {}, {} points",
+                u.key, u.phase, u.source, u.provenance, u.points
+            )?,
+            "henry" => writeln!(
+                out,
+                "  {}  Henry's-law record, source {}, {}",
+                u.key, u.source, u.provenance
+            )?,
+            _ => writeln!(
+                out,
+                "  {}  freezing table, source {}, {}, {} points",
+                u.key, u.source, u.provenance, u.points
+            )?,
+        }
     }
     Ok(())
 }
@@ -51,28 +65,42 @@ pub enum Retirement {
 }
 
 impl Store {
-    /// Datasets that are unreviewed and not retired, by key.
+    /// Records that are unreviewed (datasets not retired), datasets first, each by key.
     pub fn unreviewed(&self) -> Result<Vec<Unreviewed>, StoreError> {
         let mut stmt = self.conn.prepare_cached(
-            "SELECT d.key, d.solute, d.source, p.formula, d.provenance,
+            "SELECT 0, d.key, d.solute, d.source, p.formula, d.provenance,
                     (SELECT COUNT(*) FROM points WHERE dataset = d.key)
              FROM datasets d JOIN phases p ON p.id = d.phase
-             WHERE d.review = 'unreviewed' AND d.retired = 0 ORDER BY d.key",
+             WHERE d.review = 'unreviewed' AND d.retired = 0
+             UNION ALL
+             SELECT 1, key, solute, source, '-', provenance, 0 FROM gas_constants
+             WHERE review = 'unreviewed'
+             UNION ALL
+             SELECT 2, f.key, f.solute, f.source, '-', f.provenance,
+                    (SELECT COUNT(*) FROM freezing_points WHERE freezing = f.key)
+             FROM freezing f WHERE f.review = 'unreviewed'
+             ORDER BY 1, 2",
         )?;
         let rows = stmt.query_map([], |r| {
             Ok(Unreviewed {
-                key: r.get(0)?,
-                solute: r.get(1)?,
-                source: r.get(2)?,
-                phase: r.get(3)?,
-                provenance: r.get(4)?,
-                points: r.get::<_, i64>(5)?.try_into().unwrap_or(0),
+                kind: match r.get::<_, i64>(0)? {
+                    0 => "dataset",
+                    1 => "henry",
+                    _ => "freezing",
+                },
+                key: r.get(1)?,
+                solute: r.get(2)?,
+                source: r.get(3)?,
+                phase: r.get(4)?,
+                provenance: r.get(5)?,
+                points: r.get::<_, i64>(6)?.try_into().unwrap_or(0),
             })
         })?;
         Ok(rows.collect::<Result<_, _>>()?)
     }
 
-    /// Approves (reviewed) or rejects a dataset, with the reviewer's note.
+    /// Approves (reviewed) or rejects a dataset, Henry's-law record or freezing table (looked
+    /// up by key in that order), with the reviewer's note.
     pub fn review(
         &mut self,
         key: &str,
@@ -81,14 +109,26 @@ impl Store {
         actor: &str,
     ) -> Result<(), StoreError> {
         let tx = self.conn.transaction()?;
-        let state: Option<String> = tx
-            .query_row(
-                "SELECT review FROM datasets WHERE key = ?1",
-                params![key],
-                |r| r.get(0),
-            )
-            .optional()?;
-        let before = state.ok_or_else(|| StoreError::UnknownDataset {
+        // Fixed table names, never text from the user.
+        let mut found = None;
+        for (table, kind) in [
+            ("datasets", "dataset"),
+            ("gas_constants", "henry"),
+            ("freezing", "freezing"),
+        ] {
+            let state: Option<String> = tx
+                .query_row(
+                    &format!("SELECT review FROM {table} WHERE key = ?1"),
+                    params![key],
+                    |r| r.get(0),
+                )
+                .optional()?;
+            if let Some(state) = state {
+                found = Some((table, kind, state));
+                break;
+            }
+        }
+        let (table, kind, before) = found.ok_or_else(|| StoreError::UnknownDataset {
             key: key.to_string(),
         })?;
         let (after, action) = match decision {
@@ -97,18 +137,18 @@ impl Store {
         };
         if before == after.as_str() {
             return Err(StoreError::NoChange {
-                what: format!("dataset {key} is already {before}"),
+                what: format!("{kind} {key} is already {before}"),
             });
         }
         tx.execute(
-            "UPDATE datasets SET review = ?1 WHERE key = ?2",
+            &format!("UPDATE {table} SET review = ?1 WHERE key = ?2"),
             params![after.as_str(), key],
         )?;
         audit::record(
             &tx,
             actor,
             action,
-            &format!("dataset:{key}"),
+            &format!("{kind}:{key}"),
             Some(&serde_json::json!({ "review": before })),
             Some(&serde_json::json!({ "review": after.as_str(), "note": note })),
         )?;

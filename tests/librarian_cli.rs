@@ -304,3 +304,44 @@ fn check_exits_1_on_a_conflict_and_3_on_a_file_that_is_not_a_database() {
     let (code, _, err) = run(dir.path(), &["check", "--db", notes.to_str().unwrap()]);
     assert_eq!(code, 3, "{err}");
 }
+
+#[test]
+fn history_as_json_lines_and_init_empty_force() {
+    let dir = tempfile::tempdir().unwrap();
+    let db = empty_with_source(dir.path());
+    let db_arg = db.to_str().unwrap();
+    assert_eq!(
+        run(
+            dir.path(),
+            &["import", fixture_csv().to_str().unwrap(), "--db", db_arg]
+        )
+        .0,
+        0
+    );
+    let (code, out, err) = run(
+        dir.path(),
+        &["history", "RbNO3", "--format", "json", "--db", db_arg],
+    );
+    assert_eq!(code, 0, "{err}");
+    let lines: Vec<serde_json::Value> = out
+        .lines()
+        .map(|l| serde_json::from_str(l).unwrap())
+        .collect();
+    assert_eq!(lines.len(), 2);
+    assert_eq!(
+        lines[1]["entity"],
+        "dataset:invented-demo-salt/invented-demo-table"
+    );
+    assert_eq!(lines[1]["after"]["review"], "unreviewed");
+    // An unknown solute is bad input.
+    assert_eq!(run(dir.path(), &["history", "KNO4", "--db", db_arg]).0, 2);
+    // init --empty refuses an existing file without --force, replaces it with --force.
+    let (code, _, err) = run(dir.path(), &["init", "--empty", "--db", db_arg]);
+    assert_eq!(code, 3, "{err}");
+    assert!(err.contains("already exists"), "{err}");
+    let (code, _, err) = run(dir.path(), &["init", "--empty", "--force", "--db", db_arg]);
+    assert_eq!(code, 0, "{err}");
+    let (code, out, _) = run(dir.path(), &["review", "--db", db_arg]);
+    assert_eq!(code, 0);
+    assert!(out.contains("nothing is waiting for review"), "{out}");
+}

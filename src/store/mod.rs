@@ -296,6 +296,15 @@ pub fn init_empty(path: &Path, actor: &str, force: bool) -> Result<(), StoreErro
         let _ = std::fs::remove_file(&temp);
         return Err(e);
     }
+    if force {
+        // The old file's write-ahead log and index belong to the database being replaced;
+        // left beside the new file, SQLite could read them as the new file's.
+        for suffix in ["-wal", "-shm"] {
+            let mut side = path.as_os_str().to_owned();
+            side.push(suffix);
+            let _ = std::fs::remove_file(Path::new(&side));
+        }
+    }
     publish(&temp, path, force)
 }
 

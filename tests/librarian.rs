@@ -439,6 +439,7 @@ fn every_change_has_an_audit_row_with_actor_and_before_after() {
     assert_eq!(
         actions,
         [
+            ("test", "add"),
             ("carol", "add"),
             ("carol", "add"),
             ("carol", "change"),
@@ -447,11 +448,12 @@ fn every_change_has_an_audit_row_with_actor_and_before_after() {
             ("dave", "restore"),
         ]
     );
-    let change = &history[2];
+    assert_eq!(history[0].entity, "source:invented-a");
+    let change = &history[3];
     let old = &change.before.as_ref().unwrap()["points"][1]["value_reported"];
     let new = &change.after.as_ref().unwrap()["points"][1]["value_reported"];
     assert_eq!((old.as_f64(), new.as_f64()), (Some(12.0), Some(12.5)));
-    assert_eq!(history[3].after.as_ref().unwrap()["note"], "looked at it");
+    assert_eq!(history[4].after.as_ref().unwrap()["note"], "looked at it");
     for e in &history {
         assert_eq!(e.time.len(), 20, "{e:?}");
     }

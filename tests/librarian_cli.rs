@@ -327,12 +327,14 @@ fn history_as_json_lines_and_init_empty_force() {
         .lines()
         .map(|l| serde_json::from_str(l).unwrap())
         .collect();
-    assert_eq!(lines.len(), 2);
+    // The source it cites, the solute, the dataset.
+    assert_eq!(lines.len(), 3);
+    assert_eq!(lines[0]["entity"], "source:invented-demo-table");
     assert_eq!(
-        lines[1]["entity"],
+        lines[2]["entity"],
         "dataset:invented-demo-salt/invented-demo-table"
     );
-    assert_eq!(lines[1]["after"]["review"], "unreviewed");
+    assert_eq!(lines[2]["after"]["review"], "unreviewed");
     // An unknown solute is bad input.
     assert_eq!(run(dir.path(), &["history", "KNO4", "--db", db_arg]).0, 2);
     // init --empty refuses an existing file without --force, replaces it with --force.

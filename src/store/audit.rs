@@ -58,8 +58,8 @@ pub(crate) fn record(
     Ok(())
 }
 
-/// Every audit row about the solute `id` (the solute itself and its datasets, Henry's-law
-/// records and freezing data), oldest first.
+/// Every audit row about the solute `id` (the solute itself, its datasets, Henry's-law
+/// records and freezing data, and the sources they cite), oldest first.
 pub(crate) fn history(conn: &Connection, id: &str) -> Result<Vec<AuditEntry>, StoreError> {
     let mut stmt = conn.prepare_cached(
         "SELECT id, time, actor, action, entity, before, after FROM audit
@@ -67,6 +67,9 @@ pub(crate) fn history(conn: &Connection, id: &str) -> Result<Vec<AuditEntry>, St
             OR substr(entity, 1, length(?1) + 9) = 'dataset:' || ?1 || '/'
             OR substr(entity, 1, length(?1) + 7) = 'henry:' || ?1 || '/'
             OR substr(entity, 1, length(?1) + 10) = 'freezing:' || ?1 || '/'
+            OR entity IN (SELECT 'source:' || source FROM datasets WHERE solute = ?1
+                          UNION SELECT 'source:' || source FROM gas_constants WHERE solute = ?1
+                          UNION SELECT 'source:' || source FROM freezing WHERE solute = ?1)
          ORDER BY id",
     )?;
     all(&mut stmt, params![id])

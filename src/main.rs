@@ -364,6 +364,11 @@ fn librarian(
             who,
         } => {
             let path = writable(db, "import")?;
+            if !(tolerance >= 0.0 && tolerance.is_finite()) {
+                return Err(Failure::Usage(format!(
+                    "--tolerance {tolerance}: expected a percentage of 0 or more"
+                )));
+            }
             let files = files
                 .iter()
                 .map(|f| ImportFile::read(f))
@@ -466,6 +471,11 @@ fn librarian(
             )?;
         }
         Command::Check { tolerance } => {
+            if !(tolerance >= 0.0 && tolerance.is_finite()) {
+                return Err(Failure::Usage(format!(
+                    "--tolerance {tolerance}: expected a percentage of 0 or more"
+                )));
+            }
             let store = readable(db)?;
             let report = store.check(tolerance / 100.0)?;
             if format == Format::Json {

@@ -132,6 +132,14 @@ fn seed_rules_apply_with_the_csv_line() {
             "is per volume of solution",
         ),
     ];
+    // A misspelt kind is reported at the solute's first line, not inside made-up TOML.
+    let text = format!("{HEADER},kind\ninvented-x,KCl,KCl,0,C,10,%w/w,invented-a,salty\n");
+    let message = refused(&store, &[file("invented.csv", &text)]);
+    assert!(
+        message
+            .starts_with("invented.csv, line 2 (solute \"invented-x\"): unknown variant `salty`"),
+        "{message}"
+    );
     for (row, expected) in cases {
         let message = refused(&store, &[csv(&[row])]);
         assert!(message.contains(expected), "{row}: {message}");

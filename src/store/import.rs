@@ -210,6 +210,9 @@ fn import_error(file: &str, record: impl Into<String>, problem: impl Into<String
 struct Origins {
     files: HashMap<String, String>,
     lines: HashMap<(String, String), u64>,
+    /// For a solute file made from CSV rows: the solute and its first line, to stand in for
+    /// a position in the made-up TOML text.
+    made_from_csv: HashMap<String, (String, u64)>,
 }
 
 impl Origins {
@@ -221,9 +224,15 @@ impl Origins {
                 problem,
             } => {
                 let real = self.files.get(&file).cloned().unwrap_or(file.clone());
-                let record = match self.lines.get(&(file, record.clone())) {
-                    Some(line) => format!("line {line} ({record})"),
-                    None => record,
+                let record = match (
+                    self.lines.get(&(file.clone(), record.clone())),
+                    self.made_from_csv.get(&file),
+                ) {
+                    (Some(line), _) => format!("line {line} ({record})"),
+                    (None, Some((id, line))) if record.starts_with("line ") => {
+                        format!("line {line} (solute \"{id}\")")
+                    }
+                    _ => record,
                 };
                 StoreError::Import {
                     file: real,
@@ -1066,6 +1075,9 @@ fn parse_csv(
         origins
             .lines
             .insert((name.clone(), format!("solute \"{id}\"")), solute.line);
+        origins
+            .made_from_csv
+            .insert(name.clone(), (id.clone(), solute.line));
         let text = toml::to_string(&table)
             .map_err(|e| import_error(file, format!("solute \"{id}\""), e.to_string()))?;
         synthetic.push((name, text));

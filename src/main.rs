@@ -381,8 +381,14 @@ fn librarian(
                 // Read-only: the database file stays byte-identical.
                 let store = Store::open_read_only(&path)?;
                 let plan = store.plan_import(&files, &options)?;
-                writeln!(out, "dry run for {}: nothing written", path.display())?;
-                plan.write_report(out)?;
+                if format == Format::Json {
+                    let mut json = plan.to_json();
+                    json["dry_run"] = true.into();
+                    writeln!(out, "{json}")?;
+                } else {
+                    writeln!(out, "dry run for {}: nothing written", path.display())?;
+                    plan.write_report(out)?;
+                }
             } else {
                 let mut store = Store::open(&path)?;
                 let plan = store.plan_import(&files, &options)?;
@@ -395,6 +401,13 @@ fn librarian(
                 })?;
                 if let Some(b) = bar {
                     b.finish_and_clear();
+                }
+                if format == Format::Json {
+                    let mut json = plan.to_json();
+                    json["dry_run"] = false.into();
+                    json["actor"] = actor.clone().into();
+                    writeln!(out, "{json}")?;
+                    return Ok(());
                 }
                 writeln!(out, "imported into {} by {actor}:", path.display())?;
                 plan.write_report(out)?;
@@ -409,7 +422,14 @@ fn librarian(
         Command::Review { action } => match action {
             None | Some(ReviewAction::List) => {
                 let store = readable(db)?;
-                store::review::write_unreviewed(&store.unreviewed()?, out)?;
+                let waiting = store.unreviewed()?;
+                if format == Format::Json {
+                    for u in &waiting {
+                        writeln!(out, "{}", serde_json::to_string(u).unwrap_or_default())?;
+                    }
+                } else {
+                    store::review::write_unreviewed(&waiting, out)?;
+                }
             }
             Some(ReviewAction::Approve { dataset, note, who }) => {
                 let path = writable(db, "review")?;

@@ -147,6 +147,30 @@ impl ImportPlan {
             .sum()
     }
 
+    /// The plan as one JSON object, for programs (and the server):
+    /// `{"changes": [{"kind": "added", "entity": "dataset:x/y", "summary": "..."}],
+    ///   "findings": [{"kind": "conflict", "dataset": "x/y", "message": "..."}],
+    ///   "added": 1, "changed": 0, "retired": 0, "unchanged": 0}`. Unchanged records are
+    /// counted, not listed.
+    pub fn to_json(&self) -> serde_json::Value {
+        let changes: Vec<serde_json::Value> = self
+            .changes
+            .iter()
+            .filter(|c| c.kind != ChangeKind::Unchanged)
+            .map(
+                |c| serde_json::json!({ "kind": c.kind, "entity": c.entity, "summary": c.summary }),
+            )
+            .collect();
+        serde_json::json!({
+            "changes": changes,
+            "findings": self.findings,
+            "added": self.count(ChangeKind::Added),
+            "changed": self.count(ChangeKind::Changed),
+            "retired": self.count(ChangeKind::Retired),
+            "unchanged": self.count(ChangeKind::Unchanged),
+        })
+    }
+
     /// One line per change (unchanged records counted, not listed), then the findings and
     /// a summary line.
     pub fn write_report(&self, out: &mut dyn Write) -> std::io::Result<()> {

@@ -71,7 +71,8 @@ enum Command {
     },
     /// Start the interactive session (also what `satline` alone does on a terminal).
     Repl,
-    /// Write a fresh database file from the embedded seed data (needs --db PATH).
+    /// Write a fresh database file from the embedded seed data, or an empty one with
+    /// --empty (needs --db PATH).
     Init {
         /// Replace the file if it exists.
         #[arg(long)]
@@ -103,12 +104,14 @@ enum Command {
         #[command(flatten)]
         who: Who,
     },
-    /// List unreviewed datasets, or approve or reject one with a note.
+    /// List what awaits review, or approve or reject a dataset (or Henry's-law record or
+    /// freezing table) with a note.
     Review {
         #[command(subcommand)]
         action: Option<ReviewAction>,
     },
-    /// Every change to a solute and its datasets: time, actor, action, before and after.
+    /// Every change to a solute, its datasets and their sources: time, actor, action,
+    /// before and after.
     History {
         /// Id, name, formula or synonym, e.g. KNO3.
         solute: String,

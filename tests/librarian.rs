@@ -533,23 +533,30 @@ fn export_then_import_into_an_empty_database_then_export_gives_the_same_bytes() 
 
 #[test]
 fn a_reader_during_an_import_sees_before_or_after() {
+    use std::sync::Arc;
+    use std::sync::atomic::{AtomicBool, Ordering};
+
     let dir = tempfile::tempdir().unwrap();
     let (path, mut store) = database(dir.path());
-    let big = large_csv(40, None);
     let plan = store
-        .plan_import(&[big], &ImportOptions::default())
+        .plan_import(&[large_csv(40, None)], &ImportOptions::default())
         .unwrap();
-    let reader_path = path.clone();
-    let done = std::sync::Arc::new(std::sync::atomic::AtomicBool::new(false));
-    let reader_done = done.clone();
+    let started = Arc::new(AtomicBool::new(false));
+    let done = Arc::new(AtomicBool::new(false));
+    let (reader_started, reader_done, reader_path) = (started.clone(), done.clone(), path.clone());
+    // A second connection, as a server answering queries would hold.
     let reader = std::thread::spawn(move || {
         let reader = Store::open(&reader_path).unwrap();
         let mut seen = Vec::new();
         loop {
-            let finished = reader_done.load(std::sync::atomic::Ordering::SeqCst);
+            let finished = reader_done.load(Ordering::SeqCst);
+            let during = reader_started.load(Ordering::SeqCst) && !finished;
             let catalog = Catalog::from_store(&reader).unwrap();
             let points: usize = catalog.datasets().iter().map(|d| d.points.len()).sum();
-            seen.push((catalog.solutes().len(), catalog.datasets().len(), points));
+            seen.push((
+                during,
+                (catalog.solutes().len(), catalog.datasets().len(), points),
+            ));
             if finished {
                 break;
             }
@@ -557,17 +564,32 @@ fn a_reader_during_an_import_sees_before_or_after() {
         seen
     });
     std::thread::sleep(std::time::Duration::from_millis(20));
-    store.apply_import(&plan, "test", &mut || {}).unwrap();
-    done.store(true, std::sync::atomic::Ordering::SeqCst);
+    let mut written = 0;
+    store
+        .apply_import(&plan, "test", &mut || {
+            started.store(true, Ordering::SeqCst);
+            written += 1;
+            // Slow the write down so the reader reads while it is under way.
+            if written % 50 == 0 {
+                std::thread::sleep(std::time::Duration::from_millis(2));
+            }
+        })
+        .unwrap();
+    done.store(true, Ordering::SeqCst);
     let seen = reader.join().unwrap();
-    assert!(!seen.is_empty());
-    for s in &seen {
+    let (before, after) = ((0, 0, 0), (40, 40, 4000));
+    for (_, state) in &seen {
         assert!(
-            *s == (0, 0, 0) || *s == (40, 40, 4000),
-            "half a write: {s:?}"
+            *state == before || *state == after,
+            "half a write: {state:?}"
         );
     }
-    assert_eq!(seen.last(), Some(&(40, 40, 4000)));
+    assert!(
+        seen.iter()
+            .any(|(during, state)| *during && *state == before),
+        "the reader never read while the import was under way"
+    );
+    assert_eq!(seen.last().map(|s| s.1), Some(after));
 }
 
 // ---- the documented inputs of the librarian's error variants --------------------------

@@ -31,7 +31,7 @@ use satline::{Error, report, store};
     name = "satline",
     version,
     about,
-    args_conflicts_with_subcommands = true
+    subcommand_precedence_over_arg = true
 )]
 struct Cli {
     /// The database file to use [default: the embedded database built from the seed data].

@@ -113,14 +113,14 @@ fn the_database_can_be_named_in_the_environment() {
 }
 
 #[test]
-fn statements_are_not_supported_yet() {
+fn statements_given_as_arguments_are_answered() {
     let dir = tempfile::tempdir().unwrap();
     let out = satline(dir.path())
         .arg("solubility of KNO3 at 20 C")
         .output()
         .unwrap();
-    assert_eq!(out.status.code(), Some(2));
-    assert!(stderr(&out).contains("statements are not supported yet"));
+    assert_eq!(out.status.code(), Some(0), "{}", stderr(&out));
+    assert!(String::from_utf8_lossy(&out.stdout).contains("potassium nitrate"));
 }
 
 #[test]

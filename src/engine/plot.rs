@@ -353,7 +353,7 @@ fn solids(
             let colour = colours
                 .iter()
                 .find(|(p, _)| *p == transition.above)
-                .map_or(colours[0].1, |c| c.1);
+                .map_or_else(|| colours.first().map_or(0, |c| c.1), |c| c.1);
             transitions.push(TransitionMark {
                 temperature_c: t_c,
                 label: format!(
@@ -405,7 +405,7 @@ fn solids(
             let colour = colours
                 .iter()
                 .find(|(p, _)| *p == dataset.phase.formula)
-                .map_or(colours[0].1, |c| c.1);
+                .map_or_else(|| colours.first().map_or(0, |c| c.1), |c| c.1);
             cite_source(snap, &dataset.source, answer);
             if dataset.provenance == Provenance::FromMemory {
                 answer.caveat(format!(
@@ -463,7 +463,7 @@ fn solids(
                 let colour = colours
                     .iter()
                     .find(|(p, _)| *p == screening.phase)
-                    .map_or(colours[0].1, |c| c.1);
+                    .map_or_else(|| colours.first().map_or(0, |c| c.1), |c| c.1);
                 limiting.push(Limiting {
                     temperature_c: to_celsius(screening.limiting_t_k),
                     value: limit_y,

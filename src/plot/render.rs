@@ -264,8 +264,10 @@ where
                 let anno = chart
                     .draw_series(points.map(|p| {
                         EmptyElement::at(p)
-                            + TriangleMarker::new((0, 0), 6, style.filled())
-                            + TriangleMarker::new((0, 0), 6, BLACK.stroke_width(1))
+                        // plotters fills a triangle marker whatever the style: a larger
+                        // dark one behind gives the coloured one an outline.
+                        + TriangleMarker::new((0, 0), 8, BLACK.filled())
+                        + TriangleMarker::new((0, 0), 6, style.filled())
                     }))
                     .map_err(e)?;
                 if first {

@@ -276,3 +276,31 @@ fn an_unknown_solute_writes_no_file_and_exits_2() {
         "{stderr}"
     );
 }
+
+#[test]
+fn out_without_a_plot_statement_is_an_error() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = satline(dir.path())
+        .args(["solubility of KNO3 at 20 C", "--out", "curve.svg"])
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(2));
+    let stderr = String::from_utf8_lossy(&out.stderr);
+    assert!(stderr.contains("no plot statement"), "{stderr}");
+    assert!(!dir.path().join("curve.svg").exists());
+}
+
+#[test]
+fn the_text_sketch_comes_with_the_table() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = satline(dir.path())
+        .arg("plot KNO3 from 0 C to 100 C")
+        .output()
+        .unwrap();
+    let stdout = String::from_utf8_lossy(&out.stdout);
+    assert!(
+        stdout.contains("* potassium nitrate: solid KNO3"),
+        "{stdout}"
+    );
+    assert!(stdout.contains("temperature (C)"), "{stdout}");
+}

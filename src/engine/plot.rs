@@ -751,3 +751,23 @@ fn gases(
         footnote: "Henry's law in pure water; dashed: outside the record's temperature range. For screening only; see the answer for sources.".into(),
     })
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn the_grid_holds_the_extra_temperatures_inside_the_range_once() {
+        let g = grid(273.15, 373.15, [300.0, 300.0, 400.0, 273.15]);
+        assert_eq!(g.len(), SAMPLES + 2);
+        assert!(g.contains(&300.0));
+        assert!(!g.contains(&400.0));
+        assert!(g.windows(2).all(|w| w[0] < w[1]));
+    }
+
+    #[test]
+    fn labels_round_to_a_tenth() {
+        assert_eq!(tenth(32.38), 32.4);
+        assert_eq!(tenth(to_celsius(273.15)), 0.0);
+    }
+}

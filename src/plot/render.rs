@@ -444,3 +444,70 @@ fn label_value(y: f64) -> String {
 fn figure(x: f64) -> String {
     crate::output::number::display((x * 10.0).round() / 10.0)
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::plot::spec::{Segment, Series};
+
+    fn tiny() -> PlotSpec {
+        PlotSpec {
+            title: "invented demo".into(),
+            x_label: "temperature (C)".into(),
+            y_label: "value".into(),
+            x_range: (0.0, 10.0),
+            series: vec![Series {
+                label: "invented".into(),
+                solute: "invented".into(),
+                phase: None,
+                colour: 0,
+                segments: vec![
+                    Segment {
+                        points: vec![(0.0, 1.0), (5.0, 2.0)],
+                        extrapolated: false,
+                    },
+                    Segment {
+                        points: vec![(5.0, 2.0), (10.0, 4.0)],
+                        extrapolated: true,
+                    },
+                ],
+            }],
+            points: Vec::new(),
+            transitions: Vec::new(),
+            loading: None,
+            footnote: "invented".into(),
+        }
+    }
+
+    #[test]
+    fn formats_by_extension_with_their_media_types() {
+        let svg = Format::from_path(std::path::Path::new("a.svg")).unwrap();
+        assert_eq!(svg.media_type(), "image/svg+xml");
+        assert_eq!(
+            Format::from_path(std::path::Path::new("a.PNG")).unwrap(),
+            Format::Png
+        );
+        assert!(Format::from_path(std::path::Path::new("a")).is_err());
+    }
+
+    #[test]
+    fn sizes_outside_the_limits_are_refused() {
+        assert_eq!(
+            svg(&tiny(), 100, 500),
+            Err(PlotError::BadSize {
+                width: 100,
+                height: 500
+            })
+        );
+    }
+
+    #[test]
+    fn a_dashed_segment_is_drawn_in_pieces() {
+        let text = svg(&tiny(), 800, 500).unwrap();
+        let colour = palette::hex(0);
+        let lines = text.matches(&format!("stroke=\"{colour}\"")).count();
+        // One solid line, many dashes, and the legend's sample.
+        assert!(lines > 3, "{lines}");
+        assert!(text.contains(">\ninvented\n<") || text.contains(">invented<"));
+    }
+}

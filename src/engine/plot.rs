@@ -71,6 +71,31 @@ fn range_span(s: &Plot) -> Span {
     )
 }
 
+/// Characters a title may hold and still fit 800 pixels at its size.
+const TITLE_LENGTH: usize = 70;
+
+/// `Solubility in water: potassium nitrate, potassium chloride`; formulas where the names
+/// would not fit, and `and N more` where even those would not.
+fn title(prefix: &str, solutes: &[&Solute]) -> String {
+    let names: Vec<&str> = solutes.iter().map(|s| s.name.as_str()).collect();
+    let by_name = format!("{prefix}: {}", names.join(", "));
+    if by_name.chars().count() <= TITLE_LENGTH {
+        return by_name;
+    }
+    let formulas: Vec<&str> = solutes.iter().map(|s| s.formula.as_str()).collect();
+    for shown in (1..=formulas.len()).rev() {
+        let rest = formulas.len() - shown;
+        let mut text = format!("{prefix}: {}", formulas[..shown].join(", "));
+        if rest > 0 {
+            text.push_str(&format!(" and {rest} more"));
+        }
+        if text.chars().count() <= TITLE_LENGTH {
+            return text;
+        }
+    }
+    prefix.to_string()
+}
+
 /// `plot KNO3, KCl from 0 C to 100 C`, `plot O2, N2 from 0 C to 40 C under air`.
 pub fn plot(snap: &Snapshot, s: &Plot, answer: &mut Answer) -> Result<(), EvalError> {
     let mut solutes: Vec<(&Solute, &Name)> = Vec::new();
@@ -523,9 +548,9 @@ fn solids(
         );
     }
     answer.rows = rows;
-    let names: Vec<&str> = solutes.iter().map(|(x, _)| x.name.as_str()).collect();
+    let named: Vec<&Solute> = solutes.iter().map(|(x, _)| *x).collect();
     Ok(PlotSpec {
-        title: format!("Solubility in water: {}", names.join(", ")),
+        title: title("Solubility in water", &named),
         x_label: X_LABEL.into(),
         y_label: format!("solubility ({}, anhydrous solute)", unit.symbol()),
         x_range: (to_celsius(t0), to_celsius(t1)),
@@ -723,7 +748,7 @@ fn gases(
             "dashed lines are extrapolated beyond the Henry's-law data: treat them with care",
         );
     }
-    let names: Vec<&str> = chosen.iter().map(|(x, _, _)| x.name.as_str()).collect();
+    let named: Vec<&Solute> = chosen.iter().map(|(x, _, _)| **x).collect();
     let under = match &s.pressure {
         None => "under humid air at 1 atm".to_string(),
         Some(GasPressure::Partial(p)) => {
@@ -740,7 +765,7 @@ fn gases(
         ),
     };
     Ok(PlotSpec {
-        title: format!("Dissolved gas in water {under}: {}", names.join(", ")),
+        title: title(&format!("Dissolved gas in water {under}"), &named),
         x_label: X_LABEL.into(),
         y_label: format!("dissolved gas ({})", unit.symbol()),
         x_range: (to_celsius(t0), to_celsius(t1)),

@@ -13,6 +13,7 @@ use std::process::ExitCode;
 use clap::builder::TypedValueParser as _;
 use clap::{Args, Parser, Subcommand};
 use satline::catalog::Catalog;
+use satline::frontend::picture::Pictures;
 use satline::frontend::{self, Outcome, batch};
 use satline::model::SourceKind;
 use satline::output::Format;
@@ -48,6 +49,15 @@ struct Cli {
             .map(|name| Format::from_name(&name).unwrap_or_default())
     )]
     format: Format,
+
+    /// Write the picture of each `plot` statement to FILE (`.svg` or `.png`); a second plot
+    /// goes to FILE-2, a third to FILE-3, and so on.
+    #[arg(long, global = true, value_name = "FILE")]
+    out: Option<PathBuf>,
+
+    /// The size of pictures written with --out, in pixels [default: 800x500].
+    #[arg(long, global = true, value_name = "WIDTHxHEIGHT")]
+    size: Option<String>,
 
     #[command(subcommand)]
     command: Option<Command>,
@@ -550,13 +560,20 @@ fn exit(outcome: Outcome) -> ExitCode {
 fn main() -> ExitCode {
     let cli = Cli::parse();
     let db = cli.db.as_deref();
+    let pictures = match Pictures::from_args(cli.out.as_deref(), cli.size.as_deref()) {
+        Ok(pictures) => pictures,
+        Err(e) => {
+            eprintln!("satline: {e}");
+            return ExitCode::from(2);
+        }
+    };
     match cli.command {
         Some(Command::Run { files }) => {
             let sources: Vec<batch::ScriptSource> = files
                 .iter()
                 .map(|f| batch::ScriptSource::from_arg(f))
                 .collect();
-            exit(batch::run_std(db, &sources, cli.format))
+            exit(batch::run_std(db, &sources, cli.format, &pictures))
         }
         Some(Command::Repl) => exit(frontend::repl::run(db)),
         Some(command) => {
@@ -583,9 +600,12 @@ fn main() -> ExitCode {
                 }
             }
         }
-        None if !cli.statements.is_empty() => {
-            exit(batch::run_arguments(db, &cli.statements, cli.format))
-        }
+        None if !cli.statements.is_empty() => exit(batch::run_arguments(
+            db,
+            &cli.statements,
+            cli.format,
+            &pictures,
+        )),
         None => exit(frontend::run_default(db)),
     }
 }

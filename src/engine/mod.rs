@@ -13,6 +13,7 @@
 mod common;
 mod error;
 mod gas;
+mod plot;
 mod records;
 mod snapshot;
 mod solid;
@@ -118,6 +119,7 @@ impl Engine {
             Statement::Sources(s) => records::sources(&self.snapshot, s, &mut answer),
             Statement::List(s) => records::list(&self.snapshot, s, &mut answer),
             Statement::Let(s) => records::binding(s, text, &mut answer),
+            Statement::Plot(s) => plot::plot(&self.snapshot, s, &mut answer),
         };
         match result {
             Ok(()) => answer,
@@ -173,6 +175,7 @@ fn kind_of(statement: &Statement) -> AnswerKind {
         Statement::List(_) => AnswerKind::List,
         Statement::Let(_) => AnswerKind::Let,
         Statement::Require(_) => AnswerKind::Require,
+        Statement::Plot(_) => AnswerKind::Plot,
     }
 }
 

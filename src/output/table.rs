@@ -157,6 +157,12 @@ pub fn write_answer(out: &mut impl Write, answer: &Answer, script: &str) -> io::
     if !table.is_empty() {
         writeln!(out, "{table}")?;
     }
+    if let Some(spec) = &answer.plot {
+        write!(out, "{}", crate::plot::sketch(spec))?;
+    }
+    if let Some(file) = &answer.picture {
+        writeln!(out, "  picture written to {file}")?;
+    }
     for caveat in &answer.caveats {
         writeln!(out, "  note: {caveat}")?;
     }

@@ -159,6 +159,11 @@ fn both(c: &mut Criterion, group: &str, engine: &Engine, text: &str) {
     let parsed = query::parse_with(text, &mut Env::default());
     if let Some(Ok(statement)) = parsed.first() {
         g.bench_function("run", |b| b.iter(|| black_box(engine.run(statement, text))));
+        // The same, with the answer freed outside the timing: shows how much of a large
+        // answer's cost is giving its rows' memory back.
+        g.bench_function("run_without_drop", |b| {
+            b.iter_with_large_drop(|| engine.run(statement, text))
+        });
     }
     g.finish();
 }

@@ -77,6 +77,11 @@ mod tests {
         assert_eq!(round_significant(-2.345, 2), -2.3);
         assert_eq!(round_significant(123456.0, 3), 123000.0);
         assert_eq!(round_significant(0.0, 3), 0.0);
+        // The longest text: 15 digits, a sign and a three-digit exponent.
+        assert_eq!(
+            round_significant(-1.234_567_890_123_456e-300, 15),
+            -1.234_567_890_123_46e-300
+        );
     }
 
     #[test]

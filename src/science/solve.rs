@@ -452,6 +452,37 @@ mod tests {
     }
 
     #[test]
+    fn a_single_temperature_is_the_curve_there() {
+        // Invented: two branches with a gap between 303.15 and 313.15 K.
+        let a = Branch::new("A·H2O", &[(283.15, 0.1), (303.15, 0.25)]).unwrap();
+        let b = Branch::new("A", &[(313.15, 0.33), (333.15, 0.31)]).unwrap();
+        let c = Curve::new(vec![a, b]).unwrap();
+        for t in [283.15, 290.0, 303.15, 320.0] {
+            let m = minimum(&c, t, t, false).unwrap();
+            let e = c.evaluate(t, false).unwrap();
+            assert_eq!(m.t_k, t);
+            assert_eq!(m.mass_fraction, e.mass_fraction);
+            assert_eq!(m.phase, e.phase);
+            assert_eq!(m.basis, e.basis);
+            assert_eq!(c.mass_fraction(t, false).unwrap(), e.mass_fraction);
+        }
+        assert!(matches!(
+            minimum(&c, 308.0, 308.0, false),
+            Err(ScienceError::InGap { .. })
+        ));
+        let m = minimum(&c, 308.0, 308.0, true).unwrap();
+        assert_eq!(m.basis, Basis::Extrapolated);
+        assert_eq!(
+            m.mass_fraction,
+            c.evaluate(308.0, true).unwrap().mass_fraction
+        );
+        assert!(matches!(
+            minimum(&c, 270.0, 270.0, false),
+            Err(ScienceError::OutOfRange { .. })
+        ));
+    }
+
+    #[test]
     fn bad_inputs() {
         let c = peaked();
         assert!(matches!(

@@ -50,14 +50,8 @@ struct Cli {
     )]
     format: Format,
 
-    /// Write the picture of each `plot` statement to FILE (`.svg` or `.png`); a second plot
-    /// goes to FILE-2, a third to FILE-3, and so on.
-    #[arg(long, global = true, value_name = "FILE")]
-    out: Option<PathBuf>,
-
-    /// The size of pictures written with --out, in pixels [default: 800x500].
-    #[arg(long, global = true, value_name = "WIDTHxHEIGHT")]
-    size: Option<String>,
+    #[command(flatten)]
+    picture: PictureArgs,
 
     #[command(subcommand)]
     command: Option<Command>,
@@ -65,6 +59,19 @@ struct Cli {
     /// Statements to answer, e.g. "solubility of KNO3 at 20 C" (one per argument, or
     /// several separated by `;`).
     statements: Vec<String>,
+}
+
+/// Where the pictures of `plot` statements go (for statements and `run`).
+#[derive(Debug, Clone, clap::Args)]
+struct PictureArgs {
+    /// Write the picture of each `plot` statement to FILE (`.svg` or `.png`); a second plot
+    /// goes to FILE-2, a third to FILE-3, and so on.
+    #[arg(long, value_name = "FILE")]
+    out: Option<PathBuf>,
+
+    /// The size of pictures written with --out, in pixels [default: 800x500].
+    #[arg(long, value_name = "WIDTHxHEIGHT")]
+    size: Option<String>,
 }
 
 #[derive(Debug, Subcommand)]
@@ -78,6 +85,8 @@ enum Command {
         /// Script files, run in order; `-` for standard input.
         #[arg(required = true, value_name = "FILE")]
         files: Vec<PathBuf>,
+        #[command(flatten)]
+        picture: PictureArgs,
     },
     /// Start the interactive session (also what `satline` alone does on a terminal).
     Repl,
@@ -560,7 +569,11 @@ fn exit(outcome: Outcome) -> ExitCode {
 fn main() -> ExitCode {
     let cli = Cli::parse();
     let db = cli.db.as_deref();
-    let pictures = match Pictures::from_args(cli.out.as_deref(), cli.size.as_deref()) {
+    let picture = match &cli.command {
+        Some(Command::Run { picture, .. }) => picture.clone(),
+        _ => cli.picture.clone(),
+    };
+    let pictures = match Pictures::from_args(picture.out.as_deref(), picture.size.as_deref()) {
         Ok(pictures) => pictures,
         Err(e) => {
             eprintln!("satline: {e}");
@@ -568,7 +581,7 @@ fn main() -> ExitCode {
         }
     };
     match cli.command {
-        Some(Command::Run { files }) => {
+        Some(Command::Run { files, .. }) => {
             let sources: Vec<batch::ScriptSource> = files
                 .iter()
                 .map(|f| batch::ScriptSource::from_arg(f))

@@ -23,6 +23,7 @@ pub enum AnswerKind {
     List,
     Let,
     Require,
+    Plot,
     /// A statement that could not be parsed.
     Invalid,
 }
@@ -43,6 +44,7 @@ impl AnswerKind {
             AnswerKind::List => "list",
             AnswerKind::Let => "let",
             AnswerKind::Require => "require",
+            AnswerKind::Plot => "plot",
             AnswerKind::Invalid => "invalid",
         }
     }
@@ -149,6 +151,12 @@ pub struct Answer {
     pub sources: Vec<SourceRef>,
     #[serde(skip_serializing_if = "Option::is_none")]
     pub error: Option<ErrorReport>,
+    /// For `plot`: the file a front end wrote the picture to, when it wrote one.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub picture: Option<String>,
+    /// For `plot`: what the picture shows, for the renderers (not part of the JSON).
+    #[serde(skip)]
+    pub plot: Option<Box<crate::plot::PlotSpec>>,
 }
 
 impl Answer {
@@ -164,6 +172,8 @@ impl Answer {
             caveats: Vec::new(),
             sources: Vec::new(),
             error: None,
+            picture: None,
+            plot: None,
         }
     }
 

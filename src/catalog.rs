@@ -242,7 +242,8 @@ impl Catalog {
     }
 
     /// The names closest to `name` by edit distance (case-folded), one per solute, best
-    /// first; only names close enough to be a plausible slip are offered.
+    /// first; only names close enough to be a plausible slip are offered. When none is that
+    /// close, names that begin with what was typed are offered instead.
     pub fn suggestions(&self, name: &str) -> Vec<String> {
         let wanted = fold(name);
         let limit = (wanted.chars().count() / 3).clamp(1, 4);
@@ -274,6 +275,24 @@ impl Catalog {
             }
             if out.len() == MAX_SUGGESTIONS {
                 break;
+            }
+        }
+        if out.is_empty() && length >= 3 {
+            // A word the person typed may begin longer names ("potassium"): offer those.
+            let mut starting: Vec<&(String, usize)> = self
+                .all_names
+                .iter()
+                .filter(|(n, _)| fold(n).starts_with(&wanted))
+                .collect();
+            starting.sort_by(|a, b| (a.0.len(), &a.0).cmp(&(b.0.len(), &b.0)));
+            for (n, i) in starting {
+                if !seen.contains(i) {
+                    seen.push(*i);
+                    out.push(n.clone());
+                }
+                if out.len() == MAX_SUGGESTIONS {
+                    break;
+                }
             }
         }
         out

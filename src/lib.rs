@@ -13,6 +13,7 @@ pub mod error;
 pub mod frontend;
 pub mod model;
 pub mod output;
+pub mod plot;
 pub mod query;
 pub mod report;
 pub mod science;

@@ -839,3 +839,116 @@ fn a_statement_after_a_semicolon_has_its_own_column() {
     let e = fault(text);
     assert_eq!(e.line_column(text), (1, 38));
 }
+
+// ----------------------------------------------------------------------------------------
+// plot (issue 8)
+
+#[test]
+fn plot_of_two_solutes_over_a_range() {
+    let text = "plot KNO3, KCl from 0 C to 100 C";
+    let Statement::Plot(p) = one(text) else {
+        panic!()
+    };
+    let names: Vec<&str> = p.solutes.iter().map(|n| n.text.as_str()).collect();
+    assert_eq!(names, ["KNO3", "KCl"]);
+    assert_eq!(p.solutes[0].span, Span::new(5, 9));
+    assert_eq!(p.solutes[1].span, Span::new(11, 14));
+    let range = p.range.unwrap();
+    assert!(close(range.low.celsius(), 0.0) && close(range.high.celsius(), 100.0));
+    assert_eq!(range.span.text(text), "from 0 C to 100 C");
+    assert_eq!(
+        (p.unit, &p.loading, p.margin, &p.pressure),
+        (None, &None, None, &None)
+    );
+}
+
+#[test]
+fn plot_spellings() {
+    let Statement::Plot(p) = one("plot potassium nitrate and KCl,NaCl , sucrose in mol/kg") else {
+        panic!()
+    };
+    let names: Vec<&str> = p.solutes.iter().map(|n| n.text.as_str()).collect();
+    // A comma inside a word belongs to the name (`1,2-ethanediol`).
+    assert_eq!(names, ["potassium nitrate", "KCl,NaCl", "sucrose"]);
+    assert_eq!(p.range, None);
+    assert_eq!(p.unit.map(|u| u.unit), Some(CompositionUnit::Molality));
+
+    let text = "plot KCl from 0 C to 40 C with loading 30 g/100g water from 2 C to 8 C margin 10%";
+    let Statement::Plot(p) = one(text) else {
+        panic!()
+    };
+    let loading = p.loading.unwrap();
+    assert!(close(loading.loading.value, 30.0));
+    assert!(
+        matches!(loading.temperatures, Some(Temperatures::Range(r)) if close(r.high.celsius(), 8.0))
+    );
+    assert_eq!(
+        loading.span.text(text),
+        "with loading 30 g/100g water from 2 C to 8 C"
+    );
+    assert!(close(p.margin.unwrap().percent, 10.0));
+
+    let Statement::Plot(p) = one("plot O2, N2 from 0 C to 40 C under air at 2 bar extrapolate")
+    else {
+        panic!()
+    };
+    assert!(matches!(
+        p.pressure,
+        Some(GasPressure::Mixture { ref mixture, total: Some(t) }) if mixture.text == "air" && t.unit == PressureUnit::Bar
+    ));
+    assert!(p.options.extrapolate);
+
+    let mut env = Env::new();
+    parse_statement("let cold = from 2 C to 8 C", &mut env).unwrap();
+    let Statement::Plot(p) = parse_statement("PLOT KCl over cold reviewed only", &mut env)
+        .unwrap()
+        .node
+    else {
+        panic!()
+    };
+    assert!(close(p.range.unwrap().low.celsius(), 2.0));
+    assert!(p.options.reviewed_only);
+}
+
+#[test]
+fn plot_errors() {
+    // No solute.
+    let e = fault("plot from 0 C to 100 C");
+    assert_eq!(e.kind.code(), "expected");
+    assert!(e.to_string().starts_with("expected a solute"), "{e}");
+    // A misspelt `from`.
+    let e = fault("plot KNO3 form 0 C to 100 C");
+    assert!(e.to_string().contains("did you mean `from`?"), "{e}");
+    assert_eq!(e.span, Span::new(10, 14));
+    // A range written backwards.
+    assert_eq!(
+        fault("plot KNO3 from 100 C to 0 C").kind.code(),
+        "reversed-range"
+    );
+    // One temperature where a range is wanted.
+    let e = fault("let fridge = 4 C\nplot KNO3 over fridge");
+    assert!(e.to_string().contains("a temperature range"), "{e}");
+    // A loading of the wrong kind, and a margin without a loading.
+    assert_eq!(
+        fault("plot KCl from 0 C to 40 C with loading 5 C")
+            .kind
+            .code(),
+        "wrong-quantity"
+    );
+    let e = fault("plot KCl from 0 C to 40 C margin 10%");
+    assert!(e.to_string().contains("`with loading ...`"), "{e}");
+    // `with` must be followed by `loading`.
+    let e = fault("plot KCl from 0 C to 40 C with lodaing 30 g/100g water");
+    assert!(e.to_string().contains("did you mean `loading`?"), "{e}");
+    // A clause twice, and an unknown unit.
+    assert_eq!(
+        fault("plot KCl in mol/kg in %w/w").kind.code(),
+        "duplicate-clause"
+    );
+    assert_eq!(fault("plot KCl in mol/kgg").kind.code(), "unknown-unit");
+    // Words that are no clause.
+    let e = fault("plot KCl from 0 C to 40 C at 5 C");
+    assert!(e.to_string().contains("`in`, `with`"), "{e}");
+    // `plot` is a word of the language.
+    assert_eq!(fault("let plot = 5 C").kind.code(), "reserved-name");
+}

@@ -113,14 +113,27 @@ fn the_database_can_be_named_in_the_environment() {
 }
 
 #[test]
-fn statements_are_not_supported_yet() {
+fn statements_given_as_arguments_are_answered() {
+    // The README's first command, on a fresh data directory.
     let dir = tempfile::tempdir().unwrap();
     let out = satline(dir.path())
-        .arg("solubility of KNO3 at 20 C")
+        .arg("which salts stay dissolved at 30 g/100g water from 2 C to 8 C margin 10%")
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(0), "{}", stderr(&out));
+    let text = stdout(&out);
+    assert!(text.contains("potassium chloride"), "{text}");
+    assert!(text.contains("headroom"), "{text}");
+    let out = satline(dir.path())
+        .arg("solubility of KNO4 at 20 C")
         .output()
         .unwrap();
     assert_eq!(out.status.code(), Some(2));
-    assert!(stderr(&out).contains("statements are not supported yet"));
+    assert!(
+        stderr(&out).contains("<arguments>:1:15"),
+        "{}",
+        stderr(&out)
+    );
 }
 
 #[test]

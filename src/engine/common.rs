@@ -97,6 +97,10 @@ pub fn cite_curve(snap: &Snapshot, built: &BuiltCurve, solute: &Solute, answer: 
 
 /// Adds one source by key, with its full citation.
 pub fn cite_source(snap: &Snapshot, key: &str, answer: &mut Answer) {
+    // A screening cites per solute: skip formatting a citation already in the answer.
+    if answer.sources.iter().any(|s| s.key == key) {
+        return;
+    }
     if let Some(source) = snap.catalog.source(key) {
         answer.cite(key, citation(source));
     }

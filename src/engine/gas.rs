@@ -17,7 +17,11 @@ use crate::science::units::CompositionUnit;
 
 /// The Henry's-law records of a gas, best first: multi-term fits before single van 't Hoff
 /// constants (a fit follows the curvature of ln H against 1/T), reviewed before unreviewed.
-fn laws<'a>(snap: &'a Snapshot, solute: &Solute, options: &Options) -> Vec<&'a GasConstant> {
+pub(crate) fn laws<'a>(
+    snap: &'a Snapshot,
+    solute: &Solute,
+    options: &Options,
+) -> Vec<&'a GasConstant> {
     let mut laws: Vec<&GasConstant> = snap
         .catalog
         .gas_constants_of(&solute.id)
@@ -35,7 +39,10 @@ fn laws<'a>(snap: &'a Snapshot, solute: &Solute, options: &Options) -> Vec<&'a G
     laws
 }
 
-fn gas_of<'a>(snap: &'a Snapshot, name: &crate::query::Name) -> Result<&'a Solute, EvalError> {
+pub(crate) fn gas_of<'a>(
+    snap: &'a Snapshot,
+    name: &crate::query::Name,
+) -> Result<&'a Solute, EvalError> {
     let solute = resolve(snap, name)?;
     if solute.kind != SoluteKind::Gas {
         return Err(EvalError::NoData {
@@ -103,7 +110,7 @@ fn evaluate<'a>(
     }
 }
 
-fn cite_law(snap: &Snapshot, law: &GasConstant, solute: &Solute, answer: &mut Answer) {
+pub(crate) fn cite_law(snap: &Snapshot, law: &GasConstant, solute: &Solute, answer: &mut Answer) {
     cite_source(snap, &law.source, answer);
     if law.provenance == Provenance::FromMemory {
         answer.caveat(format!(
@@ -116,10 +123,14 @@ fn cite_law(snap: &Snapshot, law: &GasConstant, solute: &Solute, answer: &mut An
     }
 }
 
-/// `dissolved O2 at 25 C under air`, `dissolved CO2 at 4 C under 2.5 bar in g/L`.
-pub fn dissolved(snap: &Snapshot, s: &DissolvedGas, answer: &mut Answer) -> Result<(), EvalError> {
-    let solute = gas_of(snap, &s.gas)?;
-    let t_k = s.temperature.kelvin();
+/// The gas's partial pressure (Pa) at `t_k` under `pressure` (none: humid air at 1 atm),
+/// and the conditions in words for a caveat. `span`: where a missing clause would stand.
+pub(crate) fn partial_pressure(
+    solute: &Solute,
+    pressure: Option<&GasPressure>,
+    t_k: f64,
+    span: Span,
+) -> Result<(f64, String), EvalError> {
     let air = |total: f64, span: Span| {
         science_gas::partial_pressure_in_air(&solute.formula, total, t_k).map_err(|e| {
             EvalError::Unanswerable {
@@ -128,9 +139,9 @@ pub fn dissolved(snap: &Snapshot, s: &DissolvedGas, answer: &mut Answer) -> Resu
             }
         })
     };
-    let (partial_pa, described) = match &s.pressure {
+    Ok(match pressure {
         None => (
-            air(STANDARD_ATMOSPHERE, s.gas.span)?,
+            air(STANDARD_ATMOSPHERE, span)?,
             "water saturated with humid air at 1 atm".to_string(),
         ),
         Some(GasPressure::Partial(p)) => (
@@ -160,21 +171,16 @@ pub fn dissolved(snap: &Snapshot, s: &DissolvedGas, answer: &mut Answer) -> Resu
                 format!("water saturated with humid air at {shown}"),
             )
         }
-    };
-    let laws = laws(snap, solute, &s.options);
-    let (amount, law) = evaluate(
-        &laws,
-        solute,
-        t_k,
-        partial_pa,
-        s.options.extrapolate,
-        s.temperature.span,
-    )?;
-    let unit = s
-        .unit
-        .map_or(CompositionUnit::MilligramsPerLitre, |u| u.unit);
-    let span = s.unit.map_or(s.temperature.span, |u| u.span);
-    let number = match unit {
+    })
+}
+
+/// A dissolved amount in the unit asked for, or why that unit cannot hold it.
+pub(crate) fn amount_in(
+    unit: CompositionUnit,
+    amount: &Dissolved,
+    span: Span,
+) -> Result<f64, EvalError> {
+    Ok(match unit {
         CompositionUnit::MilligramsPerLitre => amount.mg_per_l,
         CompositionUnit::GramsPerLitre => amount.mg_per_l / 1000.0,
         CompositionUnit::MolesPerLitre => amount.mol_per_m3 / 1000.0,
@@ -192,7 +198,28 @@ pub fn dissolved(snap: &Snapshot, s: &DissolvedGas, answer: &mut Answer) -> Resu
                 span,
             });
         }
-    };
+    })
+}
+
+/// `dissolved O2 at 25 C under air`, `dissolved CO2 at 4 C under 2.5 bar in g/L`.
+pub fn dissolved(snap: &Snapshot, s: &DissolvedGas, answer: &mut Answer) -> Result<(), EvalError> {
+    let solute = gas_of(snap, &s.gas)?;
+    let t_k = s.temperature.kelvin();
+    let (partial_pa, described) = partial_pressure(solute, s.pressure.as_ref(), t_k, s.gas.span)?;
+    let laws = laws(snap, solute, &s.options);
+    let (amount, law) = evaluate(
+        &laws,
+        solute,
+        t_k,
+        partial_pa,
+        s.options.extrapolate,
+        s.temperature.span,
+    )?;
+    let unit = s
+        .unit
+        .map_or(CompositionUnit::MilligramsPerLitre, |u| u.unit);
+    let span = s.unit.map_or(s.temperature.span, |u| u.span);
+    let number = amount_in(unit, &amount, span)?;
     let basis = Basis::from(amount.basis);
     answer.rows.push(Row {
         solute: Some(solute.name.clone()),

@@ -13,6 +13,7 @@
 mod common;
 mod error;
 mod gas;
+mod plot;
 mod records;
 mod snapshot;
 mod solid;
@@ -134,6 +135,7 @@ impl Engine {
             Statement::Sources(s) => records::sources(&self.snapshot, s, &mut answer),
             Statement::List(s) => records::list(&self.snapshot, s, &mut answer),
             Statement::Let(s) => records::binding(s, text, &mut answer),
+            Statement::Plot(s) => plot::plot(&self.snapshot, s, &mut answer),
         };
         match result {
             Ok(()) => answer,
@@ -185,8 +187,8 @@ impl<'t> Prepared<'t> {
     /// Whether every statement is light: answered from one or two curve evaluations or
     /// records, in microseconds (a lookup at one temperature, heat of solution, dissolved
     /// gas, conversion, sources, `let`, `require`, and statements that failed to parse).
-    /// Screening, saturation, ceiling, freezing, describe and list walk curves or the whole
-    /// catalog and can take a millisecond or more.
+    /// Screening, saturation, ceiling, freezing, describe, list and plot walk curves or the
+    /// whole catalog and can take a millisecond or more.
     pub fn is_light(&self) -> bool {
         self.parsed.iter().all(|parsed| match parsed {
             Ok(statement) => is_light(&statement.node),
@@ -227,7 +229,8 @@ fn is_light(statement: &Statement) -> bool {
         | Statement::Ceiling(_)
         | Statement::Freezing(_)
         | Statement::Describe(_)
-        | Statement::List(_) => false,
+        | Statement::List(_)
+        | Statement::Plot(_) => false,
     }
 }
 
@@ -246,6 +249,7 @@ fn kind_of(statement: &Statement) -> AnswerKind {
         Statement::List(_) => AnswerKind::List,
         Statement::Let(_) => AnswerKind::Let,
         Statement::Require(_) => AnswerKind::Require,
+        Statement::Plot(_) => AnswerKind::Plot,
     }
 }
 

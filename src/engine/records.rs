@@ -20,8 +20,14 @@ pub fn selects(snap: &Snapshot, solute: &Solute, class: SoluteClass, filters: &[
         SoluteClass::Gases => solute.kind == SoluteKind::Gas,
         SoluteClass::MolecularSolutes => solute.kind == SoluteKind::Molecular,
     };
-    let same =
-        |a: &Option<String>, b: &str| a.as_deref().is_some_and(|a| a.eq_ignore_ascii_case(b));
+    // `anion phosphate` matches "hydrogen phosphate" too, and `cation copper` "copper(II)":
+    // a filter names the ion's family word.
+    let same = |a: &Option<String>, b: &str| {
+        a.as_deref().is_some_and(|a| {
+            let (a, b) = (a.to_lowercase(), b.to_lowercase());
+            a == b || a.ends_with(&format!(" {b}")) || a.starts_with(&format!("{b}("))
+        })
+    };
     in_class
         && filters.iter().all(|filter| match filter {
             Filter::Cation(n) => same(&solute.cation, &n.text),

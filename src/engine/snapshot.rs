@@ -28,7 +28,11 @@ pub struct SoluteCurves {
 #[derive(Debug)]
 pub struct Snapshot {
     pub catalog: Catalog,
-    curves: HashMap<String, SoluteCurves>,
+    /// The curves of each solute, in the order of `Catalog::solutes` (a screening walks
+    /// them side by side without hashing ids).
+    curves: Vec<SoluteCurves>,
+    /// Solute id → index into `curves`.
+    curve_index: HashMap<String, usize>,
     /// Every name a person may type for a solute (names, ids, formulas, synonyms), sorted.
     names: Vec<String>,
 }
@@ -82,45 +86,56 @@ fn build(catalog: &Catalog, indices: &[usize]) -> Option<BuiltCurve> {
 
 impl Snapshot {
     pub fn new(catalog: Catalog) -> Snapshot {
-        let mut curves = HashMap::new();
+        let mut curves = Vec::with_capacity(catalog.solutes().len());
+        let mut curve_index = HashMap::new();
         let mut names = Vec::new();
+        // Datasets grouped by solute in one pass (in catalog order), so building the
+        // snapshot stays linear in the size of the catalog.
+        let mut by_solute: HashMap<&str, Vec<usize>> = HashMap::new();
+        for (i, d) in catalog.datasets().iter().enumerate() {
+            if d.review != Review::Rejected {
+                by_solute.entry(d.solute.as_str()).or_default().push(i);
+            }
+        }
         for solute in catalog.solutes() {
             names.push(solute.name.clone());
             names.push(solute.id.clone());
             names.push(solute.formula.clone());
             names.extend(solute.synonyms.iter().cloned());
-            let usable: Vec<usize> = catalog
-                .datasets()
-                .iter()
-                .enumerate()
-                .filter(|(_, d)| d.solute == solute.id && d.review != Review::Rejected)
-                .map(|(i, _)| i)
-                .collect();
+            let usable: Vec<usize> = by_solute
+                .get(solute.id.as_str())
+                .cloned()
+                .unwrap_or_default();
             let reviewed: Vec<usize> = usable
                 .iter()
                 .copied()
                 .filter(|&i| catalog.datasets()[i].review == Review::Reviewed)
                 .collect();
-            curves.insert(
-                solute.id.clone(),
-                SoluteCurves {
-                    all: build(&catalog, &usable),
-                    reviewed: build(&catalog, &reviewed),
-                },
-            );
+            // The last solute of an id wins, as in the catalog's own index.
+            curve_index.insert(solute.id.clone(), curves.len());
+            curves.push(SoluteCurves {
+                all: build(&catalog, &usable),
+                reviewed: build(&catalog, &reviewed),
+            });
         }
         names.sort();
         names.dedup();
         Snapshot {
             catalog,
             curves,
+            curve_index,
             names,
         }
     }
 
     /// The curve of a solute, from all data or reviewed data only.
     pub fn curve(&self, solute_id: &str, reviewed_only: bool) -> Option<&BuiltCurve> {
-        let curves = self.curves.get(solute_id)?;
+        self.curve_at(*self.curve_index.get(solute_id)?, reviewed_only)
+    }
+
+    /// The curve of the solute at `index` in `Catalog::solutes`.
+    pub fn curve_at(&self, index: usize, reviewed_only: bool) -> Option<&BuiltCurve> {
+        let curves = self.curves.get(index)?;
         if reviewed_only {
             curves.reviewed.as_ref()
         } else {

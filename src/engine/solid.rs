@@ -1,6 +1,8 @@
 //! Statements about solid solutes: lookup, screening, require, saturation, ceiling, heat of
 //! solution, freezing and conversion.
 
+use std::collections::BTreeMap;
+
 use serde_json::json;
 
 use crate::answer::{Answer, Basis, Row};
@@ -12,7 +14,7 @@ use crate::engine::error::EvalError;
 use crate::engine::records::selects;
 use crate::engine::snapshot::Snapshot;
 use crate::engine::{CAUTION, gas};
-use crate::model::{Provenance, Review, SoluteKind};
+use crate::model::{Provenance, Review, Solute, SoluteKind};
 use crate::output::number::round_significant;
 use crate::query::{
     Ceiling, Convert, Freezing, HeatOfSolution, Require, Saturation, Screen, Solubility,
@@ -20,7 +22,7 @@ use crate::query::{
 use crate::science::formula::parse_formula;
 use crate::science::freezing::{FirstSolid, IceBasis, first_solid_on_cooling, ice_line};
 use crate::science::heat::heat_of_solution;
-use crate::science::solve::{self, stays_dissolved};
+use crate::science::solve::{self, Screening, stays_dissolved};
 use crate::science::units::{
     self, CompositionUnit, TemperatureUnit, anhydrous_to_hydrate, hydrate_to_anhydrous,
 };
@@ -72,10 +74,13 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
             span: s.loading.span,
         });
     }
-    let mut ranked: Vec<(f64, Row)> = Vec::new();
+    // Results are ranked as compact records and turned into rows once, in rank order, so
+    // a large screening moves no rows while sorting.
+    let mut ranked: Vec<(&Solute, Screening, Option<f64>)> =
+        Vec::with_capacity(snap.catalog.solutes().len());
     let mut no_data: Vec<Row> = Vec::new();
     let (mut from_memory, mut unreviewed) = (0usize, 0usize);
-    for solute in snap.catalog.solutes() {
+    for (index, solute) in snap.catalog.solutes().iter().enumerate() {
         if !selects(snap, solute, s.class, &s.filters) {
             continue;
         }
@@ -95,7 +100,7 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
             ));
             continue;
         }
-        let Some(built) = snap.curve(&solute.id, s.options.reviewed_only) else {
+        let Some(built) = snap.curve_at(index, s.options.reviewed_only) else {
             no_data.push(missing(if s.options.reviewed_only {
                 "no reviewed solubility data".into()
             } else {
@@ -141,39 +146,33 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
             s.loading.span,
         )
         .ok();
-        ranked.push((
-            screening.headroom_pct,
-            Row {
-                solute: Some(solute.name.clone()),
-                quantity: Some("solubility at the limiting temperature".into()),
-                value: saturated,
-                unit: saturated.map(|_| s.loading.unit.symbol().to_string()),
-                basis: Some(Basis::from(screening.basis)),
-                phase: Some(screening.phase.clone()),
-                temperature_c: Some(celsius(screening.limiting_t_k)),
-                holds: Some(screening.holds),
-                headroom_pct: Some(headroom(screening.headroom_pct)),
-                extra: [(
-                    "status".to_string(),
-                    json!(if screening.holds {
-                        "stays dissolved"
-                    } else {
-                        "crystallises"
-                    }),
-                )]
-                .into_iter()
-                .collect(),
-            },
-        ));
+        ranked.push((solute, screening, saturated));
     }
-    ranked.sort_by(|a, b| {
+    // Best headroom first, then by name; the sort is stable, so equal rows keep catalog
+    // order. Only (headroom, position) pairs move while sorting.
+    let mut order: Vec<(f64, usize)> = ranked
+        .iter()
+        .enumerate()
+        .map(|(i, (_, screening, _))| (screening.headroom_pct, i))
+        .collect();
+    order.sort_by(|a, b| {
         b.0.total_cmp(&a.0)
-            .then_with(|| a.1.solute.cmp(&b.1.solute))
+            .then_with(|| ranked[a.1].0.name.cmp(&ranked[b.1].0.name))
     });
-    let held = ranked.iter().filter(|(_, r)| r.holds == Some(true)).count();
+    let held = ranked.iter().filter(|(_, sc, _)| sc.holds).count();
     let with_data = ranked.len();
     let no_data_count = no_data.len();
-    answer.rows.extend(ranked.into_iter().map(|(_, r)| r));
+    let unit = s.loading.unit.symbol();
+    answer.rows.reserve(with_data + no_data_count);
+    let mut ranked: Vec<Option<(&Solute, Screening, Option<f64>)>> =
+        ranked.into_iter().map(Some).collect();
+    for &(_, i) in &order {
+        if let Some((solute, screening, saturated)) = ranked[i].take() {
+            answer
+                .rows
+                .push(screening_row(solute, screening, saturated, unit));
+        }
+    }
     answer.rows.extend(no_data);
     answer.caveat(format!(
         "{held} of {with_data} solutes with data stay dissolved; {no_data_count} without data over the range are listed apart as \"no data\", never as passing"
@@ -196,6 +195,31 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
     }
     answer.caveat(CAUTION);
     Ok(())
+}
+
+/// One ranked row of a screening.
+fn screening_row(solute: &Solute, screening: Screening, saturated: Option<f64>, unit: &str) -> Row {
+    Row {
+        solute: Some(solute.name.clone()),
+        quantity: Some("solubility at the limiting temperature".into()),
+        value: saturated,
+        unit: saturated.map(|_| unit.to_string()),
+        basis: Some(Basis::from(screening.basis)),
+        temperature_c: Some(celsius(screening.limiting_t_k)),
+        holds: Some(screening.holds),
+        headroom_pct: Some(headroom(screening.headroom_pct)),
+        // Built from an array, not collected from an iterator: one allocation fewer per
+        // row (collecting goes through a temporary vector).
+        extra: BTreeMap::from([(
+            "status".to_string(),
+            json!(if screening.holds {
+                "stays dissolved"
+            } else {
+                "crystallises"
+            }),
+        )]),
+        phase: Some(screening.phase),
+    }
 }
 
 /// `require KCl stays dissolved at 20 g/100g water over cold margin 10%`.

@@ -11,6 +11,7 @@ use std::path::{Path, PathBuf};
 
 use crate::answer::{Answer, Row};
 use crate::engine::Engine;
+use crate::frontend::picture::Pictures;
 use crate::frontend::{Outcome, database_name, open_engine};
 use crate::output::number::{display, round_significant};
 use crate::output::{Format, Printer};
@@ -124,6 +125,7 @@ pub fn run(
     db: Option<&Path>,
     sources: &[ScriptSource],
     format: Format,
+    pictures: &Pictures,
     stdin: &mut impl Read,
     out: &mut impl Write,
     err: &mut impl Write,
@@ -146,11 +148,16 @@ pub fn run(
             return Outcome::Trouble;
         }
     };
-    run_scripts(&engine, &scripts, format, out, err)
+    run_scripts(&engine, &scripts, format, pictures, out, err)
 }
 
 /// A batch run over the process's standard streams.
-pub fn run_std(db: Option<&Path>, sources: &[ScriptSource], format: Format) -> Outcome {
+pub fn run_std(
+    db: Option<&Path>,
+    sources: &[ScriptSource],
+    format: Format,
+    pictures: &Pictures,
+) -> Outcome {
     let stdin = io::stdin();
     let stdout = io::stdout();
     let stderr = io::stderr();
@@ -163,6 +170,7 @@ pub fn run_std(db: Option<&Path>, sources: &[ScriptSource], format: Format) -> O
             db,
             sources,
             format,
+            pictures,
             &mut stdin,
             &mut stdout.lock(),
             &mut stderr,
@@ -171,31 +179,64 @@ pub fn run_std(db: Option<&Path>, sources: &[ScriptSource], format: Format) -> O
         // A program is reading: answers are many small writes, and a buffer keeps a long
         // script from costing a system call per line. It is flushed before returning.
         let mut out = io::BufWriter::new(stdout.lock());
-        run(db, sources, format, &mut stdin, &mut out, &mut stderr)
+        run(
+            db,
+            sources,
+            format,
+            pictures,
+            &mut stdin,
+            &mut out,
+            &mut stderr,
+        )
     }
 }
 
 /// Answers statements given as command-line arguments (`satline "<statements>"`), with
 /// the exit codes and messages of a batch run.
-pub fn run_arguments(db: Option<&Path>, statements: &[String], format: Format) -> Outcome {
-    run_std(db, &[ScriptSource::Arguments(statements.to_vec())], format)
+pub fn run_arguments(
+    db: Option<&Path>,
+    statements: &[String],
+    format: Format,
+    pictures: &Pictures,
+) -> Outcome {
+    run_std(
+        db,
+        &[ScriptSource::Arguments(statements.to_vec())],
+        format,
+        pictures,
+    )
 }
 
-/// Runs scripts that are already read, in order, in one session.
+/// Runs scripts that are already read, in order, in one session. With `pictures.out`,
+/// each answered `plot` is written to its file (see `Pictures::path_for`) and the answer
+/// names the file; a run with `--out` and no plot answered ends with exit 2.
 pub fn run_scripts(
     engine: &Engine,
     scripts: &[Script],
     format: Format,
+    pictures: &Pictures,
     out: &mut impl Write,
     err: &mut impl Write,
 ) -> Outcome {
     let mut printer = Printer::new(out, format);
     let mut session = engine.session();
     let mut outcome = Outcome::Success;
+    let mut plots = 0;
     for script in scripts {
-        let answers = engine.run_text(&script.text, &mut session);
+        let mut answers = engine.run_text(&script.text, &mut session);
         let mut locator = Locator::new(&script.text);
-        for answer in &answers {
+        for answer in &mut answers {
+            if let Some(spec) = answer.plot.as_deref() {
+                plots += 1;
+                match pictures.write(spec, plots) {
+                    Ok(written) => answer.picture = written.map(|p| p.display().to_string()),
+                    Err(e) => {
+                        report(err, &e.to_string());
+                        outcome = outcome.worst(Outcome::Trouble);
+                    }
+                }
+            }
+            let answer = &*answer;
             let position = locator.position(answer);
             if let Some(problem) = judge(&script.name, position, answer) {
                 report(err, &problem.message);
@@ -211,6 +252,16 @@ pub fn run_scripts(
                 }
             }
         }
+    }
+    if let (Some((path, _)), 0) = (&pictures.out, plots) {
+        report(
+            err,
+            &format!(
+                "--out {}: no plot statement was answered, so no picture was written",
+                path.display()
+            ),
+        );
+        outcome = outcome.worst(Outcome::Unanswered);
     }
     match printer.flush() {
         Ok(()) => outcome,
@@ -508,7 +559,14 @@ mod tests {
         ];
         let mut out = Vec::new();
         let mut err = Vec::new();
-        let outcome = run_scripts(&engine, &scripts, Format::Json, &mut out, &mut err);
+        let outcome = run_scripts(
+            &engine,
+            &scripts,
+            Format::Json,
+            &Pictures::default(),
+            &mut out,
+            &mut err,
+        );
         // With any engine these two lines are not statements of the language.
         assert_eq!(outcome, Outcome::Unanswered);
         let err = String::from_utf8(err).unwrap();
@@ -539,7 +597,14 @@ mod tests {
             text: "describe NaCl\ndescribe KCl\n".into(),
         }];
         let mut err = Vec::new();
-        let outcome = run_scripts(&engine, &scripts, Format::Table, &mut ClosedPipe, &mut err);
+        let outcome = run_scripts(
+            &engine,
+            &scripts,
+            Format::Table,
+            &Pictures::default(),
+            &mut ClosedPipe,
+            &mut err,
+        );
         assert_ne!(outcome, Outcome::Trouble);
         assert!(!String::from_utf8(err).unwrap().contains("cannot write"));
     }

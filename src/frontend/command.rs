@@ -1,20 +1,22 @@
 //! Session commands of the interactive session: lines that talk to the session rather than
-//! ask the reference (`help`, `output json`, `forget`, `quit`). They are parsed here into an
+//! ask the reference (`help`, `output json`, `save curve.svg`, `forget`, `quit`). They are parsed here into an
 //! enum with its own error type; every other line is a statement for the engine.
 
 use crate::frontend::help::{self, Topic};
 use crate::output::Format;
 
 /// The words that start a session command. None of them starts a statement.
-pub const COMMAND_WORDS: [&str; 5] = ["help", "output", "forget", "quit", "exit"];
+pub const COMMAND_WORDS: [&str; 6] = ["help", "output", "save", "forget", "quit", "exit"];
 
 /// A session command.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+#[derive(Debug, Clone, PartialEq, Eq)]
 pub enum SessionCommand {
     /// `help` (the overview) or `help TOPIC`.
     Help(Option<&'static Topic>),
     /// `output FORMAT` sets the output format; `output` alone tells the current one.
     Output(Option<Format>),
+    /// `save FILE`: writes the last plot to FILE, as SVG or PNG by its extension.
+    Save(String),
     /// `forget`: unbinds every name bound with `let`.
     Forget,
     /// `quit` or `exit`: leaves the session.
@@ -31,6 +33,11 @@ pub enum CommandError {
     /// A help topic we do not have: `help frobnicate`.
     #[error("there is no help on `{given}`; the topics are: {}", help::topic_names().join(", "))]
     UnknownTopic { given: String },
+    /// `save` without a file: `save`.
+    #[error(
+        "`save` wants a file to write the last plot to, such as `save curve.svg` or `save curve.png`"
+    )]
+    MissingFile,
     /// Words after a command that takes none: `forget everything`.
     #[error("`{command}` takes nothing after it (found `{extra}`)")]
     UnexpectedWords {
@@ -79,6 +86,13 @@ pub fn parse(line: &str) -> Option<Result<SessionCommand, CommandError>> {
                     .ok_or_else(|| CommandError::UnknownFormat {
                         given: rest.to_string(),
                     })
+            }
+        }
+        "save" => {
+            if rest.is_empty() {
+                Err(CommandError::MissingFile)
+            } else {
+                Ok(SessionCommand::Save(rest.to_string()))
             }
         }
         "forget" => no_more("forget", SessionCommand::Forget),
@@ -156,6 +170,15 @@ mod tests {
         fn any_line_parses_without_panic(line in "\\PC{0,40}") {
             let _ = parse(&line);
         }
+    }
+
+    #[test]
+    fn save_wants_a_file() {
+        assert_eq!(
+            parse("save out/curve.svg"),
+            Some(Ok(SessionCommand::Save("out/curve.svg".into())))
+        );
+        assert_eq!(parse("save"), Some(Err(CommandError::MissingFile)));
     }
 
     #[test]

@@ -160,6 +160,25 @@ pub const TOPICS: &[Topic] = &[
         ],
     },
     Topic {
+        name: "plot",
+        aliases: &["picture", "curve", "graph", "save"],
+        summary: "a picture of solubility curves, sketched here or saved as SVG or PNG",
+        body: "plot SOLUTE[, SOLUTE ...] [from T1 to T2] [in UNIT] \
+               [with loading LOADING [RANGE]] [margin PERCENT] [under PRESSURE] [extrapolate]\n\
+               Draws each solute's curve over the range (the data's range when none is \
+               given): one line per solid phase, tabulated points marked by source, \
+               transitions marked, extrapolated parts dashed (drawn beyond the data only \
+               with `extrapolate`). `with loading` adds the loading line over its storage \
+               range and marks the limiting point. Gases are drawn at a pressure with \
+               `under`. Here a text sketch is shown; `save FILE.svg` or `save FILE.png` \
+               writes the last plot as a picture (on the command line: --out FILE).",
+        examples: &[
+            "plot KNO3, KCl from 0 C to 100 C",
+            "plot KCl from 0 C to 40 C with loading 30 g/100g water from 2 C to 8 C",
+            "plot O2, N2 from 0 C to 40 C under air",
+        ],
+    },
+    Topic {
         name: "units",
         aliases: &["unit", "quantities"],
         summary: "how to write temperatures, loadings and pressures",

@@ -8,6 +8,7 @@ pub mod batch;
 pub mod command;
 pub mod complete;
 pub mod help;
+pub mod picture;
 pub mod repl;
 
 use std::io::IsTerminal;
@@ -56,6 +57,7 @@ pub fn run_default(db: Option<&Path>) -> Outcome {
             db,
             &[batch::ScriptSource::Stdin],
             crate::output::Format::Table,
+            &picture::Pictures::default(),
         )
     }
 }

@@ -17,8 +17,10 @@ use rustyline::history::DefaultHistory;
 use crate::engine::{Engine, Session};
 use crate::frontend::command::{self, SessionCommand};
 use crate::frontend::complete::{SessionHelper, Vocabulary};
+use crate::frontend::picture::{Pictures, write_picture};
 use crate::frontend::{Outcome, database_name, help, open_engine};
 use crate::output::{Format, Printer};
+use crate::plot::{self, PlotSpec};
 
 /// The prompt of a new statement.
 pub const PROMPT: &str = "satline> ";
@@ -41,6 +43,8 @@ pub struct Repl<'e> {
     engine: &'e Engine,
     session: Session,
     format: Format,
+    /// What the last `plot` drew, for `save FILE`.
+    last_plot: Option<PlotSpec>,
 }
 
 impl<'e> Repl<'e> {
@@ -49,6 +53,7 @@ impl<'e> Repl<'e> {
             engine,
             session: engine.session(),
             format: Format::Table,
+            last_plot: None,
         }
     }
 
@@ -74,6 +79,9 @@ impl<'e> Repl<'e> {
                 let mut printer = Printer::new(&mut *out, self.format);
                 for answer in &answers {
                     printer.print(answer, input)?;
+                    if let Some(spec) = &answer.plot {
+                        self.last_plot = Some((**spec).clone());
+                    }
                 }
                 printer.flush()?;
                 Ok(Flow::Continue)
@@ -95,6 +103,7 @@ impl<'e> Repl<'e> {
                 self.format.name(),
                 Format::NAMES.join("|")
             )?,
+            SessionCommand::Save(file) => self.save(&file, out)?,
             SessionCommand::Forget => {
                 self.session = self.engine.session();
                 writeln!(out, "forgot every name bound with let")?;
@@ -102,6 +111,32 @@ impl<'e> Repl<'e> {
             SessionCommand::Leave => return Ok(Flow::Leave),
         }
         Ok(Flow::Continue)
+    }
+}
+
+impl Repl<'_> {
+    /// `save FILE`: writes the last plot as SVG or PNG, by the file's extension.
+    fn save(&self, file: &str, out: &mut impl Write) -> io::Result<()> {
+        let Some(spec) = &self.last_plot else {
+            return writeln!(
+                out,
+                "no plot to save yet: draw one first, e.g. `plot KNO3 from 0 C to 100 C`"
+            );
+        };
+        let path = Path::new(file);
+        let written = Pictures::from_args(Some(path), None).and_then(|pictures| {
+            let size = pictures.size;
+            let format = pictures.out.map_or(plot::Format::Svg, |(_, f)| f);
+            write_picture(spec, path, format, size).map(|()| (format, size))
+        });
+        match written {
+            Ok((format, (width, height))) => writeln!(
+                out,
+                "wrote {file} ({} picture, {width}×{height})",
+                format.name()
+            ),
+            Err(e) => writeln!(out, "{e}"),
+        }
     }
 }
 
@@ -384,6 +419,23 @@ mod tests {
         let (flow, text) = handle(&mut repl, require);
         assert_eq!(flow, Flow::Continue);
         assert!(text.contains("error at line 1"), "{text}");
+    }
+
+    #[test]
+    fn a_plot_is_sketched_and_saved() {
+        let engine = open_engine(None).unwrap();
+        let mut repl = Repl::new(&engine);
+        let (_, text) = handle(&mut repl, "save nothing.svg");
+        assert!(text.starts_with("no plot to save yet"), "{text}");
+        let (_, text) = handle(&mut repl, "plot KNO3 from 0 C to 100 C");
+        assert!(text.contains("* potassium nitrate: solid KNO3"), "{text}");
+        let dir = tempfile::tempdir().unwrap();
+        let file = dir.path().join("curve.svg");
+        let (_, text) = handle(&mut repl, &format!("save {}", file.display()));
+        assert!(text.starts_with("wrote "), "{text}");
+        assert!(std::fs::read_to_string(&file).unwrap().starts_with("<svg"));
+        let (_, text) = handle(&mut repl, "save curve.gif");
+        assert!(text.contains("not `.gif`"), "{text}");
     }
 
     #[test]

@@ -67,7 +67,32 @@ fn plain(value: &serde_json::Value) -> String {
 }
 
 /// Draws the rows of an answer as a table (empty string when there are none).
+///
+/// Consecutive rows with the same fields share one table; rows of another shape (the record
+/// line of `describe`, the "no data" rows of a screening) start a table of their own, so no
+/// table is padded with columns its rows leave empty.
 pub fn rows_table(rows: &[Row]) -> String {
+    let mut tables = Vec::new();
+    let mut start = 0;
+    for end in 1..=rows.len() {
+        if end == rows.len() || shape(&rows[end]) != shape(&rows[start]) {
+            tables.push(one_table(&rows[start..end]));
+            start = end;
+        }
+    }
+    tables.join("\n")
+}
+
+/// Which fields a row fills: rows of one shape go in one table.
+fn shape(row: &Row) -> (bool, bool, Vec<&str>) {
+    (
+        row.value.is_some(),
+        row.holds.is_some(),
+        row.extra.keys().map(String::as_str).collect(),
+    )
+}
+
+fn one_table(rows: &[Row]) -> String {
     if rows.is_empty() {
         return String::new();
     }
@@ -132,6 +157,12 @@ pub fn write_answer(out: &mut impl Write, answer: &Answer, script: &str) -> io::
     if !table.is_empty() {
         writeln!(out, "{table}")?;
     }
+    if let Some(spec) = &answer.plot {
+        write!(out, "{}", crate::plot::sketch(spec))?;
+    }
+    if let Some(file) = &answer.picture {
+        writeln!(out, "  picture written to {file}")?;
+    }
     for caveat in &answer.caveats {
         writeln!(out, "  note: {caveat}")?;
     }
@@ -162,6 +193,28 @@ mod tests {
         assert!(text.contains("solute"));
         assert!(text.contains("34.2"));
         assert!(!text.contains("headroom"));
+    }
+
+    #[test]
+    fn rows_of_another_shape_get_their_own_table() {
+        let mut missing = Row {
+            solute: Some("trisodium citrate".into()),
+            ..Row::default()
+        };
+        missing.extra.insert("status".into(), "no data".into());
+        let rows = vec![
+            Row {
+                solute: Some("sodium chloride".into()),
+                value: Some(35.7),
+                holds: Some(true),
+                ..Row::default()
+            },
+            missing,
+        ];
+        let text = rows_table(&rows);
+        assert_eq!(text.matches("┌").count(), 2, "{text}");
+        let second = text.split("┌").nth(2).unwrap();
+        assert!(!second.contains("holds"), "{text}");
     }
 
     #[test]

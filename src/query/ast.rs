@@ -380,6 +380,33 @@ pub struct Require {
     pub options: Options,
 }
 
+/// The loading of a screening question drawn on a plot: `with loading 30 g/100g water
+/// [from 2 C to 8 C]`; without temperatures the storage range is the plot's whole range.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct PlotLoading {
+    pub loading: Loading,
+    pub temperatures: Option<Temperatures>,
+    /// From `with` to the end of the clause.
+    pub span: Span,
+}
+
+/// `plot KNO3, KCl [from 0 C to 100 C] [in mol/kg] [with loading 30 g/100g water from 2 C
+/// to 8 C] [margin 10%] [under air]`: a picture of curves.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Plot {
+    /// One or more solutes, as written, in order.
+    pub solutes: Vec<Name>,
+    /// `None`: the range of the data.
+    pub range: Option<TemperatureRange>,
+    pub unit: Option<UnitChoice<CompositionUnit>>,
+    pub loading: Option<PlotLoading>,
+    /// Only with a loading (the parser checks).
+    pub margin: Option<Margin>,
+    /// Gases only: the pressure the dissolved amount is drawn at.
+    pub pressure: Option<GasPressure>,
+    pub options: Options,
+}
+
 /// One statement of the language.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub enum Statement {
@@ -396,6 +423,7 @@ pub enum Statement {
     List(List),
     Let(Let),
     Require(Require),
+    Plot(Plot),
 }
 
 impl Statement {
@@ -415,6 +443,7 @@ impl Statement {
             Statement::List(_) => "list",
             Statement::Let(_) => "let",
             Statement::Require(_) => "require",
+            Statement::Plot(_) => "plot",
         }
     }
 }

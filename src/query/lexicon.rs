@@ -5,7 +5,7 @@ use super::ast::ValueKind;
 use crate::science::units::{CompositionUnit, PressureUnit, TemperatureUnit};
 
 /// Words that begin a statement.
-pub const STATEMENT_WORDS: [&str; 13] = [
+pub const STATEMENT_WORDS: [&str; 14] = [
     "solubility",
     "which",
     "saturation",
@@ -19,6 +19,7 @@ pub const STATEMENT_WORDS: [&str; 13] = [
     "list",
     "let",
     "require",
+    "plot",
 ];
 
 /// Words that end a multi-word name: the name stops where one of these begins.
@@ -41,7 +42,7 @@ pub const NAME_STOP: [&str; 15] = [
 ];
 
 /// Other keywords; none of them may be bound by `let`.
-const OTHER_KEYWORDS: [&str; 17] = [
+const OTHER_KEYWORDS: [&str; 18] = [
     "dissolved",
     "solution",
     "temperature",
@@ -59,6 +60,7 @@ const OTHER_KEYWORDS: [&str; 17] = [
     "solute",
     "gas",
     "air",
+    "loading",
 ];
 
 /// Every keyword of the language, for completion in the REPL.

@@ -1093,6 +1093,7 @@ fn statement<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
         "list" => list(cx, after),
         "let" => binding(cx, after),
         "require" => require(cx, after),
+        "plot" => plot(cx, after),
         _ => {
             let (span, found) = found_at(cx, t);
             let found = found.unwrap_or_default();
@@ -1500,6 +1501,231 @@ fn let_value<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Value> {
     // Another name: the new one gets a copy of its value.
     let (rest, (_, value)) = resolve(cx, t, ValueKind::Temperature)?;
     Ok((rest, value))
+}
+
+/// After `plot`: solute names separated by `,` (a comma ending a word, or standing alone)
+/// or `and`. A comma inside a word belongs to the name (`1,2-ethanediol`).
+fn solute_list<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Vec<Name>> {
+    const FOLLOWERS: [&str; 4] = ["from", "over", "with", "under"];
+    let mut names = Vec::new();
+    let mut rest = i;
+    loop {
+        let begin = skip(rest);
+        let mut words: Vec<&str> = Vec::new();
+        let mut end = begin;
+        let mut cursor = begin;
+        let mut comma = false;
+        loop {
+            let t = skip(cursor);
+            if let Some(after) = t.strip_prefix(',') {
+                comma = true;
+                cursor = after;
+                break;
+            }
+            let (word, after) = next_word(t);
+            if word.is_empty() || ends_name(word) || ends_as_number(word) {
+                cursor = t;
+                break;
+            }
+            if !words.is_empty() && word.chars().count() >= 2 {
+                if let Some(meant) = nearest(word, &FOLLOWERS) {
+                    let next = skip(after);
+                    let (following, _) = next_word(next);
+                    if starts_number(next) || is_keyword(following) {
+                        return Err(failure(
+                            ParseErrorKind::Expected {
+                                expected: one_of(&FOLLOWERS),
+                                found: Some(shorten(word)),
+                                suggestion: Some(meant.to_string()),
+                            },
+                            cx.span(t, after),
+                        ));
+                    }
+                }
+            }
+            if let Some(head) = word.strip_suffix(',') {
+                if !head.is_empty() {
+                    words.push(head);
+                    end = &t[head.len()..];
+                }
+                comma = true;
+                cursor = after;
+                break;
+            }
+            words.push(word);
+            end = after;
+            cursor = after;
+        }
+        if words.is_empty() {
+            return Err(expected_here(cx, begin, SOLUTE.into(), &[]));
+        }
+        names.push(Name {
+            text: words.join(" "),
+            span: cx.span(begin, end),
+        });
+        if comma {
+            rest = cursor;
+        } else if let Some(after) = has_keyword(cursor, "and") {
+            rest = after;
+        } else {
+            return Ok((cursor, names));
+        }
+    }
+}
+
+/// `plot KNO3, KCl from 0 C to 100 C ...`: the solutes, an optional range, then the
+/// clauses in any order.
+fn plot<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
+    let (i, solutes) = solute_list(cx, i)?;
+    let t = skip(i);
+    let (mut rest, range) = if has_keyword(t, "from").is_some() {
+        let (r, range) = range_from(cx, t)?;
+        (r, Some(range))
+    } else if let Some(after) = has_keyword(t, "over") {
+        if has_keyword(after, "from").is_some() {
+            let (r, range) = range_from(cx, after)?;
+            (r, Some(range))
+        } else {
+            let want = ValueKind::TemperatureRange;
+            match cut(context(want.example(), |x| point_or_range(cx, x, want))).parse(after)? {
+                (r, Temperatures::Range(range)) => (r, Some(range)),
+                (r, Temperatures::At(_)) => {
+                    let at = skip(after);
+                    return Err(failure(
+                        ParseErrorKind::Expected {
+                            expected: want.example().into(),
+                            found: Some(cx.text(cx.span(at, r))),
+                            suggestion: None,
+                        },
+                        cx.span(at, r),
+                    ));
+                }
+            }
+        }
+    } else {
+        (t, None)
+    };
+    let mut unit = None;
+    let mut loading: Option<PlotLoading> = None;
+    let mut margin_clause = None;
+    let mut pressure = None;
+    let mut options = Options::default();
+    loop {
+        let t = skip(rest);
+        if t.is_empty() {
+            break;
+        }
+        let (word, after) = next_word(t);
+        match word.to_lowercase().as_str() {
+            "in" => {
+                if unit.is_some() {
+                    return Err(duplicate(cx, t, after, "in"));
+                }
+                let (r, u) = composition_unit(cx, after)?;
+                unit = Some(u);
+                rest = r;
+            }
+            "with" => {
+                if loading.is_some() {
+                    return Err(duplicate(cx, t, after, "with loading"));
+                }
+                let (r, _) = expect(cx, after, &["loading"])?;
+                let (r, amount) = committed_loading(cx, r)?;
+                let at = skip(r);
+                let (r, temperatures) = if ["at", "from", "over"]
+                    .iter()
+                    .any(|w| has_keyword(at, w).is_some())
+                {
+                    let (r, temps) = temperatures(cx, at)?;
+                    (r, Some(temps))
+                } else {
+                    (r, None)
+                };
+                loading = Some(PlotLoading {
+                    loading: amount,
+                    temperatures,
+                    span: cx.span(t, r),
+                });
+                rest = r;
+            }
+            "margin" => {
+                if margin_clause.is_some() {
+                    return Err(duplicate(cx, t, after, "margin"));
+                }
+                let (r, m) =
+                    cut(context(ValueKind::Margin.example(), |x| margin(cx, x))).parse(after)?;
+                margin_clause = Some(m);
+                rest = r;
+            }
+            "under" => {
+                if pressure.is_some() {
+                    return Err(duplicate(cx, t, after, "under"));
+                }
+                let (r, p) = gas_pressure(cx, after)?;
+                pressure = Some(p);
+                rest = r;
+            }
+            "extrapolate" => {
+                if options.extrapolate {
+                    return Err(duplicate(cx, t, after, "extrapolate"));
+                }
+                options.extrapolate = true;
+                rest = after;
+            }
+            "reviewed" => {
+                let (r, _) = expect(cx, after, &["only"])?;
+                if options.reviewed_only {
+                    return Err(duplicate(cx, t, r, "reviewed only"));
+                }
+                options.reviewed_only = true;
+                rest = r;
+            }
+            _ => {
+                let mut words: Vec<&'static str> = Vec::new();
+                if range.is_none() {
+                    words.extend(["from", "over"]);
+                }
+                words.extend(["in", "with", "margin", "under", "extrapolate", "reviewed"]);
+                let shown: Vec<&str> = words
+                    .iter()
+                    .map(|w| {
+                        if *w == "reviewed" {
+                            "reviewed only"
+                        } else {
+                            *w
+                        }
+                    })
+                    .collect();
+                let expected = format!(
+                    "{} or the end of the statement",
+                    one_of(&shown).replace(" or ", ", ")
+                );
+                return Err(expected_here(cx, t, expected, &words));
+            }
+        }
+    }
+    if let (Some(m), None) = (&margin_clause, &loading) {
+        return Err(failure(
+            ParseErrorKind::Expected {
+                expected: "`with loading ...` for the margin to apply to".into(),
+                found: Some(cx.text(m.span)),
+                suggestion: None,
+            },
+            m.span,
+        ));
+    }
+    Ok((
+        rest,
+        Statement::Plot(Plot {
+            solutes,
+            range,
+            unit,
+            loading,
+            margin: margin_clause,
+            pressure,
+            options,
+        }),
+    ))
 }
 
 #[cfg(test)]

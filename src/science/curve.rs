@@ -421,6 +421,29 @@ impl Curve {
     /// branches) unless `extrapolate` is true; then the ends' tangent lines are followed and
     /// the basis is `Extrapolated`.
     pub fn evaluate(&self, t_k: f64, extrapolate: bool) -> Result<Evaluation, ScienceError> {
+        let (i, w, d) = self.stable_checked(t_k, extrapolate)?;
+        let branch = &self.branches[i];
+        Ok(Evaluation {
+            mass_fraction: w,
+            slope_per_k: d,
+            phase: branch.phase.clone(),
+            branch: i,
+            basis: branch.basis_at(t_k),
+        })
+    }
+
+    /// The mass fraction [`Curve::evaluate`] gives, with the same errors, without building
+    /// an [`Evaluation`] (no allocation): for inversions that sample the curve many times.
+    pub fn mass_fraction(&self, t_k: f64, extrapolate: bool) -> Result<f64, ScienceError> {
+        self.stable_checked(t_k, extrapolate).map(|(_, w, _)| w)
+    }
+
+    /// The checks of [`Curve::evaluate`], then the stable branch: (index, w, dw/dT).
+    fn stable_checked(
+        &self,
+        t_k: f64,
+        extrapolate: bool,
+    ) -> Result<(usize, f64, f64), ScienceError> {
         if !t_k.is_finite() || t_k <= 0.0 {
             return Err(ScienceError::NotPositive {
                 what: "temperature (K)",
@@ -454,15 +477,7 @@ impl Curve {
                 above_k,
             });
         }
-        let (i, w, d) = self.stable(t_k);
-        let branch = &self.branches[i];
-        Ok(Evaluation {
-            mass_fraction: w,
-            slope_per_k: d,
-            phase: branch.phase.clone(),
-            branch: i,
-            basis: branch.basis_at(t_k),
-        })
+        Ok(self.stable(t_k))
     }
 
     /// Where the stable branch changes: found on a grid of every knot plus 50 steps per

@@ -46,9 +46,12 @@ fn check_loading(w: f64) -> Result<f64, ScienceError> {
 /// Grid of every knot, every transition and `STEPS` subdivisions between neighbours,
 /// restricted to [lo, hi] and, unless `uncovered_too`, to temperatures with data.
 fn scan_grid(curve: &Curve, lo: f64, hi: f64, uncovered_too: bool) -> Vec<f64> {
+    // Every branch's knots, sorted and deduplicated below together with the rest (the
+    // same set as `Curve::knots`, without its extra sorted copy).
     let mut knots: Vec<f64> = curve
-        .knots()
-        .into_iter()
+        .branches
+        .iter()
+        .flat_map(|b| b.knots().iter().copied())
         .chain(curve.transitions().iter().map(|t| t.t_k))
         .filter(|&t| t > lo && t < hi)
         .collect();
@@ -63,10 +66,7 @@ fn scan_grid(curve: &Curve, lo: f64, hi: f64, uncovered_too: bool) -> Vec<f64> {
 }
 
 fn value(curve: &Curve, t: f64) -> f64 {
-    curve
-        .evaluate(t, true)
-        .map(|e| e.mass_fraction)
-        .unwrap_or(f64::NAN)
+    curve.mass_fraction(t, true).unwrap_or(f64::NAN)
 }
 
 /// Every temperature inside the data range where the curve equals the loading `w`.
@@ -161,7 +161,8 @@ pub struct Minimum {
 /// intervals. (PCHIP is monotone between knots, so the knots and transitions alone would
 /// do; the scan guards the branch selection.) Without `extrapolate` every temperature of
 /// the range must have data (else [`ScienceError::OutOfRange`] or [`ScienceError::InGap`]);
-/// with it, missing parts are extrapolated and the basis is `Extrapolated`.
+/// with it, missing parts are extrapolated and the basis is `Extrapolated`. A single
+/// temperature (t1_k = t2_k) is one evaluation there: the scan would hold that one point.
 pub fn minimum(
     curve: &Curve,
     t1_k: f64,
@@ -170,6 +171,23 @@ pub fn minimum(
 ) -> Result<Minimum, ScienceError> {
     if !(t1_k.is_finite() && t2_k.is_finite()) || t2_k < t1_k {
         return Err(ScienceError::BadRange { t1_k, t2_k });
+    }
+    if t1_k == t2_k {
+        let uncovered = !curve.covers(t1_k);
+        if uncovered && !extrapolate {
+            curve.evaluate(t1_k, false)?;
+        }
+        let e = curve.evaluate(t1_k, true)?;
+        return Ok(Minimum {
+            t_k: t1_k,
+            mass_fraction: e.mass_fraction,
+            phase: e.phase,
+            basis: if uncovered {
+                Basis::Extrapolated
+            } else {
+                e.basis
+            },
+        });
     }
     // Every end of a branch inside the range: a side of it without data is a gap.
     let mut uncovered = None;
@@ -431,6 +449,37 @@ mod tests {
         assert_eq!(x.len(), 1);
         assert_eq!(x[0].basis, Basis::Extrapolated);
         assert!(x[0].t_k > 303.15 && x[0].t_k < 313.15);
+    }
+
+    #[test]
+    fn a_single_temperature_is_the_curve_there() {
+        // Invented: two branches with a gap between 303.15 and 313.15 K.
+        let a = Branch::new("A·H2O", &[(283.15, 0.1), (303.15, 0.25)]).unwrap();
+        let b = Branch::new("A", &[(313.15, 0.33), (333.15, 0.31)]).unwrap();
+        let c = Curve::new(vec![a, b]).unwrap();
+        for t in [283.15, 290.0, 303.15, 320.0] {
+            let m = minimum(&c, t, t, false).unwrap();
+            let e = c.evaluate(t, false).unwrap();
+            assert_eq!(m.t_k, t);
+            assert_eq!(m.mass_fraction, e.mass_fraction);
+            assert_eq!(m.phase, e.phase);
+            assert_eq!(m.basis, e.basis);
+            assert_eq!(c.mass_fraction(t, false).unwrap(), e.mass_fraction);
+        }
+        assert!(matches!(
+            minimum(&c, 308.0, 308.0, false),
+            Err(ScienceError::InGap { .. })
+        ));
+        let m = minimum(&c, 308.0, 308.0, true).unwrap();
+        assert_eq!(m.basis, Basis::Extrapolated);
+        assert_eq!(
+            m.mass_fraction,
+            c.evaluate(308.0, true).unwrap().mass_fraction
+        );
+        assert!(matches!(
+            minimum(&c, 270.0, 270.0, false),
+            Err(ScienceError::OutOfRange { .. })
+        ));
     }
 
     #[test]

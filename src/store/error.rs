@@ -61,4 +61,56 @@ pub enum StoreError {
     /// another program.
     #[error("{location} holds an unreadable value: {what}")]
     Corrupt { location: String, what: String },
+
+    /// An import file is wrong, e.g. a CSV row with `value` = `abc`, a point of
+    /// `6000 g/100g water`, or a row with an empty `source`. Nothing was written.
+    #[error("{file}, {record}: {problem}")]
+    Import {
+        /// The file as given on the command line.
+        file: String,
+        /// The record, e.g. `line 4` or `dataset "demo", point 2`.
+        record: String,
+        problem: String,
+    },
+
+    /// No dataset has this key, e.g. `satline review approve kno3/crc-97` (the key is
+    /// `potassium-nitrate/crc-97`).
+    #[error(
+        "no dataset \"{key}\" (keys are <solute id>/<dataset key>; `satline review list` shows the unreviewed ones)"
+    )]
+    UnknownDataset { key: String },
+
+    /// No solute has this id, name, formula or synonym, e.g. `satline history KNO4`.
+    #[error("no solute \"{name}\"")]
+    UnknownSolute { name: String },
+
+    /// No source has this key, e.g. `satline source edit crc-98 --year 2017`.
+    #[error("no source \"{key}\" (add it with `satline source add {key} ...`)")]
+    UnknownSourceKey { key: String },
+
+    /// The command would change nothing, e.g. approving a dataset that is already reviewed,
+    /// or adding a source whose key is taken.
+    #[error("{what}")]
+    NoChange { what: String },
+
+    /// An export into a directory that already holds files, e.g.
+    /// `satline export --to toml --out seed-data` without `--force`.
+    #[error("{path} is not empty; use --force to write into it", path = path.display())]
+    NotEmptyDirectory { path: PathBuf },
+}
+
+impl StoreError {
+    /// True for errors in what the user gave (a bad import file, an unknown key, a change
+    /// that changes nothing): the command line exits with 2 for these, 3 for the others.
+    pub fn is_bad_input(&self) -> bool {
+        matches!(
+            self,
+            StoreError::Import { .. }
+                | StoreError::UnknownDataset { .. }
+                | StoreError::UnknownSolute { .. }
+                | StoreError::UnknownSourceKey { .. }
+                | StoreError::NoChange { .. }
+                | StoreError::NotEmptyDirectory { .. }
+        )
+    }
 }

@@ -4,11 +4,19 @@
 //! A [`Store`] is one open database whose schema is at [`SCHEMA_VERSION`]. Writes go
 //! through transactions that roll back on drop, so a failed load leaves nothing behind.
 
+pub mod audit;
+pub mod check;
 pub mod default_db;
 mod error;
+pub mod export;
+pub mod findings;
+pub mod import;
 mod read;
+pub mod review;
 pub mod schema;
 pub mod seed;
+pub mod sources;
+mod write;
 
 use std::path::Path;
 use std::time::Duration;
@@ -19,6 +27,10 @@ pub use error::StoreError;
 pub use read::{Contents, FreezingRecord};
 pub use schema::{MIGRATIONS, Migration, SCHEMA_VERSION};
 pub use seed::{SeedProblem, SeedSummary};
+
+pub use audit::AuditEntry;
+pub use check::CheckReport;
+pub use import::{ImportFile, ImportOptions, ImportPlan, ImportSummary};
 
 /// How long a connection waits for another process's lock before giving up.
 const BUSY_TIMEOUT: Duration = Duration::from_secs(5);
@@ -204,6 +216,96 @@ impl Store {
             .query_row("SELECT COUNT(*) FROM audit", [], |r| r.get(0))?;
         Ok(u64::try_from(n).unwrap_or(0))
     }
+
+    /// Every audit row, oldest first.
+    pub fn audit(&self) -> Result<Vec<AuditEntry>, StoreError> {
+        audit::all_entries(&self.conn)
+    }
+
+    /// The solute's id for an id, name, formula or synonym (case does not matter for names).
+    pub fn solute_id(&self, name: &str) -> Result<String, StoreError> {
+        let found: Option<String> = self
+            .conn
+            .query_row(
+                "SELECT id FROM solutes WHERE id = ?1 OR lower(name) = lower(?1) OR formula = ?1
+                 UNION ALL
+                 SELECT solute FROM solute_synonyms WHERE lower(synonym) = lower(?1)
+                 LIMIT 1",
+                params![name.trim()],
+                |r| r.get(0),
+            )
+            .optional()?;
+        found.ok_or_else(|| StoreError::UnknownSolute {
+            name: name.to_string(),
+        })
+    }
+
+    /// Every change to a solute and its records (datasets, Henry's-law records, freezing
+    /// data), oldest first. `name` may be the id, name, formula or a synonym.
+    pub fn history(&self, name: &str) -> Result<(String, Vec<AuditEntry>), StoreError> {
+        let id = self.solute_id(name)?;
+        let entries = audit::history(&self.conn, &id)?;
+        Ok((id, entries))
+    }
+
+    /// Plans an import of `files` against this database; writes nothing (`--dry-run`).
+    pub fn plan_import(
+        &self,
+        files: &[ImportFile],
+        options: &ImportOptions,
+    ) -> Result<ImportPlan, StoreError> {
+        import::plan(self, files, options)
+    }
+
+    /// Writes a planned import in one transaction; see [`import::apply`].
+    pub fn apply_import(
+        &mut self,
+        plan: &ImportPlan,
+        actor: &str,
+        tick: &mut dyn FnMut(),
+    ) -> Result<ImportSummary, StoreError> {
+        import::apply(self, plan, actor, tick)
+    }
+}
+
+/// Creates an empty database file at `path`: the schema and no data, with one audit row
+/// (`create-empty`) naming the actor. Published like [`init_file`]: built beside `path` and
+/// moved into place, an existing file refused unless `force`.
+pub fn init_empty(path: &Path, actor: &str, force: bool) -> Result<(), StoreError> {
+    if path.exists() && !force {
+        return Err(StoreError::AlreadyExists {
+            path: path.to_path_buf(),
+        });
+    }
+    let temp = default_db::temp_path_beside(path)?;
+    let built = (|| {
+        let mut store = Store::create(&temp)?;
+        let tx = store.conn.transaction()?;
+        audit::record(
+            &tx,
+            actor,
+            "create-empty",
+            "database",
+            None,
+            Some(&serde_json::json!({ "schema_version": SCHEMA_VERSION })),
+        )?;
+        tx.commit()?;
+        store.conn.close().map_err(|(_, e)| StoreError::Sqlite(e))
+    })();
+    if let Err(e) = built {
+        let _ = std::fs::remove_file(&temp);
+        return Err(e);
+    }
+    if force {
+        // The old file's write-ahead log and index belong to the database being replaced;
+        // left beside the new file, SQLite could read them as the new file's.
+        for suffix in ["-wal", "-shm"] {
+            let mut side = path.as_os_str().to_owned();
+            side.push(suffix);
+            let _ = std::fs::remove_file(Path::new(&side));
+        }
+    }
+    publish(&temp, path, force)
 }
 
 /// Opens the database the command line asked for: the file named by `--db` / `SATLINE_DB`
@@ -238,14 +340,21 @@ pub fn init_file<P: AsRef<str>, C: AsRef<str>>(
             return Err(e);
         }
     };
+    publish(&temp, path, force)?;
+    Ok(summary)
+}
+
+/// Moves a finished database from `temp` to `path`: replacing it in one rename when
+/// `force`, else by a hard link that fails when `path` appeared meanwhile.
+fn publish(temp: &Path, path: &Path, force: bool) -> Result<(), StoreError> {
     let published = if force {
-        std::fs::rename(&temp, path)
+        std::fs::rename(temp, path)
     } else {
         // A hard link fails when `path` appeared meanwhile: never overwrite without force.
-        std::fs::hard_link(&temp, path).and_then(|()| std::fs::remove_file(&temp))
+        std::fs::hard_link(temp, path).and_then(|()| std::fs::remove_file(temp))
     };
     if let Err(source) = published {
-        let _ = std::fs::remove_file(&temp);
+        let _ = std::fs::remove_file(temp);
         if source.kind() == std::io::ErrorKind::AlreadyExists {
             return Err(StoreError::AlreadyExists {
                 path: path.to_path_buf(),
@@ -256,7 +365,7 @@ pub fn init_file<P: AsRef<str>, C: AsRef<str>>(
             source,
         });
     }
-    Ok(summary)
+    Ok(())
 }
 
 /// Builds a complete database at `path` (which must not exist) and closes it.

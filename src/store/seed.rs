@@ -26,7 +26,7 @@ use serde::Deserialize;
 use sha2::{Digest, Sha256};
 
 use super::read::{Contents, FreezingRecord, Pair};
-use super::{StoreError, now_utc};
+use super::{StoreError, now_utc, write};
 use crate::model::{
     Dataset, FreezingData, GasConstant, GasLaw, Phase, Point, Provenance, Review, Solute,
     SoluteKind, Source, SourceKind,
@@ -287,6 +287,9 @@ struct RawDataset {
     note: Option<String>,
     points: Vec<toml::Value>,
     stable_range: Option<toml::Value>,
+    /// Written by `satline export` for a retired dataset; absent means not retired.
+    #[serde(default)]
+    retired: bool,
 }
 
 #[derive(Deserialize)]
@@ -852,7 +855,7 @@ fn parse_solute(
             temperature_unit: t_unit.symbol().to_string(),
             provenance: d.provenance,
             review: d.review,
-            retired: false,
+            retired: d.retired,
             note,
             points,
             stable_range,
@@ -1174,6 +1177,16 @@ fn parse_henry(
 /// Parses and validates seed files into the records the store keeps, without touching any
 /// database. `files` are (path relative to `seed-data/`, contents) pairs.
 pub fn parse_seed<P: AsRef<str>, C: AsRef<str>>(files: &[(P, C)]) -> Result<Contents, StoreError> {
+    parse_with_known_sources(files, &[])
+}
+
+/// As [`parse_seed`], for an import into a database that already holds sources: a dataset
+/// may also cite one of `known_sources`, and `sources.toml` may be left out. The returned
+/// contents hold only what the files hold.
+pub fn parse_with_known_sources<P: AsRef<str>, C: AsRef<str>>(
+    files: &[(P, C)],
+    known_sources: &[&str],
+) -> Result<Contents, StoreError> {
     let mut sources_file: Option<(&str, &str)> = None;
     let mut solute_files: Vec<(&str, &str, &str)> = Vec::new();
     for (path, text) in files {
@@ -1203,7 +1216,7 @@ pub fn parse_seed<P: AsRef<str>, C: AsRef<str>>(files: &[(P, C)]) -> Result<Cont
     let sources = match sources_file {
         Some((path, text)) => parse_sources(path, text)?,
         // No files at all is an empty reference (a fresh checkout before any data).
-        None if solute_files.is_empty() => Vec::new(),
+        None if solute_files.is_empty() || !known_sources.is_empty() => Vec::new(),
         None => {
             return Err(problem(
                 "sources.toml",
@@ -1212,7 +1225,11 @@ pub fn parse_seed<P: AsRef<str>, C: AsRef<str>>(files: &[(P, C)]) -> Result<Cont
             ));
         }
     };
-    let source_keys: HashSet<&str> = sources.iter().map(|s| s.key.as_str()).collect();
+    let source_keys: HashSet<&str> = sources
+        .iter()
+        .map(|s| s.key.as_str())
+        .chain(known_sources.iter().copied())
+        .collect();
 
     solute_files.sort();
     let mut parts = Vec::with_capacity(solute_files.len());
@@ -1274,217 +1291,20 @@ pub(crate) fn write(
     // Dropping `tx` without commit (on any `?` below) rolls everything back.
     let tx = conn.transaction()?;
     {
-        let mut insert_source = tx.prepare_cached(
-            "INSERT INTO sources (key, kind, title, authors, publisher, edition, year, locator, doi, isbn, url, note)
-             VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10, ?11, ?12)",
-        )?;
         for s in &contents.sources {
-            insert_source.execute(params![
-                s.key,
-                source_kind_str(s.kind),
-                s.title,
-                s.authors,
-                s.publisher,
-                s.edition,
-                s.year,
-                s.locator,
-                s.doi,
-                s.isbn,
-                s.url,
-                s.note
-            ])?;
+            write::upsert_source(&tx, s)?;
         }
-
-        let mut insert_solute = tx.prepare_cached(
-            "INSERT INTO solutes (id, name, formula, kind, molar_mass, cation, anion, ions, hazard)
-             VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9)",
-        )?;
-        let mut insert_synonym = tx.prepare_cached(
-            "INSERT INTO solute_synonyms (solute, position, synonym) VALUES (?1, ?2, ?3)",
-        )?;
-        let mut insert_tag = tx.prepare_cached(
-            "INSERT INTO solute_tags (solute, position, tag) VALUES (?1, ?2, ?3)",
-        )?;
         for s in &contents.solutes {
-            insert_solute.execute(params![
-                s.id,
-                s.name,
-                s.formula,
-                s.kind.as_str(),
-                s.molar_mass,
-                s.cation,
-                s.anion,
-                s.ions,
-                s.hazard
-            ])?;
-            for (i, syn) in s.synonyms.iter().enumerate() {
-                insert_synonym.execute(params![s.id, i as i64, syn])?;
-            }
-            for (i, tag) in s.tags.iter().enumerate() {
-                insert_tag.execute(params![s.id, i as i64, tag])?;
-            }
+            write::upsert_solute(&tx, s)?;
         }
-
-        let mut insert_phase = tx.prepare_cached(
-            "INSERT INTO phases (formula, name, water) VALUES (?1, ?2, ?3)
-             ON CONFLICT (formula, name) DO NOTHING",
-        )?;
-        let mut phase_id =
-            tx.prepare_cached("SELECT id FROM phases WHERE formula = ?1 AND name = ?2")?;
-        let mut insert_dataset = tx.prepare_cached(
-            "INSERT INTO datasets (key, solute, solvent, phase, source, unit, temperature_unit, provenance, review, retired, note,
-                                   stable_low_reported, stable_high_reported, stable_low_k, stable_high_k)
-             VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10, ?11, ?12, ?13, ?14, ?15)",
-        )?;
-        let mut insert_point = tx.prepare_cached(
-            "INSERT INTO points (dataset, position, temperature_reported, temperature_k, value_reported, mass_fraction, uncertainty)
-             VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7)",
-        )?;
         for d in &contents.datasets {
-            insert_phase.execute(params![d.phase.formula, d.phase.name, d.phase.water])?;
-            let phase: i64 =
-                phase_id.query_row(params![d.phase.formula, d.phase.name], |r| r.get(0))?;
-            insert_dataset.execute(params![
-                d.key,
-                d.solute,
-                d.solvent,
-                phase,
-                d.source,
-                d.unit,
-                d.temperature_unit,
-                d.provenance.as_str(),
-                d.review.as_str(),
-                d.retired,
-                d.note,
-                d.stable_range.map(|r| r.0),
-                d.stable_range.map(|r| r.1),
-                d.stable_range_k.map(|r| r.0),
-                d.stable_range_k.map(|r| r.1)
-            ])?;
-            for (i, p) in d.points.iter().enumerate() {
-                insert_point.execute(params![
-                    d.key,
-                    i as i64,
-                    p.temperature_reported,
-                    p.temperature_k,
-                    p.value_reported,
-                    p.mass_fraction,
-                    p.uncertainty
-                ])?;
-            }
+            write::replace_dataset(&tx, d, &mut || {})?;
         }
-
-        let mut insert_gas = tx.prepare_cached(
-            "INSERT INTO gas_constants (key, solute, source, form, convention, value, reference_temperature_k, temperature_term_k,
-                                        a, b, c, d, scale_k, reference_pressure_pa, t_min_k, t_max_k, provenance, review, note)
-             VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10, ?11, ?12, ?13, ?14, ?15, ?16, ?17, ?18, ?19)",
-        )?;
         for g in &contents.gas_constants {
-            let none = None::<f64>;
-            match &g.law {
-                GasLaw::VantHoff {
-                    convention,
-                    value,
-                    reference_temperature_k,
-                    temperature_term_k,
-                } => insert_gas.execute(params![
-                    g.key,
-                    g.solute,
-                    g.source,
-                    "vant-hoff",
-                    convention,
-                    value,
-                    reference_temperature_k,
-                    temperature_term_k,
-                    none,
-                    none,
-                    none,
-                    none,
-                    none,
-                    none,
-                    none,
-                    none,
-                    g.provenance.as_str(),
-                    g.review.as_str(),
-                    g.note
-                ])?,
-                GasLaw::MoleFractionFit {
-                    a,
-                    b,
-                    c,
-                    d,
-                    scale_k,
-                    reference_pressure_pa,
-                    t_min_k,
-                    t_max_k,
-                }
-                | GasLaw::MolalityFit {
-                    a,
-                    b,
-                    c,
-                    d,
-                    scale_k,
-                    reference_pressure_pa,
-                    t_min_k,
-                    t_max_k,
-                } => insert_gas.execute(params![
-                    g.key,
-                    g.solute,
-                    g.source,
-                    if matches!(g.law, GasLaw::MolalityFit { .. }) {
-                        "molality-fit"
-                    } else {
-                        "mole-fraction-fit"
-                    },
-                    None::<String>,
-                    none,
-                    none,
-                    none,
-                    a,
-                    b,
-                    c,
-                    d,
-                    scale_k,
-                    reference_pressure_pa,
-                    t_min_k,
-                    t_max_k,
-                    g.provenance.as_str(),
-                    g.review.as_str(),
-                    g.note
-                ])?,
-            };
+            write::replace_gas_constant(&tx, g)?;
         }
-
-        let mut insert_freezing = tx.prepare_cached(
-            "INSERT INTO freezing (key, solute, source, unit, temperature_unit, provenance, review,
-                                   eutectic_composition_reported, eutectic_temperature_reported,
-                                   eutectic_mass_fraction, eutectic_temperature_k, note)
-             VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10, ?11, ?12)",
-        )?;
-        let mut insert_freezing_point = tx.prepare_cached(
-            "INSERT INTO freezing_points (freezing, position, composition_reported, temperature_reported, mass_fraction, temperature_k)
-             VALUES (?1, ?2, ?3, ?4, ?5, ?6)",
-        )?;
         for f in &contents.freezing {
-            let d = &f.data;
-            insert_freezing.execute(params![
-                d.key,
-                d.solute,
-                d.source,
-                f.unit,
-                f.temperature_unit,
-                d.provenance.as_str(),
-                d.review.as_str(),
-                f.eutectic_reported.map(|e| e.0),
-                f.eutectic_reported.map(|e| e.1),
-                d.eutectic.map(|e| e.0),
-                d.eutectic.map(|e| e.1),
-                f.note
-            ])?;
-            for (i, (rep, can)) in f.points_reported.iter().zip(&d.points).enumerate() {
-                insert_freezing_point
-                    .execute(params![d.key, i as i64, rep.0, rep.1, can.0, can.1])?;
-            }
+            write::replace_freezing(&tx, f)?;
         }
 
         let mut set_meta = tx.prepare_cached(
@@ -1520,17 +1340,6 @@ pub(crate) fn write(
         freezing: contents.freezing.len(),
         fingerprint: fingerprint.to_string(),
     })
-}
-
-pub(crate) fn source_kind_str(kind: SourceKind) -> &'static str {
-    match kind {
-        SourceKind::Handbook => "handbook",
-        SourceKind::Compilation => "compilation",
-        SourceKind::Paper => "paper",
-        SourceKind::Standard => "standard",
-        SourceKind::Book => "book",
-        SourceKind::Other => "other",
-    }
 }
 
 #[cfg(test)]

@@ -1,0 +1,1168 @@
+//! Imports into a file database: TOML files in the seed format and CSV files of points,
+//! validated as the seed is (through [`super::seed`]) and then some, planned against what
+//! the database holds, and written in one transaction with an audit row per change.
+//!
+//! An import is two steps. [`plan`] reads the files and the database and says what would
+//! change (added, changed, retired and unchanged records), with findings worth a look
+//! (outliers, conflicts with another source, duplicates); it writes nothing, which is all
+//! `--dry-run` does. [`apply`] writes a plan in a single transaction: all or nothing.
+//!
+//! Refused (nothing is written): everything the seed refuses (unknown source, unit,
+//! malformed formula, a temperature outside the liquid range, points out of order, ...), a
+//! value outside the sane range of its unit ([`sane_range`]), the same point twice, a CSV
+//! row without a source, a name another stored solute already uses. Reported (the import
+//! goes on): outliers, conflicts beyond the tolerance, a dataset that repeats a stored one.
+//!
+//! Imported datasets are unreviewed (and not retired) unless the import keeps the states
+//! written in the files ([`ImportOptions::keep_state`], for restoring an export).
+//!
+//! CSV columns (header row required, any order; names are case-sensitive):
+//! `solute` (the solute's id, a slug), `formula` (anhydrous), `phase` (formula of the solid),
+//! `temperature`, `temperature_unit` (C, K, F), `value`, `unit` (g/100g water, %w/w, w,
+//! mol/kg, x), `source` (a source key), and optionally `uncertainty`, `name`, `kind`
+//! (salt, molecular, gas; default molecular), `ions` (needed for a salt), `phase_name`
+//! (default `anhydrous`, or `hydrate` for a phase with water), `dataset` (the dataset's key
+//! within the solute; default the source key), `provenance` (default `compiled`), `review`,
+//! `retired` (both honoured only with `keep_state`) and `note`. Each row is one point; the
+//! rows of one solute, phase and source make one dataset, sorted by temperature.
+
+use std::collections::{BTreeMap, HashMap, HashSet};
+use std::io::Write;
+use std::path::Path;
+
+use serde::Serialize;
+
+use super::findings::{self, Finding};
+use super::read::{Contents, FreezingRecord};
+use super::{Store, StoreError, audit, seed, write};
+use crate::model::{Dataset, GasConstant, Review, Solute, Source};
+use crate::science::units::CompositionUnit;
+
+/// One file to import, read into memory: its path as given (for messages) and its text.
+#[derive(Debug, Clone)]
+pub struct ImportFile {
+    pub path: String,
+    pub text: String,
+}
+
+impl ImportFile {
+    /// Reads a file from disk.
+    pub fn read(path: &Path) -> Result<ImportFile, StoreError> {
+        let text = std::fs::read_to_string(path).map_err(|source| StoreError::Io {
+            path: path.to_path_buf(),
+            source,
+        })?;
+        Ok(ImportFile {
+            path: path.display().to_string(),
+            text,
+        })
+    }
+}
+
+/// How an import treats what it reads.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct ImportOptions {
+    /// A conflict with another source is reported beyond this fraction (0.05 for 5 %).
+    pub tolerance: f64,
+    /// Keep the `review` and `retired` states written in the files instead of marking every
+    /// imported record unreviewed: for restoring an export of this reference.
+    pub keep_state: bool,
+}
+
+impl Default for ImportOptions {
+    fn default() -> Self {
+        ImportOptions {
+            tolerance: findings::CONFLICT_TOLERANCE,
+            keep_state: false,
+        }
+    }
+}
+
+/// What an import does to one record.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum ChangeKind {
+    Added,
+    Changed,
+    /// The record is stored and the file marks it retired (only with `keep_state`).
+    Retired,
+    Unchanged,
+}
+
+impl ChangeKind {
+    fn verb(self) -> &'static str {
+        match self {
+            ChangeKind::Added => "add",
+            ChangeKind::Changed => "change",
+            ChangeKind::Retired => "retire",
+            ChangeKind::Unchanged => "keep",
+        }
+    }
+}
+
+#[derive(Debug, Clone)]
+enum Record {
+    Source(Source),
+    Solute(Solute),
+    Dataset(Dataset),
+    Gas(GasConstant),
+    Freezing(FreezingRecord),
+}
+
+/// One planned change.
+#[derive(Debug, Clone)]
+pub struct Change {
+    pub kind: ChangeKind,
+    /// `dataset:<key>`, `solute:<id>`, ... as in the audit history.
+    pub entity: String,
+    /// A few words on the record, e.g. `6 points, unreviewed`.
+    pub summary: String,
+    pub before: Option<serde_json::Value>,
+    pub after: serde_json::Value,
+    record: Record,
+}
+
+/// What an import would do, and what it found worth a look.
+#[derive(Debug, Clone, Default)]
+pub struct ImportPlan {
+    pub changes: Vec<Change>,
+    pub findings: Vec<Finding>,
+}
+
+impl ImportPlan {
+    /// How many changes are of this kind.
+    pub fn count(&self, kind: ChangeKind) -> usize {
+        self.changes.iter().filter(|c| c.kind == kind).count()
+    }
+
+    /// Points that would be written (for the progress bar).
+    pub fn points_to_write(&self) -> usize {
+        self.changes
+            .iter()
+            .filter(|c| c.kind != ChangeKind::Unchanged)
+            .map(|c| match &c.record {
+                Record::Dataset(d) => d.points.len(),
+                _ => 0,
+            })
+            .sum()
+    }
+
+    /// The plan as one JSON object, for programs (and the server):
+    /// `{"changes": [{"kind": "added", "entity": "dataset:x/y", "summary": "..."}],
+    ///   "findings": [{"kind": "conflict", "dataset": "x/y", "message": "..."}],
+    ///   "added": 1, "changed": 0, "retired": 0, "unchanged": 0}`. Unchanged records are
+    /// counted, not listed.
+    pub fn to_json(&self) -> serde_json::Value {
+        let changes: Vec<serde_json::Value> = self
+            .changes
+            .iter()
+            .filter(|c| c.kind != ChangeKind::Unchanged)
+            .map(
+                |c| serde_json::json!({ "kind": c.kind, "entity": c.entity, "summary": c.summary }),
+            )
+            .collect();
+        serde_json::json!({
+            "changes": changes,
+            "findings": self.findings,
+            "added": self.count(ChangeKind::Added),
+            "changed": self.count(ChangeKind::Changed),
+            "retired": self.count(ChangeKind::Retired),
+            "unchanged": self.count(ChangeKind::Unchanged),
+        })
+    }
+
+    /// One line per change (unchanged records counted, not listed), then the findings and
+    /// a summary line.
+    pub fn write_report(&self, out: &mut dyn Write) -> std::io::Result<()> {
+        for c in self
+            .changes
+            .iter()
+            .filter(|c| c.kind != ChangeKind::Unchanged)
+        {
+            writeln!(out, "  {} {}: {}", c.kind.verb(), c.entity, c.summary)?;
+        }
+        for f in &self.findings {
+            writeln!(out, "  {}: {}", f.kind, f.message)?;
+        }
+        writeln!(
+            out,
+            "{} added, {} changed, {} retired, {} unchanged",
+            self.count(ChangeKind::Added),
+            self.count(ChangeKind::Changed),
+            self.count(ChangeKind::Retired),
+            self.count(ChangeKind::Unchanged)
+        )
+    }
+}
+
+/// What [`apply`] wrote.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct ImportSummary {
+    pub added: usize,
+    pub changed: usize,
+    pub retired: usize,
+    pub unchanged: usize,
+    pub audit_rows: usize,
+}
+
+/// The sane range of a value in each seed unit, exclusive below: (low, high, inclusive
+/// high). A solubility is a positive amount; these upper ends are far above any aqueous
+/// solubility table (5000 g/100g water is 98 % solute; 100 mol/kg of a light salt is
+/// similar), so a value beyond them is a typing or unit mistake, not a measurement
+/// (common practice).
+pub fn sane_range(unit: CompositionUnit) -> Option<(f64, f64, bool)> {
+    match unit {
+        CompositionUnit::GramsPer100gWater => Some((0.0, 5000.0, true)),
+        CompositionUnit::MassPercent => Some((0.0, 100.0, false)),
+        CompositionUnit::MassFraction | CompositionUnit::MoleFraction => Some((0.0, 1.0, false)),
+        CompositionUnit::Molality => Some((0.0, 100.0, true)),
+        _ => None,
+    }
+}
+
+fn import_error(file: &str, record: impl Into<String>, problem: impl Into<String>) -> StoreError {
+    StoreError::Import {
+        file: file.to_string(),
+        record: record.into(),
+        problem: problem.into(),
+    }
+}
+
+/// Where seed-style names of synthetic files came from, to put errors back in the user's
+/// terms: the real file, and for CSV the line of each point.
+#[derive(Default)]
+struct Origins {
+    files: HashMap<String, String>,
+    lines: HashMap<(String, String), u64>,
+    /// For a solute file made from CSV rows: the solute and its first line, to stand in for
+    /// a position in the made-up TOML text.
+    made_from_csv: HashMap<String, (String, u64)>,
+}
+
+impl Origins {
+    fn relabel(&self, e: StoreError) -> StoreError {
+        match e {
+            StoreError::Seed {
+                file,
+                record,
+                problem,
+            } => {
+                let real = self.files.get(&file).cloned().unwrap_or(file.clone());
+                let record = match (
+                    self.lines.get(&(file.clone(), record.clone())),
+                    self.made_from_csv.get(&file),
+                ) {
+                    (Some(line), _) => format!("line {line} ({record})"),
+                    (None, Some((id, line))) if record.starts_with("line ") => {
+                        format!("line {line} (solute \"{id}\")")
+                    }
+                    _ => record,
+                };
+                StoreError::Import {
+                    file: real,
+                    record,
+                    problem: problem.to_string(),
+                }
+            }
+            other => other,
+        }
+    }
+}
+
+/// Reads and validates `files` and compares them with what `store` holds. Writes nothing.
+pub fn plan(
+    store: &Store,
+    files: &[ImportFile],
+    options: &ImportOptions,
+) -> Result<ImportPlan, StoreError> {
+    let existing = store.read_all()?;
+    let mut origins = Origins::default();
+
+    // TOML first: its sources.toml may hold the sources a CSV file cites.
+    let mut toml_files: Vec<(String, String)> = Vec::new();
+    let mut csv_files: Vec<&ImportFile> = Vec::new();
+    for f in files {
+        let path = Path::new(&f.path);
+        let ext = path.extension().and_then(|e| e.to_str()).unwrap_or("");
+        let stem = path.file_stem().and_then(|e| e.to_str()).unwrap_or("");
+        match ext {
+            "toml" => {
+                let name = if stem == "sources" {
+                    "sources.toml".to_string()
+                } else {
+                    format!("solutes/{stem}.toml")
+                };
+                if origins.files.insert(name.clone(), f.path.clone()).is_some() {
+                    return Err(import_error(
+                        &f.path,
+                        "whole file",
+                        format!("a second file named {stem}.toml in one import"),
+                    ));
+                }
+                toml_files.push((name, f.text.clone()));
+            }
+            "csv" => csv_files.push(f),
+            _ => {
+                return Err(import_error(
+                    &f.path,
+                    "whole file",
+                    "not an import file: expected a .toml file in the seed format or a .csv file",
+                ));
+            }
+        }
+    }
+    let db_keys: Vec<&str> = existing.sources.iter().map(|s| s.key.as_str()).collect();
+    let mut incoming = if toml_files.is_empty() {
+        Contents::default()
+    } else {
+        seed::parse_with_known_sources(&toml_files, &db_keys).map_err(|e| origins.relabel(e))?
+    };
+    let mut known: HashSet<String> = db_keys.iter().map(|s| s.to_string()).collect();
+    known.extend(incoming.sources.iter().map(|s| s.key.clone()));
+    let mut solute_file: HashMap<String, String> = incoming
+        .solutes
+        .iter()
+        .map(|s| {
+            let file = origins
+                .files
+                .get(&format!("solutes/{}.toml", s.id))
+                .cloned()
+                .unwrap_or_default();
+            (s.id.clone(), file)
+        })
+        .collect();
+    for f in csv_files {
+        let part = parse_csv(f, &existing, &known, options, &mut origins)?;
+        for s in &part.solutes {
+            if let Some(other) = solute_file.insert(s.id.clone(), f.path.clone()) {
+                return Err(import_error(
+                    &f.path,
+                    format!("solute \"{}\"", s.id),
+                    format!("the solute is also in {other}; import it from one file"),
+                ));
+            }
+        }
+        incoming.solutes.extend(part.solutes);
+        incoming.datasets.extend(part.datasets);
+        incoming.freezing.extend(part.freezing);
+    }
+    incoming.sort();
+    check_names(&incoming, &existing, &solute_file)?;
+    if !options.keep_state {
+        for d in &mut incoming.datasets {
+            d.review = Review::Unreviewed;
+            d.retired = false;
+        }
+        for g in &mut incoming.gas_constants {
+            g.review = Review::Unreviewed;
+        }
+        for f in &mut incoming.freezing {
+            f.data.review = Review::Unreviewed;
+        }
+    }
+    for d in &incoming.datasets {
+        check_sane(d, &solute_file)?;
+    }
+    Ok(compare(&incoming, &existing, options))
+}
+
+/// Every id, name and synonym must point at one solute across the import and the database.
+fn check_names(
+    incoming: &Contents,
+    existing: &Contents,
+    files: &HashMap<String, String>,
+) -> Result<(), StoreError> {
+    let replaced: HashSet<&str> = incoming.solutes.iter().map(|s| s.id.as_str()).collect();
+    let mut names: HashMap<String, &str> = HashMap::new();
+    for s in existing
+        .solutes
+        .iter()
+        .filter(|s| !replaced.contains(s.id.as_str()))
+    {
+        for n in std::iter::once(&s.id)
+            .chain(std::iter::once(&s.name))
+            .chain(&s.synonyms)
+        {
+            names.insert(n.trim().to_lowercase(), s.id.as_str());
+        }
+    }
+    for s in &incoming.solutes {
+        for n in std::iter::once(&s.id)
+            .chain(std::iter::once(&s.name))
+            .chain(&s.synonyms)
+        {
+            if let Some(other) = names.get(&n.trim().to_lowercase()) {
+                return Err(import_error(
+                    files.get(&s.id).map_or("", String::as_str),
+                    format!("solute \"{}\"", s.id),
+                    format!("duplicate name \"{n}\": the stored solute \"{other}\" uses it"),
+                ));
+            }
+        }
+    }
+    Ok(())
+}
+
+fn check_sane(d: &Dataset, files: &HashMap<String, String>) -> Result<(), StoreError> {
+    let Some(unit) = CompositionUnit::from_symbol(&d.unit) else {
+        return Ok(());
+    };
+    let Some((low, high, inclusive)) = sane_range(unit) else {
+        return Ok(());
+    };
+    for (i, p) in d.points.iter().enumerate() {
+        let v = p.value_reported;
+        let ok = v > low && if inclusive { v <= high } else { v < high };
+        if !ok {
+            let local = d.key.split_once('/').map_or(d.key.as_str(), |k| k.1);
+            return Err(import_error(
+                files.get(&d.solute).map_or("", String::as_str),
+                format!("dataset \"{local}\", point {}", i + 1),
+                format!(
+                    "{v} {} is outside the sane range for {} (above {low}, up to {high}{}); check the number and its unit",
+                    d.unit,
+                    d.unit,
+                    if inclusive { "" } else { ", exclusive" }
+                ),
+            ));
+        }
+    }
+    Ok(())
+}
+
+/// Equal apart from the review state and retired mark.
+fn same_data(a: &Dataset, b: &Dataset) -> bool {
+    let mut a = a.clone();
+    a.review = b.review;
+    a.retired = b.retired;
+    &a == b
+}
+
+fn json<T: Serialize>(v: &T) -> serde_json::Value {
+    serde_json::to_value(v).unwrap_or(serde_json::Value::Null)
+}
+
+fn compare(incoming: &Contents, existing: &Contents, options: &ImportOptions) -> ImportPlan {
+    let mut plan = ImportPlan::default();
+    let kind_of = |before_same: Option<bool>| match before_same {
+        None => ChangeKind::Added,
+        Some(true) => ChangeKind::Unchanged,
+        Some(false) => ChangeKind::Changed,
+    };
+
+    let old_sources: HashMap<&str, &Source> = existing
+        .sources
+        .iter()
+        .map(|s| (s.key.as_str(), s))
+        .collect();
+    for s in &incoming.sources {
+        let before = old_sources.get(s.key.as_str()).copied();
+        plan.changes.push(Change {
+            kind: kind_of(before.map(|b| b == s)),
+            entity: format!("source:{}", s.key),
+            summary: s.title.clone(),
+            before: before.map(json),
+            after: json(s),
+            record: Record::Source(s.clone()),
+        });
+    }
+    let old_solutes: HashMap<&str, &Solute> = existing
+        .solutes
+        .iter()
+        .map(|s| (s.id.as_str(), s))
+        .collect();
+    for s in &incoming.solutes {
+        let before = old_solutes.get(s.id.as_str()).copied();
+        plan.changes.push(Change {
+            kind: kind_of(before.map(|b| b == s)),
+            entity: format!("solute:{}", s.id),
+            summary: format!("{} ({}, {})", s.name, s.formula, s.kind.as_str()),
+            before: before.map(json),
+            after: json(s),
+            record: Record::Solute(s.clone()),
+        });
+    }
+    let old_datasets: HashMap<&str, &Dataset> = existing
+        .datasets
+        .iter()
+        .map(|d| (d.key.as_str(), d))
+        .collect();
+    for d in &incoming.datasets {
+        let before = old_datasets.get(d.key.as_str()).copied();
+        let kind = match before {
+            None => ChangeKind::Added,
+            Some(b) if !same_data(d, b) => ChangeKind::Changed,
+            Some(b) if !options.keep_state || (b.review == d.review && b.retired == d.retired) => {
+                ChangeKind::Unchanged
+            }
+            Some(b) if d.retired && !b.retired => ChangeKind::Retired,
+            Some(_) => ChangeKind::Changed,
+        };
+        plan.changes.push(Change {
+            kind,
+            entity: format!("dataset:{}", d.key),
+            summary: format!(
+                "{} points, {}, source {}{}",
+                d.points.len(),
+                d.review.as_str(),
+                d.source,
+                if d.retired { ", retired" } else { "" }
+            ),
+            before: before.map(json),
+            after: json(d),
+            record: Record::Dataset(d.clone()),
+        });
+    }
+    let old_gas: HashMap<&str, &GasConstant> = existing
+        .gas_constants
+        .iter()
+        .map(|g| (g.key.as_str(), g))
+        .collect();
+    for g in &incoming.gas_constants {
+        let before = old_gas.get(g.key.as_str()).copied();
+        let same = before.map(|b| {
+            let mut g = g.clone();
+            if !options.keep_state {
+                g.review = b.review;
+            }
+            &g == b
+        });
+        plan.changes.push(Change {
+            kind: kind_of(same),
+            entity: format!("henry:{}", g.key),
+            summary: format!("Henry's-law record, {}", g.review.as_str()),
+            before: before.map(json),
+            after: json(g),
+            record: Record::Gas(g.clone()),
+        });
+    }
+    let old_freezing: HashMap<&str, &FreezingRecord> = existing
+        .freezing
+        .iter()
+        .map(|f| (f.data.key.as_str(), f))
+        .collect();
+    for f in &incoming.freezing {
+        let before = old_freezing.get(f.data.key.as_str()).copied();
+        let same = before.map(|b| {
+            let mut f = f.clone();
+            if !options.keep_state {
+                f.data.review = b.data.review;
+            }
+            &f == b
+        });
+        plan.changes.push(Change {
+            kind: kind_of(same),
+            entity: format!("freezing:{}", f.data.key),
+            summary: format!("{} freezing points", f.points_reported.len()),
+            before: before.map(json),
+            after: json(f),
+            record: Record::Freezing(f.clone()),
+        });
+    }
+
+    // Findings, for the datasets that would be written.
+    let solutes: HashMap<&str, &Solute> = existing
+        .solutes
+        .iter()
+        .chain(&incoming.solutes)
+        .map(|s| (s.id.as_str(), s))
+        .collect();
+    let written: Vec<&Dataset> = plan
+        .changes
+        .iter()
+        .filter(|c| matches!(c.kind, ChangeKind::Added | ChangeKind::Changed))
+        .filter_map(|c| match &c.record {
+            Record::Dataset(d) => Some(d),
+            _ => None,
+        })
+        .collect();
+    let written_keys: HashSet<&str> = written.iter().map(|d| d.key.as_str()).collect();
+    let stored: Vec<&Dataset> = existing
+        .datasets
+        .iter()
+        .filter(|d| !d.retired && d.review != Review::Rejected)
+        .filter(|d| !written_keys.contains(d.key.as_str()))
+        .collect();
+    for (i, d) in written.iter().enumerate() {
+        let Some(solute) = solutes.get(d.solute.as_str()) else {
+            continue;
+        };
+        plan.findings
+            .extend(findings::outliers(d, solute.molar_mass));
+        for o in &stored {
+            if o.solute != d.solute || o.phase.formula != d.phase.formula {
+                continue;
+            }
+            if o.points == d.points || o.source == d.source {
+                plan.findings.push(Finding {
+                    kind: "duplicate",
+                    dataset: d.key.clone(),
+                    message: format!(
+                        "dataset {} repeats the stored dataset {} ({})",
+                        d.key,
+                        o.key,
+                        if o.points == d.points {
+                            "the same points"
+                        } else {
+                            "same solute, phase and source"
+                        }
+                    ),
+                });
+                continue;
+            }
+            plan.findings.extend(
+                findings::conflict(d, o, solute, options.tolerance)
+                    .or_else(|| findings::conflict(o, d, solute, options.tolerance)),
+            );
+        }
+        for o in written.iter().skip(i + 1) {
+            plan.findings.extend(
+                findings::conflict(d, o, solute, options.tolerance)
+                    .or_else(|| findings::conflict(o, d, solute, options.tolerance)),
+            );
+        }
+    }
+    plan
+}
+
+/// Writes `plan` in one transaction with an audit row per change; nothing is written when
+/// any step fails. `tick` is called once per point written (for a progress bar).
+pub fn apply(
+    store: &mut Store,
+    plan: &ImportPlan,
+    actor: &str,
+    tick: &mut dyn FnMut(),
+) -> Result<ImportSummary, StoreError> {
+    let tx = store.conn.transaction()?;
+    let mut audit_rows = 0;
+    for c in plan
+        .changes
+        .iter()
+        .filter(|c| c.kind != ChangeKind::Unchanged)
+    {
+        match &c.record {
+            Record::Source(s) => write::upsert_source(&tx, s)?,
+            Record::Solute(s) => write::upsert_solute(&tx, s)?,
+            Record::Dataset(d) => write::replace_dataset(&tx, d, tick)?,
+            Record::Gas(g) => write::replace_gas_constant(&tx, g)?,
+            Record::Freezing(f) => write::replace_freezing(&tx, f)?,
+        }
+        audit::record(
+            &tx,
+            actor,
+            c.kind.verb(),
+            &c.entity,
+            c.before.as_ref(),
+            Some(&c.after),
+        )?;
+        audit_rows += 1;
+    }
+    tx.commit()?;
+    Ok(ImportSummary {
+        added: plan.count(ChangeKind::Added),
+        changed: plan.count(ChangeKind::Changed),
+        retired: plan.count(ChangeKind::Retired),
+        unchanged: plan.count(ChangeKind::Unchanged),
+        audit_rows,
+    })
+}
+
+/// A progress bar on standard error for an import of more than 1,000 points, when standard
+/// error is a terminal; `None` otherwise.
+pub fn progress_bar(points: usize) -> Option<indicatif::ProgressBar> {
+    use std::io::IsTerminal as _;
+    if points <= 1000 || !std::io::stderr().is_terminal() {
+        return None;
+    }
+    let bar = indicatif::ProgressBar::new(points as u64);
+    if let Ok(style) =
+        indicatif::ProgressStyle::with_template("importing {bar:40} {pos}/{len} points")
+    {
+        bar.set_style(style);
+    }
+    Some(bar)
+}
+
+// ---------------------------------------------------------------------------------------
+// CSV
+
+const CSV_REQUIRED: [&str; 8] = [
+    "solute",
+    "formula",
+    "phase",
+    "temperature",
+    "temperature_unit",
+    "value",
+    "unit",
+    "source",
+];
+const CSV_OPTIONAL: [&str; 10] = [
+    "uncertainty",
+    "name",
+    "kind",
+    "ions",
+    "phase_name",
+    "dataset",
+    "provenance",
+    "review",
+    "retired",
+    "note",
+];
+
+/// Every CSV column, in the order `satline export --to csv` writes them.
+pub fn csv_columns() -> Vec<&'static str> {
+    CSV_REQUIRED.iter().chain(&CSV_OPTIONAL).copied().collect()
+}
+
+struct CsvPoint {
+    line: u64,
+    temperature: f64,
+    value: f64,
+    uncertainty: Option<f64>,
+}
+
+/// The rows of one solute, phase and source.
+struct CsvDataset {
+    line: u64,
+    phase: String,
+    source: String,
+    fields: BTreeMap<&'static str, (String, u64)>,
+    points: Vec<CsvPoint>,
+}
+
+struct CsvSolute {
+    line: u64,
+    fields: BTreeMap<&'static str, (String, u64)>,
+    datasets: Vec<CsvDataset>,
+}
+
+const SOLUTE_FIELDS: [&str; 4] = ["formula", "name", "kind", "ions"];
+const DATASET_FIELDS: [&str; 8] = [
+    "unit",
+    "temperature_unit",
+    "phase_name",
+    "dataset",
+    "provenance",
+    "review",
+    "retired",
+    "note",
+];
+
+/// A value given on one row must agree with the value given on earlier rows of the same
+/// solute or dataset.
+fn agree(
+    file: &str,
+    line: u64,
+    fields: &mut BTreeMap<&'static str, (String, u64)>,
+    name: &'static str,
+    value: &str,
+    of: &str,
+) -> Result<(), StoreError> {
+    if value.is_empty() {
+        return Ok(());
+    }
+    match fields.get(name) {
+        Some((first, first_line)) if first != value => Err(import_error(
+            file,
+            format!("line {line}"),
+            format!(
+                "{name} \"{value}\" differs from \"{first}\" on line {first_line} for the same {of}"
+            ),
+        )),
+        Some(_) => Ok(()),
+        None => {
+            fields.insert(name, (value.to_string(), line));
+            Ok(())
+        }
+    }
+}
+
+fn slug(s: &str) -> String {
+    let mut out = String::new();
+    for c in s.chars() {
+        if c.is_ascii_alphanumeric() {
+            out.push(c.to_ascii_lowercase());
+        } else if !out.ends_with('-') {
+            out.push('-');
+        }
+    }
+    out.trim_matches('-').to_string()
+}
+
+fn parse_csv(
+    f: &ImportFile,
+    existing: &Contents,
+    known_sources: &HashSet<String>,
+    options: &ImportOptions,
+    origins: &mut Origins,
+) -> Result<Contents, StoreError> {
+    let file = f.path.as_str();
+    let csv_error = |e: csv::Error| {
+        let line = e.position().map_or(0, |p| p.line());
+        import_error(file, format!("line {line}"), e.to_string())
+    };
+    let mut reader = csv::ReaderBuilder::new()
+        .trim(csv::Trim::All)
+        .from_reader(f.text.as_bytes());
+    let headers = reader.headers().map_err(csv_error)?.clone();
+    let mut column: HashMap<&'static str, usize> = HashMap::new();
+    for (i, h) in headers.iter().enumerate() {
+        let Some(name) = CSV_REQUIRED.iter().chain(&CSV_OPTIONAL).find(|c| **c == h) else {
+            return Err(import_error(
+                file,
+                "line 1",
+                format!(
+                    "unknown column \"{h}\"; the columns are {}",
+                    csv_columns().join(", ")
+                ),
+            ));
+        };
+        if column.insert(name, i).is_some() {
+            return Err(import_error(
+                file,
+                "line 1",
+                format!("column \"{h}\" appears twice"),
+            ));
+        }
+    }
+    if let Some(missing) = CSV_REQUIRED.iter().find(|c| !column.contains_key(*c)) {
+        return Err(import_error(
+            file,
+            "line 1",
+            format!("missing column \"{missing}\""),
+        ));
+    }
+
+    let mut solutes: Vec<(String, CsvSolute)> = Vec::new();
+    for record in reader.records() {
+        let record = record.map_err(csv_error)?;
+        let line = record.position().map_or(0, |p| p.line());
+        let get =
+            |name: &str| -> &str { column.get(name).and_then(|&i| record.get(i)).unwrap_or("") };
+        if record.iter().all(str::is_empty) {
+            continue;
+        }
+        let number = |name: &str| -> Result<Option<f64>, StoreError> {
+            let text = get(name);
+            if text.is_empty() {
+                return Ok(None);
+            }
+            match text.parse::<f64>() {
+                Ok(v) if v.is_finite() => Ok(Some(v)),
+                _ => Err(import_error(
+                    file,
+                    format!("line {line}"),
+                    format!("{name} is not a number: found \"{text}\""),
+                )),
+            }
+        };
+        let required = |name: &str| -> Result<&str, StoreError> {
+            let v = get(name);
+            if v.is_empty() {
+                let why = if name == "source" {
+                    "a dataset without a source is refused: every number needs a citation (add the source with `satline source add`)".to_string()
+                } else {
+                    format!("the {name} is empty")
+                };
+                Err(import_error(file, format!("line {line}"), why))
+            } else {
+                Ok(v)
+            }
+        };
+        let id = required("solute")?;
+        let phase = required("phase")?;
+        let source = required("source")?;
+        required("formula")?;
+        required("unit")?;
+        required("temperature_unit")?;
+        if !known_sources.contains(source) {
+            return Err(import_error(
+                file,
+                format!("line {line}"),
+                format!(
+                    "unknown source key \"{source}\" (not in the database or the imported sources.toml); add it with `satline source add` first"
+                ),
+            ));
+        }
+        let temperature = number("temperature")?.ok_or_else(|| {
+            import_error(file, format!("line {line}"), "the temperature is empty")
+        })?;
+        let value = number("value")?
+            .ok_or_else(|| import_error(file, format!("line {line}"), "the value is empty"))?;
+        let uncertainty = number("uncertainty")?;
+
+        let index = match solutes.iter().position(|(s, _)| s == id) {
+            Some(i) => i,
+            None => {
+                solutes.push((
+                    id.to_string(),
+                    CsvSolute {
+                        line,
+                        fields: BTreeMap::new(),
+                        datasets: Vec::new(),
+                    },
+                ));
+                solutes.len() - 1
+            }
+        };
+        let solute = &mut solutes[index].1;
+        for name in SOLUTE_FIELDS {
+            agree(file, line, &mut solute.fields, name, get(name), "solute")?;
+        }
+        let d = match solute
+            .datasets
+            .iter()
+            .position(|d| d.phase == phase && d.source == source)
+        {
+            Some(i) => i,
+            None => {
+                solute.datasets.push(CsvDataset {
+                    line,
+                    phase: phase.to_string(),
+                    source: source.to_string(),
+                    fields: BTreeMap::new(),
+                    points: Vec::new(),
+                });
+                solute.datasets.len() - 1
+            }
+        };
+        let dataset = &mut solute.datasets[d];
+        for name in DATASET_FIELDS {
+            agree(file, line, &mut dataset.fields, name, get(name), "dataset")?;
+        }
+        dataset.points.push(CsvPoint {
+            line,
+            temperature,
+            value,
+            uncertainty,
+        });
+    }
+
+    // Each solute becomes a seed-format solute file, validated by the seed's own rules.
+    let mut synthetic: Vec<(String, String)> = Vec::new();
+    for (id, solute) in &mut solutes {
+        let name = format!("solutes/{id}.toml");
+        origins.files.insert(name.clone(), file.to_string());
+        let field = |k: &str| solute.fields.get(k).map(|v| v.0.clone());
+        let stored = existing.solutes.iter().find(|s| &s.id == id);
+        let mut table = toml::Table::new();
+        table.insert("id".into(), id.clone().into());
+        match stored {
+            Some(s) => {
+                let formula = field("formula").unwrap_or_default();
+                if formula != s.formula {
+                    return Err(import_error(
+                        file,
+                        format!("line {}", solute.line),
+                        format!(
+                            "formula \"{formula}\" differs from the stored solute \"{id}\"'s \"{}\"",
+                            s.formula
+                        ),
+                    ));
+                }
+                table.insert("name".into(), s.name.clone().into());
+                table.insert("formula".into(), s.formula.clone().into());
+                table.insert("kind".into(), s.kind.as_str().into());
+                table.insert("ions".into(), i64::from(s.ions).into());
+                table.insert(
+                    "synonyms".into(),
+                    toml::Value::Array(s.synonyms.iter().map(|x| x.clone().into()).collect()),
+                );
+                table.insert(
+                    "tags".into(),
+                    toml::Value::Array(s.tags.iter().map(|x| x.clone().into()).collect()),
+                );
+                for (k, v) in [
+                    ("cation", &s.cation),
+                    ("anion", &s.anion),
+                    ("hazard", &s.hazard),
+                ] {
+                    if let Some(v) = v {
+                        table.insert(k.into(), v.clone().into());
+                    }
+                }
+                // The stored freezing data, so points are checked against the ice line.
+                if let Some(fr) = existing.freezing.iter().find(|fr| &fr.data.solute == id) {
+                    table.insert("freezing".into(), freezing_table(fr).into());
+                }
+            }
+            None => {
+                table.insert(
+                    "name".into(),
+                    field("name").unwrap_or_else(|| id.replace('-', " ")).into(),
+                );
+                table.insert(
+                    "formula".into(),
+                    field("formula").unwrap_or_default().into(),
+                );
+                table.insert(
+                    "kind".into(),
+                    field("kind")
+                        .unwrap_or_else(|| "molecular".to_string())
+                        .into(),
+                );
+                if let Some(ions) = field("ions") {
+                    let n: i64 = ions.parse().map_err(|_| {
+                        import_error(
+                            file,
+                            format!("line {}", solute.fields.get("ions").map_or(0, |v| v.1)),
+                            format!("ions is not a whole number: found \"{ions}\""),
+                        )
+                    })?;
+                    table.insert("ions".into(), n.into());
+                }
+            }
+        }
+        let per_source: HashMap<String, usize> =
+            solute.datasets.iter().fold(HashMap::new(), |mut m, d| {
+                *m.entry(d.source.clone()).or_default() += 1;
+                m
+            });
+        let mut datasets = Vec::new();
+        for d in &mut solute.datasets {
+            let field = |k: &str| d.fields.get(k).map(|v| v.0.clone());
+            let key = field("dataset").unwrap_or_else(|| {
+                if per_source.get(&d.source) == Some(&1) {
+                    d.source.clone()
+                } else {
+                    format!("{}-{}", d.source, slug(&d.phase))
+                }
+            });
+            d.points
+                .sort_by(|a, b| a.temperature.total_cmp(&b.temperature));
+            for pair in d.points.windows(2) {
+                if pair[0].temperature == pair[1].temperature {
+                    return Err(import_error(
+                        file,
+                        format!("line {}", pair[1].line),
+                        format!(
+                            "duplicate point at {} for solute \"{id}\", phase \"{}\", source \"{}\" (also on line {})",
+                            pair[1].temperature, d.phase, d.source, pair[0].line
+                        ),
+                    ));
+                }
+            }
+            let mut t = toml::Table::new();
+            t.insert("key".into(), key.clone().into());
+            t.insert("source".into(), d.source.clone().into());
+            t.insert("phase".into(), d.phase.clone().into());
+            let hydrate = d.phase.contains('·') || d.phase.contains("H2O");
+            t.insert(
+                "phase_name".into(),
+                field("phase_name")
+                    .unwrap_or_else(|| if hydrate { "hydrate" } else { "anhydrous" }.to_string())
+                    .into(),
+            );
+            for k in ["unit", "temperature_unit"] {
+                t.insert(k.into(), field(k).unwrap_or_default().into());
+            }
+            t.insert(
+                "provenance".into(),
+                field("provenance")
+                    .unwrap_or_else(|| "compiled".to_string())
+                    .into(),
+            );
+            let review = field("review")
+                .filter(|_| options.keep_state)
+                .unwrap_or_else(|| "unreviewed".to_string());
+            t.insert("review".into(), review.into());
+            if options.keep_state && field("retired").as_deref() == Some("true") {
+                t.insert("retired".into(), true.into());
+            }
+            if let Some(note) = field("note") {
+                t.insert("note".into(), note.into());
+            }
+            let points: Vec<toml::Value> = d
+                .points
+                .iter()
+                .map(|p| {
+                    let mut v = vec![toml::Value::Float(p.temperature), p.value.into()];
+                    if let Some(u) = p.uncertainty {
+                        v.push(u.into());
+                    }
+                    toml::Value::Array(v)
+                })
+                .collect();
+            t.insert("points".into(), toml::Value::Array(points));
+            for (i, p) in d.points.iter().enumerate() {
+                origins.lines.insert(
+                    (name.clone(), format!("dataset \"{key}\", point {}", i + 1)),
+                    p.line,
+                );
+            }
+            origins
+                .lines
+                .insert((name.clone(), format!("dataset \"{key}\"")), d.line);
+            datasets.push(toml::Value::Table(t));
+        }
+        table.insert("dataset".into(), toml::Value::Array(datasets));
+        origins
+            .lines
+            .insert((name.clone(), format!("solute \"{id}\"")), solute.line);
+        origins
+            .made_from_csv
+            .insert(name.clone(), (id.clone(), solute.line));
+        let text = toml::to_string(&table)
+            .map_err(|e| import_error(file, format!("solute \"{id}\""), e.to_string()))?;
+        synthetic.push((name, text));
+    }
+    if synthetic.is_empty() {
+        return Ok(Contents::default());
+    }
+    let known: Vec<&str> = known_sources.iter().map(String::as_str).collect();
+    seed::parse_with_known_sources(&synthetic, &known).map_err(|e| origins.relabel(e))
+}
+
+fn freezing_table(fr: &FreezingRecord) -> toml::Table {
+    let mut t = toml::Table::new();
+    let key = fr
+        .data
+        .key
+        .split_once('/')
+        .map_or(fr.data.key.as_str(), |k| k.1);
+    t.insert("key".into(), key.into());
+    t.insert("source".into(), fr.data.source.clone().into());
+    t.insert("provenance".into(), fr.data.provenance.as_str().into());
+    t.insert("review".into(), fr.data.review.as_str().into());
+    t.insert("unit".into(), fr.unit.clone().into());
+    t.insert(
+        "temperature_unit".into(),
+        fr.temperature_unit.clone().into(),
+    );
+    t.insert(
+        "points".into(),
+        toml::Value::Array(
+            fr.points_reported
+                .iter()
+                .map(|&(c, t)| toml::Value::Array(vec![c.into(), t.into()]))
+                .collect(),
+        ),
+    );
+    if let Some((c, temp)) = fr.eutectic_reported {
+        t.insert(
+            "eutectic".into(),
+            toml::Value::Array(vec![c.into(), temp.into()]),
+        );
+    }
+    if let Some(n) = &fr.note {
+        t.insert("note".into(), n.clone().into());
+    }
+    t
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn slugs_fold_formulas() {
+        assert_eq!(slug("Na2SO4·10H2O"), "na2so4-10h2o");
+    }
+
+    #[test]
+    fn sane_ranges_exclude_zero() {
+        let (low, _, _) = sane_range(CompositionUnit::GramsPer100gWater).unwrap();
+        assert_eq!(low, 0.0);
+        assert!(sane_range(CompositionUnit::GramsPerLitre).is_none());
+    }
+}

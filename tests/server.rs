@@ -330,7 +330,7 @@ fn a_body_over_the_limit_is_413() {
 }
 
 #[test]
-fn a_bad_statement_is_400_and_an_unanswerable_one_422() {
+fn a_bad_statement_is_400_an_unknown_solute_404_and_an_unanswerable_one_422() {
     let running = server();
     let mut c = Client::connect(running.addr());
     let reply = c.query("solubilty of KNO3 at 20 C");
@@ -347,10 +347,14 @@ fn a_bad_statement_is_400_and_an_unanswerable_one_422() {
     );
 
     let reply = c.query("solubility of KNO4 at 20 C");
-    let e = reply.error(422);
+    let e = reply.error(404);
     assert_eq!(e["code"], "unknown-solute");
     assert_eq!(e["stage"], "evaluate");
     assert!(e["message"].as_str().unwrap().contains("KNO3"), "{e}");
+
+    let reply = c.query("solubility of KNO3 at 150 C");
+    let e = reply.error(422);
+    assert_eq!(e["code"], "out-of-range");
 
     // One good statement among bad ones: 200, the bad ones ok:false in place.
     let mixed = "solubilty of KNO3 at 20 C\nsolubility of KNO3 at 20 C\ndescribe KNO4";
@@ -723,4 +727,178 @@ fn start_reports_a_missing_database_and_a_taken_port() {
         ..quiet(Limits::default())
     });
     assert!(matches!(taken, Err(ServerError::Bind { .. })), "{taken:?}");
+}
+
+#[test]
+fn plot_answers_an_svg_picture_or_a_json_error() {
+    let running = server();
+    let mut c = Client::connect(running.addr());
+    let reply = c.request(
+        "POST",
+        "/v1/plot",
+        &[("Content-Type", "text/plain")],
+        b"plot KNO3, KCl from 0 C to 100 C",
+    );
+    assert_eq!(reply.status, 200);
+    assert_eq!(reply.header("content-type"), Some("image/svg+xml"));
+    let svg = String::from_utf8(reply.body.clone()).unwrap();
+    assert!(svg.contains("<svg"), "{svg}");
+    assert!(svg.contains("potassium nitrate"));
+    let reply = c.request(
+        "POST",
+        "/v1/plot?format=png&width=320&height=200",
+        &[],
+        b"plot KCl",
+    );
+    assert_eq!(reply.status, 200);
+    assert_eq!(reply.header("content-type"), Some("image/png"));
+    assert_eq!(&reply.body[1..4], b"PNG");
+    let e = c
+        .request("POST", "/v1/plot", &[], b"plot KNO4 from 0 C to 100 C")
+        .error(404);
+    assert_eq!(e["code"], "unknown-solute");
+    let e = c
+        .request("POST", "/v1/plot", &[], b"solubility of KNO3 at 20 C")
+        .error(400);
+    assert_eq!(e["code"], "bad-parameter");
+}
+
+#[test]
+fn the_librarian_writes_over_http_with_the_token() {
+    // The invented demo solute of the README walkthrough (tests/fixtures/librarian).
+    let dir = tempfile::tempdir().unwrap();
+    let db: PathBuf = dir.path().join("lib.db");
+    satline::store::init_empty(&db, "test", false).unwrap();
+    let running = start(Config {
+        db: Some(db.clone()),
+        token: Token::new("test-token-123"),
+        ..quiet(Limits::default())
+    })
+    .unwrap();
+    let mut c = Client::connect(running.addr());
+    let auth = [("Authorization", "Bearer test-token-123")];
+    let source = r#"
+[[source]]
+key = "invented-demo-table"
+kind = "other"
+title = "Invented demo table for the satline walkthrough"
+authors = "satline developers (invented data)"
+year = 2026
+"#;
+    let csv = std::fs::read_to_string(
+        std::path::Path::new(env!("CARGO_MANIFEST_DIR"))
+            .join("tests/fixtures/librarian/invented-demo-salt.csv"),
+    )
+    .unwrap();
+    // Without the token nothing is written.
+    let e = c
+        .request(
+            "POST",
+            "/v1/admin/import?file=sources.toml",
+            &[],
+            source.as_bytes(),
+        )
+        .error(401);
+    assert_eq!(e["code"], "unauthorized");
+    let before = std::fs::read(&db).unwrap();
+    let reply = c.request(
+        "POST",
+        "/v1/admin/import?file=sources.toml",
+        &auth,
+        source.as_bytes(),
+    );
+    assert_eq!(
+        reply.status,
+        200,
+        "{}",
+        String::from_utf8_lossy(&reply.body)
+    );
+    // A dry run of the CSV writes nothing and says what would be added.
+    let after_source = std::fs::read(&db).unwrap();
+    assert_ne!(before, after_source);
+    let reply = c.request(
+        "POST",
+        "/v1/admin/import?file=invented-demo-salt.csv&dry_run=true",
+        &auth,
+        csv.as_bytes(),
+    );
+    assert_eq!(
+        reply.status,
+        200,
+        "{}",
+        String::from_utf8_lossy(&reply.body)
+    );
+    assert_eq!(reply.json()["dry_run"], true);
+    assert_eq!(std::fs::read(&db).unwrap(), after_source);
+    let e = c
+        .query("solubility of invented demo salt at 20 C")
+        .error(404);
+    assert_eq!(e["code"], "unknown-solute");
+    // The real import: answered at once, marked unreviewed.
+    let reply = c.request(
+        "POST",
+        "/v1/admin/import?file=invented-demo-salt.csv&actor=alice",
+        &auth,
+        csv.as_bytes(),
+    );
+    assert_eq!(
+        reply.status,
+        200,
+        "{}",
+        String::from_utf8_lossy(&reply.body)
+    );
+    let answer = &c.query("solubility of invented demo salt at 20 C").json()[0];
+    assert_eq!(answer["ok"], true, "{answer}");
+    assert!(answer["caveats"].to_string().contains("unreviewed"));
+    // Review, retire and restore.
+    let dataset = "invented-demo-salt/invented-demo-table";
+    let review = format!(
+        r#"{{"dataset": "{dataset}", "decision": "approve", "note": "checked", "actor": "bob"}}"#
+    );
+    let reply = c.request("POST", "/v1/admin/review", &auth, review.as_bytes());
+    assert_eq!(
+        reply.status,
+        200,
+        "{}",
+        String::from_utf8_lossy(&reply.body)
+    );
+    let answer = &c.query("solubility of invented demo salt at 20 C").json()[0];
+    assert!(
+        !answer["caveats"].to_string().contains("unreviewed"),
+        "{answer}"
+    );
+    let retire = format!(r#"{{"dataset": "{dataset}"}}"#);
+    assert_eq!(
+        c.request("POST", "/v1/admin/retire", &auth, retire.as_bytes())
+            .status,
+        200
+    );
+    let e = c
+        .query("solubility of invented demo salt at 20 C")
+        .error(422);
+    assert_eq!(e["code"], "no-data");
+    let restore = format!(r#"{{"dataset": "{dataset}", "restore": true}}"#);
+    assert_eq!(
+        c.request("POST", "/v1/admin/retire", &auth, restore.as_bytes())
+            .status,
+        200
+    );
+    assert_eq!(
+        c.query("solubility of invented demo salt at 20 C").json()[0]["ok"],
+        true
+    );
+    // A bad body is a JSON error, and nothing changes.
+    let e = c
+        .request("POST", "/v1/admin/review", &auth, b"{\"dataset\": 3")
+        .error(400);
+    assert_eq!(e["code"], "bad-json");
+    let e = c
+        .request(
+            "POST",
+            "/v1/admin/retire",
+            &auth,
+            br#"{"dataset": "no-such/dataset"}"#,
+        )
+        .error(422);
+    assert_eq!(e["code"], "refused");
 }

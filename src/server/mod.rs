@@ -14,6 +14,7 @@
 //! # Ok::<(), satline::server::ServerError>(())
 //! ```
 
+mod admin;
 mod auth;
 mod layers;
 mod limits;

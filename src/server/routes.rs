@@ -28,7 +28,8 @@ use crate::model::{Solute, SoluteKind, Source};
 
 /// Every route, for the 404 message.
 const ROUTES: &str = "POST /v1/query, GET /v1/solutes, GET /v1/solutes/{name}, GET /v1/sources, \
-GET /v1/sources/{key}, GET /v1/version, GET /v1/health, POST /v1/admin/reload";
+GET /v1/sources/{key}, GET /v1/version, GET /v1/health, POST /v1/plot, POST /v1/admin/reload, \
+POST /v1/admin/import, POST /v1/admin/review, POST /v1/admin/retire";
 
 /// The routes with the layers every request goes through.
 pub(crate) fn router(state: Shared) -> Router {
@@ -51,6 +52,10 @@ fn routes() -> Router<Shared> {
         .route("/v1/version", get(version))
         .route("/v1/health", get(health))
         .route("/v1/admin/reload", post(reload))
+        .route("/v1/admin/import", post(super::admin::import))
+        .route("/v1/admin/review", post(super::admin::review))
+        .route("/v1/admin/retire", post(super::admin::retire))
+        .route("/v1/plot", post(plot))
 }
 
 async fn no_such_route(method: Method, uri: Uri) -> ApiError {
@@ -148,8 +153,9 @@ enum Evaluated {
 
 /// Answers every statement of `text` in one fresh session, stopping when the deadline
 /// passes. The status: 200 when at least one statement was answered (failed ones have
-/// `ok: false`); 400 when every statement failed to parse; 422 when every statement failed
-/// and at least one parsed but could not be answered; 400 for a query with no statement.
+/// `ok: false`); 400 when every statement failed to parse; when every statement failed and
+/// at least one parsed, 404 if the first of those names an unknown solute, else 422; 400 for
+/// a query with no statement.
 fn evaluate(engine: &Engine, text: &str, max_statements: usize, deadline: Instant) -> Evaluated {
     let mut session = engine.session();
     let prepared = engine.prepare(text, &mut session);
@@ -184,17 +190,19 @@ fn answer_prepared(
         };
     }
     let all_parse = answers.iter().all(|a| a.kind == AnswerKind::Invalid);
-    let status = if all_parse {
-        StatusCode::BAD_REQUEST
-    } else {
-        StatusCode::UNPROCESSABLE_ENTITY
-    };
     // The first failure the status is about: the first parse error, or the first
     // statement that parsed but could not be answered.
     let first = answers
         .iter()
         .find(|a| all_parse || a.kind != AnswerKind::Invalid)
         .and_then(|a| a.error.as_ref());
+    let status = if all_parse {
+        StatusCode::BAD_REQUEST
+    } else if first.is_some_and(|e| e.code == "unknown-solute") {
+        StatusCode::NOT_FOUND
+    } else {
+        StatusCode::UNPROCESSABLE_ENTITY
+    };
     let fields = match first {
         Some(report) => ErrorFields::from_report(report),
         None => ErrorFields::new("unanswered", "no statement could be answered"),
@@ -477,6 +485,87 @@ fn version_of(engine: &Engine) -> Value {
 /// `GET /v1/version`: the crate version, the store's schema version, the data fingerprint.
 async fn version(State(state): State<Shared>) -> Response {
     reply::json(StatusCode::OK, &version_of(&state.engine()))
+}
+
+/// `?format=svg|png&width=W&height=H` of `POST /v1/plot`.
+#[derive(Debug, Deserialize)]
+struct PlotParams {
+    format: Option<String>,
+    width: Option<u32>,
+    height: Option<u32>,
+}
+
+/// `POST /v1/plot`: the body is one `plot` statement; the answer is the picture
+/// (`image/svg+xml` by default, `image/png` with `?format=png`). A statement that cannot be
+/// answered gets the JSON error of `/v1/query` (400 parse, 404 unknown solute, 422 other).
+async fn plot(
+    State(state): State<Shared>,
+    params: Result<Query<PlotParams>, QueryRejection>,
+    headers: HeaderMap,
+    body: Body,
+) -> Response {
+    use crate::plot::{Format as PictureFormat, PlotRequestError, picture_for};
+    let Ok(Query(params)) = params else {
+        return bad_parameter("expected ?format=svg|png&width=W&height=H".into()).into_response();
+    };
+    let format = match params.format.as_deref().unwrap_or("svg") {
+        "svg" => PictureFormat::Svg,
+        "png" => PictureFormat::Png,
+        other => {
+            return bad_parameter(format!("format `{other}`: expected svg or png")).into_response();
+        }
+    };
+    let (width, height) = (params.width.unwrap_or(800), params.height.unwrap_or(500));
+    let bytes = match read_body(&headers, body, state.limits.body_bytes).await {
+        Ok(bytes) => bytes,
+        Err(e) => return e.into_response(),
+    };
+    let text = match query_text(&headers, &bytes) {
+        Ok(text) => text,
+        Err(e) => return e.into_response(),
+    };
+    let engine = state.engine();
+    let drawn = tokio::task::spawn_blocking(move || {
+        catch_unwind(AssertUnwindSafe(|| {
+            picture_for(&engine, &text, format, width, height)
+        }))
+    })
+    .await;
+    match drawn {
+        Ok(Ok(Ok((picture, _)))) => Response::builder()
+            .status(StatusCode::OK)
+            .header(header::CONTENT_TYPE, format.media_type())
+            .body(Body::from(picture))
+            .unwrap_or_else(|e| ApiError::internal(e.to_string()).into_response()),
+        Ok(Ok(Err(PlotRequestError::Unanswered { answer }))) => {
+            let status = match answer.error.as_ref().map(|e| (e.stage, e.code)) {
+                Some(("parse", _)) => StatusCode::BAD_REQUEST,
+                Some((_, "unknown-solute")) => StatusCode::NOT_FOUND,
+                _ => StatusCode::UNPROCESSABLE_ENTITY,
+            };
+            let fields = match &answer.error {
+                Some(report) => ErrorFields::from_report(report),
+                None => ErrorFields::new("unanswered", "the plot could not be answered"),
+            };
+            reply::bytes(
+                status,
+                reply::error_body(&fields, Some(std::slice::from_ref(&*answer))),
+            )
+        }
+        Ok(Ok(Err(PlotRequestError::NotOnePlot { found }))) => bad_parameter(format!(
+            "expected one `plot` statement, such as `plot KNO3 from 0 C to 100 C`; found {found}"
+        ))
+        .into_response(),
+        Ok(Ok(Err(other))) => {
+            ApiError::new(StatusCode::BAD_REQUEST, "bad-picture", other.to_string()).into_response()
+        }
+        Ok(Err(payload)) => ApiError::internal(format!(
+            "the plot failed: {}",
+            panic_message(payload.as_ref())
+        ))
+        .into_response(),
+        Err(e) => ApiError::internal(format!("the plot was lost: {e}")).into_response(),
+    }
 }
 
 /// `GET /v1/health`: the server is up and answering.

@@ -656,9 +656,13 @@ mod tests {
         };
         assert_eq!(status("solubility of KNO3 at 20 C"), StatusCode::OK);
         assert_eq!(status("solubilty of KNO3 at 20 C"), StatusCode::BAD_REQUEST);
-        assert_eq!(status("describe KNO4"), StatusCode::UNPROCESSABLE_ENTITY);
+        assert_eq!(status("describe KNO4"), StatusCode::NOT_FOUND);
         assert_eq!(
             status("solubilty of KNO3\ndescribe KNO4"),
+            StatusCode::NOT_FOUND
+        );
+        assert_eq!(
+            status("solubility of KNO3 at 150 C"),
             StatusCode::UNPROCESSABLE_ENTITY
         );
         assert_eq!(status("solubilty of KNO3\ndescribe KNO3"), StatusCode::OK);

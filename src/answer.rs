@@ -2,6 +2,7 @@
 //! of each number, caveats and citations. Every front end renders this one type; its JSON
 //! form is a documented contract (grammar/README.md, "The answer").
 
+use std::borrow::Cow;
 use std::collections::BTreeMap;
 
 use serde::Serialize;
@@ -83,13 +84,14 @@ impl Basis {
 pub struct Row {
     #[serde(skip_serializing_if = "Option::is_none")]
     pub solute: Option<String>,
-    /// What the value is: `solubility`, `saturation temperature`, `ceiling`, ...
+    /// What the value is: `solubility`, `saturation temperature`, `ceiling`, ... (a fixed
+    /// text mostly, so it is borrowed rather than allocated per row).
     #[serde(skip_serializing_if = "Option::is_none")]
-    pub quantity: Option<String>,
+    pub quantity: Option<Cow<'static, str>>,
     #[serde(skip_serializing_if = "Option::is_none")]
     pub value: Option<f64>,
     #[serde(skip_serializing_if = "Option::is_none")]
-    pub unit: Option<String>,
+    pub unit: Option<Cow<'static, str>>,
     #[serde(skip_serializing_if = "Option::is_none")]
     pub basis: Option<Basis>,
     /// The solid phase in equilibrium where the value applies.

@@ -88,7 +88,7 @@ pub fn describe(snap: &Snapshot, s: &Describe, answer: &mut Answer) -> Result<()
                 solute: Some(solute.name.clone()),
                 quantity: Some("solubility".into()),
                 value: Some(point.value_reported),
-                unit: Some(dataset.unit.clone()),
+                unit: Some(dataset.unit.clone().into()),
                 basis: Some(Basis::Tabulated),
                 phase: Some(dataset.phase.formula.clone()),
                 temperature_c: Some(celsius(point.temperature_k)),

@@ -198,12 +198,17 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
 }
 
 /// One ranked row of a screening.
-fn screening_row(solute: &Solute, screening: Screening, saturated: Option<f64>, unit: &str) -> Row {
+fn screening_row(
+    solute: &Solute,
+    screening: Screening,
+    saturated: Option<f64>,
+    unit: &'static str,
+) -> Row {
     Row {
         solute: Some(solute.name.clone()),
         quantity: Some("solubility at the limiting temperature".into()),
         value: saturated,
-        unit: saturated.map(|_| unit.to_string()),
+        unit: saturated.map(|_| unit.into()),
         basis: Some(Basis::from(screening.basis)),
         temperature_c: Some(celsius(screening.limiting_t_k)),
         holds: Some(screening.holds),

@@ -30,9 +30,12 @@ fn columns_for(rows: &[Row]) -> Vec<Column> {
         }
     };
     add("solute", Box::new(|r| r.solute.clone()));
-    add("quantity", Box::new(|r| r.quantity.clone()));
+    add(
+        "quantity",
+        Box::new(|r| r.quantity.as_deref().map(str::to_string)),
+    );
     add("value", Box::new(|r| r.value.map(display)));
-    add("unit", Box::new(|r| r.unit.clone()));
+    add("unit", Box::new(|r| r.unit.as_deref().map(str::to_string)));
     add(
         "holds",
         Box::new(|r| r.holds.map(|h| if h { "yes" } else { "NO" }.to_string())),

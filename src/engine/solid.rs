@@ -76,7 +76,8 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
     }
     // Results are ranked as compact records and turned into rows once, in rank order, so
     // a large screening moves no rows while sorting.
-    let mut ranked: Vec<(&Solute, Screening, Option<f64>)> =
+    // Option, so the rows can be taken out in rank order without another copy.
+    let mut ranked: Vec<Option<(&Solute, Screening, Option<f64>)>> =
         Vec::with_capacity(snap.catalog.solutes().len());
     let mut no_data: Vec<Row> = Vec::new();
     let (mut from_memory, mut unreviewed) = (0usize, 0usize);
@@ -146,27 +147,29 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
             s.loading.span,
         )
         .ok();
-        ranked.push((solute, screening, saturated));
+        ranked.push(Some((solute, screening, saturated)));
     }
     // Best headroom first, then by name; the sort is stable, so equal rows keep catalog
     // order. Only (headroom, position) pairs move while sorting.
-    let mut order: Vec<(f64, usize)> = ranked
+    let mut order: Vec<(f64, &str, usize)> = ranked
         .iter()
         .enumerate()
-        .map(|(i, (_, screening, _))| (screening.headroom_pct, i))
+        .filter_map(|(i, r)| {
+            r.as_ref()
+                .map(|(solute, sc, _)| (sc.headroom_pct, solute.name.as_str(), i))
+        })
         .collect();
-    order.sort_by(|a, b| {
-        b.0.total_cmp(&a.0)
-            .then_with(|| ranked[a.1].0.name.cmp(&ranked[b.1].0.name))
-    });
-    let held = ranked.iter().filter(|(_, sc, _)| sc.holds).count();
+    order.sort_by(|a, b| b.0.total_cmp(&a.0).then_with(|| a.1.cmp(b.1)));
+    let held = ranked
+        .iter()
+        .flatten()
+        .filter(|(_, sc, _)| sc.holds)
+        .count();
     let with_data = ranked.len();
     let no_data_count = no_data.len();
     let unit = s.loading.unit.symbol();
     answer.rows.reserve(with_data + no_data_count);
-    let mut ranked: Vec<Option<(&Solute, Screening, Option<f64>)>> =
-        ranked.into_iter().map(Some).collect();
-    for &(_, i) in &order {
+    for &(_, _, i) in &order {
         if let Some((solute, screening, saturated)) = ranked[i].take() {
             answer
                 .rows

@@ -15,7 +15,9 @@ pub enum AnswerKind {
     Screening,
     Saturation,
     Ceiling,
+    #[serde(rename = "heat-of-solution")]
     Heat,
+    #[serde(rename = "dissolved-gas")]
     Gas,
     Freezing,
     Convert,
@@ -36,8 +38,8 @@ impl AnswerKind {
             AnswerKind::Screening => "screening",
             AnswerKind::Saturation => "saturation",
             AnswerKind::Ceiling => "ceiling",
-            AnswerKind::Heat => "heat",
-            AnswerKind::Gas => "gas",
+            AnswerKind::Heat => "heat-of-solution",
+            AnswerKind::Gas => "dissolved-gas",
             AnswerKind::Freezing => "freezing",
             AnswerKind::Convert => "convert",
             AnswerKind::Describe => "describe",

@@ -93,6 +93,9 @@ fn tab_completes_a_partial_solute_name() {
     session
         .exp_regex("(?i)» solubility of potassium nitrate at 20 C")
         .unwrap();
+    // The answer is printed before the next prompt; leave only at the prompt, or the
+    // Ctrl-D can arrive while the terminal is not yet in the line editor's raw mode.
+    session.exp_string("satline> ").unwrap();
     leave(session);
 }
 
@@ -121,6 +124,9 @@ fn an_error_leaves_the_session_running() {
     session
         .exp_string("{\"statement\":\"describe NaCl\"")
         .unwrap();
+    // The answer is printed before the next prompt; leave only at the prompt, or the
+    // Ctrl-D can arrive while the terminal is not yet in the line editor's raw mode.
+    session.exp_string("satline> ").unwrap();
     leave(session);
 }
 
@@ -159,5 +165,8 @@ fn history_persists_across_sessions() {
     type_keys(&mut second, "\x1b[A");
     type_keys(&mut second, "\r");
     second.exp_string("» describe NaCl").unwrap();
+    // The answer is printed before the next prompt; leave only at the prompt, or the
+    // Ctrl-D can arrive while the terminal is not yet in the line editor's raw mode.
+    second.exp_string("satline> ").unwrap();
     leave(second);
 }

@@ -11,7 +11,7 @@ use std::path::Path;
 
 use sha2::{Digest, Sha256};
 
-use crate::model::{Dataset, FreezingData, GasConstant, Solute, Source};
+use crate::model::{Dataset, DensityCoefficients, FreezingData, GasConstant, Solute, Source};
 use crate::store::{Contents, Store, StoreError};
 
 /// How many "did you mean" names an unknown solute gets at most.
@@ -60,6 +60,8 @@ pub struct Catalog {
     datasets: Vec<Dataset>,
     gas_constants: Vec<GasConstant>,
     freezing: Vec<FreezingData>,
+    /// Solution-density coefficients, by solute id.
+    densities: Vec<DensityCoefficients>,
     source_index: HashMap<String, usize>,
     solute_index: HashMap<String, usize>,
     /// Normalised lookup name (case kept) → solute index; tried first so `Co` and `CO`
@@ -131,11 +133,18 @@ impl Catalog {
             datasets,
             gas_constants,
             freezing,
+            densities,
         } = contents;
         let datasets: Vec<Dataset> = datasets.into_iter().filter(|d| !d.retired).collect();
         let freezing: Vec<FreezingData> = freezing.into_iter().map(|f| f.data).collect();
-        let fingerprint =
-            data_fingerprint(&sources, &solutes, &datasets, &gas_constants, &freezing);
+        let fingerprint = data_fingerprint(
+            &sources,
+            &solutes,
+            &datasets,
+            &gas_constants,
+            &freezing,
+            &densities,
+        );
 
         let source_index = sources
             .iter()
@@ -182,6 +191,7 @@ impl Catalog {
             datasets,
             gas_constants,
             freezing,
+            densities,
             source_index,
             solute_index,
             exact_names,
@@ -190,6 +200,19 @@ impl Catalog {
             fingerprint,
             schema_version,
         }
+    }
+
+    /// The solution-density coefficients of a solute, if the reference holds them.
+    pub fn density_of(&self, solute_id: &str) -> Option<&DensityCoefficients> {
+        self.densities
+            .binary_search_by(|d| d.solute.as_str().cmp(solute_id))
+            .ok()
+            .map(|i| &self.densities[i])
+    }
+
+    /// Every set of solution-density coefficients, by solute id.
+    pub fn densities(&self) -> &[DensityCoefficients] {
+        &self.densities
     }
 
     /// Every source, by key.
@@ -383,6 +406,7 @@ fn data_fingerprint(
     datasets: &[Dataset],
     gas_constants: &[GasConstant],
     freezing: &[FreezingData],
+    densities: &[DensityCoefficients],
 ) -> String {
     let mut hasher = Sha256::new();
     // serde_json writes floats in their shortest exact form, so equal data hash equally.
@@ -392,6 +416,7 @@ fn data_fingerprint(
         serde_json::to_vec(datasets),
         serde_json::to_vec(gas_constants),
         serde_json::to_vec(freezing),
+        serde_json::to_vec(densities),
     ];
     for part in parts {
         let bytes = part.unwrap_or_default();

@@ -244,3 +244,27 @@ pub struct FreezingData {
     pub provenance: Provenance,
     pub review: Review,
 }
+
+/// One solute's published coefficients for Laliberté's solution-density model, with the
+/// range of temperature and mass fraction they were fitted over (`seed-data/densities.toml`).
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct DensityCoefficients {
+    /// The solute's id; one set per solute.
+    pub solute: String,
+    pub source: String,
+    /// c0…c4 as published.
+    pub c: [f64; 5],
+    /// Fitted temperature range, °C.
+    pub t_min_c: f64,
+    pub t_max_c: f64,
+    /// Largest mass fraction of the solute in the fitted data.
+    pub w_max: f64,
+    /// The solute's name in the published table, and its CAS number there.
+    pub table_name: Option<String>,
+    pub cas: Option<String>,
+    /// Number of data points behind the fit, as published.
+    pub points: Option<u32>,
+    pub provenance: Provenance,
+    pub review: Review,
+    pub note: Option<String>,
+}

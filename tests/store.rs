@@ -204,6 +204,27 @@ fn assert_round_trip(files: &[(String, String)], stored: &Contents) {
             }
             continue;
         }
+        if path == "densities.toml" {
+            let list = doc.get("density").and_then(|v| v.as_array()).unwrap();
+            assert_eq!(list.len(), stored.densities.len());
+            for raw in list {
+                let raw = raw.as_table().unwrap();
+                let solute = text(raw, "solute").unwrap();
+                let d = stored
+                    .densities
+                    .iter()
+                    .find(|d| d.solute == solute)
+                    .unwrap();
+                for (i, c) in d.c.iter().enumerate() {
+                    assert_eq!(*c, num(&raw[&format!("c{i}")]), "{solute} c{i}");
+                }
+                assert_eq!(d.t_min_c, num(&raw["t_min"]), "{solute}");
+                assert_eq!(d.t_max_c, num(&raw["t_max"]), "{solute}");
+                assert_eq!(d.w_max, num(&raw["w_max"]), "{solute}");
+                assert_eq!(Some(d.source.clone()), text(raw, "source"));
+            }
+            continue;
+        }
         let id = text(&doc, "id").unwrap();
         let s = stored.solutes.iter().find(|s| s.id == id).unwrap();
         assert_eq!(Some(s.name.clone()), text(&doc, "name"));

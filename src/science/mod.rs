@@ -2,6 +2,7 @@
 //! Every public function's doc comment gives its formula and its source.
 
 pub mod curve;
+pub mod density;
 pub mod error;
 pub mod fit;
 pub mod formula;

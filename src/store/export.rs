@@ -251,6 +251,9 @@ pub fn to_toml_files(contents: &Contents) -> Vec<(String, String)> {
     for s in &contents.solutes {
         files.push((format!("solutes/{}.toml", s.id), solute_toml(contents, s)));
     }
+    if let Some(text) = super::density::to_toml(&contents.densities) {
+        files.push((super::density::FILE.to_string(), text));
+    }
     files
 }
 

@@ -107,6 +107,7 @@ enum Record {
     Dataset(Dataset),
     Gas(GasConstant),
     Freezing(FreezingRecord),
+    Density(crate::model::DensityCoefficients),
 }
 
 /// One planned change.
@@ -289,6 +290,8 @@ pub fn plan(
             "toml" => {
                 let name = if stem == "sources" {
                     "sources.toml".to_string()
+                } else if stem == "densities" {
+                    super::density::FILE.to_string()
                 } else {
                     format!("solutes/{stem}.toml")
                 };
@@ -315,7 +318,9 @@ pub fn plan(
     let mut incoming = if toml_files.is_empty() {
         Contents::default()
     } else {
-        seed::parse_with_known_sources(&toml_files, &db_keys).map_err(|e| origins.relabel(e))?
+        let db_solutes: Vec<&str> = existing.solutes.iter().map(|s| s.id.as_str()).collect();
+        seed::parse_with_known(&toml_files, &db_keys, &db_solutes)
+            .map_err(|e| origins.relabel(e))?
     };
     let mut known: HashSet<String> = db_keys.iter().map(|s| s.to_string()).collect();
     known.extend(incoming.sources.iter().map(|s| s.key.clone()));
@@ -358,6 +363,9 @@ pub fn plan(
         }
         for f in &mut incoming.freezing {
             f.data.review = Review::Unreviewed;
+        }
+        for d in &mut incoming.densities {
+            d.review = Review::Unreviewed;
         }
     }
     for d in &incoming.datasets {
@@ -559,6 +567,31 @@ fn compare(incoming: &Contents, existing: &Contents, options: &ImportOptions) ->
             record: Record::Freezing(f.clone()),
         });
     }
+    // Density coefficients: one set per solute, compared whole (review aside unless kept).
+    for d in &incoming.densities {
+        let before = existing.densities.iter().find(|b| b.solute == d.solute);
+        let same = before.map(|b| {
+            d == b
+                || (!options.keep_state
+                    && d.c == b.c
+                    && d.source == b.source
+                    && d.t_min_c == b.t_min_c
+                    && d.t_max_c == b.t_max_c
+                    && d.w_max == b.w_max)
+        });
+        plan.changes.push(Change {
+            kind: kind_of(same),
+            entity: format!("density:{}", d.solute),
+            summary: format!(
+                "density coefficients, {}, source {}",
+                d.review.as_str(),
+                d.source
+            ),
+            before: before.map(json),
+            after: json(d),
+            record: Record::Density(d.clone()),
+        });
+    }
 
     // Findings, for the datasets that would be written.
     let solutes: HashMap<&str, &Solute> = existing
@@ -646,6 +679,7 @@ pub fn apply(
             Record::Dataset(d) => write::replace_dataset(&tx, d, tick)?,
             Record::Gas(g) => write::replace_gas_constant(&tx, g)?,
             Record::Freezing(f) => write::replace_freezing(&tx, f)?,
+            Record::Density(d) => super::density::replace(&tx, d)?,
         }
         audit::record(
             &tx,

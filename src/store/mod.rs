@@ -7,6 +7,7 @@
 pub mod audit;
 pub mod check;
 pub mod default_db;
+pub mod density;
 mod error;
 pub mod export;
 pub mod findings;

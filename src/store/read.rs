@@ -8,8 +8,8 @@ use serde::Serialize;
 
 use super::StoreError;
 use crate::model::{
-    Dataset, FreezingData, GasConstant, GasLaw, Phase, Point, Provenance, Review, Solute,
-    SoluteKind, Source, SourceKind,
+    Dataset, DensityCoefficients, FreezingData, GasConstant, GasLaw, Phase, Point, Provenance,
+    Review, Solute, SoluteKind, Source, SourceKind,
 };
 
 /// A (composition, temperature) pair.
@@ -40,6 +40,8 @@ pub struct Contents {
     pub datasets: Vec<Dataset>,
     pub gas_constants: Vec<GasConstant>,
     pub freezing: Vec<FreezingRecord>,
+    /// Solution-density coefficients, by solute id.
+    pub densities: Vec<DensityCoefficients>,
 }
 
 impl Contents {
@@ -50,6 +52,7 @@ impl Contents {
         self.datasets.sort_by(|a, b| a.key.cmp(&b.key));
         self.gas_constants.sort_by(|a, b| a.key.cmp(&b.key));
         self.freezing.sort_by(|a, b| a.data.key.cmp(&b.data.key));
+        self.densities.sort_by(|a, b| a.solute.cmp(&b.solute));
     }
 }
 
@@ -81,7 +84,7 @@ fn solute_kind(s: &str) -> Result<SoluteKind, StoreError> {
     })
 }
 
-fn provenance(s: &str) -> Result<Provenance, StoreError> {
+pub(crate) fn provenance(s: &str) -> Result<Provenance, StoreError> {
     Ok(match s {
         "measured" => Provenance::Measured,
         "compiled" => Provenance::Compiled,
@@ -91,7 +94,7 @@ fn provenance(s: &str) -> Result<Provenance, StoreError> {
     })
 }
 
-fn review(s: &str) -> Result<Review, StoreError> {
+pub(crate) fn review(s: &str) -> Result<Review, StoreError> {
     Ok(match s {
         "unreviewed" => Review::Unreviewed,
         "reviewed" => Review::Reviewed,
@@ -396,5 +399,6 @@ fn read_inside(conn: &Connection) -> Result<Contents, StoreError> {
             },
         });
     }
+    contents.densities = super::density::read(conn)?;
     Ok(contents)
 }

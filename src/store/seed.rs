@@ -76,7 +76,7 @@ pub enum SeedProblem {
     MissingSources,
 
     /// A `.toml` file outside the layout, e.g. `notes/extra.toml`.
-    #[error("not a seed file: expected sources.toml or solutes/<id>.toml")]
+    #[error("not a seed file: expected sources.toml, densities.toml or solutes/<id>.toml")]
     UnexpectedFile,
 
     /// A dataset names a source that `sources.toml` lacks, e.g. `source = "crc-98"`.
@@ -1187,6 +1187,17 @@ pub fn parse_with_known_sources<P: AsRef<str>, C: AsRef<str>>(
     files: &[(P, C)],
     known_sources: &[&str],
 ) -> Result<Contents, StoreError> {
+    parse_with_known(files, known_sources, &[])
+}
+
+/// As [`parse_with_known_sources`], where `densities.toml` may also name one of
+/// `known_solutes` (solutes already stored).
+pub fn parse_with_known<P: AsRef<str>, C: AsRef<str>>(
+    files: &[(P, C)],
+    known_sources: &[&str],
+    known_solutes: &[&str],
+) -> Result<Contents, StoreError> {
+    let mut densities_file: Option<&str> = None;
     let mut sources_file: Option<(&str, &str)> = None;
     let mut solute_files: Vec<(&str, &str, &str)> = Vec::new();
     for (path, text) in files {
@@ -1203,6 +1214,8 @@ pub fn parse_with_known_sources<P: AsRef<str>, C: AsRef<str>>(
                 ));
             }
             sources_file = Some((path, text));
+        } else if path == super::density::FILE {
+            densities_file = Some(text);
         } else if let Some(stem) = path
             .strip_prefix("solutes/")
             .and_then(|rest| rest.strip_suffix(".toml"))
@@ -1216,7 +1229,11 @@ pub fn parse_with_known_sources<P: AsRef<str>, C: AsRef<str>>(
     let sources = match sources_file {
         Some((path, text)) => parse_sources(path, text)?,
         // No files at all is an empty reference (a fresh checkout before any data).
-        None if solute_files.is_empty() || !known_sources.is_empty() => Vec::new(),
+        None if (solute_files.is_empty() && densities_file.is_none())
+            || !known_sources.is_empty() =>
+        {
+            Vec::new()
+        }
         None => {
             return Err(problem(
                 "sources.toml",
@@ -1266,8 +1283,20 @@ pub fn parse_with_known_sources<P: AsRef<str>, C: AsRef<str>>(
         parts.push(part);
     }
 
+    let densities = match densities_file {
+        Some(text) => {
+            let solutes: HashSet<&str> = parts
+                .iter()
+                .map(|p| p.solute.id.as_str())
+                .chain(known_solutes.iter().copied())
+                .collect();
+            super::density::parse(text, &source_keys, &solutes)?
+        }
+        None => Vec::new(),
+    };
     let mut contents = Contents {
         sources,
+        densities,
         ..Contents::default()
     };
     for part in parts {
@@ -1305,6 +1334,9 @@ pub(crate) fn write(
         }
         for f in &contents.freezing {
             write::replace_freezing(&tx, f)?;
+        }
+        for d in &contents.densities {
+            super::density::replace(&tx, d)?;
         }
 
         let mut set_meta = tx.prepare_cached(

@@ -61,7 +61,8 @@ pub fn solution_density(t_k: f64, components: &[(f64, &Coefficients)]) -> Result
         return Err(Refusal::Composition { total });
     }
     for (index, (w, c)) in components.iter().enumerate() {
-        if !(c.t_min_c..=c.t_max_c).contains(&t_c) {
+        // A temperature given in °C comes back from kelvin a rounding hair off.
+        if !(c.t_min_c - 1e-9..=c.t_max_c + 1e-9).contains(&t_c) {
             return Err(Refusal::Temperature {
                 index,
                 t_c,
@@ -69,7 +70,7 @@ pub fn solution_density(t_k: f64, components: &[(f64, &Coefficients)]) -> Result
                 t_max_c: c.t_max_c,
             });
         }
-        if *w > c.w_max {
+        if *w > c.w_max * (1.0 + 1e-12) {
             return Err(Refusal::MassFraction {
                 index,
                 w: *w,

@@ -6,6 +6,7 @@ committed fixtures):
     periodictable 2.1.0   molar masses of formulas
     gsw           3.6.23  TEOS-10: O2 solubility in air-saturated water, O2sol_SP_pt
     iapws         1.5.5   IAPWS-95: saturation pressure and density of pure water
+    thermo        0.6.1   Laliberté's solution densities (fixtures_density.py)
 
 Run:  python3 -m venv venv && venv/bin/pip install periodictable gsw iapws
       venv/bin/python tests/reference/make_fixtures.py
@@ -17,6 +18,8 @@ import os
 import gsw
 import iapws
 import periodictable
+
+import fixtures_density
 from iapws import IAPWS95
 
 HERE = os.path.dirname(os.path.abspath(__file__))
@@ -116,6 +119,7 @@ def main():
             "rows": water(),
         },
     }
+    fixtures["densities_laliberte.json"] = fixtures_density.densities()
     for name, data in fixtures.items():
         with open(os.path.join(HERE, name), "w", encoding="utf-8") as f:
             json.dump(data, f, indent=1, ensure_ascii=False)

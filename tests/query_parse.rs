@@ -295,7 +295,14 @@ fn every_loading_unit() {
     for (written, unit) in [
         ("g/100g water", CompositionUnit::GramsPer100gWater),
         ("%w/w", CompositionUnit::MassPercent),
-        ("%", CompositionUnit::MassPercent),
+        ("%w/v", CompositionUnit::PercentWeightPerVolume),
+        ("mg/mL", CompositionUnit::MilligramsPerMillilitre),
+        ("mmol/L", CompositionUnit::MillimolesPerLitre),
+        ("mM", CompositionUnit::MillimolesPerLitre),
+        ("umol/L", CompositionUnit::MicromolesPerLitre),
+        ("uM", CompositionUnit::MicromolesPerLitre),
+        ("M", CompositionUnit::MolesPerLitre),
+        ("ppm w/w", CompositionUnit::MilligramsPerKilogram),
         ("mol/kg", CompositionUnit::Molality),
         ("mmol/kg", CompositionUnit::MillimolesPerKilogram),
         ("x", CompositionUnit::MoleFraction),
@@ -330,12 +337,30 @@ fn every_temperature_unit() {
 }
 
 #[test]
-fn percent_is_a_loading_but_margin_takes_a_bare_percent() {
-    let Statement::Screen(s) = one("which salts stay dissolved at 12% at 5 C margin 10%") else {
+fn a_bare_percent_is_no_loading_but_margin_takes_it() {
+    let Statement::Screen(s) = one("which salts stay dissolved at 12%w/w at 5 C margin 10%") else {
         panic!()
     };
     assert_eq!(s.loading.unit, CompositionUnit::MassPercent);
     assert!(close(s.margin.map_or(0.0, |m| m.percent), 10.0));
+    for text in [
+        "which salts stay dissolved at 12% at 5 C",
+        "saturation of KNO3 at 12 %",
+        "convert 5 %w/w of KCl to %",
+        "let strong = 12 %",
+        "convert 10 ppm of KCl to mg/L",
+    ] {
+        let e = fault(text);
+        assert!(
+            matches!(e.kind, ParseErrorKind::AmbiguousUnit { .. }),
+            "{text}: {e:?}"
+        );
+        let message = e.to_string();
+        assert!(
+            message.contains("%w/w") || message.contains("ppm w/w"),
+            "{message}"
+        );
+    }
     let e = fault("ceiling of KCl from 2 C to 8 C margin 10 %w/w");
     assert!(matches!(
         e.kind,

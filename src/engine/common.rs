@@ -4,6 +4,7 @@
 use crate::answer::{Answer, Basis};
 use crate::catalog::citation;
 use crate::engine::error::EvalError;
+use crate::engine::per_litre::{self, Volume};
 use crate::engine::snapshot::{BuiltCurve, Snapshot};
 use crate::model::{Provenance, Review, Solute, SoluteKind};
 use crate::output::number::round_significant;
@@ -132,10 +133,32 @@ pub fn context(solute: &Solute) -> Context {
     Context::with_molar_mass(solute.molar_mass)
 }
 
-/// A loading as the mass fraction of anhydrous solute.
-pub fn loading_mass_fraction(loading: &Loading, solute: &Solute) -> Result<f64, EvalError> {
-    let w = units::to_mass_fraction(loading.value, loading.unit, &context(solute))
-        .map_err(|e| per_volume(e, loading.unit, loading.span))?;
+/// How a statement's per-litre amounts are read: at the default volume temperature, with
+/// the statement's options.
+pub fn volume(options: &Options) -> Volume {
+    Volume {
+        reviewed_only: options.reviewed_only,
+        unit_density: options.assume_unit_density,
+        ..Volume::default()
+    }
+}
+
+/// A loading as the mass fraction of anhydrous solute; a per-litre loading through the
+/// solution's density (the answer says so).
+pub fn loading_mass_fraction(
+    snap: &Snapshot,
+    loading: &Loading,
+    solute: &Solute,
+    options: &Options,
+    answer: &mut Answer,
+) -> Result<f64, EvalError> {
+    let w = if loading.unit.needs_density() {
+        let solution = per_litre::solution(snap, &[(solute, loading)], &volume(options), answer)?;
+        solution.ws.first().copied().unwrap_or_default()
+    } else {
+        units::to_mass_fraction(loading.value, loading.unit, &context(solute))
+            .map_err(|e| per_volume(e, loading.unit, loading.span))?
+    };
     if w >= 1.0 {
         return Err(EvalError::Unanswerable {
             message: format!(
@@ -149,13 +172,25 @@ pub fn loading_mass_fraction(loading: &Loading, solute: &Solute) -> Result<f64, 
     Ok(w)
 }
 
-/// A mass fraction in the unit asked for.
+/// A mass fraction in the unit asked for; a per-litre unit through the solution's density
+/// (the answer says so).
 pub fn in_unit(
+    snap: &Snapshot,
     w: f64,
     unit: CompositionUnit,
     solute: &Solute,
     span: Span,
+    options: &Options,
+    answer: &mut Answer,
 ) -> Result<f64, EvalError> {
+    if unit.needs_density() {
+        let solution = per_litre::Solution {
+            solutes: vec![solute],
+            ws: vec![w],
+            volume: volume(options),
+        };
+        return solution.amount(snap, 0, unit, span, answer);
+    }
     units::from_mass_fraction(w, unit, &context(solute))
         .map(value)
         .map_err(|e| per_volume(e, unit, span))

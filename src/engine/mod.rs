@@ -13,6 +13,7 @@
 mod common;
 mod error;
 mod gas;
+mod per_litre;
 mod plot;
 mod records;
 mod snapshot;

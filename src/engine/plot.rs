@@ -455,7 +455,7 @@ fn solids(
             let mut level: Option<(f64, Option<f64>)> = None;
             let mut limiting = Vec::new();
             for (((solute, _), built), colours) in solutes.iter().zip(&curves).zip(&colours_of) {
-                let w = loading_mass_fraction(&l.loading, solute)?;
+                let w = loading_mass_fraction(snap, &l.loading, solute, &s.options, answer)?;
                 let span = l.temperatures.map_or(l.span, |t| t.span());
                 let screening =
                     stays_dissolved_with(&built.curve, w, a, b, margin, s.options.extrapolate)

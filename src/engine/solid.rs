@@ -6,11 +6,13 @@ use std::collections::BTreeMap;
 use serde_json::json;
 
 use crate::answer::{Answer, Basis, Row};
+use crate::engine::common;
 use crate::engine::common::{
     basis_caveat, bounds, celsius, cite_curve, cite_source, curve_error, curve_of, hazard, in_unit,
     loading_mass_fraction, phase_caveat, resolve, value,
 };
 use crate::engine::error::EvalError;
+use crate::engine::per_litre::{self, DEFAULT_VOLUME_T_K, Volume};
 use crate::engine::records::selects;
 use crate::engine::snapshot::Snapshot;
 use crate::engine::{CAUTION, gas};
@@ -40,10 +42,19 @@ pub fn lookup(snap: &Snapshot, s: &Solubility, answer: &mut Answer) -> Result<()
         .map_or(CompositionUnit::GramsPer100gWater, |u| u.unit);
     let span = s.unit.map_or(s.temperature.span, |u| u.span);
     let basis = Basis::from(evaluation.basis);
+    let amount = in_unit(
+        snap,
+        evaluation.mass_fraction,
+        unit,
+        solute,
+        span,
+        &s.options,
+        answer,
+    )?;
     answer.rows.push(Row {
         solute: Some(solute.name.clone()),
         quantity: Some("solubility".into()),
-        value: Some(in_unit(evaluation.mass_fraction, unit, solute, span)?),
+        value: Some(amount),
         unit: Some(unit.symbol().into()),
         basis: Some(basis),
         phase: Some(evaluation.phase.clone()),
@@ -65,15 +76,6 @@ fn headroom(pct: f64) -> f64 {
 pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), EvalError> {
     let (t1, t2) = bounds(&s.temperatures);
     let margin = s.margin.map_or(0.0, |m| m.percent / 100.0);
-    if s.loading.unit.needs_density() {
-        return Err(EvalError::Unanswerable {
-            message: format!(
-                "a loading in {} needs each solution's density, which the reference does not hold; give it in g/100g water, %w/w, mol/kg or x",
-                s.loading.unit.symbol()
-            ),
-            span: s.loading.span,
-        });
-    }
     // Results are ranked as compact records and turned into rows once, in rank order, so
     // a large screening moves no rows while sorting.
     // Option, so the rows can be taken out in rank order without another copy.
@@ -109,7 +111,16 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
             }));
             continue;
         };
-        let w = loading_mass_fraction(&s.loading, solute)?;
+        // A per-litre loading needs each solution's density: a solute without one is
+        // listed apart with the reason, never as passing.
+        let w = match loading_mass_fraction(snap, &s.loading, solute, &s.options, answer) {
+            Ok(w) => w,
+            Err(e) if s.loading.unit.needs_density() => {
+                no_data.push(missing(e.to_string()));
+                continue;
+            }
+            Err(e) => return Err(e),
+        };
         let screening = match stays_dissolved(&built.curve, w, t1, t2, margin) {
             Ok(screening) => screening,
             Err(_) => {
@@ -141,10 +152,13 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
             cite_source(snap, &datasets[i].source, answer);
         }
         let saturated = in_unit(
+            snap,
             screening.limiting_mass_fraction,
             s.loading.unit,
             solute,
             s.loading.span,
+            &s.options,
+            answer,
         )
         .ok();
         ranked.push(Some((solute, screening, saturated)));
@@ -227,16 +241,19 @@ fn screening_row(
 pub fn require(snap: &Snapshot, s: &Require, answer: &mut Answer) -> Result<(), EvalError> {
     let solute = resolve(snap, &s.solute)?;
     let built = curve_of(snap, solute, &s.solute, &s.options)?;
-    let w = loading_mass_fraction(&s.loading, solute)?;
+    let w = loading_mass_fraction(snap, &s.loading, solute, &s.options, answer)?;
     let (t1, t2) = bounds(&s.temperatures);
     let margin = s.margin.map_or(0.0, |m| m.percent / 100.0);
     let screening = stays_dissolved(&built.curve, w, t1, t2, margin)
         .map_err(|e| curve_error(e, solute, s.temperatures.span()))?;
     let saturated = in_unit(
+        snap,
         screening.limiting_mass_fraction,
         s.loading.unit,
         solute,
         s.loading.span,
+        &s.options,
+        answer,
     )?;
     answer.holds = Some(screening.holds);
     answer.rows.push(Row {
@@ -277,7 +294,7 @@ pub fn require(snap: &Snapshot, s: &Require, answer: &mut Answer) -> Result<(), 
 pub fn saturation(snap: &Snapshot, s: &Saturation, answer: &mut Answer) -> Result<(), EvalError> {
     let solute = resolve(snap, &s.solute)?;
     let built = curve_of(snap, solute, &s.solute, &s.options)?;
-    let w = loading_mass_fraction(&s.loading, solute)?;
+    let w = loading_mass_fraction(snap, &s.loading, solute, &s.options, answer)?;
     let crossings = solve::saturation_temperatures(&built.curve, w)
         .map_err(|e| curve_error(e, solute, s.loading.span))?;
     let unit = s.unit.map_or(TemperatureUnit::Celsius, |u| u.unit);
@@ -338,10 +355,19 @@ pub fn ceiling(snap: &Snapshot, s: &Ceiling, answer: &mut Answer) -> Result<(), 
         .unit
         .map_or(CompositionUnit::GramsPer100gWater, |u| u.unit);
     let span = s.unit.map_or(s.temperatures.span(), |u| u.span);
+    let amount = in_unit(
+        snap,
+        ceiling.mass_fraction,
+        unit,
+        solute,
+        span,
+        &s.options,
+        answer,
+    )?;
     answer.rows.push(Row {
         solute: Some(solute.name.clone()),
         quantity: Some("largest safe loading".into()),
-        value: Some(in_unit(ceiling.mass_fraction, unit, solute, span)?),
+        value: Some(amount),
         unit: Some(unit.symbol().into()),
         basis: Some(Basis::Computed),
         phase: Some(ceiling.phase.clone()),
@@ -406,7 +432,7 @@ pub fn freezing(snap: &Snapshot, s: &Freezing, answer: &mut Answer) -> Result<()
             span: s.solute.span,
         });
     }
-    let w = loading_mass_fraction(&s.loading, solute)?;
+    let w = loading_mass_fraction(snap, &s.loading, solute, &s.options, answer)?;
     let data = snap.catalog.freezing_of(&solute.id).into_iter().next();
     let curve = snap.curve(&solute.id, s.options.reviewed_only);
     let unit = s.unit.map_or(TemperatureUnit::Celsius, |u| u.unit);
@@ -582,8 +608,26 @@ pub fn convert(snap: &Snapshot, s: &Convert, answer: &mut Answer) -> Result<(), 
             basis.text, solute.formula
         ));
     }
-    let w = loading_mass_fraction(&loading, solute)?;
-    let mut result = in_unit(w, s.to.unit, solute, s.to.span)?;
+    // A per-litre amount on either side is per litre at the statement's `at` temperature.
+    let volume = Volume {
+        t_k: s.temperature.map_or(DEFAULT_VOLUME_T_K, |t| t.kelvin()),
+        stated: s.temperature.is_some(),
+        ..common::volume(&s.options)
+    };
+    let solution = per_litre::solution(snap, &[(solute, &loading)], &volume, answer)?;
+    let w = solution.ws.first().copied().unwrap_or_default();
+    let mut result = solution.amount(snap, 0, s.to.unit, s.to.span, answer)?;
+    let mut extra: BTreeMap<String, serde_json::Value> = [(
+        "molar_mass_g_per_mol".to_string(),
+        json!(round_significant(solute.molar_mass, 6)),
+    )]
+    .into_iter()
+    .collect();
+    if loading.unit.needs_density() || s.to.unit.needs_density() {
+        let rho = solution.density(snap, s.to.unit, s.to.span)?;
+        extra.insert("density_kg_per_l".into(), json!(round_significant(rho, 5)));
+        extra.insert("volume_temperature_c".into(), json!(celsius(volume.t_k)));
+    }
     if let Some(basis) = &s.to_basis {
         needs_grams(s.to.unit, s.to.span)?;
         let water = hydrate_water(basis)?;
@@ -612,12 +656,7 @@ pub fn convert(snap: &Snapshot, s: &Convert, answer: &mut Answer) -> Result<(), 
         value: Some(result),
         unit: Some(s.to.unit.symbol().into()),
         basis: Some(Basis::Computed),
-        extra: [(
-            "molar_mass_g_per_mol".to_string(),
-            json!(round_significant(solute.molar_mass, 6)),
-        )]
-        .into_iter()
-        .collect(),
+        extra,
         ..Row::default()
     });
     Ok(())

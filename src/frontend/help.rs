@@ -325,7 +325,7 @@ fn units_text() -> String {
     format!(
         "  temperatures: {}   (5 C, 278.15 K, 41 F)\n  \
          loadings:     {}\n  \
-         per litre:    {}   (these need the solution's density)\n  \
+         per litre:    {}\n                (mM, uM, M too; per litre of solution at 20 C unless\n                 `at T` says; the density comes from Laliberté's model)\n  \
          pressures:    {}   (2.5 bar; or `under air`)\n  \
          margins:      a percentage of headroom, as in `margin 10%`\n",
         join(TemperatureUnit::ALL.iter().map(|u| u.symbol()).collect()),

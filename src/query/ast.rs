@@ -172,6 +172,10 @@ pub struct Options {
     pub extrapolate: bool,
     /// `reviewed only`: use only reviewed data.
     pub reviewed_only: bool,
+    /// `assuming density 1.000 kg/L`: per-litre amounts use that density instead of the
+    /// solution's (the answer says so).
+    #[serde(skip_serializing_if = "std::ops::Not::not")]
+    pub assume_unit_density: bool,
 }
 
 /// A value `let` can bind.

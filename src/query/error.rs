@@ -75,16 +75,28 @@ pub enum ParseErrorKind {
         found_kind: ValueKind,
     },
 
-    /// A unit nobody knows: `convert 20 g/100g water of KCl to mol/kgg`.
+    /// A unit nobody knows: `convert 20 g/100g water of KCl to mol/kgg`. A suggestion that
+    /// differs from what was typed by a factor of 1000 or more says so
+    /// (`nmol/L` → `umol/L`).
     #[error(
-        "expected {}, found `{found}`, which is not a unit satline knows{}",
+        "expected {}, found `{found}`, which is not a unit satline knows{}{}",
         expected.unit_example(),
-        did_you_mean(suggestion)
+        did_you_mean(suggestion),
+        super::lexicon::scale_warning(found, suggestion.as_deref())
     )]
     UnknownUnit {
         expected: ValueKind,
         found: String,
         suggestion: Option<String>,
+    },
+
+    /// A unit that does not say its basis: `saturation of KNO3 at 20 %` (per mass or per
+    /// volume?), `convert 10 ppm of KCl to mg/L`.
+    #[error("expected {}, found `{found}`: {advice}", expected.unit_example())]
+    AmbiguousUnit {
+        expected: ValueKind,
+        found: String,
+        advice: &'static str,
     },
 
     /// A number with no unit: `solubility of KNO3 at 20`.
@@ -157,6 +169,7 @@ impl ParseErrorKind {
             ParseErrorKind::WrongQuantity { .. } => "wrong-quantity",
             ParseErrorKind::WrongUnit { .. } => "wrong-unit",
             ParseErrorKind::UnknownUnit { .. } => "unknown-unit",
+            ParseErrorKind::AmbiguousUnit { .. } => "ambiguous-unit",
             ParseErrorKind::MissingUnit { .. } => "missing-unit",
             ParseErrorKind::InvalidNumber { .. } => "invalid-number",
             ParseErrorKind::BelowAbsoluteZero { .. } => "below-absolute-zero",

@@ -98,12 +98,65 @@ pub fn unit_symbols(kind: Option<ValueKind>) -> Vec<&'static str> {
     }
     if wants(ValueKind::Loading) {
         all.extend(CompositionUnit::ALL.iter().map(|u| u.symbol()));
-        all.push("%");
+        all.extend(["mM", "uM", "M", "%w/w", "%w/v"]);
     }
     if wants(ValueKind::Pressure) {
         all.extend(PressureUnit::ALL.iter().map(|u| u.symbol()));
     }
     all
+}
+
+/// Splits a piece of a unit (`mmol`, `kg`, `uL`) into its SI prefix's power of ten and its
+/// base (`mol`, `g`, `L`).
+fn prefixed(piece: &str) -> Option<(i32, &str)> {
+    const BASES: [&str; 4] = ["mol", "g", "L", "l"];
+    if BASES.contains(&piece) {
+        return Some((0, piece));
+    }
+    let mut chars = piece.chars();
+    let power = match chars.next()? {
+        'k' => 3,
+        'm' => -3,
+        'u' | 'µ' => -6,
+        'n' => -9,
+        'p' => -12,
+        _ => return None,
+    };
+    let base = chars.as_str();
+    BASES.contains(&base).then_some((power, base))
+}
+
+/// The power of ten and the bases of a unit written `a/b` or as a molarity (`mM`, `uM`).
+fn scale(unit: &str) -> Option<(i32, &str, &str)> {
+    if let Some(prefix) = unit.strip_suffix('M') {
+        let (p, _) = prefixed(&format!("{prefix}L"))?;
+        return Some((p, "mol", "L"));
+    }
+    let (top, bottom) = unit.split_once('/')?;
+    let ((pt, bt), (pb, bb)) = (prefixed(top)?, prefixed(bottom)?);
+    Some((pt - pb, bt, bb.trim_end_matches('l')))
+}
+
+/// A warning for a suggested unit that is a factor of 1000 or more away from the unit
+/// typed (`nmol/L` → `umol/L`): the did-you-mean must never pass one off silently.
+pub fn scale_warning(typed: &str, suggestion: Option<&str>) -> String {
+    let Some(suggestion) = suggestion else {
+        return String::new();
+    };
+    match (scale(typed), scale(suggestion)) {
+        (Some((a, top_a, bottom_a)), Some((b, top_b, bottom_b)))
+            if a != b && top_a == top_b && bottom_a.to_lowercase() == bottom_b.to_lowercase() =>
+        {
+            let factor = 10f64.powi((a - b).abs());
+            let (big, small) = if b > a {
+                (suggestion, typed)
+            } else {
+                (typed, suggestion)
+            };
+            format!(" (careful: `{big}` is {factor} times `{small}`)")
+        }
+        _ => String::new(),
+    }
 }
 
 /// Edit distance over characters, ignoring case: insertions, deletions, substitutions and
@@ -178,6 +231,33 @@ mod tests {
         assert_eq!(nearest("disolved", &["dissolved", "at"]), Some("dissolved"));
         assert_eq!(nearest("banana", &["at", "from"]), None);
         assert_eq!(nearest("a", &["at"]), None);
+    }
+
+    #[test]
+    fn a_suggestion_a_thousand_times_off_says_so() {
+        assert_eq!(
+            scale_warning("nmol/L", Some("umol/L")),
+            " (careful: `umol/L` is 1000 times `nmol/L`)"
+        );
+        assert_eq!(
+            scale_warning("ug/L", Some("mg/L")),
+            " (careful: `mg/L` is 1000 times `ug/L`)"
+        );
+        assert_eq!(
+            scale_warning("kmol/L", Some("mmol/L")),
+            " (careful: `kmol/L` is 1000000 times `mmol/L`)"
+        );
+        assert_eq!(
+            scale_warning("g/kg", Some("mg/kg")),
+            " (careful: `g/kg` is 1000 times `mg/kg`)"
+        );
+        assert_eq!(scale_warning("mol/kgg", Some("mol/kg")), "");
+        assert_eq!(scale_warning("mol/l", Some("mol/L")), "");
+        assert_eq!(
+            scale_warning("nM", Some("uM")),
+            " (careful: `uM` is 1000 times `nM`)"
+        );
+        assert_eq!(scale_warning("x", None), "");
     }
 
     #[test]

@@ -18,7 +18,7 @@ use nom::{
 use super::ast::*;
 use super::error::{ParseError, ParseErrorKind};
 use super::lexicon::{STATEMENT_WORDS, ends_name, is_keyword, nearest, one_of, unit_symbols};
-use crate::science::units::{CompositionUnit, PressureUnit, TemperatureUnit};
+use crate::science::units::{CompositionUnit, PressureUnit, TemperatureUnit, ambiguous_symbol};
 
 /// Values bound by `let`, kept across the statements of one script, or across the lines of
 /// a REPL session. Names are compared without regard to case.
@@ -399,6 +399,8 @@ enum AnyUnit {
     Temperature(TemperatureUnit),
     Composition(CompositionUnit),
     Pressure(PressureUnit),
+    /// A bare `%`: a margin, never a loading (it does not say per mass or per volume).
+    Percent,
 }
 
 impl AnyUnit {
@@ -407,6 +409,7 @@ impl AnyUnit {
             AnyUnit::Temperature(_) => ValueKind::Temperature,
             AnyUnit::Composition(_) => ValueKind::Loading,
             AnyUnit::Pressure(_) => ValueKind::Pressure,
+            AnyUnit::Percent => ValueKind::Margin,
         }
     }
 }
@@ -417,6 +420,7 @@ fn classify(symbol: &str) -> Option<AnyUnit> {
         .map(AnyUnit::Temperature)
         .or_else(|| PressureUnit::from_symbol(symbol).map(AnyUnit::Pressure))
         .or_else(|| CompositionUnit::from_symbol(symbol).map(AnyUnit::Composition))
+        .or_else(|| (symbol == "%").then_some(AnyUnit::Percent))
 }
 
 struct UnitMatch {
@@ -487,6 +491,16 @@ fn unit_fault(cx: Cx, number_start: &str, after_number: &str, expected: ValueKin
                 expected: "a number with a decimal point, such as `1.5`".into(),
                 found: Some(shorten(&format!("{number}{word}"))),
                 suggestion: Some(format!("{number}.{}", &word[1..])),
+            },
+            cx.span(number_start, after),
+        );
+    }
+    if let Some(advice) = ambiguous_symbol(word) {
+        return failure(
+            ParseErrorKind::AmbiguousUnit {
+                expected,
+                found: shorten(&format!("{number} {word}")),
+                advice,
             },
             cx.span(number_start, after),
         );
@@ -592,6 +606,18 @@ fn mismatch(expected: ValueKind, name: String, bound: ValueKind, span: Span) -> 
 }
 
 fn wrong_quantity(expected: ValueKind, q: &Quantity) -> NomErr<PErr> {
+    if q.unit == AnyUnit::Percent
+        && let Some(advice) = ambiguous_symbol("%")
+    {
+        return failure(
+            ParseErrorKind::AmbiguousUnit {
+                expected,
+                found: q.text.clone(),
+                advice,
+            },
+            q.span,
+        );
+    }
     failure(
         ParseErrorKind::WrongQuantity {
             expected,
@@ -746,6 +772,14 @@ fn composition_unit<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, UnitChoice<CompositionU
         cut(context(kind.unit_example(), |x| unit_choice(cx, x, kind))).parse(i)?;
     match unit {
         AnyUnit::Composition(unit) => Ok((rest, UnitChoice { unit, span })),
+        AnyUnit::Percent => Err(failure(
+            ParseErrorKind::AmbiguousUnit {
+                expected: kind,
+                found: written,
+                advice: ambiguous_symbol("%").unwrap_or_default(),
+            },
+            span,
+        )),
         other => Err(failure(
             ParseErrorKind::WrongUnit {
                 expected: kind,
@@ -1479,6 +1513,7 @@ fn let_value<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Value> {
                 }
                 Ok((rest, Value::Range(TemperatureRange { low, high, span })))
             }
+            AnyUnit::Percent => Err(wrong_quantity(ValueKind::Loading, &q)),
             AnyUnit::Composition(_) | AnyUnit::Pressure(_) if q.value < 0.0 => Err(negative(&q)),
             AnyUnit::Composition(unit) => Ok((
                 rest,

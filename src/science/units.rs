@@ -78,10 +78,18 @@ pub enum CompositionUnit {
     MolesPerLitre,
     /// milligrams per litre of solution (needs a density): `mg/L`.
     MilligramsPerLitre,
+    /// milligrams per millilitre of solution (needs a density): `mg/mL`, equal to g/L.
+    MilligramsPerMillilitre,
+    /// millimoles per litre of solution (needs a density): `mmol/L`, written `mM` too.
+    MillimolesPerLitre,
+    /// micromoles per litre of solution (needs a density): `umol/L`, written `uM` too.
+    MicromolesPerLitre,
+    /// grams per 100 mL of solution (needs a density): `%w/v`.
+    PercentWeightPerVolume,
 }
 
 impl CompositionUnit {
-    pub const ALL: [CompositionUnit; 11] = [
+    pub const ALL: [CompositionUnit; 15] = [
         Self::GramsPer100gWater,
         Self::MassPercent,
         Self::MassFraction,
@@ -93,6 +101,10 @@ impl CompositionUnit {
         Self::GramsPerLitre,
         Self::MolesPerLitre,
         Self::MilligramsPerLitre,
+        Self::MilligramsPerMillilitre,
+        Self::MillimolesPerLitre,
+        Self::MicromolesPerLitre,
+        Self::PercentWeightPerVolume,
     ];
 
     /// The symbol written in output, seed files and queries.
@@ -109,18 +121,24 @@ impl CompositionUnit {
             Self::GramsPerLitre => "g/L",
             Self::MolesPerLitre => "mol/L",
             Self::MilligramsPerLitre => "mg/L",
+            Self::MilligramsPerMillilitre => "mg/mL",
+            Self::MillimolesPerLitre => "mmol/L",
+            Self::MicromolesPerLitre => "umol/L",
+            Self::PercentWeightPerVolume => "%w/v",
         }
     }
 
     /// Parses a symbol as written in seed files and queries. Accepts a few spellings
-    /// (`g/100 g water`, `%`, `wt%`, `µmol/kg`, `mol/l`).
+    /// (`g/100 g water`, `wt%`, `µmol/kg`, `mol/l`, `mM`, `uM`). A bare `%` is no unit: it
+    /// does not say whether it is per mass or per volume of solution (`%w/w` or `%w/v`); a
+    /// bare `ppm` likewise (`ppm w/w`). See [`ambiguous_symbol`].
     pub fn from_symbol(s: &str) -> Option<Self> {
         let folded: String = s.split_whitespace().collect::<Vec<_>>().join(" ");
         match folded.as_str() {
             "g/100g water" | "g/100 g water" | "g/100g" | "g/100 g" | "g/100g H2O" => {
                 Some(Self::GramsPer100gWater)
             }
-            "%w/w" | "% w/w" | "wt%" | "%" | "mass%" => Some(Self::MassPercent),
+            "%w/w" | "% w/w" | "wt%" | "w/w%" | "mass%" => Some(Self::MassPercent),
             "w" | "mass fraction" => Some(Self::MassFraction),
             "mol/kg" | "m" => Some(Self::Molality),
             "mmol/kg" => Some(Self::MillimolesPerKilogram),
@@ -130,6 +148,12 @@ impl CompositionUnit {
             "g/L" | "g/l" => Some(Self::GramsPerLitre),
             "mol/L" | "mol/l" | "M" => Some(Self::MolesPerLitre),
             "mg/L" | "mg/l" => Some(Self::MilligramsPerLitre),
+            "mg/mL" | "mg/ml" => Some(Self::MilligramsPerMillilitre),
+            "mmol/L" | "mmol/l" | "mM" => Some(Self::MillimolesPerLitre),
+            "umol/L" | "umol/l" | "µmol/L" | "µmol/l" | "uM" | "µM" => {
+                Some(Self::MicromolesPerLitre)
+            }
+            "%w/v" | "% w/v" | "w/v%" => Some(Self::PercentWeightPerVolume),
             _ => None,
         }
     }
@@ -138,8 +162,58 @@ impl CompositionUnit {
     pub fn needs_density(self) -> bool {
         matches!(
             self,
-            Self::GramsPerLitre | Self::MolesPerLitre | Self::MilligramsPerLitre
+            Self::GramsPerLitre
+                | Self::MolesPerLitre
+                | Self::MilligramsPerLitre
+                | Self::MilligramsPerMillilitre
+                | Self::MillimolesPerLitre
+                | Self::MicromolesPerLitre
+                | Self::PercentWeightPerVolume
         )
+    }
+
+    /// For a per-volume unit: grams of solute per millilitre of solution in one of this
+    /// unit (molar units times the molar mass `molar_mass`, g/mol). `None` for other units.
+    /// g/L = mg/mL = 10⁻³ g/mL; mg/L = 10⁻⁶; %w/v = 10⁻² (g per 100 mL); mol/L = M·10⁻³,
+    /// mmol/L = M·10⁻⁶, umol/L = M·10⁻⁹.
+    pub fn grams_per_millilitre(self, molar_mass: f64) -> Option<f64> {
+        match self {
+            Self::GramsPerLitre | Self::MilligramsPerMillilitre => Some(1.0e-3),
+            Self::MilligramsPerLitre => Some(1.0e-6),
+            Self::PercentWeightPerVolume => Some(1.0e-2),
+            Self::MolesPerLitre => Some(molar_mass * 1.0e-3),
+            Self::MillimolesPerLitre => Some(molar_mass * 1.0e-6),
+            Self::MicromolesPerLitre => Some(molar_mass * 1.0e-9),
+            _ => None,
+        }
+    }
+
+    /// True for the molar units, which need the solute's molar mass.
+    pub fn is_molar(self) -> bool {
+        matches!(
+            self,
+            Self::Molality
+                | Self::MillimolesPerKilogram
+                | Self::MicromolesPerKilogram
+                | Self::MoleFraction
+                | Self::MolesPerLitre
+                | Self::MillimolesPerLitre
+                | Self::MicromolesPerLitre
+        )
+    }
+}
+
+/// A symbol that looks like a composition unit but does not say its basis, with the words
+/// to say instead: `%` (`%w/w` or `%w/v`) and `ppm` (`ppm w/w`).
+pub fn ambiguous_symbol(s: &str) -> Option<&'static str> {
+    match s.trim() {
+        "%" => Some(
+            "a bare `%` does not say whether it is per mass or per volume of solution: write `%w/w` (g per 100 g of solution) or `%w/v` (g per 100 mL of solution)",
+        ),
+        "ppm" | "ppb" => Some(
+            "`ppm` does not say its basis: write `ppm w/w` (mg per kg of solution) or a per-litre unit such as `mg/L`",
+        ),
+        _ => None,
     }
 }
 
@@ -277,7 +351,9 @@ fn invalid(value: f64, unit: CompositionUnit, why: &'static str) -> ScienceError
 /// - `mol/kg` (per kg water): r = v·M/1000; `mmol/kg`, `umol/kg` likewise with v/10³, v/10⁶;
 /// - `x`: w = xM / (xM + (1−x)M_w);
 /// - `mg/kg` (per kg solution): w = v/10⁶;
-/// - `g/L`: w = v/(1000ρ); `mg/L`: w = v/(10⁶ρ); `mol/L`: w = vM/(1000ρ).
+/// - per volume (`g/L`, `mg/L`, `mg/mL`, `%w/v`, `mol/L`, `mmol/L`, `umol/L`): w = v·s/ρ
+///   with s the unit's grams per millilitre ([`CompositionUnit::grams_per_millilitre`]),
+///   e.g. `g/L`: w = v/(1000ρ), `mol/L`: w = vM/(1000ρ).
 pub fn to_mass_fraction(
     value: f64,
     unit: CompositionUnit,
@@ -306,11 +382,20 @@ pub fn to_mass_fraction(
             value * m / (value * m + (1.0 - value) * WATER_MOLAR_MASS)
         }
         MilligramsPerKilogram => value / 1.0e6,
-        GramsPerLitre => value / (1000.0 * ctx.density_for(unit)?),
-        MilligramsPerLitre => value / (1.0e6 * ctx.density_for(unit)?),
-        MolesPerLitre => {
-            let m = ctx.molar_mass_for(unit)?;
-            value * m / (1000.0 * ctx.density_for(unit)?)
+        GramsPerLitre
+        | MilligramsPerLitre
+        | MilligramsPerMillilitre
+        | PercentWeightPerVolume
+        | MolesPerLitre
+        | MillimolesPerLitre
+        | MicromolesPerLitre => {
+            let m = if unit.is_molar() {
+                ctx.molar_mass_for(unit)?
+            } else {
+                1.0
+            };
+            let scale = unit.grams_per_millilitre(m).unwrap_or(1.0); // ok: per-volume arm
+            value * scale / ctx.density_for(unit)?
         }
     };
     if w >= 1.0 {
@@ -352,11 +437,20 @@ pub fn from_mass_fraction(
             n / (n + (1.0 - w) / WATER_MOLAR_MASS)
         }
         MilligramsPerKilogram => 1.0e6 * w,
-        GramsPerLitre => 1000.0 * ctx.density_for(unit)? * w,
-        MilligramsPerLitre => 1.0e6 * ctx.density_for(unit)? * w,
-        MolesPerLitre => {
-            let m = ctx.molar_mass_for(unit)?;
-            1000.0 * ctx.density_for(unit)? * w / m
+        GramsPerLitre
+        | MilligramsPerLitre
+        | MilligramsPerMillilitre
+        | PercentWeightPerVolume
+        | MolesPerLitre
+        | MillimolesPerLitre
+        | MicromolesPerLitre => {
+            let m = if unit.is_molar() {
+                ctx.molar_mass_for(unit)?
+            } else {
+                1.0
+            };
+            let scale = unit.grams_per_millilitre(m).unwrap_or(1.0); // ok: per-volume arm
+            ctx.density_for(unit)? * w / scale
         }
     })
 }

@@ -108,8 +108,14 @@ fn sodium_sulfate_both_crossings_and_the_transition_at_32_38() {
         .map(|r| (r.value.unwrap(), r.phase.as_deref().unwrap()))
         .collect();
     assert_eq!(t.len(), 2, "{t:?}");
-    assert!(t[0].0 > 30.0 && t[0].0 < 32.38 && t[0].1 == "Na2SO4·10H2O", "{t:?}");
-    assert!(t[1].0 > 60.0 && t[1].0 < 66.0 && t[1].1 == "Na2SO4", "{t:?}");
+    assert!(
+        t[0].0 > 30.0 && t[0].0 < 32.38 && t[0].1 == "Na2SO4·10H2O",
+        "{t:?}"
+    );
+    assert!(
+        t[1].0 > 60.0 && t[1].0 < 66.0 && t[1].1 == "Na2SO4",
+        "{t:?}"
+    );
     let a = &engine.run_text("saturation of Na2SO4 at 41 g/100g water", &mut session)[0];
     assert_eq!(a.rows.len(), 1);
     let v = a.rows[0].value.unwrap();
@@ -118,7 +124,11 @@ fn sodium_sulfate_both_crossings_and_the_transition_at_32_38() {
     // A loading above every value is said so; one below every value too.
     let a = &engine.run_text("saturation of Na2SO4 at 2 g/100g water", &mut session)[0];
     assert!(a.rows.is_empty());
-    assert!(a.caveats.iter().any(|c| c.contains("stays below the solubility")));
+    assert!(
+        a.caveats
+            .iter()
+            .any(|c| c.contains("stays below the solubility"))
+    );
     // The transition, from the stable ranges: in the plot's rows and its curve ends.
     let a = &engine.run_text("plot Na2SO4", &mut session)[0];
     let transition = a
@@ -146,6 +156,9 @@ fn temperatures_never_print_as_minus_zero() {
     ] {
         let a = &engine.run_text(s, &mut session)[0];
         let text = serde_json::to_string(a).unwrap();
-        assert!(!text.contains("-0 C") && !text.contains("-0.0 C"), "{s}: {text}");
+        assert!(
+            !text.contains("-0 C") && !text.contains("-0.0 C"),
+            "{s}: {text}"
+        );
     }
 }

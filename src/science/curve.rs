@@ -231,8 +231,7 @@ impl Branch {
     /// point is refused.
     pub fn with_stable_range(mut self, low_k: f64, high_k: f64) -> Result<Self, ScienceError> {
         let (lo, hi) = self.interpolant.range();
-        if !(low_k.is_finite() && high_k.is_finite()) || low_k > lo + 1e-9 || high_k < hi - 1e-9
-        {
+        if !(low_k.is_finite() && high_k.is_finite()) || low_k > lo + 1e-9 || high_k < hi - 1e-9 {
             return Err(ScienceError::BadRange {
                 t1_k: low_k,
                 t2_k: high_k,

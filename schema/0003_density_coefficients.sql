@@ -11,7 +11,7 @@ CREATE TABLE density_coefficients (
     c3          REAL NOT NULL,
     c4          REAL NOT NULL,
     t_min_c     REAL NOT NULL CHECK (t_min_c > -273.15),
-    t_max_c     REAL NOT NULL CHECK (t_max_c > t_min_c),
+    t_max_c     REAL NOT NULL CHECK (t_max_c >= t_min_c),
     w_max       REAL NOT NULL CHECK (w_max > 0 AND w_max < 1),
     table_name  TEXT,
     cas         TEXT,

@@ -318,6 +318,19 @@ impl Context {
         positive("molar mass (g/mol)", m)
     }
 
+    /// Grams per millilitre in one of a per-volume `unit` (molar ones need the molar mass).
+    fn volume_scale(&self, unit: CompositionUnit) -> Result<f64, ScienceError> {
+        let m = if unit.is_molar() {
+            self.molar_mass_for(unit)?
+        } else {
+            1.0
+        };
+        unit.grams_per_millilitre(m)
+            .ok_or(ScienceError::MissingDensity {
+                unit: unit.symbol(),
+            })
+    }
+
     fn density_for(&self, unit: CompositionUnit) -> Result<f64, ScienceError> {
         let d = self.density.ok_or(ScienceError::MissingDensity {
             unit: unit.symbol(),
@@ -382,21 +395,8 @@ pub fn to_mass_fraction(
             value * m / (value * m + (1.0 - value) * WATER_MOLAR_MASS)
         }
         MilligramsPerKilogram => value / 1.0e6,
-        GramsPerLitre
-        | MilligramsPerLitre
-        | MilligramsPerMillilitre
-        | PercentWeightPerVolume
-        | MolesPerLitre
-        | MillimolesPerLitre
-        | MicromolesPerLitre => {
-            let m = if unit.is_molar() {
-                ctx.molar_mass_for(unit)?
-            } else {
-                1.0
-            };
-            let scale = unit.grams_per_millilitre(m).unwrap_or(1.0); // ok: per-volume arm
-            value * scale / ctx.density_for(unit)?
-        }
+        // The per-volume units.
+        _ => value * ctx.volume_scale(unit)? / ctx.density_for(unit)?,
     };
     if w >= 1.0 {
         return Err(invalid(
@@ -437,21 +437,8 @@ pub fn from_mass_fraction(
             n / (n + (1.0 - w) / WATER_MOLAR_MASS)
         }
         MilligramsPerKilogram => 1.0e6 * w,
-        GramsPerLitre
-        | MilligramsPerLitre
-        | MilligramsPerMillilitre
-        | PercentWeightPerVolume
-        | MolesPerLitre
-        | MillimolesPerLitre
-        | MicromolesPerLitre => {
-            let m = if unit.is_molar() {
-                ctx.molar_mass_for(unit)?
-            } else {
-                1.0
-            };
-            let scale = unit.grams_per_millilitre(m).unwrap_or(1.0); // ok: per-volume arm
-            ctx.density_for(unit)? * w / scale
-        }
+        // The per-volume units.
+        _ => ctx.density_for(unit)? * w / ctx.volume_scale(unit)?,
     })
 }
 

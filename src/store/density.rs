@@ -62,9 +62,9 @@ fn out_of_range(record: &str, what: &str) -> StoreError {
 
 /// Parses and validates `densities.toml`. Every set must cite a known source and name a
 /// solute in `solutes` (the ids the seed or the database holds), once; its coefficients must
-/// be finite, its temperature range ascending within the liquid range of water (−55 °C to
-/// 200 °C, the published fits reaching 140 °C under pressure) and its largest mass fraction
-/// in (0, 1).
+/// be finite, its temperature range not descending (one temperature for some sets) within
+/// −55 °C to 200 °C (the published fits reach 140 °C under pressure) and its largest mass
+/// fraction in (0, 1).
 pub fn parse(
     text: &str,
     source_keys: &HashSet<&str>,
@@ -110,11 +110,12 @@ pub fn parse(
                 "a coefficient is not a finite number",
             ));
         }
-        if !(d.t_min >= -55.0 && d.t_max <= 200.0 && d.t_min < d.t_max) {
+        // A set fitted at one temperature has t_min = t_max.
+        if !(d.t_min >= -55.0 && d.t_max <= 200.0 && d.t_min <= d.t_max) {
             return Err(out_of_range(
                 &record,
                 &format!(
-                    "temperature range {} C to {} C must ascend within -55 C to 200 C",
+                    "temperature range {} C to {} C must not descend, within -55 C to 200 C",
                     d.t_min, d.t_max
                 ),
             ));
@@ -302,7 +303,7 @@ review = "unreviewed"
                 "unknown source",
             ),
             (DEMO.replace("w_max = 0.3", "w_max = 1.5"), "w_max"),
-            (DEMO.replace("t_max = 80", "t_max = -10"), "ascend"),
+            (DEMO.replace("t_max = 80", "t_max = -10"), "descend"),
             (format!("{DEMO}{DEMO}"), "duplicate"),
             (DEMO.replace("c4 =", "c5 ="), "unknown field"),
         ];

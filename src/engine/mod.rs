@@ -12,6 +12,7 @@
 
 mod common;
 mod error;
+mod filters;
 mod gas;
 mod plot;
 mod records;
@@ -22,6 +23,7 @@ use std::path::Path;
 use std::sync::Arc;
 
 pub use error::EvalError;
+pub use filters::cut;
 pub use snapshot::Snapshot;
 
 use crate::answer::{Answer, AnswerKind, ErrorReport};

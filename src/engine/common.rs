@@ -33,7 +33,8 @@ pub fn celsius(t_k: f64) -> f64 {
     if c.abs() > 1e12 {
         return c;
     }
-    (c * 100.0).round() / 100.0
+    // `+ 0.0` turns a rounded −0 into 0, so nothing prints as `-0 C`.
+    (c * 100.0).round() / 100.0 + 0.0
 }
 
 /// A temperature (K) in °C for a message: to 0.01 K, or in exponent form when it is far

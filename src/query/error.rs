@@ -186,7 +186,12 @@ impl ParseError {
 
     /// The error as data, with line and column taken from `source`.
     pub fn report(&self, source: &str) -> crate::answer::ErrorReport {
-        let (line, column) = self.line_column(source);
+        self.report_at(self.line_column(source))
+    }
+
+    /// The error as data, at a (line, column) already found (e.g. by a
+    /// [`super::LineIndex`] built once for a whole script).
+    pub fn report_at(&self, (line, column): (usize, usize)) -> crate::answer::ErrorReport {
         crate::answer::ErrorReport {
             stage: "parse",
             code: self.kind.code(),

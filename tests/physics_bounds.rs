@@ -153,7 +153,10 @@ fn a_filter_value_is_checked_against_the_catalog() {
             .any(|c| c.contains("read as `sulfate`"))
     );
     let message = refused(&e, "list salts with anion sulfat");
-    assert!(message.contains("did you mean") && message.contains("sulfate"), "{message}");
+    assert!(
+        message.contains("did you mean") && message.contains("sulfate"),
+        "{message}"
+    );
     let message = refused(
         &e,
         "which salts with tag bananas stay dissolved at 10 g/100g water at 5 C",

@@ -43,32 +43,32 @@ fn extrapolation_stops_at_its_stated_reach() {
         "solubility of KNO3 at 105 C extrapolate",
         "require KCl stays dissolved at 10 g/100g water from 20 C to 300 C extrapolate",
     ] {
-        let message = refused(&e, text);
+        let message = refused(e, text);
         assert!(message.contains("may reach"), "{text}: {message}");
         assert!(!message.contains("inf"), "{text}: {message}");
         assert!(message.len() < 400, "{text}: {message}");
     }
     // `extrapolate` on a range is honoured, never answered with "add `extrapolate`".
     let a = answer(
-        &e,
+        e,
         "require KCl stays dissolved at 10 g/100g water from -5 C to 20 C extrapolate",
     );
     assert!(a.ok, "{:?}", a.error);
     // Within reach it still answers, and says it extrapolated (CuSO4 data end at 80 C).
-    let a = answer(&e, "solubility of CuSO4 at 90 C extrapolate");
+    let a = answer(e, "solubility of CuSO4 at 90 C extrapolate");
     assert!(a.ok, "{:?}", a.error);
     assert!(a.caveats.iter().any(|c| c.contains("extrapolated")));
 }
 
 #[test]
 fn an_out_of_range_message_never_shows_an_infinite_temperature() {
-    let message = refused(&engine(), "solubility of NaCl at 1e308 C");
+    let message = refused(engine(), "solubility of NaCl at 1e308 C");
     assert!(!message.contains("inf C"), "{message}");
 }
 
 #[test]
 fn a_plot_with_extrapolate_stops_at_the_reach_and_says_so() {
-    let a = answer(&engine(), "plot KCl from -5 C to 110 C extrapolate");
+    let a = answer(engine(), "plot KCl from -5 C to 110 C extrapolate");
     assert!(a.ok, "{:?}", a.error);
     assert_eq!(a.rows[0].extra.get("to_c"), Some(&serde_json::json!(100.0)));
     assert!(
@@ -84,7 +84,7 @@ fn a_plot_with_extrapolate_stops_at_the_reach_and_says_so() {
 fn an_ice_line_never_goes_below_the_eutectic() {
     let e = engine();
     // NaCl: eutectic -21.1 C in its seed file (sodium-chloride.toml, freezing table).
-    let a = answer(&e, "freezing of NaCl at 1e6 g/100g water");
+    let a = answer(e, "freezing of NaCl at 1e6 g/100g water");
     assert!(a.ok, "{:?}", a.error);
     let t = a.rows[0].value.expect("a temperature");
     assert!((t - -21.1).abs() < 1e-9, "{t}");
@@ -94,42 +94,42 @@ fn an_ice_line_never_goes_below_the_eutectic() {
             .any(|c| c.contains("richer than the eutectic"))
     );
     // No eutectic in the data: the ideal line is refused before it leaves the liquid.
-    let message = refused(&e, "freezing of KCl at 1e6 g/100g water");
+    let message = refused(e, "freezing of KCl at 1e6 g/100g water");
     assert!(message.contains("-55 C"), "{message}");
     // Dilute solutions keep their ideal answer.
-    assert!(answer(&e, "freezing of KCl at 10 g/100g water").ok);
+    assert!(answer(e, "freezing of KCl at 10 g/100g water").ok);
 }
 
 #[test]
 fn henrys_law_is_refused_at_extreme_pressure_and_flagged_at_high() {
     let e = engine();
-    let message = refused(&e, "dissolved O2 at 25 C under 100000 bar");
+    let message = refused(e, "dissolved O2 at 25 C under 100000 bar");
     assert!(message.contains("100 bar"), "{message}");
-    let a = answer(&e, "dissolved O2 at 25 C under 20 bar");
+    let a = answer(e, "dissolved O2 at 25 C under 20 bar");
     assert!(a.ok, "{:?}", a.error);
     assert!(
         a.caveats.iter().any(|c| c.contains("overstates")),
         "{:?}",
         a.caveats
     );
-    let a = answer(&e, "dissolved O2 at 25 C under air");
+    let a = answer(e, "dissolved O2 at 25 C under air");
     assert!(!a.caveats.iter().any(|c| c.contains("overstates")));
 }
 
 #[test]
 fn a_gas_beyond_liquid_water_is_refused_without_contradicting_extrapolate() {
     let e = engine();
-    let message = refused(&e, "dissolved O2 at 500 C under air extrapolate");
+    let message = refused(e, "dissolved O2 at 500 C under air extrapolate");
     assert!(!message.contains("not requested"), "{message}");
     assert!(message.contains("critical point"), "{message}");
-    let message = refused(&e, "dissolved O2 at 120 C under air extrapolate");
+    let message = refused(e, "dissolved O2 at 120 C under air extrapolate");
     assert!(message.contains("boils"), "{message}");
 }
 
 #[test]
 fn a_zero_loading_holds_trivially() {
     let e = engine();
-    let a = answer(&e, "which salts stay dissolved at 0 g/100g water at 5 C");
+    let a = answer(e, "which salts stay dissolved at 0 g/100g water at 5 C");
     assert!(a.ok, "{:?}", a.error);
     // Every salt with data at 5 C holds; none whose data cover 5 C is "no data".
     assert!(
@@ -142,15 +142,15 @@ fn a_zero_loading_holds_trivially() {
     );
     assert!(a.caveats.iter().any(|c| c.contains("holds trivially")));
     assert!(a.rows.iter().filter(|r| r.holds == Some(true)).count() > 20);
-    let a = answer(&e, "require KCl stays dissolved at 0 g/100g water at 5 C");
+    let a = answer(e, "require KCl stays dissolved at 0 g/100g water at 5 C");
     assert_eq!(a.holds, Some(true));
 }
 
 #[test]
 fn a_filter_value_is_checked_against_the_catalog() {
     let e = engine();
-    let sulphate = answer(&e, "list salts with anion sulphate");
-    let sulfate = answer(&e, "list salts with anion sulfate");
+    let sulphate = answer(e, "list salts with anion sulphate");
+    let sulfate = answer(e, "list salts with anion sulfate");
     assert!(sulphate.ok && !sulphate.rows.is_empty());
     assert_eq!(sulphate.rows.len(), sulfate.rows.len());
     assert!(
@@ -159,29 +159,29 @@ fn a_filter_value_is_checked_against_the_catalog() {
             .iter()
             .any(|c| c.contains("read as `sulfate`"))
     );
-    let message = refused(&e, "list salts with anion sulfat");
+    let message = refused(e, "list salts with anion sulfat");
     assert!(
         message.contains("did you mean") && message.contains("sulfate"),
         "{message}"
     );
     let message = refused(
-        &e,
+        e,
         "which salts with tag bananas stay dissolved at 10 g/100g water at 5 C",
     );
     assert!(message.contains("tag"), "{message}");
-    assert!(answer(&e, "list salts with tag fertilizer").ok);
+    assert!(answer(e, "list salts with tag fertilizer").ok);
 }
 
 #[test]
 fn an_invisible_character_is_an_error_at_its_position() {
     let e = engine();
     let text = "solubility of KNO3 at\u{2060} 20 C";
-    let a = answer(&e, text);
+    let a = answer(e, text);
     let error = a.error.expect("an error");
     assert_eq!(error.code, "invisible-character");
     assert_eq!((error.line, error.column), (1, 22));
     assert!(error.message.contains("U+2060"), "{}", error.message);
-    let a = answer(&e, "solubility of KNO3\u{200B} at 20 C");
+    let a = answer(e, "solubility of KNO3\u{200B} at 20 C");
     assert_eq!(a.error.expect("an error").column, 19);
 }
 
@@ -190,7 +190,7 @@ fn a_long_unknown_name_is_cut_in_its_message() {
     let e = engine();
     let text = format!("solubility of {} at 20 C", "X".repeat(1_000_000));
     let started = Instant::now();
-    let message = refused(&e, &text);
+    let message = refused(e, &text);
     // Not a speed target (those are benchmarks): a guard against a distance to every name
     // over the whole megabyte, which took seconds.
     assert!(started.elapsed().as_secs() < 30);

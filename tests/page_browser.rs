@@ -302,7 +302,21 @@ async fn drive(client: &Client, addr: SocketAddr) {
         "the completion of KN",
     )
     .await;
-    box_.send_keys(&Key::Tab.to_string()).await.unwrap();
+    // Down the list to KNO3, then Enter takes it.
+    let index = client
+        .execute(
+            "return [...document.querySelectorAll('#suggestions li')]
+               .findIndex(li => li.firstChild.textContent === 'KNO3')",
+            vec![],
+        )
+        .await
+        .unwrap()
+        .as_i64()
+        .unwrap();
+    assert!(index >= 0, "KNO3 is offered");
+    let down = Key::Down.to_string().repeat(index as usize + 1);
+    box_.send_keys(&down).await.unwrap();
+    box_.send_keys(&Key::Enter.to_string()).await.unwrap();
     let typed = box_.prop("value").await.unwrap().unwrap();
     assert_eq!(typed, "solubility of KNO3 ");
     box_.send_keys("at 20 C\n").await.unwrap();

@@ -17,9 +17,9 @@
 mod admin;
 mod auth;
 mod layers;
-mod librarian;
 mod limits;
 mod page;
+mod queue;
 mod reply;
 mod routes;
 

@@ -47,7 +47,7 @@ pub(crate) fn router(state: Shared) -> Router {
 fn routes() -> Router<Shared> {
     Router::new()
         .merge(super::page::routes())
-        .merge(super::librarian::routes())
+        .merge(super::queue::routes())
         .route("/v1/query", post(query))
         .route("/v1/solutes", get(solutes))
         .route("/v1/solutes/{name}", get(solute))

@@ -88,12 +88,20 @@ pub fn import(
             summary: None,
         });
     }
-    let mut store = Store::open(path)?;
-    let plan = store.plan_import(files, options)?;
+    let mut store = named(path, Store::open(path))?;
     let actor = audit::actor(actor);
-    progress(Progress::Planned(plan.points_to_write()));
-    let summary = store.apply_import(&plan, &actor, &mut || progress(Progress::Point))?;
-    progress(Progress::Done);
+    // Planned and written under one write lock: a concurrent import or review waits, and
+    // nothing it writes is overwritten unseen.
+    let progress = std::cell::RefCell::new(progress);
+    let result = store.import(
+        files,
+        options,
+        &actor,
+        &mut |plan| (progress.borrow_mut())(Progress::Planned(plan.points_to_write())),
+        &mut || (progress.borrow_mut())(Progress::Point),
+    );
+    let (plan, summary) = named(path, result)?;
+    (progress.borrow_mut())(Progress::Done);
     Ok(ImportReport {
         plan,
         dry_run,
@@ -129,7 +137,10 @@ pub fn review(
     actor: Option<&str>,
 ) -> Result<Change, StoreError> {
     let actor = audit::actor(actor);
-    Store::open(path)?.review(dataset, decision, note, &actor)?;
+    named(
+        path,
+        Store::open(path).and_then(|mut s| s.review(dataset, decision, note, &actor)),
+    )?;
     Ok(Change {
         dataset: dataset.to_string(),
         actor,
@@ -145,7 +156,10 @@ pub fn set_retired(
     actor: Option<&str>,
 ) -> Result<Change, StoreError> {
     let actor = audit::actor(actor);
-    Store::open(path)?.set_retired(dataset, change, note, &actor)?;
+    named(
+        path,
+        Store::open(path).and_then(|mut s| s.set_retired(dataset, change, note, &actor)),
+    )?;
     Ok(Change {
         dataset: dataset.to_string(),
         actor,
@@ -161,12 +175,21 @@ pub fn save_source(
     actor: Option<&str>,
 ) -> Result<Source, StoreError> {
     let actor = audit::actor(actor);
-    let mut store = Store::open(path)?;
-    if adding {
-        store.add_source(key, fields, &actor)
-    } else {
-        store.edit_source(key, fields, &actor)
-    }
+    named(
+        path,
+        Store::open(path).and_then(|mut store| {
+            if adding {
+                store.add_source(key, fields, &actor)
+            } else {
+                store.edit_source(key, fields, &actor)
+            }
+        }),
+    )
+}
+
+/// A write's result with a lock or read-only error said with the file's name and a hint.
+fn named<T>(path: &Path, result: Result<T, StoreError>) -> Result<T, StoreError> {
+    result.map_err(|e| crate::store::name_file(e, &path.display().to_string()))
 }
 
 #[cfg(test)]

@@ -25,6 +25,26 @@ pub const DEFAULT_TIME: Duration = Duration::from_secs(2);
 /// Default most requests in progress at once.
 pub const DEFAULT_CONCURRENT: usize = 64;
 
+/// The most pixels a picture drawn by the server may have: 2,000,000 (e.g. 2000 × 1000),
+/// about 6 MB of bitmap while a PNG is drawn, so `--max-concurrent` drawings stay within
+/// a known memory.
+pub const MAX_PICTURE_PIXELS: u64 = 2_000_000;
+
+/// Refuses a picture of more than [`MAX_PICTURE_PIXELS`] pixels.
+pub(crate) fn check_picture(width: u32, height: u32) -> Result<(), ApiError> {
+    let pixels = u64::from(width) * u64::from(height);
+    if pixels > MAX_PICTURE_PIXELS {
+        return Err(ApiError::new(
+            StatusCode::PAYLOAD_TOO_LARGE,
+            "picture-too-large",
+            format!(
+                "a picture of {width} × {height} = {pixels} pixels is larger than the {MAX_PICTURE_PIXELS} pixels this server draws; ask for a smaller width and height"
+            ),
+        ));
+    }
+    Ok(())
+}
+
 /// What one request, and the server as a whole, may take.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub struct Limits {

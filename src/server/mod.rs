@@ -314,6 +314,7 @@ pub fn serve(mut config: Config) -> Result<(), ServerError> {
         "read-only"
     };
     let loopback = config.addr.ip().is_loopback();
+    let has_token = config.token.is_some();
     let running = start(config)?;
     eprintln!(
         "satline: serving on http://{}/ (open it in a browser; the API is under /v1, {writes}); \
@@ -322,6 +323,11 @@ pub fn serve(mut config: Config) -> Result<(), ServerError> {
     );
     if !loopback {
         eprintln!("satline: note: listening beyond loopback, as asked with --addr");
+        if has_token {
+            eprintln!(
+                "satline: warning: the write token travels in clear over plain HTTP; beyond loopback put a TLS-terminating proxy in front (README: \"Serving beyond this machine\") and let only it reach this port"
+            );
+        }
     }
     running.wait()?;
     eprintln!("satline: stopped");

@@ -145,11 +145,14 @@ pub(super) async fn query(
     ))]
 pub(super) async fn plot(
     state: State<Shared>,
+    permit: Option<axum::Extension<super::limits::Permit>>,
     params: Result<Query<Vec<(String, String)>>, QueryRejection>,
     picture: Result<Query<super::routes::PlotParams>, QueryRejection>,
 ) -> Response {
     match statements(params, "plot%20KCl%20from%200%20C%20to%2040%20C") {
-        Ok(text) => super::routes::plot(state, picture, HeaderMap::new(), Body::from(text)).await,
+        Ok(text) => {
+            super::routes::plot(state, permit, picture, HeaderMap::new(), Body::from(text)).await
+        }
         Err(e) => e.into_response(),
     }
 }

@@ -542,6 +542,11 @@ pub(super) struct PlotParams {
 /// `POST /v1/plot`: the body is one `plot` statement; the answer is the picture
 /// (`image/svg+xml` by default, `image/png` with `?format=png`). A statement that cannot be
 /// answered gets the JSON error of `/v1/query` (400 parse, 404 unknown solute, 422 other).
+///
+/// Like a query, a plot holds its place among `--max-concurrent` for the whole request
+/// (the permit moves into the drawing thread), its body must arrive and its picture be
+/// drawn within `--time-limit-ms`, and a picture may have at most
+/// [`super::limits::MAX_PICTURE_PIXELS`] pixels (the memory one drawing may use).
 #[utoipa::path(post, path = "/v1/plot", tag = "statements", params(PlotParams),
     request_body(content = String, content_type = "text/plain", description = "one `plot` statement (with `let` statements it uses)"),
     responses(
@@ -557,10 +562,12 @@ pub(super) struct PlotParams {
     ))]
 pub(super) async fn plot(
     State(state): State<Shared>,
+    permit: Option<axum::Extension<Permit>>,
     params: Result<Query<PlotParams>, QueryRejection>,
     headers: HeaderMap,
     body: Body,
 ) -> Response {
+    let deadline = Instant::now() + state.limits.time;
     use crate::plot::{Format as PictureFormat, PlotRequestError, picture_for};
     let Ok(Query(params)) = params else {
         return bad_parameter("expected ?format=svg|png&width=W&height=H".into()).into_response();
@@ -573,21 +580,34 @@ pub(super) async fn plot(
         }
     };
     let (width, height) = (params.width.unwrap_or(800), params.height.unwrap_or(500));
-    let bytes = match read_body(&headers, body, state.limits.body_bytes).await {
-        Ok(bytes) => bytes,
-        Err(e) => return e.into_response(),
+    if let Err(e) = super::limits::check_picture(width, height) {
+        return e.into_response();
+    }
+    let read = tokio::time::timeout(
+        state.limits.time,
+        read_body(&headers, body, state.limits.body_bytes),
+    );
+    let bytes = match read.await {
+        Err(_) => return time_limit(&state).into_response(),
+        Ok(Err(e)) => return e.into_response(),
+        Ok(Ok(bytes)) => bytes,
     };
     let text = match query_text(&headers, &bytes) {
         Ok(text) => text,
         Err(e) => return e.into_response(),
     };
     let engine = state.engine();
-    let drawn = tokio::task::spawn_blocking(move || {
+    let task = tokio::task::spawn_blocking(move || {
+        // The permit lives as long as the drawing, even past a timed-out reply.
+        let _permit = permit;
         catch_unwind(AssertUnwindSafe(|| {
             picture_for(&engine, &text, format, width, height)
         }))
-    })
-    .await;
+    });
+    let remaining = deadline.saturating_duration_since(Instant::now());
+    let Ok(drawn) = tokio::time::timeout(remaining, task).await else {
+        return time_limit(&state).into_response();
+    };
     match drawn {
         Ok(Ok(Ok((picture, _)))) => Response::builder()
             .status(StatusCode::OK)

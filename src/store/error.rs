@@ -93,6 +93,27 @@ pub enum StoreError {
     #[error("{what}")]
     NoChange { what: String },
 
+    /// Another writer held the database's write lock for longer than the busy timeout,
+    /// e.g. a review while a large import is being written. Nothing was written.
+    #[error(
+        "{location} is locked by another writer (an import, review or edit still running) and stayed locked for {waited_s} s; nothing was written: run the command again when that one has finished"
+    )]
+    Locked { location: String, waited_s: u64 },
+
+    /// The database file cannot be written, e.g. `satline retire ... --db /read-only/x.db`
+    /// (file permissions or a read-only mount). Nothing was written.
+    #[error(
+        "{location} cannot be written (read-only file or directory, or a read-only mount); nothing was written: check its permissions, or copy it somewhere writable"
+    )]
+    ReadOnly { location: String },
+
+    /// An import planned against a state that another writer has since changed, applied
+    /// with [`super::Store::apply_import`]. Nothing was written: plan it again.
+    #[error(
+        "{location} changed after this import was planned (another writer got there first); nothing was written: plan the import again"
+    )]
+    Stale { location: String },
+
     /// An export into a directory that already holds files, e.g.
     /// `satline export --to toml --out seed-data` without `--force`.
     #[error("{path} is not empty; use --force to write into it", path = path.display())]

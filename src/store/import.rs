@@ -34,7 +34,7 @@ use serde::Serialize;
 
 use super::findings::{self, Finding};
 use super::read::{Contents, FreezingRecord};
-use super::{Store, StoreError, audit, seed, write};
+use super::{Store, StoreError, audit, lock, seed, write};
 use crate::model::{Dataset, GasConstant, Review, Solute, Source};
 use crate::science::units::CompositionUnit;
 
@@ -128,6 +128,10 @@ pub struct Change {
 pub struct ImportPlan {
     pub changes: Vec<Change>,
     pub findings: Vec<Finding>,
+    /// The newest audit row when the plan was read: every write adds one, so a different
+    /// newest row when the plan is applied means another writer changed the state the
+    /// plan's `before` values describe.
+    audit_mark: i64,
 }
 
 impl ImportPlan {
@@ -276,6 +280,7 @@ pub fn plan(
     files: &[ImportFile],
     options: &ImportOptions,
 ) -> Result<ImportPlan, StoreError> {
+    let audit_mark = newest_audit_row(&store.conn)?;
     let existing = store.read_all()?;
     let mut origins = Origins::default();
 
@@ -371,7 +376,9 @@ pub fn plan(
     for d in &incoming.datasets {
         check_sane(d, &solute_file)?;
     }
-    Ok(compare(&incoming, &existing, options))
+    let mut plan = compare(&incoming, &existing, options);
+    plan.audit_mark = audit_mark;
+    Ok(plan)
 }
 
 /// Every id, name and synonym must point at one solute across the import and the database.
@@ -660,13 +667,62 @@ fn compare(incoming: &Contents, existing: &Contents, options: &ImportOptions) ->
 
 /// Writes `plan` in one transaction with an audit row per change; nothing is written when
 /// any step fails. `tick` is called once per point written (for a progress bar).
+///
+/// The transaction is IMMEDIATE, and the plan is re-validated inside it: when another
+/// writer has changed the database since the plan was read, nothing is written and the
+/// answer is [`StoreError::Stale`] (plan again, or use [`plan_and_apply`], which plans
+/// inside the transaction and so never is stale).
 pub fn apply(
     store: &mut Store,
     plan: &ImportPlan,
     actor: &str,
     tick: &mut dyn FnMut(),
 ) -> Result<ImportSummary, StoreError> {
-    let tx = store.conn.transaction()?;
+    let tx = lock::begin_write(&store.conn, &store.location)?;
+    if newest_audit_row(&tx)? != plan.audit_mark {
+        return Err(StoreError::Stale {
+            location: store.location.clone(),
+        });
+    }
+    let summary =
+        write_plan(&tx, plan, actor, tick).map_err(|e| lock::name_file(e, &store.location))?;
+    lock::commit(tx, &store.location)?;
+    Ok(summary)
+}
+
+/// Plans and writes an import in one IMMEDIATE transaction: the plan reads the state it
+/// replaces while holding the write lock, so concurrent importers are serialised and every
+/// audit `before` is what the write replaced. `planned` sees the plan before anything is
+/// written (for progress); `tick` is called once per point written.
+pub fn plan_and_apply(
+    store: &mut Store,
+    files: &[ImportFile],
+    options: &ImportOptions,
+    actor: &str,
+    planned: &mut dyn FnMut(&ImportPlan),
+    tick: &mut dyn FnMut(),
+) -> Result<(ImportPlan, ImportSummary), StoreError> {
+    let tx = lock::begin_write(&store.conn, &store.location)?;
+    let plan = plan(store, files, options)?;
+    planned(&plan);
+    let summary =
+        write_plan(&tx, &plan, actor, tick).map_err(|e| lock::name_file(e, &store.location))?;
+    lock::commit(tx, &store.location)?;
+    Ok((plan, summary))
+}
+
+/// The id of the newest audit row (0 when there is none).
+fn newest_audit_row(conn: &rusqlite::Connection) -> Result<i64, StoreError> {
+    Ok(conn.query_row("SELECT COALESCE(MAX(id), 0) FROM audit", [], |r| r.get(0))?)
+}
+
+/// Writes every change of `plan` and its audit row inside `tx`.
+fn write_plan(
+    tx: &rusqlite::Connection,
+    plan: &ImportPlan,
+    actor: &str,
+    tick: &mut dyn FnMut(),
+) -> Result<ImportSummary, StoreError> {
     let mut audit_rows = 0;
     for c in plan
         .changes
@@ -674,15 +730,15 @@ pub fn apply(
         .filter(|c| c.kind != ChangeKind::Unchanged)
     {
         match &c.record {
-            Record::Source(s) => write::upsert_source(&tx, s)?,
-            Record::Solute(s) => write::upsert_solute(&tx, s)?,
-            Record::Dataset(d) => write::replace_dataset(&tx, d, tick)?,
-            Record::Gas(g) => write::replace_gas_constant(&tx, g)?,
-            Record::Freezing(f) => write::replace_freezing(&tx, f)?,
-            Record::Density(d) => super::density::replace(&tx, d)?,
+            Record::Source(s) => write::upsert_source(tx, s)?,
+            Record::Solute(s) => write::upsert_solute(tx, s)?,
+            Record::Dataset(d) => write::replace_dataset(tx, d, tick)?,
+            Record::Gas(g) => write::replace_gas_constant(tx, g)?,
+            Record::Freezing(f) => write::replace_freezing(tx, f)?,
+            Record::Density(d) => super::density::replace(tx, d)?,
         }
         audit::record(
-            &tx,
+            tx,
             actor,
             c.kind.verb(),
             &c.entity,
@@ -691,7 +747,6 @@ pub fn apply(
         )?;
         audit_rows += 1;
     }
-    tx.commit()?;
     Ok(ImportSummary {
         added: plan.count(ChangeKind::Added),
         changed: plan.count(ChangeKind::Changed),

@@ -12,6 +12,7 @@ mod error;
 pub mod export;
 pub mod findings;
 pub mod import;
+mod lock;
 mod read;
 pub mod review;
 pub mod schema;
@@ -25,6 +26,7 @@ use std::time::Duration;
 use rusqlite::{Connection, OpenFlags, OptionalExtension, params};
 
 pub use error::StoreError;
+pub(crate) use lock::name_file;
 pub use read::{Contents, FreezingRecord};
 pub use schema::{MIGRATIONS, Migration, SCHEMA_VERSION};
 pub use seed::{SeedProblem, SeedSummary};
@@ -34,7 +36,7 @@ pub use check::CheckReport;
 pub use import::{ImportFile, ImportOptions, ImportPlan, ImportSummary};
 
 /// How long a connection waits for another process's lock before giving up.
-const BUSY_TIMEOUT: Duration = Duration::from_secs(5);
+pub(crate) const BUSY_TIMEOUT: Duration = Duration::from_secs(5);
 
 /// One open satline database.
 #[derive(Debug)]
@@ -256,6 +258,19 @@ impl Store {
         options: &ImportOptions,
     ) -> Result<ImportPlan, StoreError> {
         import::plan(self, files, options)
+    }
+
+    /// Plans and writes an import in one IMMEDIATE transaction (planning under the write
+    /// lock, so no other writer's change is lost); see [`import::plan_and_apply`].
+    pub fn import(
+        &mut self,
+        files: &[ImportFile],
+        options: &ImportOptions,
+        actor: &str,
+        planned: &mut dyn FnMut(&ImportPlan),
+        tick: &mut dyn FnMut(),
+    ) -> Result<(ImportPlan, ImportSummary), StoreError> {
+        import::plan_and_apply(self, files, options, actor, planned, tick)
     }
 
     /// Writes a planned import in one transaction; see [`import::apply`].

@@ -119,6 +119,11 @@ fn pair(r: &rusqlite::Row<'_>, i: usize, j: usize) -> rusqlite::Result<Option<Pa
 
 /// Reads every table into [`Contents`].
 pub(crate) fn read_all(conn: &Connection) -> Result<Contents, StoreError> {
+    if !conn.is_autocommit() {
+        // Inside a write transaction (an import planning where it applies): that
+        // transaction is the snapshot.
+        return read_inside(conn);
+    }
     // A deferred transaction that only reads: one consistent snapshot, even under WAL.
     conn.execute_batch("BEGIN")?;
     let result = read_inside(conn);

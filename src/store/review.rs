@@ -6,7 +6,7 @@
 use rusqlite::{OptionalExtension, params};
 use serde::Serialize;
 
-use super::{Store, StoreError, audit};
+use super::{Store, StoreError, audit, lock};
 use crate::model::Review;
 
 /// A record waiting for review: a dataset, a Henry's-law record or freezing data.
@@ -108,7 +108,7 @@ impl Store {
         note: &str,
         actor: &str,
     ) -> Result<(), StoreError> {
-        let tx = self.conn.transaction()?;
+        let tx = lock::begin_write(&self.conn, &self.location)?;
         // Fixed table names, never text from the user.
         let mut found = None;
         for (table, kind) in [
@@ -152,7 +152,7 @@ impl Store {
             Some(&serde_json::json!({ "review": before })),
             Some(&serde_json::json!({ "review": after.as_str(), "note": note })),
         )?;
-        tx.commit()?;
+        lock::commit(tx, &self.location)?;
         Ok(())
     }
 
@@ -164,7 +164,7 @@ impl Store {
         note: Option<&str>,
         actor: &str,
     ) -> Result<(), StoreError> {
-        let tx = self.conn.transaction()?;
+        let tx = lock::begin_write(&self.conn, &self.location)?;
         let state: Option<bool> = tx
             .query_row(
                 "SELECT retired FROM datasets WHERE key = ?1",
@@ -207,7 +207,7 @@ impl Store {
             Some(&serde_json::json!({ "retired": before })),
             Some(&after_json),
         )?;
-        tx.commit()?;
+        lock::commit(tx, &self.location)?;
         Ok(())
     }
 }

@@ -54,7 +54,7 @@ pub fn migrate(conn: &mut Connection, target: u32) -> Result<u32, StoreError> {
         if migration.version <= current || migration.version > target {
             continue;
         }
-        let tx = conn.transaction()?;
+        let tx = conn.transaction_with_behavior(rusqlite::TransactionBehavior::Immediate)?;
         tx.execute_batch(migration.sql)?;
         tx.pragma_update(None, "user_version", migration.version)?;
         tx.commit()?;

@@ -3,7 +3,7 @@
 
 use rusqlite::OptionalExtension as _;
 
-use super::{Store, StoreError, audit, write};
+use super::{Store, StoreError, audit, lock, write};
 use crate::model::{Source, SourceKind};
 
 /// Fields to set on a source; `None` leaves a field as it is. An empty text clears an
@@ -89,6 +89,8 @@ impl Store {
         fields: &SourceFields,
         actor: &str,
     ) -> Result<Source, StoreError> {
+        // The write lock first: the checks below read the state this write replaces.
+        let tx = lock::begin_write(&self.conn, &self.location)?;
         if !valid_key(key) {
             return Err(bad(
                 key,
@@ -122,7 +124,6 @@ impl Store {
         if s.title.is_empty() || s.authors.is_empty() {
             return Err(bad(key, "a source needs --title and --authors"));
         }
-        let tx = self.conn.transaction()?;
         write::upsert_source(&tx, &s)?;
         let after = serde_json::to_value(&s).unwrap_or_default();
         audit::record(
@@ -133,7 +134,7 @@ impl Store {
             None,
             Some(&after),
         )?;
-        tx.commit()?;
+        lock::commit(tx, &self.location)?;
         Ok(s)
     }
 
@@ -144,6 +145,8 @@ impl Store {
         fields: &SourceFields,
         actor: &str,
     ) -> Result<Source, StoreError> {
+        // The write lock first: the checks below read the state this write replaces.
+        let tx = lock::begin_write(&self.conn, &self.location)?;
         let before = self
             .source(key)?
             .ok_or_else(|| StoreError::UnknownSourceKey {
@@ -159,7 +162,6 @@ impl Store {
                 what: format!("source \"{key}\" already reads so; nothing changed"),
             });
         }
-        let tx = self.conn.transaction()?;
         write::upsert_source(&tx, &s)?;
         audit::record(
             &tx,
@@ -169,7 +171,7 @@ impl Store {
             Some(&serde_json::to_value(&before).unwrap_or_default()),
             Some(&serde_json::to_value(&s).unwrap_or_default()),
         )?;
-        tx.commit()?;
+        lock::commit(tx, &self.location)?;
         Ok(s)
     }
 }

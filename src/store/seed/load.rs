@@ -85,7 +85,7 @@ pub(crate) fn write(
     files: usize,
 ) -> Result<SeedSummary, StoreError> {
     // Dropping `tx` without commit (on any `?` below) rolls everything back.
-    let tx = conn.transaction()?;
+    let tx = conn.transaction_with_behavior(rusqlite::TransactionBehavior::Immediate)?;
     {
         for s in &contents.sources {
             write::upsert_source(&tx, s)?;

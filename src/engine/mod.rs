@@ -12,6 +12,7 @@
 
 mod common;
 mod error;
+mod freezing;
 mod gas;
 mod plot;
 mod records;
@@ -128,7 +129,7 @@ impl Engine {
             Statement::Ceiling(s) => solid::ceiling(&self.snapshot, s, &mut answer),
             Statement::HeatOfSolution(s) => solid::heat(&self.snapshot, s, &mut answer),
             Statement::DissolvedGas(s) => gas::dissolved(&self.snapshot, s, &mut answer),
-            Statement::Freezing(s) => solid::freezing(&self.snapshot, s, &mut answer),
+            Statement::Freezing(s) => freezing::freezing(&self.snapshot, s, &mut answer),
             Statement::Convert(s) => solid::convert(&self.snapshot, s, &mut answer),
             Statement::Require(s) => solid::require(&self.snapshot, s, &mut answer),
             Statement::Describe(s) => records::describe(&self.snapshot, s, &mut answer),

@@ -11,6 +11,7 @@ mod error;
 pub mod export;
 pub mod findings;
 pub mod import;
+pub mod models;
 mod read;
 pub mod review;
 pub mod schema;

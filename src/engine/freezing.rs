@@ -6,8 +6,7 @@ use serde_json::json;
 use crate::answer::{Answer, Basis, Row};
 use crate::engine::CAUTION;
 use crate::engine::common::{
-    celsius, cite_curve, cite_source, curve_error, hazard, in_unit, loading_mass_fraction, resolve,
-    value,
+    celsius, cite_curve, cite_source, curve_error, hazard, in_unit, resolve, value,
 };
 use crate::engine::error::EvalError;
 use crate::engine::snapshot::Snapshot;
@@ -100,7 +99,7 @@ pub fn freezing(snap: &Snapshot, s: &Freezing, answer: &mut Answer) -> Result<()
             span: s.solute.span,
         });
     }
-    let w = loading_mass_fraction(&s.loading, solute)?;
+    let w = crate::engine::basis::loading_on_named_basis(&s.solute, &s.loading, solute, answer)?;
     let models = snap.models_for(&solute.formula);
     let system = system_of(snap, solute, s.options.reviewed_only, &models);
     let unit = s.unit.map_or(TemperatureUnit::Celsius, |u| u.unit);

@@ -10,6 +10,7 @@
 //! assert_eq!(answers[0].rows[0].unit.as_deref(), Some("g/100g water"));
 //! ```
 
+mod basis;
 mod common;
 mod error;
 mod freezing;

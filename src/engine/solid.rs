@@ -236,7 +236,7 @@ fn screening_row(
 pub fn require(snap: &Snapshot, s: &Require, answer: &mut Answer) -> Result<(), EvalError> {
     let solute = resolve(snap, &s.solute)?;
     let built = curve_of(snap, solute, &s.solute, &s.options)?;
-    let w = loading_mass_fraction(&s.loading, solute)?;
+    let w = crate::engine::basis::loading_on_named_basis(&s.solute, &s.loading, solute, answer)?;
     let (t1, t2) = bounds(&s.temperatures);
     let margin = s.margin.map_or(0.0, |m| m.percent / 100.0);
     // Below 0 °C the loading's ice line comes first: the salt's curve decides from there
@@ -302,7 +302,7 @@ pub fn require(snap: &Snapshot, s: &Require, answer: &mut Answer) -> Result<(), 
 pub fn saturation(snap: &Snapshot, s: &Saturation, answer: &mut Answer) -> Result<(), EvalError> {
     let solute = resolve(snap, &s.solute)?;
     let built = curve_of(snap, solute, &s.solute, &s.options)?;
-    let w = loading_mass_fraction(&s.loading, solute)?;
+    let w = crate::engine::basis::loading_on_named_basis(&s.solute, &s.loading, solute, answer)?;
     let crossings = solve::saturation_temperatures_with(&built.curve, w, s.options.extrapolate)
         .map_err(|e| curve_error(e, solute, s.loading.span))?;
     let unit = s.unit.map_or(TemperatureUnit::Celsius, |u| u.unit);

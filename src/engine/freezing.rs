@@ -34,7 +34,7 @@ pub fn system_of<'a>(
 
 fn ice_basis(b: IceBasis) -> Basis {
     match b {
-        IceBasis::Tabulated => Basis::Tabulated,
+        IceBasis::Tabulated | IceBasis::Eutectic => Basis::Tabulated,
         IceBasis::Interpolated => Basis::Interpolated,
         IceBasis::Model | IceBasis::Ideal => Basis::Computed,
     }
@@ -68,7 +68,12 @@ pub fn ice_caveats(
                 ));
             }
         }
-        IceBasis::Tabulated | IceBasis::Interpolated => {
+        IceBasis::Tabulated | IceBasis::Interpolated | IceBasis::Eutectic => {
+            if ice.basis == IceBasis::Eutectic {
+                answer.caveat(
+                    "richer than the eutectic: the salt crystallises first on cooling, and ice appears only at the eutectic temperature",
+                );
+            }
             if let Some(d) = system.data {
                 cite_source(snap, &d.source, answer);
                 if d.provenance == Provenance::FromMemory {
@@ -122,7 +127,7 @@ pub fn freezing(snap: &Snapshot, s: &Freezing, answer: &mut Answer) -> Result<()
                     .rows
                     .push(t_row(solute, "eutectic", te, Basis::Tabulated));
                 answer.caveat(format!(
-                    "above the eutectic composition ({} %w/w) no ice forms above the eutectic ({} C): the salt crystallises first",
+                    "richer than the eutectic ({} %w/w): the salt crystallises first on cooling, and no ice forms above the eutectic temperature ({} C)",
                     value(we * 100.0),
                     celsius(te)
                 ));

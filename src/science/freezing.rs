@@ -31,16 +31,20 @@ pub enum IceBasis {
     Model,
     /// Ideal freezing-point depression, used only in the dilute limit ([`DILUTE_IONS`]).
     Ideal,
+    /// Richer than the eutectic: the salt crystallises first on cooling, and ice appears
+    /// only at the eutectic temperature (a simple eutectic system, common practice).
+    Eutectic,
 }
 
 impl IceBasis {
-    /// `tabulated`, `interpolated`, `model` or `ideal`.
+    /// `tabulated`, `interpolated`, `model`, `ideal` or `eutectic`.
     pub fn as_str(self) -> &'static str {
         match self {
             IceBasis::Tabulated => "tabulated",
             IceBasis::Interpolated => "interpolated",
             IceBasis::Model => "model",
             IceBasis::Ideal => "ideal",
+            IceBasis::Eutectic => "eutectic",
         }
     }
 }
@@ -127,6 +131,15 @@ impl System<'_> {
         let w = check_w(w)?;
         let m = positive("molar mass (g/mol)", self.molar_mass)?;
         let mut reasons: Vec<String> = Vec::new();
+        if let Some((we, te)) = self.eutectic()
+            && w > we
+        {
+            return Ok(IcePoint {
+                t_k: te,
+                basis: IceBasis::Eutectic,
+                model: None,
+            });
+        }
         if let Some(pts) = self.table() {
             let (first, last) = (pts[0].0, pts[pts.len() - 1].0);
             if w >= first && w <= last {
@@ -252,8 +265,8 @@ pub struct FreezeConcentration {
 /// The answer to "what happens to this solution at this temperature below 0 °C".
 #[derive(Debug, Clone, PartialEq)]
 pub struct FreezingCheck {
-    /// The ice line of the loading, where known and where ice can form first (below the
-    /// eutectic composition).
+    /// The ice line of the loading, where known (beyond the eutectic composition: the
+    /// eutectic temperature, basis `Eutectic`).
     pub ice: Option<IcePoint>,
     /// Why the ice line is not given, when it is not.
     pub ice_unknown: Option<String>,
@@ -301,14 +314,9 @@ pub fn first_solid_on_cooling(
     }
     let w = check_w(w)?;
     let eutectic = system.eutectic();
-    let beyond_eutectic = eutectic.is_some_and(|(we, _)| w > we + 1e-9);
-    let (ice, ice_unknown) = if beyond_eutectic {
-        (None, None)
-    } else {
-        match system.ice_line(w) {
-            Ok(p) => (Some(p), None),
-            Err(e) => (None, Some(e.to_string())),
-        }
+    let (ice, ice_unknown) = match system.ice_line(w) {
+        Ok(p) => (Some(p), None),
+        Err(e) => (None, Some(e.to_string())),
     };
     let saturation_t_k = match system.curve {
         Some(c) if w > 0.0 => saturation_temperatures(c, w)?
@@ -430,10 +438,11 @@ mod tests {
         let c = first_solid_on_cooling(&s, 0.10, 268.15).unwrap();
         assert!(!c.solid_at_t);
         assert!(c.freeze_concentration.is_none());
-        // Beyond the eutectic composition no ice forms first.
+        // Beyond the eutectic composition no ice forms above the eutectic.
         let c = first_solid_on_cooling(&s, 0.25, 263.15).unwrap();
         assert_eq!(c.first, Some(FirstSolid::Salt));
-        assert!(c.ice.is_none());
+        assert_eq!(c.ice.as_ref().unwrap().basis, IceBasis::Eutectic);
+        assert_eq!(c.ice.unwrap().t_k, 252.0);
         let c = first_solid_on_cooling(&s, 0.10, 250.0).unwrap();
         assert!(c.below_eutectic && c.solid_at_t);
         assert!(first_solid_on_cooling(&s, 0.10, 280.0).is_err());

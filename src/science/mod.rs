@@ -2,6 +2,7 @@
 //! Every public function's doc comment gives its formula and its source.
 
 pub mod activity;
+pub mod bounds;
 pub mod curve;
 pub mod error;
 pub mod fit;

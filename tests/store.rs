@@ -172,6 +172,10 @@ fn pair(v: &toml::Value) -> (f64, f64) {
 fn assert_round_trip(files: &[(String, String)], stored: &Contents) {
     let mut datasets_seen = 0;
     for (path, contents) in files {
+        if path.starts_with("models/") {
+            // Model parameter sets are not stored (store::models reads them).
+            continue;
+        }
         let doc: toml::Table = toml::from_str(contents).unwrap();
         if path == "sources.toml" {
             let list = doc

@@ -10,9 +10,11 @@
 //! assert_eq!(answers[0].rows[0].unit.as_deref(), Some("g/100g water"));
 //! ```
 
+mod basis;
 mod common;
 mod error;
 mod filters;
+mod freezing;
 mod gas;
 mod per_litre;
 mod plot;
@@ -145,7 +147,7 @@ impl Engine {
             Statement::Ceiling(s) => solid::ceiling(&self.snapshot, s, &mut answer),
             Statement::HeatOfSolution(s) => solid::heat(&self.snapshot, s, &mut answer),
             Statement::DissolvedGas(s) => gas::dissolved(&self.snapshot, s, &mut answer),
-            Statement::Freezing(s) => solid::freezing(&self.snapshot, s, &mut answer),
+            Statement::Freezing(s) => freezing::freezing(&self.snapshot, s, &mut answer),
             Statement::Convert(s) => solid::convert(&self.snapshot, s, &mut answer),
             Statement::Require(s) => solid::require(&self.snapshot, s, &mut answer),
             Statement::Describe(s) => records::describe(&self.snapshot, s, &mut answer),

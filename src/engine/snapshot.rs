@@ -6,6 +6,7 @@ use std::collections::HashMap;
 
 use crate::catalog::Catalog;
 use crate::model::{Dataset, Provenance, Review};
+use crate::science::activity::ParameterSet;
 use crate::science::curve::{Branch, Curve};
 
 /// A curve and the datasets it was built from (indices into `Catalog::datasets`).
@@ -35,6 +36,8 @@ pub struct Snapshot {
     curve_index: HashMap<String, usize>,
     /// Every name a person may type for a solute (names, ids, formulas, synonyms), sorted.
     names: Vec<String>,
+    /// The activity model's parameter sets (`seed-data/models/`), compiled in.
+    models: Vec<ParameterSet>,
 }
 
 /// Ranks datasets of one phase: reviewed before unreviewed, then measured or compiled data
@@ -71,10 +74,21 @@ fn build(catalog: &Catalog, indices: &[usize]) -> Option<BuiltCurve> {
     }
     let mut branches = Vec::new();
     let mut used = Vec::new();
-    for (_, i) in by_phase {
-        if let Ok(branch) = Branch::from_dataset(&datasets[i]) {
+    for (phase, i) in by_phase {
+        // The other datasets of the phase join the preferred one where it has no points.
+        let mut others: Vec<usize> = indices
+            .iter()
+            .copied()
+            .filter(|&j| j != i && datasets[j].phase.formula == phase)
+            .collect();
+        others.sort_by(|&a, &b| preference(&datasets[a]).cmp(&preference(&datasets[b])));
+        let other_refs: Vec<&Dataset> = others.iter().map(|&j| &datasets[j]).collect();
+        let branch = Branch::from_datasets(&datasets[i], &other_refs)
+            .or_else(|_| Branch::from_dataset(&datasets[i]));
+        if let Ok(branch) = branch {
             branches.push(branch);
             used.push(i);
+            used.extend(others);
         }
     }
     let curve = Curve::new(branches).ok()?;
@@ -120,12 +134,29 @@ impl Snapshot {
         }
         names.sort();
         names.dedup();
+        // The compiled-in model files are checked by the tests (store::models); a bad one
+        // would leave the activity model without parameters, never stop the engine.
+        let models =
+            crate::store::models::parameter_sets(crate::seed_files::SEED_FILES).unwrap_or_default();
         Snapshot {
             catalog,
             curves,
             curve_index,
             names,
+            models,
         }
+    }
+
+    /// The activity-model parameter sets of an electrolyte (by formula), those reaching
+    /// the lowest temperatures first.
+    pub fn models_for(&self, formula: &str) -> Vec<&ParameterSet> {
+        let mut sets: Vec<&ParameterSet> = self
+            .models
+            .iter()
+            .filter(|s| s.electrolyte == formula)
+            .collect();
+        sets.sort_by(|a, b| a.t_min_k.total_cmp(&b.t_min_k));
+        sets
     }
 
     /// The curve of a solute, from all data or reviewed data only.

@@ -8,7 +8,7 @@ use serde_json::json;
 use crate::answer::{Answer, Basis, Row};
 use crate::engine::common;
 use crate::engine::common::{
-    basis_caveat, bounds, celsius, cite_curve, cite_source, curve_error, curve_of, hazard, in_unit,
+    basis_caveat, bounds, celsius, cite_curve, cite_source, curve_error, curve_of, in_unit,
     loading_mass_fraction, phase_caveat, resolve, value,
 };
 use crate::engine::error::EvalError;
@@ -18,12 +18,9 @@ use crate::engine::snapshot::Snapshot;
 use crate::engine::{CAUTION, gas};
 use crate::model::{Provenance, Review, Solute, SoluteKind};
 use crate::output::number::round_significant;
-use crate::query::{
-    Ceiling, Convert, Freezing, HeatOfSolution, Require, Saturation, Screen, Solubility,
-};
+use crate::query::{Ceiling, Convert, HeatOfSolution, Require, Saturation, Screen, Solubility};
 use crate::science::ScienceError;
 use crate::science::formula::parse_formula;
-use crate::science::freezing::{FirstSolid, IceBasis, first_solid_on_cooling, ice_line};
 use crate::science::heat::heat_of_solution;
 use crate::science::solve::{self, Screening, stays_dissolved_with};
 use crate::science::units::{
@@ -277,11 +274,28 @@ fn screening_row(
 pub fn require(snap: &Snapshot, s: &Require, answer: &mut Answer) -> Result<(), EvalError> {
     let solute = resolve(snap, &s.solute)?;
     let built = curve_of(snap, solute, &s.solute, &s.options)?;
-    let w = loading_mass_fraction(snap, &s.loading, solute, &s.options, answer)?;
+    let w = crate::engine::basis::loading_on_named_basis(
+        snap, &s.solute, &s.loading, solute, &s.options, answer,
+    )?;
     let (t1, t2) = bounds(&s.temperatures);
     let margin = s.margin.map_or(0.0, |m| m.percent / 100.0);
+    // Below 0 °C the loading's ice line comes first: the salt's curve decides from there
+    // up (below it the liquid follows the ice line, down to the eutectic).
+    let (from, ice_forms) = if t1 < crate::science::freezing::ICE_POINT {
+        let (from, ice) = crate::engine::freezing::require_below_zero(
+            snap,
+            solute,
+            w,
+            t1,
+            s.options.reviewed_only,
+            answer,
+        )?;
+        (from.min(t2), ice)
+    } else {
+        (t1, false)
+    };
     let screening =
-        solve::stays_dissolved_with(&built.curve, w, t1, t2, margin, s.options.extrapolate)
+        solve::stays_dissolved_with(&built.curve, w, from, t2, margin, s.options.extrapolate)
             .map_err(|e| curve_error(e, solute, s.temperatures.span()))?;
     let saturated = in_unit(
         snap,
@@ -292,7 +306,7 @@ pub fn require(snap: &Snapshot, s: &Require, answer: &mut Answer) -> Result<(), 
         &s.options,
         answer,
     )?;
-    answer.holds = Some(screening.holds);
+    answer.holds = Some(screening.holds && !ice_forms);
     answer.rows.push(Row {
         solute: Some(solute.name.clone()),
         quantity: Some("solubility at the limiting temperature".into()),
@@ -332,7 +346,9 @@ pub fn require(snap: &Snapshot, s: &Require, answer: &mut Answer) -> Result<(), 
 pub fn saturation(snap: &Snapshot, s: &Saturation, answer: &mut Answer) -> Result<(), EvalError> {
     let solute = resolve(snap, &s.solute)?;
     let built = curve_of(snap, solute, &s.solute, &s.options)?;
-    let w = loading_mass_fraction(snap, &s.loading, solute, &s.options, answer)?;
+    let w = crate::engine::basis::loading_on_named_basis(
+        snap, &s.solute, &s.loading, solute, &s.options, answer,
+    )?;
     let crossings = solve::saturation_temperatures_with(&built.curve, w, s.options.extrapolate)
         .map_err(|e| curve_error(e, solute, s.loading.span))?;
     let unit = s.unit.map_or(TemperatureUnit::Celsius, |u| u.unit);
@@ -466,157 +482,6 @@ pub fn heat(snap: &Snapshot, s: &HeatOfSolution, answer: &mut Answer) -> Result<
     phase_caveat(&heat.phase, answer);
     cite_curve(snap, built, solute, answer);
     Ok(())
-}
-
-/// `freezing of NaCl at 10 g/100g water [at -10 C] [in F]`.
-pub fn freezing(snap: &Snapshot, s: &Freezing, answer: &mut Answer) -> Result<(), EvalError> {
-    let solute = resolve(snap, &s.solute)?;
-    if solute.kind == SoluteKind::Gas {
-        return Err(EvalError::NoData {
-            message: format!("{} is a gas: ask `dissolved` for it", solute.name),
-            span: s.solute.span,
-        });
-    }
-    let w = loading_mass_fraction(snap, &s.loading, solute, &s.options, answer)?;
-    let data = snap.catalog.freezing_of(&solute.id).into_iter().next();
-    let curve = snap.curve(&solute.id, s.options.reviewed_only);
-    let unit = s.unit.map_or(TemperatureUnit::Celsius, |u| u.unit);
-    let shown = |t_k: f64| (unit.from_kelvin(t_k) * 100.0).round() / 100.0 + 0.0;
-    let ice_basis = |b: IceBasis| match b {
-        IceBasis::Tabulated => Basis::Tabulated,
-        IceBasis::Interpolated => Basis::Interpolated,
-        IceBasis::Ideal => Basis::Computed,
-        IceBasis::Eutectic => Basis::Tabulated,
-    };
-    let ions = solute.ions.max(1);
-    if let Some(d) = data {
-        cite_source(snap, &d.source, answer);
-        if d.provenance == Provenance::FromMemory {
-            answer.caveat(format!(
-                "{}: freezing data typed from memory of the cited table, not yet checked against it (from-memory)",
-                solute.name
-            ));
-        }
-    }
-    match s.temperature {
-        None => {
-            let ice = ice_line(w, solute.molar_mass, ions, data)
-                .map_err(|e| curve_error(e, solute, s.loading.span))?;
-            answer.rows.push(Row {
-                solute: Some(solute.name.clone()),
-                quantity: Some("ice appears on cooling below".into()),
-                value: Some(shown(ice.t_k)),
-                unit: Some(unit.symbol().into()),
-                basis: Some(ice_basis(ice.basis)),
-                ..Row::default()
-            });
-            if ice.basis == IceBasis::Ideal {
-                ideal_caveat(ions, answer);
-            }
-            eutectic_caveat(ice.basis, answer);
-        }
-        Some(t) => {
-            let check = first_solid_on_cooling(
-                curve.map(|b| &b.curve),
-                w,
-                solute.molar_mass,
-                ions,
-                data,
-                t.kelvin(),
-            )
-            .map_err(|e| EvalError::Unanswerable {
-                message: e.to_string(),
-                span: t.span,
-            })?;
-            answer.rows.push(Row {
-                solute: Some(solute.name.clone()),
-                quantity: Some("ice appears on cooling below".into()),
-                value: Some(shown(check.ice_t_k)),
-                unit: Some(unit.symbol().into()),
-                basis: Some(ice_basis(check.ice_basis)),
-                ..Row::default()
-            });
-            if let Some(ts) = check.saturation_t_k {
-                answer.rows.push(Row {
-                    solute: Some(solute.name.clone()),
-                    quantity: Some("salt crystallises on cooling below".into()),
-                    value: Some(shown(ts)),
-                    unit: Some(unit.symbol().into()),
-                    basis: Some(Basis::Computed),
-                    ..Row::default()
-                });
-            }
-            if let Some((we, te)) = check.eutectic {
-                answer.rows.push(Row {
-                    solute: Some(solute.name.clone()),
-                    quantity: Some("eutectic".into()),
-                    value: Some(shown(te)),
-                    unit: Some(unit.symbol().into()),
-                    basis: Some(Basis::Tabulated),
-                    extra: [(
-                        "eutectic_g_per_100g_water".to_string(),
-                        json!(value(we / (1.0 - we) * 100.0)),
-                    )]
-                    .into_iter()
-                    .collect(),
-                    ..Row::default()
-                });
-            }
-            let first = match check.first {
-                Some(FirstSolid::Ice) => "ice",
-                Some(FirstSolid::Salt) => "salt",
-                Some(FirstSolid::Both) => "ice and salt together (eutectic)",
-                None => "unknown: the data cannot tell",
-            };
-            answer.rows.push(Row {
-                solute: Some(solute.name.clone()),
-                quantity: Some("first solid on cooling".into()),
-                temperature_c: check.first_t_k.map(celsius),
-                extra: [
-                    ("first".to_string(), json!(first)),
-                    ("solid_at_temperature".to_string(), json!(check.solid_at_t)),
-                    (
-                        "temperature_asked_c".to_string(),
-                        json!(celsius(t.kelvin())),
-                    ),
-                ]
-                .into_iter()
-                .collect(),
-                ..Row::default()
-            });
-            if check.below_eutectic {
-                answer.caveat(format!(
-                    "{} C is below the eutectic: at equilibrium the whole solution is solid",
-                    celsius(t.kelvin())
-                ));
-            }
-            if check.ice_basis == IceBasis::Ideal {
-                ideal_caveat(ions, answer);
-            }
-            eutectic_caveat(check.ice_basis, answer);
-            if let Some(built) = curve {
-                cite_curve(snap, built, solute, answer);
-            }
-        }
-    }
-    hazard(solute, answer);
-    answer.caveat(CAUTION);
-    Ok(())
-}
-
-/// The caveat of a loading richer than the eutectic.
-fn eutectic_caveat(basis: IceBasis, answer: &mut Answer) {
-    if basis == IceBasis::Eutectic {
-        answer.caveat(
-            "the loading is richer than the eutectic: on cooling the salt crystallises first, and ice appears only at the eutectic temperature (the ice line never goes below it)",
-        );
-    }
-}
-
-fn ideal_caveat(ions: u32, answer: &mut Answer) {
-    answer.caveat(format!(
-        "ice line from the ideal freezing-point depression ΔT = i·Kf·m with i = {ions} and Kf = 1.86 K·kg/mol; real solutions differ, more so when concentrated"
-    ));
 }
 
 /// `convert 20 g/100g water of KCl to mol/kg`, with `as <hydrate>` on either side.

@@ -248,14 +248,51 @@ impl Branch {
 
     /// Builds a branch from a dataset's canonical points (and its stable range).
     pub fn from_dataset(dataset: &crate::model::Dataset) -> Result<Self, ScienceError> {
-        let points: Vec<(f64, f64)> = dataset
-            .points
+        Self::from_datasets(dataset, &[])
+    }
+
+    /// Builds one solid's branch from its preferred dataset, joined by other datasets of
+    /// the same solid only where the preferred one has no points: a point of another
+    /// dataset is taken when it lies below the preferred dataset's first or above its last
+    /// temperature (for example the eutectic, where ice and the solid crystallise together,
+    /// which is a point of the solid's solubility curve, from another source). Stable
+    /// ranges are joined likewise (their union).
+    pub fn from_datasets(
+        preferred: &crate::model::Dataset,
+        others: &[&crate::model::Dataset],
+    ) -> Result<Self, ScienceError> {
+        let canonical = |d: &crate::model::Dataset| -> Vec<(f64, f64)> {
+            d.points
+                .iter()
+                .map(|p| (p.temperature_k, p.mass_fraction))
+                .collect()
+        };
+        let mut points = canonical(preferred);
+        let (lo, hi) = points
             .iter()
-            .map(|p| (p.temperature_k, p.mass_fraction))
-            .collect();
-        let branch = Self::new(dataset.phase.formula.clone(), &points)?;
-        match dataset.stable_range_k {
-            Some((lo, hi)) => branch.with_stable_range(lo, hi),
+            .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), p| {
+                (a.min(p.0), b.max(p.0))
+            });
+        let mut stable = preferred.stable_range_k;
+        for other in others {
+            let extra: Vec<(f64, f64)> = canonical(other)
+                .into_iter()
+                .filter(|p| p.0 < lo - 1e-9 || p.0 > hi + 1e-9)
+                .collect();
+            if extra.is_empty() {
+                continue;
+            }
+            points.extend(extra);
+            if let Some((a, b)) = other.stable_range_k {
+                stable = Some(stable.map_or((a, b), |(c, d)| (a.min(c), b.max(d))));
+            }
+        }
+        points.sort_by(|a, b| a.0.total_cmp(&b.0));
+        let branch = Self::new(preferred.phase.formula.clone(), &points)?;
+        let (first, last) = branch.tabulated_range();
+        match stable {
+            // A stable range widened to hold the joined points.
+            Some((a, b)) => branch.with_stable_range(a.min(first), b.max(last)),
             None => Ok(branch),
         }
     }
@@ -393,13 +430,28 @@ impl Curve {
 
     /// Builds a curve from a solute's datasets, one branch per dataset that is not retired
     /// and not rejected (phases as in each dataset).
+    ///
+    /// Datasets of the same solid make one branch: the first of them given, joined by the
+    /// others where it has no points (see [`Branch::from_datasets`]).
     pub fn from_datasets<'a>(
         datasets: impl IntoIterator<Item = &'a crate::model::Dataset>,
     ) -> Result<Self, ScienceError> {
-        let branches = datasets
+        let mut by_phase: Vec<Vec<&crate::model::Dataset>> = Vec::new();
+        for d in datasets
             .into_iter()
             .filter(|d| !d.retired && d.review != crate::model::Review::Rejected)
-            .map(Branch::from_dataset)
+        {
+            match by_phase
+                .iter_mut()
+                .find(|g| g[0].phase.formula == d.phase.formula)
+            {
+                Some(group) => group.push(d),
+                None => by_phase.push(vec![d]),
+            }
+        }
+        let branches = by_phase
+            .iter()
+            .map(|g| Branch::from_datasets(g[0], &g[1..]))
             .collect::<Result<Vec<_>, _>>()?;
         Self::new(branches)
     }

@@ -68,6 +68,14 @@ pub enum ScienceError {
     /// A curve with no branch: `Curve::new(vec![])`.
     #[error("a curve needs at least one branch")]
     NoBranches,
+    /// A model asked outside the range its parameters were published for: a Pitzer set
+    /// fitted at 298.15 K asked at 263.15 K, or beyond its highest molality.
+    #[error("outside the model's published range: {0}")]
+    OutsideModel(String),
+    /// No source gives the ice line of this composition: beyond the tabulated freezing
+    /// points, outside every activity model's range and beyond the dilute limit.
+    #[error("the ice line is not known here: {0}")]
+    IceLineUnknown(String),
     /// A range whose ends are reversed or not finite: from 308.15 K to 278.15 K.
     #[error("temperature range {t1_k} K to {t2_k} K is not ascending")]
     BadRange { t1_k: f64, t2_k: f64 },
@@ -225,7 +233,17 @@ mod tests {
             Err(ScienceError::VapourExceedsTotal { .. })
         ));
         assert!(matches!(
-            first_solid_on_cooling(None, 0.1, 58.44, 2, None, 278.15),
+            first_solid_on_cooling(
+                &crate::science::freezing::System {
+                    curve: None,
+                    molar_mass: 58.44,
+                    ions: 2,
+                    data: None,
+                    models: &[],
+                },
+                0.1,
+                278.15
+            ),
             Err(ScienceError::Freezing(_))
         ));
         assert!(matches!(

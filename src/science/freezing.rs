@@ -4,7 +4,8 @@
 //! Units: temperatures in K, compositions as mass fraction of anhydrous solute, molar mass
 //! in g/mol.
 
-use super::bounds::LOWEST_LIQUID_K;
+use super::activity::ParameterSet;
+use super::activity::ice::freezing_point;
 use super::curve::{Curve, Pchip};
 use super::error::ScienceError;
 use super::solve::saturation_temperatures;
@@ -25,7 +26,10 @@ pub enum IceBasis {
     Tabulated,
     /// Between tabulated freezing points (PCHIP in mass fraction).
     Interpolated,
-    /// Ideal freezing-point depression (no tabulated data cover this composition).
+    /// From the water activity of a published activity model (Pitzer) through the
+    /// ice–water equilibrium ([`crate::science::activity::ice`]).
+    Model,
+    /// Ideal freezing-point depression, used only in the dilute limit ([`DILUTE_IONS`]).
     Ideal,
     /// Richer than the eutectic: the salt crystallises first on cooling, and ice appears
     /// only at the eutectic temperature (a simple eutectic system, common practice).
@@ -33,19 +37,25 @@ pub enum IceBasis {
 }
 
 impl IceBasis {
-    /// `tabulated`, `interpolated` or `ideal`.
+    /// `tabulated`, `interpolated`, `model`, `ideal` or `eutectic`.
     pub fn as_str(self) -> &'static str {
         match self {
             IceBasis::Tabulated => "tabulated",
             IceBasis::Interpolated => "interpolated",
+            IceBasis::Model => "model",
             IceBasis::Ideal => "ideal",
             IceBasis::Eutectic => "eutectic",
         }
     }
 }
 
+/// The ideal formula is used only up to this molality of ions (i·m, mol/kg): there a 1-1
+/// salt's osmotic coefficient is within about 7 % of 1, so the ideal depression (at most
+/// 0.37 K) is within about 0.03 K (common practice: the dilute limit of van 't Hoff's law).
+pub const DILUTE_IONS: f64 = 0.2;
+
 /// Molality (mol/kg water) of a mass fraction w: 1000·w / ((1 − w)·M).
-fn molality(w: f64, molar_mass: f64) -> f64 {
+pub fn molality(w: f64, molar_mass: f64) -> f64 {
     1000.0 * w / ((1.0 - w) * molar_mass)
 }
 
@@ -70,72 +80,155 @@ pub fn ideal_depression(molality_mol_per_kg: f64, ions: u32) -> f64 {
 }
 
 /// The ice line at a composition: the temperature (K) where ice starts to form on cooling.
-#[derive(Debug, Clone, Copy, PartialEq)]
+#[derive(Debug, Clone, PartialEq)]
 pub struct IcePoint {
     pub t_k: f64,
     pub basis: IceBasis,
+    /// The key of the activity model's parameter set, for [`IceBasis::Model`].
+    pub model: Option<String>,
 }
 
-/// The ice-line temperature of a solution of mass fraction `w`.
-///
-/// From `data` where its points (with the eutectic as a last point, when it lies beyond
-/// them) cover `w`, by monotone interpolation in mass fraction; otherwise ideal:
-/// T = 273.15 K − i·K_f·m (see [`ideal_depression`]). Never below the eutectic: a loading
-/// richer than the data's eutectic gives the eutectic temperature ([`IceBasis::Eutectic`]);
-/// an ideal line that would fall below [`LOWEST_LIQUID_K`] is refused.
-pub fn ice_line(
-    w: f64,
-    molar_mass: f64,
-    ions: u32,
-    data: Option<&FreezingData>,
-) -> Result<IcePoint, ScienceError> {
-    let w = check_w(w)?;
-    let m = positive("molar mass (g/mol)", molar_mass)?;
-    if let Some(d) = data {
-        if let Some((we, te)) = d.eutectic
-            && w > we
-        {
-            return Ok(IcePoint {
-                t_k: te,
-                basis: IceBasis::Eutectic,
-            });
-        }
+/// What a solution is made of, for the phase-diagram questions.
+#[derive(Debug, Clone, Copy)]
+pub struct System<'a> {
+    /// The salt's solubility curve, where there is one.
+    pub curve: Option<&'a Curve>,
+    /// Molar mass of the anhydrous solute, g/mol.
+    pub molar_mass: f64,
+    /// Ions per formula unit (1 for a molecular solute).
+    pub ions: u32,
+    /// Tabulated freezing points and the eutectic, where a source gives them.
+    pub data: Option<&'a FreezingData>,
+    /// Activity-model parameter sets for the solute, in order of preference.
+    pub models: &'a [&'a ParameterSet],
+}
+
+impl System<'_> {
+    /// The eutectic (mass fraction, K), where the data give it.
+    pub fn eutectic(&self) -> Option<(f64, f64)> {
+        self.data.and_then(|d| d.eutectic)
+    }
+
+    /// The tabulated ice line: the freezing points with the eutectic as a last point.
+    fn table(&self) -> Option<Vec<(f64, f64)>> {
+        let d = self.data?;
         let mut pts = d.points.clone();
         if let Some(e) = d.eutectic
             && pts.last().is_none_or(|p| e.0 > p.0)
         {
             pts.push(e);
         }
-        if let (Some(first), Some(last)) = (pts.first(), pts.last())
-            && w >= first.0
-            && w <= last.0
+        (pts.len() >= 2).then_some(pts)
+    }
+
+    /// The ice-line temperature of a solution of mass fraction `w`, from the first that
+    /// covers it of: the tabulated freezing points (with the eutectic as a last point), by
+    /// monotone interpolation in mass fraction; the activity model's water activity through
+    /// the ice–water equilibrium ([`freezing_point`]); in the dilute limit only (ions below
+    /// [`DILUTE_IONS`] mol/kg), the ideal T = 273.15 K − i·K_f·m. Otherwise refused, with
+    /// the reasons.
+    pub fn ice_line(&self, w: f64) -> Result<IcePoint, ScienceError> {
+        let w = check_w(w)?;
+        let m = positive("molar mass (g/mol)", self.molar_mass)?;
+        let mut reasons: Vec<String> = Vec::new();
+        if let Some((we, te)) = self.eutectic()
+            && w > we
         {
-            let tabulated = pts.iter().any(|p| (p.0 - w).abs() <= 1e-12);
-            let interp = Pchip::named(
-                "mass fractions of the freezing data",
-                pts.iter().map(|p| p.0).collect(),
-                pts.iter().map(|p| p.1).collect(),
-            )?;
             return Ok(IcePoint {
-                t_k: interp.eval(w).0,
-                basis: if tabulated {
-                    IceBasis::Tabulated
-                } else {
-                    IceBasis::Interpolated
-                },
+                t_k: te,
+                basis: IceBasis::Eutectic,
+                model: None,
             });
         }
-    }
-    let t_k = ICE_POINT - ideal_depression(molality(w, m), ions);
-    if t_k.is_nan() || t_k < LOWEST_LIQUID_K {
-        return Err(ScienceError::Freezing(
-            "the ideal freezing-point depression would put the ice line below -55 C, where no aqueous salt solution stays liquid: the dilute law does not reach this loading, and the data hold no eutectic to bound it",
+        if let Some(pts) = self.table() {
+            let (first, last) = (pts[0].0, pts[pts.len() - 1].0);
+            if w >= first && w <= last {
+                let tabulated = pts.iter().any(|p| (p.0 - w).abs() <= 1e-12);
+                let interp = Pchip::named(
+                    "mass fractions of the freezing data",
+                    pts.iter().map(|p| p.0).collect(),
+                    pts.iter().map(|p| p.1).collect(),
+                )?;
+                return Ok(IcePoint {
+                    t_k: interp.eval(w).0,
+                    basis: if tabulated {
+                        IceBasis::Tabulated
+                    } else {
+                        IceBasis::Interpolated
+                    },
+                    model: None,
+                });
+            }
+            reasons.push(format!(
+                "the tabulated freezing points cover {} to {} %w/w",
+                crate::output::number::display((first * 1000.0).round() / 10.0),
+                crate::output::number::display((last * 1000.0).round() / 10.0)
+            ));
+        } else {
+            reasons.push("no tabulated freezing points".into());
+        }
+        let mol = molality(w, m);
+        for set in self.models {
+            match freezing_point(set, mol) {
+                Ok(t_k) => {
+                    return Ok(IcePoint {
+                        t_k,
+                        basis: IceBasis::Model,
+                        model: Some(set.key.clone()),
+                    });
+                }
+                Err(e) => reasons.push(e.to_string()),
+            }
+        }
+        if self.models.is_empty() {
+            reasons.push("no activity-model parameters".into());
+        }
+        let ions = f64::from(self.ions.max(1));
+        if ions * mol <= DILUTE_IONS {
+            return Ok(IcePoint {
+                t_k: ICE_POINT - ideal_depression(mol, self.ions),
+                basis: IceBasis::Ideal,
+                model: None,
+            });
+        }
+        reasons.push(format!(
+            "the ideal formula holds only in the dilute limit (up to {DILUTE_IONS} mol/kg of ions; this solution has {:.2})",
+            ions * mol
         ));
+        Err(ScienceError::IceLineUnknown(reasons.join("; ")))
     }
-    Ok(IcePoint {
-        t_k,
-        basis: IceBasis::Ideal,
-    })
+
+    /// The mass fraction of the liquid left in equilibrium with ice at `t_k`: the
+    /// composition whose ice line is `t_k` (the ice line inverted by bisection, between
+    /// `w_low` and the eutectic or the end of the tabulated points).
+    pub fn liquid_on_ice_line(&self, w_low: f64, t_k: f64) -> Result<f64, ScienceError> {
+        let top = match (self.eutectic(), self.table()) {
+            (Some(e), _) => e.0,
+            (None, Some(pts)) => pts[pts.len() - 1].0,
+            (None, None) => {
+                return Err(ScienceError::IceLineUnknown(
+                    "the liquid's composition on the ice line needs tabulated freezing points or a eutectic".into(),
+                ));
+            }
+        };
+        let (mut a, mut b) = (w_low, top);
+        let at_top = self.ice_line(top)?.t_k;
+        if t_k < at_top - 1e-9 {
+            return Err(ScienceError::IceLineUnknown(format!(
+                "{:.2} K is below the end of the ice line ({:.2} K)",
+                t_k, at_top
+            )));
+        }
+        for _ in 0..80 {
+            let mid = 0.5 * (a + b);
+            if self.ice_line(mid)?.t_k > t_k {
+                a = mid;
+            } else {
+                b = mid;
+            }
+        }
+        Ok(0.5 * (a + b))
+    }
 }
 
 /// Which solid appears first when the solution is cooled.
@@ -158,12 +251,25 @@ impl FirstSolid {
     }
 }
 
+/// The liquid left when ice has formed: the freeze-concentration path of one salt.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct FreezeConcentration {
+    /// Mass fraction of solute in the remaining liquid.
+    pub liquid_mass_fraction: f64,
+    /// Ice as a fraction of the whole mass: 1 − w/w_liquid (lever rule).
+    pub ice_fraction: f64,
+    /// Ice as a fraction of the water: (1 − w/w_liquid)/(1 − w).
+    pub ice_fraction_of_water: f64,
+}
+
 /// The answer to "what happens to this solution at this temperature below 0 °C".
 #[derive(Debug, Clone, PartialEq)]
 pub struct FreezingCheck {
-    /// Ice-line temperature of the loading, K.
-    pub ice_t_k: f64,
-    pub ice_basis: IceBasis,
+    /// The ice line of the loading, where known (beyond the eutectic composition: the
+    /// eutectic temperature, basis `Eutectic`).
+    pub ice: Option<IcePoint>,
+    /// Why the ice line is not given, when it is not.
+    pub ice_unknown: Option<String>,
     /// Highest saturation temperature of the loading where the salt curve rises through
     /// it (crystals on cooling below it), K; `None` when the curve data do not reach it.
     pub saturation_t_k: Option<f64>,
@@ -171,28 +277,33 @@ pub struct FreezingCheck {
     pub first: Option<FirstSolid>,
     /// Temperature where the first solid appears, K, where known.
     pub first_t_k: Option<f64>,
-    /// True when some solid has appeared on cooling to the asked temperature.
+    /// True when some solid has appeared on cooling to the asked temperature (always
+    /// consistent with `first_t_k`: true exactly when the asked temperature is at or
+    /// below it, or below the eutectic).
     pub solid_at_t: bool,
     /// (mass fraction, K) of the eutectic, where the data give it.
     pub eutectic: Option<(f64, f64)>,
     /// True when the asked temperature is below the eutectic temperature (the whole
     /// solution is solid there, at equilibrium).
     pub below_eutectic: bool,
+    /// Between the ice line and the eutectic, with ice formed first: the liquid left.
+    pub freeze_concentration: Option<FreezeConcentration>,
 }
 
-/// For a loading `w` cooled to `t_k` (≤ 273.15 K): which appears first, ice or the salt.
+/// For a loading `w` cooled to `t_k` (≤ 273.15 K): which appears first, ice or the salt,
+/// and, when ice has formed, the liquid left.
 ///
-/// Ice appears at the ice-line temperature ([`ice_line`]); salt at the highest
-/// temperature where the salt curve rises through the loading
-/// ([`saturation_temperatures`]); whichever is higher comes first. Where the data give a
-/// eutectic (w_e, T_e), the phase diagram decides directly: below w_e ice comes first,
-/// above it salt, at w_e both (common practice for a simple eutectic system).
+/// Where the data give a eutectic (w_e, T_e) the phase diagram decides (common practice
+/// for a simple eutectic system): below w_e ice comes first at the ice line
+/// ([`System::ice_line`]) and the liquid then follows the ice line, richer in salt, down to
+/// T_e, where salt and ice crystallise together; above w_e the salt comes first, at the
+/// highest temperature where its curve rises through the loading, and no ice forms above
+/// T_e; at w_e both at T_e. Without a eutectic the higher of the ice line and the salt's
+/// saturation temperature comes first. The liquid left with ice (lever rule): w_l from the
+/// ice line at `t_k`, ice fraction 1 − w/w_l.
 pub fn first_solid_on_cooling(
-    curve: Option<&Curve>,
+    system: &System<'_>,
     w: f64,
-    molar_mass: f64,
-    ions: u32,
-    data: Option<&FreezingData>,
     t_k: f64,
 ) -> Result<FreezingCheck, ScienceError> {
     let t_k = positive("temperature (K)", t_k)?;
@@ -201,8 +312,13 @@ pub fn first_solid_on_cooling(
             "a freezing check needs a temperature at or below 0 °C",
         ));
     }
-    let ice = ice_line(w, molar_mass, ions, data)?;
-    let saturation_t_k = match curve {
+    let w = check_w(w)?;
+    let eutectic = system.eutectic();
+    let (ice, ice_unknown) = match system.ice_line(w) {
+        Ok(p) => (Some(p), None),
+        Err(e) => (None, Some(e.to_string())),
+    };
+    let saturation_t_k = match system.curve {
         Some(c) if w > 0.0 => saturation_temperatures(c, w)?
             .into_iter()
             .filter(|x| x.rising)
@@ -212,53 +328,56 @@ pub fn first_solid_on_cooling(
             }),
         _ => None,
     };
-    let eutectic = data.and_then(|d| d.eutectic);
-    let first = match (eutectic, saturation_t_k) {
-        (Some((we, _)), _) if (w - we).abs() <= 1e-9 => Some(FirstSolid::Both),
-        (Some((we, _)), _) => Some(if w < we {
-            FirstSolid::Ice
-        } else {
-            FirstSolid::Salt
-        }),
-        (None, Some(ts)) => Some(if ts > ice.t_k {
+    let ice_t = ice.as_ref().map(|p| p.t_k);
+    let first = match (eutectic, ice_t, saturation_t_k) {
+        (Some((we, _)), _, _) if (w - we).abs() <= 1e-9 => Some(FirstSolid::Both),
+        (Some((we, _)), _, _) if w > we => Some(FirstSolid::Salt),
+        (Some(_), Some(_), _) => Some(FirstSolid::Ice),
+        (Some(_), None, _) => None,
+        (None, Some(ti), Some(ts)) => Some(if ts > ti {
             FirstSolid::Salt
         } else {
             FirstSolid::Ice
         }),
-        (None, None) => {
-            // No crossing: ice comes first only if the salt curve has data from the ice
-            // line upward and stays above the loading there (no crossing was found).
-            match curve {
-                Some(c)
-                    if c.evaluate(c.temperature_range().1, false)
-                        .is_ok_and(|e| e.mass_fraction < w) =>
-                {
-                    // Above the loading nowhere: the salt is out of solution throughout.
-                    Some(FirstSolid::Salt)
-                }
-                Some(c) if c.temperature_range().0 <= ice.t_k => Some(FirstSolid::Ice),
-                None if w == 0.0 => Some(FirstSolid::Ice),
-                _ => None,
-            }
-        }
+        // No crossing: ice comes first only if the salt curve has data down to the ice
+        // line and stays above the loading there.
+        (None, Some(ti), None) => match system.curve {
+            Some(c) if c.temperature_range().0 <= ti => Some(FirstSolid::Ice),
+            None if w == 0.0 => Some(FirstSolid::Ice),
+            _ => None,
+        },
+        (None, None, _) => None,
     };
     let first_t_k = match first {
-        Some(FirstSolid::Ice) => Some(ice.t_k),
+        Some(FirstSolid::Ice) => ice_t,
         Some(FirstSolid::Salt) => saturation_t_k,
         Some(FirstSolid::Both) => eutectic.map(|e| e.1),
         None => None,
     };
     let below_eutectic = eutectic.is_some_and(|e| t_k < e.1);
     let solid_at_t = below_eutectic || first_t_k.is_some_and(|tf| tf >= t_k);
+    let freeze_concentration = match (first, ice_t) {
+        (Some(FirstSolid::Ice), Some(ti)) if t_k < ti && !below_eutectic => {
+            let wl = system.liquid_on_ice_line(w, t_k)?;
+            let ice_fraction = (1.0 - w / wl).max(0.0);
+            Some(FreezeConcentration {
+                liquid_mass_fraction: wl,
+                ice_fraction,
+                ice_fraction_of_water: ice_fraction / (1.0 - w),
+            })
+        }
+        _ => None,
+    };
     Ok(FreezingCheck {
-        ice_t_k: ice.t_k,
-        ice_basis: ice.basis,
+        ice,
+        ice_unknown,
         saturation_t_k,
         first,
         first_t_k,
         solid_at_t,
         eutectic,
         below_eutectic,
+        freeze_concentration,
     })
 }
 
@@ -280,33 +399,64 @@ mod tests {
         }
     }
 
+    fn system(data: Option<&FreezingData>) -> System<'_> {
+        System {
+            curve: None,
+            molar_mass: 58.44,
+            ions: 2,
+            data,
+            models: &[],
+        }
+    }
+
     #[test]
-    fn ideal_depression_worked_example() {
-        // By hand: 1 mol/kg of a 2-ion salt, ideal: 2 × 1.86 × 1 = 3.72 K.
+    fn ideal_only_in_the_dilute_limit() {
+        // By hand: 0.05 mol/kg of a 2-ion salt, ideal: 2 × 1.86 × 0.05 = 0.186 K.
         assert!((ideal_depression(1.0, 2) - 3.72).abs() < 1e-12);
-        let p = ice_line(0.05844 / 1.05844, 58.44, 2, None).unwrap();
+        let w = 0.05 * 58.44 / (1000.0 + 0.05 * 58.44);
+        let p = system(None).ice_line(w).unwrap();
         assert_eq!(p.basis, IceBasis::Ideal);
-        assert!((p.t_k - (273.15 - 3.72)).abs() < 1e-9);
+        assert!((p.t_k - (273.15 - 0.186)).abs() < 1e-9);
+        // 1 mol/kg is no longer dilute: refused, with the reasons.
+        let e = system(None).ice_line(0.05844 / 1.05844).unwrap_err();
+        assert!(e.to_string().contains("dilute limit"), "{e}");
     }
 
     #[test]
     fn tabulated_ice_line_and_eutectic() {
         let d = demo();
-        let p = ice_line(0.10, 58.44, 2, Some(&d)).unwrap();
+        let s = system(Some(&d));
+        let p = s.ice_line(0.10).unwrap();
         assert_eq!(p.basis, IceBasis::Tabulated);
         assert!((p.t_k - 266.0).abs() < 1e-12);
-        let p = ice_line(0.22, 58.44, 2, Some(&d)).unwrap();
+        let p = s.ice_line(0.22).unwrap();
         assert_eq!(p.basis, IceBasis::Interpolated);
         assert!(p.t_k < 256.0 && p.t_k > 252.0);
-        let c = first_solid_on_cooling(None, 0.10, 58.44, 2, Some(&d), 263.15).unwrap();
+        let c = first_solid_on_cooling(&s, 0.10, 263.15).unwrap();
         assert_eq!(c.first, Some(FirstSolid::Ice));
         assert!(c.solid_at_t);
-        let c = first_solid_on_cooling(None, 0.10, 58.44, 2, Some(&d), 268.15).unwrap();
+        let c = first_solid_on_cooling(&s, 0.10, 268.15).unwrap();
         assert!(!c.solid_at_t);
-        let c = first_solid_on_cooling(None, 0.25, 58.44, 2, Some(&d), 263.15).unwrap();
+        assert!(c.freeze_concentration.is_none());
+        // Beyond the eutectic composition no ice forms above the eutectic.
+        let c = first_solid_on_cooling(&s, 0.25, 263.15).unwrap();
         assert_eq!(c.first, Some(FirstSolid::Salt));
-        let c = first_solid_on_cooling(None, 0.10, 58.44, 2, Some(&d), 250.0).unwrap();
+        assert_eq!(c.ice.as_ref().unwrap().basis, IceBasis::Eutectic);
+        assert_eq!(c.ice.unwrap().t_k, 252.0);
+        let c = first_solid_on_cooling(&s, 0.10, 250.0).unwrap();
         assert!(c.below_eutectic && c.solid_at_t);
-        assert!(first_solid_on_cooling(None, 0.10, 58.44, 2, Some(&d), 280.0).is_err());
+        assert!(first_solid_on_cooling(&s, 0.10, 280.0).is_err());
+    }
+
+    #[test]
+    fn freeze_concentration_by_the_lever_rule() {
+        // At 256 K the demo ice line is at w = 0.20 (tabulated): a 0.10 solution has left
+        // half its mass as ice (1 − 0.10/0.20), 0.5/0.9 of its water.
+        let d = demo();
+        let c = first_solid_on_cooling(&system(Some(&d)), 0.10, 256.0).unwrap();
+        let f = c.freeze_concentration.unwrap();
+        assert!((f.liquid_mass_fraction - 0.20).abs() < 1e-9);
+        assert!((f.ice_fraction - 0.5).abs() < 1e-9);
+        assert!((f.ice_fraction_of_water - 0.5 / 0.9).abs() < 1e-9);
     }
 }

@@ -13,6 +13,7 @@ pub mod export;
 pub mod findings;
 pub mod import;
 mod lock;
+pub mod models;
 mod read;
 pub mod review;
 pub mod schema;

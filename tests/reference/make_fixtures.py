@@ -124,6 +124,7 @@ def main():
         with open(os.path.join(HERE, name), "w", encoding="utf-8") as f:
             json.dump(data, f, indent=1, ensure_ascii=False)
             f.write("\n")
+    __import__("fixtures_phase").write(HERE)  # phase diagram: pytzer, CoolProp
 
 
 if __name__ == "__main__":

@@ -919,6 +919,9 @@ pub fn parse_with_known<P: AsRef<str>, C: AsRef<str>>(
             .filter(|stem| !stem.contains('/'))
         {
             solute_files.push((path, stem, text));
+        } else if path.starts_with("models/") {
+            // Model parameter sets: read by `store::models`, not stored in the database.
+            continue;
         } else {
             return Err(problem(path, "whole file", SeedProblem::UnexpectedFile));
         }

@@ -92,6 +92,7 @@ pub fn cite_curve(snap: &Snapshot, built: &BuiltCurve, solute: &Solute, answer: 
             answer.caveat(format!("{}: rests on unreviewed data", solute.name));
         }
     }
+    super::corroboration::corroboration_caveat(snap, built, solute, answer);
     hazard(solute, answer);
 }
 

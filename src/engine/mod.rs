@@ -11,6 +11,7 @@
 //! ```
 
 mod common;
+mod corroboration;
 mod error;
 mod gas;
 mod plot;

@@ -251,6 +251,7 @@ pub fn to_toml_files(contents: &Contents) -> Vec<(String, String)> {
     for s in &contents.solutes {
         files.push((format!("solutes/{}.toml", s.id), solute_toml(contents, s)));
     }
+    files.extend(super::corroboration::to_toml_files(&contents.checks));
     files
 }
 

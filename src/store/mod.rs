@@ -6,6 +6,7 @@
 
 pub mod audit;
 pub mod check;
+pub mod corroboration;
 pub mod default_db;
 mod error;
 pub mod export;

@@ -40,6 +40,9 @@ pub struct Contents {
     pub datasets: Vec<Dataset>,
     pub gas_constants: Vec<GasConstant>,
     pub freezing: Vec<FreezingRecord>,
+    /// Corroboration checks, by key (see [`super::corroboration`]).
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub checks: Vec<crate::model::Check>,
 }
 
 impl Contents {
@@ -50,6 +53,7 @@ impl Contents {
         self.datasets.sort_by(|a, b| a.key.cmp(&b.key));
         self.gas_constants.sort_by(|a, b| a.key.cmp(&b.key));
         self.freezing.sort_by(|a, b| a.data.key.cmp(&b.data.key));
+        self.checks.sort_by(|a, b| a.key.cmp(&b.key));
     }
 }
 
@@ -396,5 +400,6 @@ fn read_inside(conn: &Connection) -> Result<Contents, StoreError> {
             },
         });
     }
+    contents.checks = super::corroboration::read_checks(conn)?;
     Ok(contents)
 }

@@ -28,6 +28,11 @@ pub const MIGRATIONS: &[Migration] = &[
         name: "0002_metadata_and_indexes",
         sql: include_str!("../../schema/0002_metadata_and_indexes.sql"),
     },
+    Migration {
+        version: 3,
+        name: "0003_corroboration_checks",
+        sql: include_str!("../../schema/0003_corroboration_checks.sql"),
+    },
 ];
 
 /// The schema version this binary writes and reads.

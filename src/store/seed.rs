@@ -76,7 +76,7 @@ pub enum SeedProblem {
     MissingSources,
 
     /// A `.toml` file outside the layout, e.g. `notes/extra.toml`.
-    #[error("not a seed file: expected sources.toml or solutes/<id>.toml")]
+    #[error("not a seed file: expected sources.toml, solutes/<id>.toml or checks/<name>.toml")]
     UnexpectedFile,
 
     /// A dataset names a source that `sources.toml` lacks, e.g. `source = "crc-98"`.
@@ -331,7 +331,7 @@ struct RawFreezing {
 
 // ---------------------------------------------------------------------------------------
 
-fn problem(file: &str, record: impl Into<String>, problem: SeedProblem) -> StoreError {
+pub(super) fn problem(file: &str, record: impl Into<String>, problem: SeedProblem) -> StoreError {
     StoreError::Seed {
         file: file.to_string(),
         record: record.into(),
@@ -339,7 +339,7 @@ fn problem(file: &str, record: impl Into<String>, problem: SeedProblem) -> Store
     }
 }
 
-fn syntax(file: &str, text: &str, e: &toml::de::Error) -> StoreError {
+pub(super) fn syntax(file: &str, text: &str, e: &toml::de::Error) -> StoreError {
     let record = match e.span() {
         Some(span) => {
             let before = text.get(..span.start).unwrap_or(text);
@@ -364,7 +364,7 @@ fn is_slug(s: &str) -> bool {
             .all(|b| b.is_ascii_lowercase() || b.is_ascii_digit() || b == b'-')
 }
 
-fn check_slug(file: &str, record: &str, id: &str) -> Result<(), StoreError> {
+pub(super) fn check_slug(file: &str, record: &str, id: &str) -> Result<(), StoreError> {
     if is_slug(id) {
         Ok(())
     } else {
@@ -377,7 +377,7 @@ fn check_slug(file: &str, record: &str, id: &str) -> Result<(), StoreError> {
 }
 
 /// An empty optional text means "not given".
-fn optional(s: Option<String>) -> Option<String> {
+pub(super) fn optional(s: Option<String>) -> Option<String> {
     s.filter(|s| !s.trim().is_empty())
 }
 
@@ -1189,6 +1189,7 @@ pub fn parse_with_known_sources<P: AsRef<str>, C: AsRef<str>>(
 ) -> Result<Contents, StoreError> {
     let mut sources_file: Option<(&str, &str)> = None;
     let mut solute_files: Vec<(&str, &str, &str)> = Vec::new();
+    let mut check_files: Vec<(&str, &str)> = Vec::new();
     for (path, text) in files {
         let (path, text) = (path.as_ref(), text.as_ref());
         if path == "sources.toml" {
@@ -1209,6 +1210,8 @@ pub fn parse_with_known_sources<P: AsRef<str>, C: AsRef<str>>(
             .filter(|stem| !stem.contains('/'))
         {
             solute_files.push((path, stem, text));
+        } else if super::corroboration::is_check_path(path) {
+            check_files.push((path, text));
         } else {
             return Err(problem(path, "whole file", SeedProblem::UnexpectedFile));
         }
@@ -1276,6 +1279,8 @@ pub fn parse_with_known_sources<P: AsRef<str>, C: AsRef<str>>(
         contents.gas_constants.extend(part.gas_constants);
         contents.freezing.extend(part.freezing);
     }
+    contents.checks =
+        super::corroboration::parse_files(&check_files, &contents, !known_sources.is_empty())?;
     contents.sort();
     Ok(contents)
 }
@@ -1305,6 +1310,9 @@ pub(crate) fn write(
         }
         for f in &contents.freezing {
             write::replace_freezing(&tx, f)?;
+        }
+        for c in &contents.checks {
+            super::corroboration::replace_check(&tx, c)?;
         }
 
         let mut set_meta = tx.prepare_cached(

@@ -172,6 +172,9 @@ fn pair(v: &toml::Value) -> (f64, f64) {
 fn assert_round_trip(files: &[(String, String)], stored: &Contents) {
     let mut datasets_seen = 0;
     for (path, contents) in files {
+        if path.starts_with("checks/") {
+            continue; // corroboration checks: tests/corroboration.rs
+        }
         let doc: toml::Table = toml::from_str(contents).unwrap();
         if path == "sources.toml" {
             let list = doc

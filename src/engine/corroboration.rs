@@ -28,7 +28,7 @@ pub fn caveat_for(snap: &Snapshot, datasets: &[&Dataset], solute: &Solute, answe
         let passing: Vec<String> = checks
             .iter()
             .filter(|c| c.verdict == Verdict::Pass)
-            .map(|c| format!("{} against {}", c.kind, c.reference))
+            .map(|c| format!("the {} check against {}", c.kind, c.reference))
             .collect();
         if passing.is_empty() {
             not.push(dataset.phase.formula.clone());

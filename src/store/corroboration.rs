@@ -31,6 +31,13 @@ pub fn is_check_path(path: &str) -> bool {
         .is_some_and(|stem| !stem.is_empty() && !stem.contains('/'))
 }
 
+/// True for a TOML text of check records only (`[[check]]` tables and nothing else), so
+/// an import recognises a check file by what it holds wherever it lies.
+pub fn is_check_text(text: &str) -> bool {
+    toml::from_str::<toml::Table>(text)
+        .is_ok_and(|t| t.contains_key("check") && t.keys().all(|k| k == "check"))
+}
+
 #[derive(Deserialize)]
 #[serde(deny_unknown_fields)]
 struct RawFile {
@@ -540,6 +547,58 @@ mod tests {
         ));
         assert!(!covers(&[(280.0, 330.0)], COVERAGE_RANGE_K));
         assert!(!covers(&[], COVERAGE_RANGE_K));
+    }
+
+    // Invented demo seed, not reference data.
+    const SOURCES: &str = "[[source]]\nkey = \"demo\"\nkind = \"other\"\ntitle = \"Invented\"\nauthors = \"nobody\"\n";
+    const SOLUTE: &str = "id = \"demo-salt\"\nname = \"demo salt\"\nformula = \"KCl\"\nkind = \"salt\"\nions = 2\n\n[[dataset]]\nkey = \"d\"\nsource = \"demo\"\nphase = \"KCl\"\nphase_name = \"anhydrous\"\nunit = \"%w/w\"\ntemperature_unit = \"C\"\nprovenance = \"derived\"\nreview = \"unreviewed\"\npoints = [[0, 20.0], [20, 25.0]]\n";
+
+    fn check(fields: &str) -> Result<Contents, StoreError> {
+        let text = format!(
+            "[[check]]\nkey = \"k\"\nkind = \"demo\"\nreference = \"r\"\nmethod = \"m\"\n{fields}"
+        );
+        super::super::seed::parse_seed(&[
+            ("sources.toml", SOURCES),
+            ("solutes/demo-salt.toml", SOLUTE),
+            ("checks/demo.toml", text.as_str()),
+        ])
+    }
+
+    fn reason(r: Result<Contents, StoreError>) -> String {
+        r.unwrap_err().to_string()
+    }
+
+    #[test]
+    fn a_check_of_a_stored_dataset_parses() {
+        let c = check("subject = \"demo-salt/d\"\nverdict = \"pass\"\nfigure = 1.5\n").unwrap();
+        assert_eq!(c.checks.len(), 1);
+        assert_eq!(c.checks[0].key, "demo-salt/d/k");
+        assert_eq!(c.checks[0].solute, "demo-salt");
+    }
+
+    #[test]
+    fn a_check_of_an_unknown_record_is_refused() {
+        let r = reason(check("subject = \"demo-salt/nope\"\nverdict = \"pass\"\n"));
+        assert!(
+            r.contains("\"demo-salt/nope\" is not in the reference"),
+            "{r}"
+        );
+        let r = reason(check("subject = \"nokey\"\nverdict = \"pass\"\n"));
+        assert!(r.contains("<solute>/<key>"), "{r}");
+    }
+
+    #[test]
+    fn a_check_that_does_not_apply_says_why() {
+        let r = reason(check(
+            "subject = \"demo-salt/d\"\nverdict = \"not-applicable\"\n",
+        ));
+        assert!(r.contains("says why"), "{r}");
+        let r = reason(check("subject = \"demo-salt/d\"\nverdict = \"maybe\"\n"));
+        assert!(r.contains("maybe"), "{r}");
+        let r = reason(check(
+            "subject = \"demo-salt/d\"\nverdict = \"pass\"\ntolerance = -1\n",
+        ));
+        assert!(r.contains("negative"), "{r}");
     }
 
     #[test]

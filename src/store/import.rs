@@ -291,7 +291,8 @@ pub fn plan(
                 let in_checks = path
                     .parent()
                     .and_then(|d| d.file_name())
-                    .is_some_and(|d| d == super::corroboration::CHECK_DIR);
+                    .is_some_and(|d| d == super::corroboration::CHECK_DIR)
+                    || super::corroboration::is_check_text(&f.text);
                 let name = if stem == "sources" {
                     "sources.toml".to_string()
                 } else if in_checks {

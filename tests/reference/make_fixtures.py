@@ -14,6 +14,8 @@ Run:  python3 -m venv venv && venv/bin/pip install periodictable gsw iapws
 import json
 import os
 
+import fixtures_corroboration
+
 import gsw
 import iapws
 import periodictable
@@ -120,6 +122,7 @@ def main():
         with open(os.path.join(HERE, name), "w", encoding="utf-8") as f:
             json.dump(data, f, indent=1, ensure_ascii=False)
             f.write("\n")
+    fixtures_corroboration.write_checks()
 
 
 if __name__ == "__main__":

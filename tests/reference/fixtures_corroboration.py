@@ -87,6 +87,22 @@ ANIONS = {
 # Explanations of failing checks, written by a person who looked at the data: full check
 # key -> why the check fails and why the data stay as they are.
 EXPLANATIONS = {
+    "borax/perry-7-decahydrate/continuity-perry-7-pentahydrate": (
+        "The pentahydrate's table begins at 70 C, so its value at the 60.8 C transition is its end "
+        "tangent carried back 9.2 K along a branch that steepens with temperature; the decahydrate's "
+        "is carried only 0.8 K. A gap of about 3 % over such an extrapolation does not show a fault "
+        "in either table."
+    ),
+    "lithium-nitrate/perry-7-trihydrate/continuity-perry-7-anhydrous": (
+        "The trihydrate's table stops at 20 C, and the branch rises steeply towards the trihydrate's "
+        "melting near 29.9 C; its end tangent carried 9.9 K falls far short there. The gap is the "
+        "missing last stretch of the trihydrate branch, not a disagreement of the tabulated points."
+    ),
+    "strontium-nitrate/perry-7-tetrahydrate/continuity-perry-7-anhydrous": (
+        "The anhydrous branch's table begins at 40 C, so its value at the 31.3 C transition is its "
+        "end tangent carried back 8.7 K; a gap of about 2.3 %, just over the 2 % tolerance, is "
+        "within what that extrapolation can resolve."
+    ),
     "calcium-nitrate/perry-7-tetrahydrate/continuity-perry-7-anhydrous": (
         "The tetrahydrate's stated end (42.7 C) is not where the anhydrous branch begins: the "
         "branches between about 42.7 C and 51 C (lower hydrates) are not in the reference, and the "

@@ -82,7 +82,7 @@ fn heat_sign_checks_hold_when_recomputed() {
         if let Some(committed) = check.satline_figure {
             assert!(
                 close(heat.kj_per_mol, committed),
-                "{}: satline now gives {} kJ/mol, the check was run on {committed}",
+                "{}: satline now gives {} kJ/mol, the check was run on {committed} (data changed? rerun tests/reference/make_fixtures.py)",
                 check.key,
                 heat.kj_per_mol
             );

@@ -172,7 +172,13 @@ pub fn parse_files(
                 ));
             }
             if !subjects_elsewhere && let Some(reason) = unknown_subject(&check, &[contents]) {
-                return Err(bad(file, &record, reason));
+                return Err(bad(
+                    file,
+                    &record,
+                    format!(
+                        "{reason}; after renaming or removing a record, rerun tests/reference/make_fixtures.py to rewrite the checks"
+                    ),
+                ));
             }
             out.push(check);
         }

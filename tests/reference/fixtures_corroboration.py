@@ -109,6 +109,22 @@ EXPLANATIONS = {
         "anhydrous branch extrapolated from 60 C down to 42.7 C is not a value of the data. The gap "
         "is a missing branch, not a fault of either table."
     ),
+    "sodium-carbonate/perry-7-decahydrate/continuity-crc-97-monohydrate": (
+        "Between the decahydrate (to 32.0 C) and the monohydrate (from 35.4 C) lies the "
+        "heptahydrate's short branch, which is not in the reference; at 32.0 C the monohydrate's "
+        "value is its end tangent carried back 8 K from 40 C, below its own stable range. The gap "
+        "is the missing heptahydrate branch, not a disagreement of the tables."
+    ),
+    "sodium-dihydrogen-phosphate/perry-7-dihydrate/continuity-perry-7-monohydrate": (
+        "The monohydrate branch is one tabulated point (50 C), which satline holds flat; it cannot "
+        "follow the branch's rise down to the 40.8 C transition. The gap asks for more points of "
+        "the monohydrate, not a correction of either table."
+    ),
+    "sodium-dihydrogen-phosphate/perry-7-monohydrate/continuity-perry-7-anhydrous": (
+        "The monohydrate branch is one tabulated point (50 C), held flat up to the 57.4 C "
+        "transition, while the solubility keeps rising; the anhydrous branch's tangent is carried "
+        "back 2.6 K from 60 C. The gap asks for more points of the monohydrate."
+    ),
     "sodium-acetate/perry-7-trihydrate/continuity-perry-7-anhydrous": (
         "The trihydrate branch climbs steeply towards its incongruent melting near 58 C, and the "
         "table stops at 50 C; its end tangent from 50 C falls short of the steep last stretch. "
@@ -323,7 +339,7 @@ def heat_sign_checks(solutes):
 def continuity_checks(solutes):
     out = []
     for s in solutes:
-        branches = [d for d in s.get("dataset", []) if live(d) and len(d["points"]) > 1]
+        branches = [d for d in s.get("dataset", []) if live(d) and d["points"]]
         branches.sort(key=lambda d: kelvin(d["points"][0][0], d["temperature_unit"]))
         for low, high in zip(branches, branches[1:]):
             if low["phase"] == high["phase"]:

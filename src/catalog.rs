@@ -11,7 +11,9 @@ use std::path::Path;
 
 use sha2::{Digest, Sha256};
 
-use crate::model::{Dataset, DensityCoefficients, FreezingData, GasConstant, Solute, Source};
+use crate::model::{
+    Check, Dataset, DensityCoefficients, FreezingData, GasConstant, Solute, Source,
+};
 use crate::store::{Contents, Store, StoreError};
 
 /// How many "did you mean" names an unknown solute gets at most.
@@ -49,6 +51,8 @@ pub struct Description<'a> {
     /// Every source the datasets, gas constants and freezing data cite, in order of first
     /// citation, each once.
     pub sources: Vec<&'a Source>,
+    /// The corroboration checks of the solute's records, by key.
+    pub checks: Vec<&'a Check>,
 }
 
 /// An immutable snapshot of the reference data.
@@ -62,6 +66,8 @@ pub struct Catalog {
     freezing: Vec<FreezingData>,
     /// Solution-density coefficients, by solute id.
     densities: Vec<DensityCoefficients>,
+    /// Corroboration checks, by key.
+    checks: Vec<Check>,
     source_index: HashMap<String, usize>,
     solute_index: HashMap<String, usize>,
     /// Normalised lookup name (case kept) → solute index; tried first so `Co` and `CO`
@@ -134,10 +140,11 @@ impl Catalog {
             gas_constants,
             freezing,
             densities,
+            checks,
         } = contents;
         let datasets: Vec<Dataset> = datasets.into_iter().filter(|d| !d.retired).collect();
         let freezing: Vec<FreezingData> = freezing.into_iter().map(|f| f.data).collect();
-        let fingerprint = data_fingerprint(
+        let mut fingerprint = data_fingerprint(
             &sources,
             &solutes,
             &datasets,
@@ -145,6 +152,13 @@ impl Catalog {
             &freezing,
             &densities,
         );
+        if !checks.is_empty() {
+            // Checks change what answers say (their caveats), so they count as data.
+            let mut hasher = Sha256::new();
+            hasher.update(fingerprint.as_bytes());
+            hasher.update(serde_json::to_vec(&checks).unwrap_or_default());
+            fingerprint = crate::store::seed::hex(&hasher.finalize());
+        }
 
         let source_index = sources
             .iter()
@@ -192,6 +206,7 @@ impl Catalog {
             gas_constants,
             freezing,
             densities,
+            checks,
             source_index,
             solute_index,
             exact_names,
@@ -338,6 +353,20 @@ impl Catalog {
             .collect()
     }
 
+    /// Every corroboration check, by key.
+    pub fn checks(&self) -> &[Check] {
+        &self.checks
+    }
+
+    /// The checks of one record (a dataset, freezing table or Henry's-law record), by its
+    /// full key.
+    pub fn checks_of(&self, subject: &str) -> Vec<&Check> {
+        self.checks
+            .iter()
+            .filter(|c| c.subject == subject)
+            .collect()
+    }
+
     /// Every Henry's-law record, by key.
     pub fn gas_constants(&self) -> &[GasConstant] {
         &self.gas_constants
@@ -384,12 +413,18 @@ impl Catalog {
                 sources.push(source);
             }
         }
+        let checks = self
+            .checks
+            .iter()
+            .filter(|c| c.solute == solute.id)
+            .collect();
         Ok(Description {
             solute,
             datasets,
             gas_constants,
             freezing,
             sources,
+            checks,
         })
     }
 

@@ -268,3 +268,87 @@ pub struct DensityCoefficients {
     pub review: Review,
     pub note: Option<String>,
 }
+
+/// The kind of record a corroboration check is about.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum CheckSubject {
+    /// A solubility dataset (`solute/key`).
+    Dataset,
+    /// Tabulated freezing points (`solute/key`).
+    Freezing,
+    /// A Henry's-law record (`solute/key`).
+    Henry,
+}
+
+impl CheckSubject {
+    pub fn as_str(self) -> &'static str {
+        match self {
+            CheckSubject::Dataset => "dataset",
+            CheckSubject::Freezing => "freezing",
+            CheckSubject::Henry => "henry",
+        }
+    }
+}
+
+/// What a corroboration check found.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Verdict {
+    /// The record agrees with the outside reference within the tolerance.
+    Pass,
+    /// It does not; the check's explanation should say why the record stays.
+    Fail,
+    /// The comparison is not meaningful here (the explanation says why), so it neither
+    /// corroborates nor contradicts.
+    NotApplicable,
+}
+
+impl Verdict {
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Verdict::Pass => "pass",
+            Verdict::Fail => "fail",
+            Verdict::NotApplicable => "not-applicable",
+        }
+    }
+}
+
+/// A corroboration check: one stored record compared with something outside it (a
+/// general-purpose library's model or table, another source, another branch of the same
+/// solute). A check never changes the record's review state.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Check {
+    /// `<subject>/<local key>`, e.g. `potassium-nitrate/crc-97/heat-sign`.
+    pub key: String,
+    /// The solute the subject belongs to.
+    pub solute: String,
+    pub subject_kind: CheckSubject,
+    /// Full key of the checked record, e.g. `potassium-nitrate/crc-97`.
+    pub subject: String,
+    /// What was compared: `heat-sign`, `continuity`, `second-source`, `ice-line`,
+    /// `water-activity`, `density-range`, ... (a slug).
+    pub kind: String,
+    /// The outside reference, in words, with its edition or version.
+    pub reference: String,
+    /// Another stored record the subject was compared with (continuity, second source).
+    pub other: Option<String>,
+    /// How the comparison was made.
+    pub method: String,
+    /// Temperature of the comparison, K, where there is one.
+    pub temperature_k: Option<f64>,
+    /// The reference's figure.
+    pub figure: Option<f64>,
+    /// satline's figure, as computed when the check was run.
+    pub satline_figure: Option<f64>,
+    /// Unit of both figures.
+    pub unit: Option<String>,
+    pub tolerance: Option<f64>,
+    /// Unit of the tolerance: `%` (relative), the figures' unit (absolute), or words.
+    pub tolerance_unit: Option<String>,
+    pub verdict: Verdict,
+    /// Why a check fails (and the record stays) or does not apply.
+    pub explanation: Option<String>,
+    /// What ran the check, with versions, e.g. `make_fixtures.py, chemicals 1.5.2`.
+    pub tool: Option<String>,
+}

@@ -107,6 +107,71 @@ fn write_dataset(out: &mut dyn Write, d: &Dataset) -> io::Result<()> {
     Ok(())
 }
 
+fn figure(v: Option<f64>, unit: Option<&str>) -> String {
+    match v {
+        Some(v) => format!("{v} {}", unit.unwrap_or("")).trim_end().to_string(),
+        None => "-".to_string(),
+    }
+}
+
+/// The corroboration checks of a solute's records, then the datasets no check corroborates.
+fn write_checks(d: &Description<'_>, out: &mut dyn Write) -> io::Result<()> {
+    writeln!(out)?;
+    writeln!(out, "corroboration")?;
+    for c in &d.checks {
+        writeln!(out, "  check {}: {}", c.key, c.verdict.as_str())?;
+        field(out, "  kind", &c.kind)?;
+        field(out, "  against", &c.reference)?;
+        if let Some(other) = &c.other {
+            field(out, "  other record", other)?;
+        }
+        field(out, "  method", &c.method)?;
+        let at = c
+            .temperature_k
+            .map(|t| format!(" at {} C", celsius(t)))
+            .unwrap_or_default();
+        field(
+            out,
+            "  figures",
+            &format!(
+                "reference {}, satline {}{at}",
+                figure(c.figure, c.unit.as_deref()),
+                figure(c.satline_figure, c.unit.as_deref())
+            ),
+        )?;
+        if c.tolerance.is_some() {
+            field(
+                out,
+                "  tolerance",
+                &figure(c.tolerance, c.tolerance_unit.as_deref()),
+            )?;
+        }
+        if let Some(e) = &c.explanation {
+            field(out, "  explanation", e)?;
+        }
+        if let Some(t) = &c.tool {
+            field(out, "  run by", t)?;
+        }
+    }
+    for dataset in &d.datasets {
+        let passed = d
+            .checks
+            .iter()
+            .any(|c| c.subject == dataset.key && c.verdict == crate::model::Verdict::Pass);
+        if !passed {
+            writeln!(
+                out,
+                "  dataset {}: not corroborated (no passing check against an outside reference)",
+                dataset.key
+            )?;
+        }
+    }
+    writeln!(
+        out,
+        "  (a check compares with an outside reference; it does not make data reviewed)"
+    )
+}
+
 /// Writes everything known about one solute: the record, molar mass, every dataset with its
 /// phase, unit, provenance, review and points, gas constants, freezing data, and the full
 /// citations of their sources.
@@ -228,6 +293,8 @@ pub fn write_description(d: &Description<'_>, out: &mut dyn Write) -> io::Result
     if d.datasets.is_empty() && d.gas_constants.is_empty() {
         writeln!(out)?;
         writeln!(out, "no data yet")?;
+    } else {
+        write_checks(d, out)?;
     }
     if !d.sources.is_empty() {
         writeln!(out)?;

@@ -80,6 +80,15 @@ pub fn curve_of<'a>(
             span: name.span,
         });
     }
+    if solute.tags.iter().any(|t| t == "miscible") && snap.curve(&solute.id, false).is_none() {
+        return Err(EvalError::NoData {
+            message: format!(
+                "{} mixes with water in all proportions (miscible): there is no saturation limit to give",
+                solute.name
+            ),
+            span: name.span,
+        });
+    }
     snap.curve(&solute.id, options.reviewed_only)
         .ok_or_else(|| EvalError::NoData {
             message: if options.reviewed_only {
@@ -110,6 +119,7 @@ pub fn cite_curve(snap: &Snapshot, built: &BuiltCurve, solute: &Solute, answer: 
             answer.caveat(format!("{}: rests on unreviewed data", solute.name));
         }
     }
+    super::corroboration::corroboration_caveat(snap, built, solute, answer);
     hazard(solute, answer);
 }
 

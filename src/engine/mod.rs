@@ -12,6 +12,7 @@
 
 mod basis;
 mod common;
+mod corroboration;
 mod error;
 mod filters;
 mod freezing;

@@ -146,7 +146,43 @@ pub fn describe(snap: &Snapshot, s: &Describe, answer: &mut Answer) -> Result<()
     for data in snap.catalog.freezing_of(&solute.id) {
         cite_source(snap, &data.source, answer);
     }
-    if answer.rows.len() == 1 {
+    let has_data = answer.rows.len() > 1;
+    let shown: Vec<&crate::model::Dataset> = snap
+        .catalog
+        .datasets_of(&solute.id)
+        .into_iter()
+        .filter(|d| !s.options.reviewed_only || d.review == crate::model::Review::Reviewed)
+        .collect();
+    super::corroboration::caveat_for(snap, &shown, solute, answer);
+    for check in snap
+        .catalog
+        .checks()
+        .iter()
+        .filter(|c| c.solute == solute.id)
+    {
+        answer.rows.push(Row {
+            solute: Some(solute.name.clone()),
+            quantity: Some("check".into()),
+            extra: extra(vec![
+                ("check", json!(check.key)),
+                ("record", json!(check.subject)),
+                ("kind", json!(check.kind)),
+                ("reference", json!(check.reference)),
+                ("other", json!(check.other)),
+                ("method", json!(check.method)),
+                ("temperature_c", json!(check.temperature_k.map(celsius))),
+                ("figure", json!(check.figure)),
+                ("satline_figure", json!(check.satline_figure)),
+                ("figure_unit", json!(check.unit)),
+                ("tolerance", json!(check.tolerance)),
+                ("tolerance_unit", json!(check.tolerance_unit)),
+                ("verdict", json!(check.verdict.as_str())),
+                ("explanation", json!(check.explanation)),
+            ]),
+            ..Row::default()
+        });
+    }
+    if !has_data {
         answer.caveat(format!("{} has no data in this reference yet", solute.name));
     }
     hazard(solute, answer);

@@ -67,6 +67,7 @@ pub(crate) fn history(conn: &Connection, id: &str) -> Result<Vec<AuditEntry>, St
             OR substr(entity, 1, length(?1) + 9) = 'dataset:' || ?1 || '/'
             OR substr(entity, 1, length(?1) + 7) = 'henry:' || ?1 || '/'
             OR substr(entity, 1, length(?1) + 10) = 'freezing:' || ?1 || '/'
+            OR substr(entity, 1, length(?1) + 7) = 'check:' || ?1 || '/'
             OR entity IN (SELECT 'source:' || source FROM datasets WHERE solute = ?1
                           UNION SELECT 'source:' || source FROM gas_constants WHERE solute = ?1
                           UNION SELECT 'source:' || source FROM freezing WHERE solute = ?1)

@@ -30,6 +30,8 @@ pub struct CheckReport {
     pub unreviewed_freezing: usize,
     pub retired_datasets: usize,
     pub datasets: usize,
+    /// Corroboration coverage and the solutes with curves over 0–40 °C.
+    pub corroboration: super::corroboration::Coverage,
 }
 
 impl CheckReport {
@@ -42,6 +44,7 @@ impl CheckReport {
             + self.empty.len()
             + self.outliers.len()
             + self.conflicts.len()
+            + self.corroboration.problems()
     }
 
     /// The report for people.
@@ -79,6 +82,7 @@ impl CheckReport {
             self.unreviewed_freezing,
             self.retired_datasets
         )?;
+        self.corroboration.write(out)?;
         match self.problems() {
             0 => writeln!(out, "no problems found"),
             n => writeln!(out, "{n} problem(s) found"),
@@ -130,6 +134,7 @@ impl Store {
         )?;
 
         let contents = self.read_all()?;
+        report.corroboration = super::corroboration::coverage(&contents);
         report.datasets = contents.datasets.len();
         let live: Vec<_> = contents
             .datasets

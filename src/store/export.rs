@@ -254,6 +254,7 @@ pub fn to_toml_files(contents: &Contents) -> Vec<(String, String)> {
     if let Some(text) = super::density::to_toml(&contents.densities) {
         files.push((super::density::FILE.to_string(), text));
     }
+    files.extend(super::corroboration::to_toml_files(&contents.checks));
     files
 }
 

@@ -35,7 +35,7 @@ use serde::Serialize;
 use super::findings::{self, Finding};
 use super::read::{Contents, FreezingRecord};
 use super::{Store, StoreError, audit, lock, seed, write};
-use crate::model::{Dataset, GasConstant, Review, Solute, Source};
+use crate::model::{Check, Dataset, GasConstant, Review, Solute, Source};
 use crate::science::units::CompositionUnit;
 
 /// One file to import, read into memory: its path as given (for messages) and its text.
@@ -108,6 +108,7 @@ enum Record {
     Gas(GasConstant),
     Freezing(FreezingRecord),
     Density(crate::model::DensityCoefficients),
+    Check(Check),
 }
 
 /// One planned change.
@@ -293,10 +294,17 @@ pub fn plan(
         let stem = path.file_stem().and_then(|e| e.to_str()).unwrap_or("");
         match ext {
             "toml" => {
+                let in_checks = path
+                    .parent()
+                    .and_then(|d| d.file_name())
+                    .is_some_and(|d| d == super::corroboration::CHECK_DIR)
+                    || super::corroboration::is_check_text(&f.text);
                 let name = if stem == "sources" {
                     "sources.toml".to_string()
                 } else if stem == "densities" {
                     super::density::FILE.to_string()
+                } else if in_checks {
+                    format!("{}/{stem}.toml", super::corroboration::CHECK_DIR)
                 } else {
                     format!("solutes/{stem}.toml")
                 };
@@ -375,6 +383,15 @@ pub fn plan(
     }
     for d in &incoming.datasets {
         check_sane(d, &solute_file)?;
+    }
+    for c in &incoming.checks {
+        if let Some(reason) = super::corroboration::unknown_subject(c, &[&incoming, &existing]) {
+            return Err(import_error(
+                "checks",
+                format!("check \"{}\"", c.key),
+                reason,
+            ));
+        }
     }
     let mut plan = compare(&incoming, &existing, options);
     plan.audit_mark = audit_mark;
@@ -600,6 +617,28 @@ fn compare(incoming: &Contents, existing: &Contents, options: &ImportOptions) ->
         });
     }
 
+    let old_checks: HashMap<&str, &Check> = existing
+        .checks
+        .iter()
+        .map(|c| (c.key.as_str(), c))
+        .collect();
+    for c in &incoming.checks {
+        let before = old_checks.get(c.key.as_str()).copied();
+        plan.changes.push(Change {
+            kind: kind_of(before.map(|b| b == c)),
+            entity: format!("check:{}", c.key),
+            summary: format!(
+                "{} check against {}: {}",
+                c.kind,
+                c.reference,
+                c.verdict.as_str()
+            ),
+            before: before.map(json),
+            after: json(c),
+            record: Record::Check(c.clone()),
+        });
+    }
+
     // Findings, for the datasets that would be written.
     let solutes: HashMap<&str, &Solute> = existing
         .solutes
@@ -736,6 +775,7 @@ fn write_plan(
             Record::Gas(g) => write::replace_gas_constant(tx, g)?,
             Record::Freezing(f) => write::replace_freezing(tx, f)?,
             Record::Density(d) => super::density::replace(tx, d)?,
+            Record::Check(c) => super::corroboration::replace_check(tx, c)?,
         }
         audit::record(
             tx,

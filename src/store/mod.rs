@@ -6,6 +6,7 @@
 
 pub mod audit;
 pub mod check;
+pub mod corroboration;
 pub mod default_db;
 pub mod density;
 mod error;

@@ -42,6 +42,9 @@ pub struct Contents {
     pub freezing: Vec<FreezingRecord>,
     /// Solution-density coefficients, by solute id.
     pub densities: Vec<DensityCoefficients>,
+    /// Corroboration checks, by key (see [`super::corroboration`]).
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub checks: Vec<crate::model::Check>,
 }
 
 impl Contents {
@@ -53,6 +56,7 @@ impl Contents {
         self.gas_constants.sort_by(|a, b| a.key.cmp(&b.key));
         self.freezing.sort_by(|a, b| a.data.key.cmp(&b.data.key));
         self.densities.sort_by(|a, b| a.solute.cmp(&b.solute));
+        self.checks.sort_by(|a, b| a.key.cmp(&b.key));
     }
 }
 
@@ -405,5 +409,6 @@ fn read_inside(conn: &Connection) -> Result<Contents, StoreError> {
         });
     }
     contents.densities = super::density::read(conn)?;
+    contents.checks = super::corroboration::read_checks(conn)?;
     Ok(contents)
 }

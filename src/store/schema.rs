@@ -33,6 +33,11 @@ pub const MIGRATIONS: &[Migration] = &[
         name: "0003_density_coefficients",
         sql: include_str!("../../schema/0003_density_coefficients.sql"),
     },
+    Migration {
+        version: 4,
+        name: "0004_corroboration_checks",
+        sql: include_str!("../../schema/0004_corroboration_checks.sql"),
+    },
 ];
 
 /// The schema version this binary writes and reads.

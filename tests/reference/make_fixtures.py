@@ -15,6 +15,8 @@ Run:  python3 -m venv venv && venv/bin/pip install periodictable gsw iapws
 import json
 import os
 
+import fixtures_corroboration
+
 import gsw
 import iapws
 import periodictable
@@ -125,6 +127,7 @@ def main():
             json.dump(data, f, indent=1, ensure_ascii=False)
             f.write("\n")
     __import__("fixtures_phase").write(HERE)  # phase diagram: pytzer, CoolProp
+    fixtures_corroboration.write_checks()
 
 
 if __name__ == "__main__":

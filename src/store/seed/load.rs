@@ -105,6 +105,9 @@ pub(crate) fn write(
         for d in &contents.densities {
             super::super::density::replace(&tx, d)?;
         }
+        for c in &contents.checks {
+            crate::store::corroboration::replace_check(&tx, c)?;
+        }
 
         let mut set_meta = tx.prepare_cached(
             "INSERT INTO metadata (key, value) VALUES (?1, ?2)

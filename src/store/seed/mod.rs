@@ -27,6 +27,7 @@ mod validate;
 
 pub use load::{fingerprint, read_seed_dir};
 pub(crate) use load::{hex, write};
+pub(crate) use validate::{check_slug, optional, problem, syntax};
 pub use validate::{parse_seed, parse_with_known, parse_with_known_sources, to_mass_fraction};
 
 /// Lowest temperature of a liquid point in seed data: −55 °C.
@@ -71,7 +72,9 @@ pub enum SeedProblem {
     MissingSources,
 
     /// A `.toml` file outside the layout, e.g. `notes/extra.toml`.
-    #[error("not a seed file: expected sources.toml, densities.toml or solutes/<id>.toml")]
+    #[error(
+        "not a seed file: expected sources.toml, densities.toml, solutes/<id>.toml or checks/<name>.toml"
+    )]
     UnexpectedFile,
 
     /// A dataset names a source that `sources.toml` lacks, e.g. `source = "crc-98"`.

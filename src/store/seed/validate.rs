@@ -15,7 +15,7 @@ use crate::science::units::{CompositionUnit, TemperatureUnit};
 
 // ---------------------------------------------------------------------------------------
 
-pub(super) fn problem(file: &str, record: impl Into<String>, problem: SeedProblem) -> StoreError {
+pub(crate) fn problem(file: &str, record: impl Into<String>, problem: SeedProblem) -> StoreError {
     StoreError::Seed {
         file: file.to_string(),
         record: record.into(),
@@ -23,7 +23,7 @@ pub(super) fn problem(file: &str, record: impl Into<String>, problem: SeedProble
     }
 }
 
-pub(super) fn syntax(file: &str, text: &str, e: &toml::de::Error) -> StoreError {
+pub(crate) fn syntax(file: &str, text: &str, e: &toml::de::Error) -> StoreError {
     let record = match e.span() {
         Some(span) => {
             let before = text.get(..span.start).unwrap_or(text);
@@ -48,7 +48,7 @@ pub(super) fn is_slug(s: &str) -> bool {
             .all(|b| b.is_ascii_lowercase() || b.is_ascii_digit() || b == b'-')
 }
 
-pub(super) fn check_slug(file: &str, record: &str, id: &str) -> Result<(), StoreError> {
+pub(crate) fn check_slug(file: &str, record: &str, id: &str) -> Result<(), StoreError> {
     if is_slug(id) {
         Ok(())
     } else {
@@ -61,7 +61,7 @@ pub(super) fn check_slug(file: &str, record: &str, id: &str) -> Result<(), Store
 }
 
 /// An empty optional text means "not given".
-pub(super) fn optional(s: Option<String>) -> Option<String> {
+pub(crate) fn optional(s: Option<String>) -> Option<String> {
     s.filter(|s| !s.trim().is_empty())
 }
 
@@ -897,6 +897,7 @@ pub fn parse_with_known<P: AsRef<str>, C: AsRef<str>>(
     let mut densities_file: Option<&str> = None;
     let mut sources_file: Option<(&str, &str)> = None;
     let mut solute_files: Vec<(&str, &str, &str)> = Vec::new();
+    let mut check_files: Vec<(&str, &str)> = Vec::new();
     for (path, text) in files {
         let (path, text) = (path.as_ref(), text.as_ref());
         if path == "sources.toml" {
@@ -922,6 +923,8 @@ pub fn parse_with_known<P: AsRef<str>, C: AsRef<str>>(
         } else if path.starts_with("models/") {
             // Model parameter sets: read by `store::models`, not stored in the database.
             continue;
+        } else if crate::store::corroboration::is_check_path(path) {
+            check_files.push((path, text));
         } else {
             return Err(problem(path, "whole file", SeedProblem::UnexpectedFile));
         }
@@ -1005,6 +1008,11 @@ pub fn parse_with_known<P: AsRef<str>, C: AsRef<str>>(
         contents.gas_constants.extend(part.gas_constants);
         contents.freezing.extend(part.freezing);
     }
+    contents.checks = crate::store::corroboration::parse_files(
+        &check_files,
+        &contents,
+        !known_sources.is_empty(),
+    )?;
     contents.sort();
     Ok(contents)
 }

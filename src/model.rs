@@ -244,3 +244,5 @@ pub struct FreezingData {
     pub provenance: Provenance,
     pub review: Review,
 }
+
+pub mod thermo;

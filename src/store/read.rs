@@ -40,6 +40,11 @@ pub struct Contents {
     pub datasets: Vec<Dataset>,
     pub gas_constants: Vec<GasConstant>,
     pub freezing: Vec<FreezingRecord>,
+    /// Enthalpies of formation and hydration, radii, ionisation energies and heat-capacity
+    /// coefficients (`thermochemistry/` in the seed). Not yet written by the exports (nor
+    /// read by imports), so it is left out of the JSON export too.
+    #[serde(skip)]
+    pub thermochemistry: crate::model::thermo::Thermochemistry,
 }
 
 impl Contents {
@@ -53,7 +58,7 @@ impl Contents {
     }
 }
 
-fn corrupt(what: String) -> StoreError {
+pub(super) fn corrupt(what: String) -> StoreError {
     StoreError::Corrupt {
         location: "database".to_string(),
         what,
@@ -81,7 +86,7 @@ fn solute_kind(s: &str) -> Result<SoluteKind, StoreError> {
     })
 }
 
-fn provenance(s: &str) -> Result<Provenance, StoreError> {
+pub(super) fn provenance(s: &str) -> Result<Provenance, StoreError> {
     Ok(match s {
         "measured" => Provenance::Measured,
         "compiled" => Provenance::Compiled,
@@ -91,7 +96,7 @@ fn provenance(s: &str) -> Result<Provenance, StoreError> {
     })
 }
 
-fn review(s: &str) -> Result<Review, StoreError> {
+pub(super) fn review(s: &str) -> Result<Review, StoreError> {
     Ok(match s {
         "unreviewed" => Review::Unreviewed,
         "reviewed" => Review::Reviewed,
@@ -126,7 +131,10 @@ pub(crate) fn read_all(conn: &Connection) -> Result<Contents, StoreError> {
 }
 
 fn read_inside(conn: &Connection) -> Result<Contents, StoreError> {
-    let mut contents = Contents::default();
+    let mut contents = Contents {
+        thermochemistry: super::thermo_rows::read(conn)?,
+        ..Contents::default()
+    };
 
     let mut stmt = conn.prepare_cached(
         "SELECT key, kind, title, authors, publisher, edition, year, locator, doi, isbn, url, note

@@ -28,6 +28,11 @@ pub const MIGRATIONS: &[Migration] = &[
         name: "0002_metadata_and_indexes",
         sql: include_str!("../../schema/0002_metadata_and_indexes.sql"),
     },
+    Migration {
+        version: 3,
+        name: "0004_thermochemistry",
+        sql: include_str!("../../schema/0004_thermochemistry.sql"),
+    },
 ];
 
 /// The schema version this binary writes and reads.

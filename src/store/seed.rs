@@ -76,7 +76,9 @@ pub enum SeedProblem {
     MissingSources,
 
     /// A `.toml` file outside the layout, e.g. `notes/extra.toml`.
-    #[error("not a seed file: expected sources.toml or solutes/<id>.toml")]
+    #[error(
+        "not a seed file: expected sources.toml, solutes/<id>.toml or thermochemistry/<name>.toml"
+    )]
     UnexpectedFile,
 
     /// A dataset names a source that `sources.toml` lacks, e.g. `source = "crc-98"`.
@@ -331,7 +333,7 @@ struct RawFreezing {
 
 // ---------------------------------------------------------------------------------------
 
-fn problem(file: &str, record: impl Into<String>, problem: SeedProblem) -> StoreError {
+pub(crate) fn problem(file: &str, record: impl Into<String>, problem: SeedProblem) -> StoreError {
     StoreError::Seed {
         file: file.to_string(),
         record: record.into(),
@@ -339,7 +341,7 @@ fn problem(file: &str, record: impl Into<String>, problem: SeedProblem) -> Store
     }
 }
 
-fn syntax(file: &str, text: &str, e: &toml::de::Error) -> StoreError {
+pub(crate) fn syntax(file: &str, text: &str, e: &toml::de::Error) -> StoreError {
     let record = match e.span() {
         Some(span) => {
             let before = text.get(..span.start).unwrap_or(text);
@@ -1189,6 +1191,7 @@ pub fn parse_with_known_sources<P: AsRef<str>, C: AsRef<str>>(
 ) -> Result<Contents, StoreError> {
     let mut sources_file: Option<(&str, &str)> = None;
     let mut solute_files: Vec<(&str, &str, &str)> = Vec::new();
+    let mut thermo_files: Vec<(&str, &str, &str)> = Vec::new();
     for (path, text) in files {
         let (path, text) = (path.as_ref(), text.as_ref());
         if path == "sources.toml" {
@@ -1209,6 +1212,12 @@ pub fn parse_with_known_sources<P: AsRef<str>, C: AsRef<str>>(
             .filter(|stem| !stem.contains('/'))
         {
             solute_files.push((path, stem, text));
+        } else if let Some(stem) = path
+            .strip_prefix(super::thermo_seed::FOLDER)
+            .and_then(|rest| rest.strip_suffix(".toml"))
+            .filter(|stem| !stem.contains('/'))
+        {
+            thermo_files.push((path, stem, text));
         } else {
             return Err(problem(path, "whole file", SeedProblem::UnexpectedFile));
         }
@@ -1266,8 +1275,14 @@ pub fn parse_with_known_sources<P: AsRef<str>, C: AsRef<str>>(
         parts.push(part);
     }
 
+    let mut thermochemistry = crate::model::thermo::Thermochemistry::default();
+    thermo_files.sort();
+    for (path, stem, text) in thermo_files {
+        super::thermo_seed::parse_file(path, stem, text, &source_keys, &mut thermochemistry)?;
+    }
     let mut contents = Contents {
         sources,
+        thermochemistry,
         ..Contents::default()
     };
     for part in parts {
@@ -1306,6 +1321,7 @@ pub(crate) fn write(
         for f in &contents.freezing {
             write::replace_freezing(&tx, f)?;
         }
+        super::thermo_rows::write(&tx, &contents.thermochemistry)?;
 
         let mut set_meta = tx.prepare_cached(
             "INSERT INTO metadata (key, value) VALUES (?1, ?2)

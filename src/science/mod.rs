@@ -2,6 +2,8 @@
 //! Every public function's doc comment gives its formula and its source.
 
 pub mod curve;
+pub mod dissolving;
+pub mod enthalpy;
 pub mod error;
 pub mod fit;
 pub mod formula;

@@ -13,6 +13,7 @@
 mod common;
 mod error;
 mod gas;
+mod heat;
 mod plot;
 mod records;
 mod snapshot;
@@ -126,7 +127,7 @@ impl Engine {
             Statement::Screen(s) => solid::screen(&self.snapshot, s, &mut answer),
             Statement::Saturation(s) => solid::saturation(&self.snapshot, s, &mut answer),
             Statement::Ceiling(s) => solid::ceiling(&self.snapshot, s, &mut answer),
-            Statement::HeatOfSolution(s) => solid::heat(&self.snapshot, s, &mut answer),
+            Statement::HeatOfSolution(s) => heat::heat(&self.snapshot, s, &mut answer),
             Statement::DissolvedGas(s) => gas::dissolved(&self.snapshot, s, &mut answer),
             Statement::Freezing(s) => solid::freezing(&self.snapshot, s, &mut answer),
             Statement::Convert(s) => solid::convert(&self.snapshot, s, &mut answer),

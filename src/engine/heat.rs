@@ -242,6 +242,11 @@ pub fn heat(snap: &Snapshot, s: &HeatOfSolution, answer: &mut Answer) -> Result<
             },
             round_significant(c.expected_error, 2)
         ));
+        if c.expected_error > c.kj_per_mol.abs() {
+            answer.caveat(
+                "the cycle's expected error is larger than its sum, so it cannot tell the sign here: trust the tables or the curve",
+            );
+        }
         let used: Vec<&ThermoValue> = c
             .lattice
             .used

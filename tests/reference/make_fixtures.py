@@ -120,6 +120,7 @@ def main():
         with open(os.path.join(HERE, name), "w", encoding="utf-8") as f:
             json.dump(data, f, indent=1, ensure_ascii=False)
             f.write("\n")
+    __import__("fixtures_thermochemistry").write_all()
 
 
 if __name__ == "__main__":

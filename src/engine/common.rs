@@ -28,7 +28,8 @@ impl From<CurveBasis> for Basis {
 
 /// Kelvin to °C, rounded to 0.01 K (the precision of the inversions).
 pub fn celsius(t_k: f64) -> f64 {
-    ((t_k - 273.15) * 100.0).round() / 100.0
+    // `+ 0.0` turns a rounded −0 into 0, so nothing prints as `-0 C`.
+    ((t_k - 273.15) * 100.0).round() / 100.0 + 0.0
 }
 
 /// A composition value for an answer, rounded to [`VALUE_DIGITS`].

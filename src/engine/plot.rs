@@ -40,6 +40,12 @@ fn tenth(t_c: f64) -> f64 {
     (t_c * 10.0).round() / 10.0
 }
 
+/// A temperature for curve ends and transitions, to 0.01 °C (as every other answer gives
+/// a transition), never `-0`.
+fn hundredth(t_c: f64) -> f64 {
+    (t_c * 100.0).round() / 100.0 + 0.0
+}
+
 /// The sample temperatures over [t0, t1], K: an even grid plus every `extra` inside it.
 fn grid(t0: f64, t1: f64, extra: impl IntoIterator<Item = f64>) -> Vec<f64> {
     let mut g: Vec<f64> = (0..=SAMPLES)
@@ -351,8 +357,8 @@ fn solids(
                 }),
                 phase: Some(phase.clone()),
                 extra: [
-                    ("from_c".to_string(), json!(tenth(from))),
-                    ("to_c".to_string(), json!(tenth(to))),
+                    ("from_c".to_string(), json!(hundredth(from))),
+                    ("to_c".to_string(), json!(hundredth(to))),
                     ("points".to_string(), json!(tabulated)),
                     ("dashed".to_string(), json!(dashed)),
                 ]
@@ -385,14 +391,14 @@ fn solids(
                     "{} → {} at {} C",
                     transition.below,
                     transition.above,
-                    crate::output::number::display(tenth(t_c))
+                    crate::output::number::display(hundredth(t_c))
                 ),
                 colour,
             });
             rows.push(Row {
                 solute: Some(solute.name.clone()),
                 quantity: Some("transition".into()),
-                value: Some(tenth(t_c)),
+                value: Some(hundredth(t_c)),
                 unit: Some("C".into()),
                 basis: Some(Basis::Computed),
                 phase: Some(format!("{} → {}", transition.below, transition.above)),

@@ -50,10 +50,22 @@ pub fn lookup(snap: &Snapshot, s: &Solubility, answer: &mut Answer) -> Result<()
         temperature_c: Some(celsius(s.temperature.kelvin())),
         ..Row::default()
     });
-    basis_caveat(basis, answer);
+    if basis == Basis::Extrapolated && !s.options.extrapolate {
+        stable_range_caveat(answer);
+    } else {
+        basis_caveat(basis, answer);
+    }
     phase_caveat(&evaluation.phase, answer);
     cite_curve(snap, built, solute, answer);
     Ok(())
+}
+
+/// The caveat for a value between a solid's last tabulated point and the end of its
+/// stable range (its transition), where the branch follows its end tangent.
+fn stable_range_caveat(answer: &mut Answer) {
+    answer.caveat(
+        "between the last tabulated point and the end of the solid's stable range (its transition) the branch follows its end tangent: treat with care",
+    );
 }
 
 /// Headroom in percent, to 0.1 %.
@@ -230,8 +242,9 @@ pub fn require(snap: &Snapshot, s: &Require, answer: &mut Answer) -> Result<(), 
     let w = loading_mass_fraction(&s.loading, solute)?;
     let (t1, t2) = bounds(&s.temperatures);
     let margin = s.margin.map_or(0.0, |m| m.percent / 100.0);
-    let screening = stays_dissolved(&built.curve, w, t1, t2, margin)
-        .map_err(|e| curve_error(e, solute, s.temperatures.span()))?;
+    let screening =
+        solve::stays_dissolved_with(&built.curve, w, t1, t2, margin, s.options.extrapolate)
+            .map_err(|e| curve_error(e, solute, s.temperatures.span()))?;
     let saturated = in_unit(
         screening.limiting_mass_fraction,
         s.loading.unit,
@@ -278,7 +291,7 @@ pub fn saturation(snap: &Snapshot, s: &Saturation, answer: &mut Answer) -> Resul
     let solute = resolve(snap, &s.solute)?;
     let built = curve_of(snap, solute, &s.solute, &s.options)?;
     let w = loading_mass_fraction(&s.loading, solute)?;
-    let crossings = solve::saturation_temperatures(&built.curve, w)
+    let crossings = solve::saturation_temperatures_with(&built.curve, w, s.options.extrapolate)
         .map_err(|e| curve_error(e, solute, s.loading.span))?;
     let unit = s.unit.map_or(TemperatureUnit::Celsius, |u| u.unit);
     for crossing in &crossings {
@@ -286,7 +299,7 @@ pub fn saturation(snap: &Snapshot, s: &Saturation, answer: &mut Answer) -> Resul
         answer.rows.push(Row {
             solute: Some(solute.name.clone()),
             quantity: Some("saturation temperature".into()),
-            value: Some((t * 100.0).round() / 100.0),
+            value: Some((t * 100.0).round() / 100.0 + 0.0),
             unit: Some(unit.symbol().into()),
             basis: Some(Basis::Computed),
             phase: Some(crossing.phase.clone()),
@@ -303,6 +316,13 @@ pub fn saturation(snap: &Snapshot, s: &Saturation, answer: &mut Answer) -> Resul
             ..Row::default()
         });
         phase_caveat(&crossing.phase, answer);
+        if crossing.basis == crate::science::curve::Basis::Extrapolated {
+            if s.options.extrapolate {
+                basis_caveat(Basis::Extrapolated, answer);
+            } else {
+                stable_range_caveat(answer);
+            }
+        }
     }
     if crossings.is_empty() {
         let (lo, hi) = built.curve.temperature_range();
@@ -332,7 +352,7 @@ pub fn ceiling(snap: &Snapshot, s: &Ceiling, answer: &mut Answer) -> Result<(), 
     let built = curve_of(snap, solute, &s.solute, &s.options)?;
     let (t1, t2) = bounds(&s.temperatures);
     let margin = s.margin.map_or(0.0, |m| m.percent / 100.0);
-    let ceiling = solve::ceiling(&built.curve, t1, t2, margin)
+    let ceiling = solve::ceiling_with(&built.curve, t1, t2, margin, s.options.extrapolate)
         .map_err(|e| curve_error(e, solute, s.temperatures.span()))?;
     let unit = s
         .unit
@@ -415,7 +435,7 @@ pub fn freezing(snap: &Snapshot, s: &Freezing, answer: &mut Answer) -> Result<()
     let data = snap.catalog.freezing_of(&solute.id).into_iter().next();
     let curve = snap.curve(&solute.id, s.options.reviewed_only);
     let unit = s.unit.map_or(TemperatureUnit::Celsius, |u| u.unit);
-    let shown = |t_k: f64| (unit.from_kelvin(t_k) * 100.0).round() / 100.0;
+    let shown = |t_k: f64| (unit.from_kelvin(t_k) * 100.0).round() / 100.0 + 0.0;
     let ice_basis = |b: IceBasis| match b {
         IceBasis::Tabulated => Basis::Tabulated,
         IceBasis::Interpolated => Basis::Interpolated,

@@ -181,6 +181,10 @@ pub struct Branch {
     /// Formula of the solid phase, e.g. `Na2SO4·10H2O`.
     pub phase: String,
     interpolant: Pchip,
+    /// Where the solid is the stable phase (K), when the data say so; the branch then
+    /// covers that range too, following its end tangents between the last point and the
+    /// range's end (basis `Extrapolated`).
+    stable: Option<(f64, f64)>,
 }
 
 impl Branch {
@@ -217,17 +221,43 @@ impl Branch {
         Ok(Self {
             phase: phase.into(),
             interpolant,
+            stable: None,
         })
     }
 
-    /// Builds a branch from a dataset's canonical points.
+    /// The branch with the temperatures (K) over which its solid is the stable phase
+    /// (a dataset's `stable_range`). Where the stable range is known the branch is the
+    /// stable one inside it and is not used outside it; a range that does not hold every
+    /// point is refused.
+    pub fn with_stable_range(mut self, low_k: f64, high_k: f64) -> Result<Self, ScienceError> {
+        let (lo, hi) = self.interpolant.range();
+        if !(low_k.is_finite() && high_k.is_finite()) || low_k > lo + 1e-9 || high_k < hi - 1e-9 {
+            return Err(ScienceError::BadRange {
+                t1_k: low_k,
+                t2_k: high_k,
+            });
+        }
+        self.stable = Some((low_k, high_k));
+        Ok(self)
+    }
+
+    /// The stable range (K), when known.
+    pub fn stable_range(&self) -> Option<(f64, f64)> {
+        self.stable
+    }
+
+    /// Builds a branch from a dataset's canonical points (and its stable range).
     pub fn from_dataset(dataset: &crate::model::Dataset) -> Result<Self, ScienceError> {
         let points: Vec<(f64, f64)> = dataset
             .points
             .iter()
             .map(|p| (p.temperature_k, p.mass_fraction))
             .collect();
-        Self::new(dataset.phase.formula.clone(), &points)
+        let branch = Self::new(dataset.phase.formula.clone(), &points)?;
+        match dataset.stable_range_k {
+            Some((lo, hi)) => branch.with_stable_range(lo, hi),
+            None => Ok(branch),
+        }
     }
 
     /// Tabulated temperatures, K.
@@ -240,15 +270,30 @@ impl Branch {
         self.interpolant.values()
     }
 
-    /// (lowest, highest) tabulated temperature, K.
+    /// (lowest, highest) temperature the branch covers, K: its tabulated range, widened
+    /// to its stable range where that is known.
     pub fn range(&self) -> (f64, f64) {
+        let (lo, hi) = self.interpolant.range();
+        match self.stable {
+            Some((a, b)) => (a.min(lo), b.max(hi)),
+            None => (lo, hi),
+        }
+    }
+
+    /// (lowest, highest) tabulated temperature, K.
+    pub fn tabulated_range(&self) -> (f64, f64) {
         self.interpolant.range()
     }
 
-    /// True when `t_k` lies within the tabulated range.
+    /// True when `t_k` lies within the covered range (see [`Branch::range`]).
     pub fn covers(&self, t_k: f64) -> bool {
         let (lo, hi) = self.range();
         t_k >= lo && t_k <= hi
+    }
+
+    /// True when the branch's stable range is known and holds `t_k`.
+    fn stable_at(&self, t_k: f64) -> bool {
+        self.stable.is_some_and(|(a, b)| t_k >= a && t_k <= b)
     }
 
     /// Mass fraction and dw/dT (1/K) at `t_k`, with no range check: outside the range the
@@ -259,7 +304,8 @@ impl Branch {
     }
 
     fn basis_at(&self, t_k: f64) -> Basis {
-        if !self.covers(t_k) {
+        let (lo, hi) = self.tabulated_range();
+        if t_k < lo || t_k > hi {
             Basis::Extrapolated
         } else if self.knots().iter().any(|k| (k - t_k).abs() <= 1e-9) {
             Basis::Tabulated
@@ -395,13 +441,20 @@ impl Curve {
         self.branches.iter().any(|b| b.covers(t_k))
     }
 
-    /// The stable branch at `t_k`, among the branches covering it, or — where none does —
-    /// among all branches, by their end-tangent extrapolation.
+    /// The stable branch at `t_k`: a branch whose known stable range holds `t_k` (the
+    /// lower of two where ranges meet at a transition); else the lowest among the branches
+    /// covering it; or — where none does — the lowest among all branches, by their
+    /// end-tangent extrapolation. A branch whose stable range is known is never chosen
+    /// outside it while another branch covers `t_k`.
     fn stable(&self, t_k: f64) -> (usize, f64, f64) {
         let covering = self.covers(t_k);
+        let declared = self.branches.iter().any(|b| b.stable_at(t_k));
         let mut best: Option<(usize, f64, f64)> = None;
         for (i, b) in self.branches.iter().enumerate() {
             if covering && !b.covers(t_k) {
+                continue;
+            }
+            if declared && !b.stable_at(t_k) {
                 continue;
             }
             let (w, d) = b.value_unchecked(t_k);
@@ -504,8 +557,19 @@ impl Curve {
                     hi = mid;
                 }
             }
+            let mut t_k = 0.5 * (lo + hi);
+            // Where a stable range says where the phase changes, that is the temperature.
+            for b in [&self.branches[ia], &self.branches[self.stable(hi).0]] {
+                if let Some((a, z)) = b.stable {
+                    for end in [a, z] {
+                        if (end - t_k).abs() < 1e-3 {
+                            t_k = end;
+                        }
+                    }
+                }
+            }
             out.push(Transition {
-                t_k: 0.5 * (lo + hi),
+                t_k,
                 below: self.branches[ia].phase.clone(),
                 above: self.branches[self.stable(hi).0].phase.clone(),
             });

@@ -96,10 +96,19 @@ pub fn saturation_temperatures_with(
     let mut out: Vec<Crossing> = Vec::new();
     let mut push = |t: f64, rising: bool| {
         if out.last().is_none_or(|c| (c.t_k - t).abs() > 0.005) {
-            let (phase, basis) = curve
+            // The solid that crystallises: the stable one on the side where the loading
+            // is above the curve (the same on both sides, except at a transition the
+            // loading crosses in the curve's step there).
+            let side = if rising { t - 1e-6 } else { t + 1e-6 };
+            let phase = curve
+                .evaluate(side, true)
+                .or_else(|_| curve.evaluate(t, true))
+                .map(|e| e.phase)
+                .unwrap_or_default();
+            let basis = curve
                 .evaluate(t, true)
-                .map(|e| (e.phase, e.basis))
-                .unwrap_or((String::new(), Basis::Extrapolated));
+                .map(|e| e.basis)
+                .unwrap_or(Basis::Extrapolated);
             out.push(Crossing {
                 t_k: t,
                 phase,
@@ -190,16 +199,13 @@ pub fn minimum(
         });
     }
     // Every end of a branch inside the range: a side of it without data is a gap.
-    let mut uncovered = None;
-    for t in [t1_k, t2_k] {
-        if !curve.covers(t) {
-            uncovered = Some(t);
-        }
-    }
+    // The first temperature without data is the one an error names: an end of the range
+    // before a gap inside it.
+    let mut uncovered = [t1_k, t2_k].into_iter().find(|&t| !curve.covers(t));
     for b in &curve.branches {
         let (lo, hi) = b.range();
         for t in [lo - 1e-9, hi + 1e-9] {
-            if t > t1_k && t < t2_k && !curve.covers(t) {
+            if uncovered.is_none() && t > t1_k && t < t2_k && !curve.covers(t) {
                 uncovered = Some(t);
             }
         }

@@ -1,335 +1,17 @@
-//! Seed loading: parses the TOML files of `seed-data/` (format in `seed-data/README.md`),
-//! validates every record, converts reported values to the canonical forms (kelvin, mass
-//! fraction of the anhydrous solute) and writes everything in one transaction.
-//!
-//! Validation stops at the first bad record and names the file, the record and the reason;
-//! because parsing finishes before the transaction starts, and the transaction rolls back on
-//! drop, nothing partial is ever written.
-//!
-//! The liquid-range rule for a point of a solubility dataset in water, kept simple on
-//! purpose:
-//! - below −55 °C (218.15 K) a point is refused outright: no seed solution stays liquid there;
-//! - where the solute has `[freezing]` data, a point is refused when it lies more than
-//!   [`FREEZING_TOLERANCE_K`] below the eutectic, or below the tabulated freezing point of a
-//!   solution of the same composition (the ice line), since such a solution would be frozen;
-//! - above 100 °C (373.15 K) a point is refused unless the dataset's `note` mentions
-//!   pressure (any word starting `pressur`, e.g. "measured in a pressurised cell"), since
-//!   water boils at 100 °C under one atmosphere.
-//!
-//! The same range (with the same pressure exception in `note`) bounds the temperatures of
-//! Henry's-law records; freezing points must lie between −55 °C and 0 °C.
+//! Validation: every seed record checked and converted to the records the store keeps
+//! (kelvin, mass fraction of the anhydrous solute), each fault naming the file and record.
 
 use std::collections::{HashMap, HashSet};
 
-use rusqlite::{Connection, params};
-use serde::Deserialize;
-use sha2::{Digest, Sha256};
-
-use super::read::{Contents, FreezingRecord, Pair};
-use super::{StoreError, now_utc, write};
+use super::super::StoreError;
+use super::super::read::{Contents, FreezingRecord, Pair};
+use super::format::*;
+use super::*;
 use crate::model::{
-    Dataset, FreezingData, GasConstant, GasLaw, Phase, Point, Provenance, Review, Solute,
-    SoluteKind, Source, SourceKind,
+    Dataset, FreezingData, GasConstant, GasLaw, Phase, Point, Solute, SoluteKind, Source,
 };
 use crate::science::formula::{parse_formula, water_molar_mass};
 use crate::science::units::{CompositionUnit, TemperatureUnit};
-
-/// Lowest temperature of a liquid point in seed data: −55 °C.
-pub const LOWEST_LIQUID_K: f64 = 218.15;
-/// Boiling point of water at one atmosphere: 100 °C.
-pub const BOILING_K: f64 = 373.15;
-/// Melting point of ice: 0 °C.
-pub const ICE_K: f64 = 273.15;
-/// How far below the ice line or eutectic a point may lie before it is refused. Sources
-/// round and disagree by a few tenths of a kelvin; a whole kelvin is a clear fault.
-pub const FREEZING_TOLERANCE_K: f64 = 1.0;
-
-/// Composition units accepted in seed datasets (seed-data/README.md).
-const SEED_UNITS: [CompositionUnit; 5] = [
-    CompositionUnit::GramsPer100gWater,
-    CompositionUnit::MassPercent,
-    CompositionUnit::MassFraction,
-    CompositionUnit::Molality,
-    CompositionUnit::MoleFraction,
-];
-
-/// Conventions accepted for a `vant-hoff` Henry's-law record (seed-data/README.md).
-pub const HENRY_CONVENTIONS: [&str; 5] = [
-    "Hcp mol/(m3 Pa)",
-    "Hcp mol/(L atm)",
-    "KH atm",
-    "KH bar",
-    "Hcc",
-];
-
-/// Why a seed record was refused. Each variant's doc comment shows an input that triggers it.
-#[derive(Debug, Clone, PartialEq, thiserror::Error)]
-#[non_exhaustive]
-pub enum SeedProblem {
-    /// Not valid TOML, or a field missing, misspelt or of the wrong type, e.g.
-    /// `kind = "salty"` or a solute file without `formula`.
-    #[error("{message}")]
-    Syntax { message: String },
-
-    /// The seed has no `sources.toml`.
-    #[error("the seed has no sources.toml")]
-    MissingSources,
-
-    /// A `.toml` file outside the layout, e.g. `notes/extra.toml`.
-    #[error(
-        "not a seed file: expected sources.toml, solutes/<id>.toml or thermochemistry/<name>.toml"
-    )]
-    UnexpectedFile,
-
-    /// A dataset names a source that `sources.toml` lacks, e.g. `source = "crc-98"`.
-    #[error("unknown source key \"{key}\" (not in sources.toml)")]
-    UnknownSource { key: String },
-
-    /// A unit satline does not know, e.g. `unit = "furlongs"` or `temperature_unit = "R"`.
-    #[error("unknown unit \"{unit}\"; expected one of {expected}")]
-    UnknownUnit { unit: String, expected: String },
-
-    /// A per-volume unit in a dataset, e.g. `unit = "g/L"`: it needs a density.
-    #[error(
-        "unit \"{unit}\" is per volume of solution and needs a density; seed datasets use g/100g water, %w/w, w, mol/kg or x"
-    )]
-    VolumeUnit { unit: String },
-
-    /// The same id twice, e.g. two `[[dataset]]` tables with `key = "crc-97"` in one file,
-    /// two sources with one key, or a synonym that another solute uses as its name.
-    #[error("duplicate {what} \"{id}\"")]
-    Duplicate { what: String, id: String },
-
-    /// A formula that does not parse, e.g. `formula = "KN(O3"`.
-    #[error("malformed formula \"{formula}\": {reason}")]
-    MalformedFormula { formula: String, reason: String },
-
-    /// A temperature where the solution cannot be liquid, e.g. the point `[120, 40.0]` in °C
-    /// with no note of pressure, or `[-60, 10.0]`.
-    #[error("temperature {temperature} {unit} is outside the liquid range: {reason}")]
-    TemperatureOutOfRange {
-        temperature: f64,
-        unit: String,
-        reason: String,
-    },
-
-    /// A value that is not a number, e.g. `points = [[20, "high"]]`.
-    #[error("{what} is not a number: found {found}")]
-    NotNumeric { what: String, found: String },
-
-    /// A point of the wrong shape, e.g. `points = [[20]]` or `points = [20, 31.6]`.
-    #[error("expected {expected}; found {found}")]
-    MalformedPoint { expected: String, found: String },
-
-    /// A solute whose `id` differs from its file name, e.g. `id = "saltpetre"` in
-    /// `solutes/potassium-nitrate.toml`.
-    #[error("id \"{id}\" does not match the file name (expected \"{expected}\")")]
-    IdMismatch { id: String, expected: String },
-
-    /// Points out of order, e.g. `points = [[20, 31.6], [10, 20.9]]`.
-    #[error("{what} must ascend: {current} follows {previous}")]
-    NotAscending {
-        what: String,
-        previous: f64,
-        current: f64,
-    },
-
-    /// A key or id that is not a slug, e.g. `id = "Potassium Nitrate"`.
-    #[error("\"{id}\" is not a valid key: use lower-case letters, digits and '-'")]
-    BadKey { id: String },
-
-    /// A number that cannot be what it claims, e.g. a value of `-3.0`, `120` in `%w/w`, a
-    /// Henry's-law record on a salt, or a salt without `ions`.
-    #[error("{reason}")]
-    BadValue { reason: String },
-}
-
-/// What a seed load wrote.
-#[derive(Debug, Clone, PartialEq, Eq)]
-pub struct SeedSummary {
-    pub sources: usize,
-    pub solutes: usize,
-    pub datasets: usize,
-    pub points: usize,
-    pub gas_constants: usize,
-    pub freezing: usize,
-    /// [`fingerprint`] of the seed files.
-    pub fingerprint: String,
-}
-
-/// A SHA-256 over the seed files (each path and contents, length-prefixed, in path order),
-/// as lower-case hex. Identifies the seed a database was built from.
-pub fn fingerprint<P: AsRef<str>, C: AsRef<str>>(files: &[(P, C)]) -> String {
-    let mut sorted: Vec<(&str, &str)> = files
-        .iter()
-        .map(|(p, c)| (p.as_ref(), c.as_ref()))
-        .collect();
-    sorted.sort();
-    let mut hasher = Sha256::new();
-    for (path, contents) in sorted {
-        for part in [path, contents] {
-            hasher.update((part.len() as u64).to_le_bytes());
-            hasher.update(part.as_bytes());
-        }
-    }
-    hex(&hasher.finalize())
-}
-
-pub(crate) fn hex(bytes: &[u8]) -> String {
-    use std::fmt::Write as _;
-    let mut out = String::with_capacity(bytes.len() * 2);
-    for b in bytes {
-        let _ = write!(out, "{b:02x}");
-    }
-    out
-}
-
-/// Reads a seed directory from disk as (path relative to `dir`, contents) pairs, every
-/// `*.toml` file at any depth, in path order.
-pub fn read_seed_dir(dir: &std::path::Path) -> Result<Vec<(String, String)>, StoreError> {
-    fn walk(
-        root: &std::path::Path,
-        dir: &std::path::Path,
-        out: &mut Vec<(String, String)>,
-    ) -> Result<(), StoreError> {
-        let io = |source| StoreError::Io {
-            path: dir.to_path_buf(),
-            source,
-        };
-        let mut entries: Vec<_> = std::fs::read_dir(dir)
-            .map_err(io)?
-            .collect::<Result<_, _>>()
-            .map_err(io)?;
-        entries.sort_by_key(|e| e.path());
-        for entry in entries {
-            let path = entry.path();
-            if path.is_dir() {
-                walk(root, &path, out)?;
-            } else if path.extension().and_then(|e| e.to_str()) == Some("toml") {
-                let text = std::fs::read_to_string(&path).map_err(|source| StoreError::Io {
-                    path: path.clone(),
-                    source,
-                })?;
-                let rel = path
-                    .strip_prefix(root)
-                    .unwrap_or(&path)
-                    .to_string_lossy()
-                    .replace('\\', "/");
-                out.push((rel, text));
-            }
-        }
-        Ok(())
-    }
-    let mut out = Vec::new();
-    walk(dir, dir, &mut out)?;
-    Ok(out)
-}
-
-// ---------------------------------------------------------------------------------------
-// The TOML shapes, as written in seed-data/README.md. Unknown fields are refused so a
-// misspelt field is reported rather than silently dropped.
-
-#[derive(Deserialize)]
-#[serde(deny_unknown_fields)]
-struct SourcesFile {
-    #[serde(default)]
-    source: Vec<RawSource>,
-}
-
-#[derive(Deserialize)]
-#[serde(deny_unknown_fields)]
-struct RawSource {
-    key: String,
-    kind: SourceKind,
-    title: String,
-    authors: String,
-    publisher: Option<String>,
-    edition: Option<String>,
-    year: Option<i32>,
-    locator: Option<String>,
-    doi: Option<String>,
-    isbn: Option<String>,
-    url: Option<String>,
-    note: Option<String>,
-}
-
-#[derive(Deserialize)]
-#[serde(deny_unknown_fields)]
-struct RawSolute {
-    id: String,
-    name: String,
-    formula: String,
-    kind: SoluteKind,
-    #[serde(default)]
-    synonyms: Vec<String>,
-    #[serde(default)]
-    tags: Vec<String>,
-    cation: Option<String>,
-    anion: Option<String>,
-    ions: Option<u32>,
-    hazard: Option<String>,
-    #[serde(default)]
-    dataset: Vec<RawDataset>,
-    #[serde(default)]
-    henry: Vec<RawHenry>,
-    freezing: Option<RawFreezing>,
-}
-
-#[derive(Deserialize)]
-#[serde(deny_unknown_fields)]
-struct RawDataset {
-    key: String,
-    source: String,
-    phase: String,
-    phase_name: String,
-    unit: String,
-    temperature_unit: String,
-    provenance: Provenance,
-    review: Review,
-    note: Option<String>,
-    points: Vec<toml::Value>,
-    stable_range: Option<toml::Value>,
-    /// Written by `satline export` for a retired dataset; absent means not retired.
-    #[serde(default)]
-    retired: bool,
-}
-
-#[derive(Deserialize)]
-#[serde(deny_unknown_fields)]
-struct RawHenry {
-    key: String,
-    source: String,
-    provenance: Provenance,
-    review: Review,
-    form: String,
-    note: Option<String>,
-    convention: Option<String>,
-    value: Option<f64>,
-    reference_temperature_k: Option<f64>,
-    temperature_term_k: Option<f64>,
-    a: Option<f64>,
-    b: Option<f64>,
-    c: Option<f64>,
-    d: Option<f64>,
-    scale_k: Option<f64>,
-    reference_pressure_pa: Option<f64>,
-    t_min_k: Option<f64>,
-    t_max_k: Option<f64>,
-}
-
-#[derive(Deserialize)]
-#[serde(deny_unknown_fields)]
-struct RawFreezing {
-    key: String,
-    source: String,
-    provenance: Provenance,
-    review: Review,
-    unit: String,
-    temperature_unit: String,
-    points: Vec<toml::Value>,
-    eutectic: Option<toml::Value>,
-    note: Option<String>,
-}
 
 // ---------------------------------------------------------------------------------------
 
@@ -360,13 +42,13 @@ pub(crate) fn syntax(file: &str, text: &str, e: &toml::de::Error) -> StoreError 
     )
 }
 
-fn is_slug(s: &str) -> bool {
+pub(super) fn is_slug(s: &str) -> bool {
     !s.is_empty()
         && s.bytes()
             .all(|b| b.is_ascii_lowercase() || b.is_ascii_digit() || b == b'-')
 }
 
-fn check_slug(file: &str, record: &str, id: &str) -> Result<(), StoreError> {
+pub(super) fn check_slug(file: &str, record: &str, id: &str) -> Result<(), StoreError> {
     if is_slug(id) {
         Ok(())
     } else {
@@ -379,11 +61,11 @@ fn check_slug(file: &str, record: &str, id: &str) -> Result<(), StoreError> {
 }
 
 /// An empty optional text means "not given".
-fn optional(s: Option<String>) -> Option<String> {
+pub(super) fn optional(s: Option<String>) -> Option<String> {
     s.filter(|s| !s.trim().is_empty())
 }
 
-fn notes_pressure(note: Option<&str>) -> bool {
+pub(super) fn notes_pressure(note: Option<&str>) -> bool {
     note.is_some_and(|n| n.to_lowercase().contains("pressur"))
 }
 
@@ -408,7 +90,11 @@ pub fn to_mass_fraction(unit: CompositionUnit, value: f64, molar_mass: f64) -> O
     }
 }
 
-fn composition_unit(file: &str, record: &str, unit: &str) -> Result<CompositionUnit, StoreError> {
+pub(super) fn composition_unit(
+    file: &str,
+    record: &str,
+    unit: &str,
+) -> Result<CompositionUnit, StoreError> {
     match CompositionUnit::from_symbol(unit) {
         Some(u) if u.needs_density() => Err(problem(
             file,
@@ -433,7 +119,11 @@ fn composition_unit(file: &str, record: &str, unit: &str) -> Result<CompositionU
     }
 }
 
-fn temperature_unit(file: &str, record: &str, unit: &str) -> Result<TemperatureUnit, StoreError> {
+pub(super) fn temperature_unit(
+    file: &str,
+    record: &str,
+    unit: &str,
+) -> Result<TemperatureUnit, StoreError> {
     TemperatureUnit::from_symbol(unit).ok_or_else(|| {
         problem(
             file,
@@ -446,7 +136,12 @@ fn temperature_unit(file: &str, record: &str, unit: &str) -> Result<TemperatureU
     })
 }
 
-fn number(file: &str, record: &str, what: &str, v: &toml::Value) -> Result<f64, StoreError> {
+pub(super) fn number(
+    file: &str,
+    record: &str,
+    what: &str,
+    v: &toml::Value,
+) -> Result<f64, StoreError> {
     let n = match v {
         toml::Value::Integer(i) => *i as f64,
         toml::Value::Float(f) => *f,
@@ -476,7 +171,7 @@ fn number(file: &str, record: &str, what: &str, v: &toml::Value) -> Result<f64, 
 }
 
 /// Splits a `[a, b]` or `[a, b, c]` array into numbers.
-fn tuple(
+pub(super) fn tuple(
     file: &str,
     record: &str,
     names: &[&str],
@@ -516,7 +211,7 @@ fn tuple(
         .collect()
 }
 
-fn out_of_range(
+pub(super) fn out_of_range(
     file: &str,
     record: &str,
     temperature: f64,
@@ -535,7 +230,7 @@ fn out_of_range(
 }
 
 /// The general liquid-range rule: −55 °C to 100 °C, or above 100 °C with a note of pressure.
-fn check_liquid(
+pub(super) fn check_liquid(
     file: &str,
     record: &str,
     reported: f64,
@@ -564,7 +259,7 @@ fn check_liquid(
     Ok(())
 }
 
-fn check_mass_fraction(
+pub(super) fn check_mass_fraction(
     file: &str,
     record: &str,
     value: f64,
@@ -587,7 +282,7 @@ fn check_mass_fraction(
 }
 
 /// Linear interpolation of the ice line at mass fraction `w`; `None` outside the table.
-fn ice_line_at(points: &[(f64, f64)], w: f64) -> Option<f64> {
+pub(super) fn ice_line_at(points: &[(f64, f64)], w: f64) -> Option<f64> {
     points.windows(2).find_map(|pair| {
         let ((w0, t0), (w1, t1)) = (pair[0], pair[1]);
         (w0 <= w && w <= w1 && w1 > w0).then(|| t0 + (t1 - t0) * (w - w0) / (w1 - w0))
@@ -595,15 +290,15 @@ fn ice_line_at(points: &[(f64, f64)], w: f64) -> Option<f64> {
 }
 
 /// Everything one solute file holds, validated.
-struct SoluteParts {
-    file: String,
-    solute: Solute,
-    datasets: Vec<Dataset>,
-    gas_constants: Vec<GasConstant>,
-    freezing: Option<FreezingRecord>,
+pub(super) struct SoluteParts {
+    pub(super) file: String,
+    pub(super) solute: Solute,
+    pub(super) datasets: Vec<Dataset>,
+    pub(super) gas_constants: Vec<GasConstant>,
+    pub(super) freezing: Option<FreezingRecord>,
 }
 
-fn parse_sources(file: &str, text: &str) -> Result<Vec<Source>, StoreError> {
+pub(super) fn parse_sources(file: &str, text: &str) -> Result<Vec<Source>, StoreError> {
     let raw: SourcesFile = toml::from_str(text).map_err(|e| syntax(file, text, &e))?;
     let mut seen = HashSet::new();
     let mut out = Vec::with_capacity(raw.source.len());
@@ -638,7 +333,7 @@ fn parse_sources(file: &str, text: &str) -> Result<Vec<Source>, StoreError> {
     Ok(out)
 }
 
-fn parse_solute(
+pub(super) fn parse_solute(
     file: &str,
     stem: &str,
     text: &str,
@@ -915,7 +610,7 @@ fn parse_solute(
     })
 }
 
-fn check_frozen(
+pub(super) fn check_frozen(
     file: &str,
     record: &str,
     t: f64,
@@ -958,7 +653,7 @@ fn check_frozen(
     Ok(())
 }
 
-fn parse_freezing(
+pub(super) fn parse_freezing(
     file: &str,
     solute: &str,
     molar_mass: f64,
@@ -1043,7 +738,7 @@ fn parse_freezing(
     })
 }
 
-fn parse_henry(
+pub(super) fn parse_henry(
     file: &str,
     record: &str,
     solute: &str,
@@ -1213,7 +908,7 @@ pub fn parse_with_known_sources<P: AsRef<str>, C: AsRef<str>>(
         {
             solute_files.push((path, stem, text));
         } else if let Some(stem) = path
-            .strip_prefix(super::thermo_seed::FOLDER)
+            .strip_prefix(crate::store::thermo_seed::FOLDER)
             .and_then(|rest| rest.strip_suffix(".toml"))
             .filter(|stem| !stem.contains('/'))
         {
@@ -1278,7 +973,13 @@ pub fn parse_with_known_sources<P: AsRef<str>, C: AsRef<str>>(
     let mut thermochemistry = crate::model::thermo::Thermochemistry::default();
     thermo_files.sort();
     for (path, stem, text) in thermo_files {
-        super::thermo_seed::parse_file(path, stem, text, &source_keys, &mut thermochemistry)?;
+        crate::store::thermo_seed::parse_file(
+            path,
+            stem,
+            text,
+            &source_keys,
+            &mut thermochemistry,
+        )?;
     }
     let mut contents = Contents {
         sources,
@@ -1293,265 +994,4 @@ pub fn parse_with_known_sources<P: AsRef<str>, C: AsRef<str>>(
     }
     contents.sort();
     Ok(contents)
-}
-
-/// Writes validated contents into an empty database in one transaction, with the seed's
-/// fingerprint in the metadata and one audit row.
-pub(crate) fn write(
-    conn: &mut Connection,
-    contents: &Contents,
-    fingerprint: &str,
-    files: usize,
-) -> Result<SeedSummary, StoreError> {
-    // Dropping `tx` without commit (on any `?` below) rolls everything back.
-    let tx = conn.transaction()?;
-    {
-        for s in &contents.sources {
-            write::upsert_source(&tx, s)?;
-        }
-        for s in &contents.solutes {
-            write::upsert_solute(&tx, s)?;
-        }
-        for d in &contents.datasets {
-            write::replace_dataset(&tx, d, &mut || {})?;
-        }
-        for g in &contents.gas_constants {
-            write::replace_gas_constant(&tx, g)?;
-        }
-        for f in &contents.freezing {
-            write::replace_freezing(&tx, f)?;
-        }
-        super::thermo_rows::write(&tx, &contents.thermochemistry)?;
-
-        let mut set_meta = tx.prepare_cached(
-            "INSERT INTO metadata (key, value) VALUES (?1, ?2)
-             ON CONFLICT (key) DO UPDATE SET value = excluded.value",
-        )?;
-        set_meta.execute(params!["seed_fingerprint", fingerprint])?;
-        set_meta.execute(params![
-            "built_by",
-            concat!("satline ", env!("CARGO_PKG_VERSION"))
-        ])?;
-        set_meta.execute(params!["built_at", now_utc()])?;
-
-        let after = serde_json::json!({
-            "files": files,
-            "fingerprint": fingerprint,
-            "sources": contents.sources.len(),
-            "solutes": contents.solutes.len(),
-            "datasets": contents.datasets.len(),
-        });
-        tx.execute(
-            "INSERT INTO audit (time, actor, action, entity, before, after) VALUES (?1, ?2, ?3, ?4, NULL, ?5)",
-            params![now_utc(), "seed", "load-seed", "seed", after.to_string()],
-        )?;
-    }
-    tx.commit()?;
-    Ok(SeedSummary {
-        sources: contents.sources.len(),
-        solutes: contents.solutes.len(),
-        datasets: contents.datasets.len(),
-        points: contents.datasets.iter().map(|d| d.points.len()).sum(),
-        gas_constants: contents.gas_constants.len(),
-        freezing: contents.freezing.len(),
-        fingerprint: fingerprint.to_string(),
-    })
-}
-
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    // Invented demo data for unit tests: not reference values.
-    const SOURCES: &str = r#"
-[[source]]
-key = "demo"
-kind = "other"
-title = "Invented demo data"
-authors = "nobody"
-"#;
-
-    fn solute(points: &str) -> String {
-        format!(
-            r#"
-id = "demo-salt"
-name = "demo salt"
-formula = "KCl"
-kind = "salt"
-ions = 2
-[[dataset]]
-key = "d"
-source = "demo"
-phase = "KCl"
-phase_name = "anhydrous"
-unit = "g/100g water"
-temperature_unit = "C"
-provenance = "derived"
-review = "unreviewed"
-points = {points}
-"#
-        )
-    }
-
-    fn parse(points: &str) -> Result<Contents, StoreError> {
-        let text = solute(points);
-        parse_seed(&[
-            ("sources.toml", SOURCES),
-            ("solutes/demo-salt.toml", text.as_str()),
-        ])
-    }
-
-    #[test]
-    fn conversions_follow_the_unit_definitions() {
-        let m = 100.0;
-        assert_eq!(
-            to_mass_fraction(CompositionUnit::GramsPer100gWater, 25.0, m),
-            Some(0.2)
-        );
-        assert_eq!(
-            to_mass_fraction(CompositionUnit::MassPercent, 20.0, m),
-            Some(0.2)
-        );
-        assert_eq!(
-            to_mass_fraction(CompositionUnit::MassFraction, 0.2, m),
-            Some(0.2)
-        );
-        // 2.5 mol/kg of M = 100 g/mol: 250 g in 1000 g water -> 250/1250.
-        assert_eq!(
-            to_mass_fraction(CompositionUnit::Molality, 2.5, m),
-            Some(0.2)
-        );
-        // x = 0.5 with M = M_w: equal masses.
-        let w = to_mass_fraction(CompositionUnit::MoleFraction, 0.5, water_molar_mass()).unwrap();
-        assert!((w - 0.5).abs() < 1e-12);
-        assert_eq!(
-            to_mass_fraction(CompositionUnit::GramsPerLitre, 1.0, m),
-            None
-        );
-    }
-
-    #[test]
-    fn a_good_file_parses() {
-        let c = parse("[[0, 10.0], [20, 25]]").unwrap();
-        assert_eq!(c.datasets[0].points[1].mass_fraction, 0.2);
-        assert_eq!(c.datasets[0].points[1].temperature_k, 293.15);
-    }
-
-    #[test]
-    fn a_point_above_boiling_needs_a_note_of_pressure() {
-        let err = parse("[[20, 10.0], [120, 25]]").unwrap_err();
-        assert!(err.to_string().contains("point 2"), "{err}");
-        assert!(err.to_string().contains("water boils"), "{err}");
-    }
-
-    #[test]
-    fn a_point_of_the_wrong_shape_is_refused() {
-        let err = parse("[[20]]").unwrap_err();
-        assert!(
-            err.to_string().contains("expected [temperature, value]"),
-            "{err}"
-        );
-    }
-
-    fn reason(result: Result<Contents, StoreError>) -> String {
-        result.unwrap_err().to_string()
-    }
-
-    #[test]
-    fn solute_files_need_a_sources_file() {
-        let text = solute("[[0, 1.0]]");
-        let message = reason(parse_seed(&[("solutes/demo-salt.toml", text.as_str())]));
-        assert_eq!(
-            message,
-            "seed file sources.toml, whole file: the seed has no sources.toml"
-        );
-        // No files at all is an empty reference.
-        assert_eq!(parse_seed::<&str, &str>(&[]).unwrap(), Contents::default());
-    }
-
-    #[test]
-    fn a_file_outside_the_layout_is_refused() {
-        let message = reason(parse_seed(&[
-            ("sources.toml", SOURCES),
-            ("notes/extra.toml", ""),
-        ]));
-        assert!(message.starts_with("seed file notes/extra.toml, whole file: not a seed file"));
-    }
-
-    #[test]
-    fn a_key_that_is_not_a_slug_is_refused() {
-        let text = solute("[[0, 1.0]]").replace("key = \"d\"", "key = \"Crc 97\"");
-        let message = reason(parse_seed(&[
-            ("sources.toml", SOURCES),
-            ("solutes/demo-salt.toml", text.as_str()),
-        ]));
-        assert!(
-            message.contains("dataset \"Crc 97\": \"Crc 97\" is not a valid key"),
-            "{message}"
-        );
-    }
-
-    #[test]
-    fn impossible_values_are_refused() {
-        let message = reason(parse("[[0, -3.0]]"));
-        assert!(
-            message.contains("point 1: -3 g/100g water is not a possible composition"),
-            "{message}"
-        );
-        let text = solute("[[0, 120]]").replace("g/100g water", "%w/w");
-        let message = reason(parse_seed(&[
-            ("sources.toml", SOURCES),
-            ("solutes/demo-salt.toml", text.as_str()),
-        ]));
-        assert!(
-            message.contains("120 %w/w is not a possible composition"),
-            "{message}"
-        );
-        let text = solute("[[0, 1.0]]").replace("ions = 2\n", "");
-        let message = reason(parse_seed(&[
-            ("sources.toml", SOURCES),
-            ("solutes/demo-salt.toml", text.as_str()),
-        ]));
-        assert!(message.contains("a salt needs `ions`"), "{message}");
-        let text = format!(
-            "{}\n[[henry]]\nkey = \"h\"\nsource = \"demo\"\nprovenance = \"derived\"\nreview = \"unreviewed\"\nform = \"vant-hoff\"\nconvention = \"Hcc\"\nvalue = 1.0\nreference_temperature_k = 298.15\ntemperature_term_k = 0\n",
-            solute("[[0, 1.0]]")
-        );
-        let message = reason(parse_seed(&[
-            ("sources.toml", SOURCES),
-            ("solutes/demo-salt.toml", text.as_str()),
-        ]));
-        assert!(
-            message.contains("henry \"h\": Henry's-law records belong to gases"),
-            "{message}"
-        );
-    }
-
-    #[test]
-    fn a_hydrate_formula_for_the_solute_is_refused() {
-        let text = solute("[[0, 1.0]]").replace("formula = \"KCl\"", "formula = \"KCl·2H2O\"");
-        let message = reason(parse_seed(&[
-            ("sources.toml", SOURCES),
-            ("solutes/demo-salt.toml", text.as_str()),
-        ]));
-        assert!(
-            message.contains("includes water of crystallisation"),
-            "{message}"
-        );
-    }
-
-    #[test]
-    fn ice_line_interpolates_inside_the_table_only() {
-        let pts = [(0.0, 273.15), (0.1, 263.15)];
-        assert_eq!(ice_line_at(&pts, 0.05), Some(268.15));
-        assert_eq!(ice_line_at(&pts, 0.2), None);
-    }
-
-    #[test]
-    fn fingerprint_ignores_file_order_but_not_contents() {
-        let a = fingerprint(&[("a", "1"), ("b", "2")]);
-        assert_eq!(a, fingerprint(&[("b", "2"), ("a", "1")]));
-        assert_ne!(a, fingerprint(&[("a", "1"), ("b", "3")]));
-        assert_eq!(a.len(), 64);
-    }
 }

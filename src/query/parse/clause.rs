@@ -1,0 +1,240 @@
+//! Clauses: solute names, classes and `with` filters, and the optional clauses that close a
+//! statement (`in`, `margin`, `extrapolate`, `reviewed only`).
+
+use nom::{Err as NomErr, Parser, combinator::cut, error::context};
+
+use super::super::ast::*;
+use super::super::error::ParseErrorKind;
+use super::super::lexicon::{ends_name, is_keyword, nearest, one_of};
+use super::plumbing::*;
+use super::quantity::*;
+use crate::science::units::{CompositionUnit, TemperatureUnit};
+
+// ---------------------------------------------------------------------------------------
+// names, classes, filters
+
+pub(super) fn ends_as_number(word: &str) -> bool {
+    if !starts_number(word) {
+        return false;
+    }
+    // `2-propanol` and `1,2-ethanediol` are names; `20`, `20C` are not.
+    match number_text(word) {
+        Ok((rest, _)) => !(rest.starts_with('-') || rest.starts_with(',')),
+        Err(_) => true,
+    }
+}
+
+/// A name of one or more words; it ends where a keyword or a number begins. A word close to
+/// one of `followers` and followed by a number or a keyword is taken for a misspelt
+/// follower (`KNO3 att 20 C`), not for part of the name.
+pub(super) fn name<'a>(cx: Cx<'a>, i: &'a str, followers: &[&'static str]) -> R<'a, Name> {
+    let begin = skip(i);
+    let mut words: Vec<&str> = Vec::new();
+    let mut rest = begin;
+    loop {
+        let t = skip(rest);
+        let (word, after) = next_word(t);
+        if word.is_empty() || ends_name(word) || ends_as_number(word) {
+            break;
+        }
+        if !words.is_empty() && word.chars().count() >= 2 {
+            if let Some(meant) = nearest(word, followers) {
+                let next = skip(after);
+                let (next_word_text, _) = next_word(next);
+                if starts_number(next) || is_keyword(next_word_text) {
+                    return Err(failure(
+                        ParseErrorKind::Expected {
+                            expected: one_of(followers),
+                            found: Some(shorten(word)),
+                            suggestion: Some(meant.to_string()),
+                        },
+                        cx.span(t, after),
+                    ));
+                }
+            }
+        }
+        words.push(word);
+        rest = after;
+    }
+    if words.is_empty() {
+        return Err(soft(begin));
+    }
+    Ok((
+        rest,
+        Name {
+            text: words.join(" "),
+            span: cx.span(begin, rest),
+        },
+    ))
+}
+
+pub(super) const SOLUTE: &str =
+    "a solute such as `KNO3`, `potassium-nitrate` or `potassium nitrate`";
+
+pub(super) fn solute<'a>(cx: Cx<'a>, i: &'a str, followers: &[&'static str]) -> R<'a, Name> {
+    cut(context(SOLUTE, |x| name(cx, x, followers))).parse(i)
+}
+
+pub(super) fn class<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, SoluteClass> {
+    let t = skip(i);
+    let (word, after) = next_word(t);
+    match word.to_lowercase().as_str() {
+        "salts" | "salt" => Ok((after, SoluteClass::Salts)),
+        "solutes" | "solute" => Ok((after, SoluteClass::Solutes)),
+        "gases" | "gas" => Ok((after, SoluteClass::Gases)),
+        "molecular" => {
+            let (rest, _) = expect(cx, after, &["solutes", "solute"])?;
+            Ok((rest, SoluteClass::MolecularSolutes))
+        }
+        _ => Err(expected_here(
+            cx,
+            t,
+            "`salts`, `solutes`, `gases` or `molecular solutes`".into(),
+            &["salts", "solutes", "gases", "molecular"],
+        )),
+    }
+}
+
+/// `with cation potassium and anion nitrate ...`; nothing when no `with` follows.
+pub(super) fn filters<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Vec<Filter>> {
+    let Some(mut rest) = has_keyword(i, "with") else {
+        return Ok((i, Vec::new()));
+    };
+    let mut found = Vec::new();
+    loop {
+        let (after, which) = expect(cx, rest, &["cation", "anion", "tag", "element", "source"])?;
+        let (after, value) = cut(context("a value such as `sulfate`", |x| {
+            name(cx, x, &["and"])
+        }))
+        .parse(after)?;
+        found.push(match which.to_lowercase().as_str() {
+            "cation" => Filter::Cation(value),
+            "anion" => Filter::Anion(value),
+            "tag" => Filter::Tag(value),
+            "element" => Filter::Element(value),
+            _ => Filter::Source(value),
+        });
+        match has_keyword(after, "and") {
+            Some(next) => rest = next,
+            None => return Ok((after, found)),
+        }
+    }
+}
+
+// ---------------------------------------------------------------------------------------
+// the clauses that close a statement
+
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub(super) enum Clause {
+    InComposition,
+    InTemperature,
+    Margin,
+    Extrapolate,
+    ReviewedOnly,
+}
+
+#[derive(Default)]
+pub(super) struct Tail {
+    pub(super) composition: Option<UnitChoice<CompositionUnit>>,
+    pub(super) temperature: Option<UnitChoice<TemperatureUnit>>,
+    pub(super) margin: Option<Margin>,
+    pub(super) options: Options,
+}
+
+pub(super) fn duplicate(cx: Cx, t: &str, after: &str, clause: &str) -> NomErr<PErr> {
+    failure(
+        ParseErrorKind::DuplicateClause {
+            clause: clause.to_string(),
+        },
+        cx.span(t, after),
+    )
+}
+
+/// The optional clauses, in any order, then the end of the statement. `earlier` names
+/// optional words that could have stood before (for the message and the suggestion only).
+pub(super) fn tail<'a>(
+    cx: Cx<'a>,
+    i: &'a str,
+    allowed: &[Clause],
+    earlier: &[&'static str],
+) -> R<'a, Tail> {
+    let mut out = Tail::default();
+    let mut rest = i;
+    loop {
+        let t = skip(rest);
+        if t.is_empty() {
+            return Ok((t, out));
+        }
+        let (word, after) = next_word(t);
+        let word = word.to_lowercase();
+        let allows = |c: Clause| allowed.contains(&c);
+        if word == "in" && allows(Clause::InComposition) {
+            if out.composition.is_some() {
+                return Err(duplicate(cx, t, after, "in"));
+            }
+            let (r, unit) = composition_unit(cx, after)?;
+            out.composition = Some(unit);
+            rest = r;
+        } else if word == "in" && allows(Clause::InTemperature) {
+            if out.temperature.is_some() {
+                return Err(duplicate(cx, t, after, "in"));
+            }
+            let (r, unit) = temperature_unit(cx, after)?;
+            out.temperature = Some(unit);
+            rest = r;
+        } else if word == "margin" && allows(Clause::Margin) {
+            if out.margin.is_some() {
+                return Err(duplicate(cx, t, after, "margin"));
+            }
+            let (r, m) =
+                cut(context(ValueKind::Margin.example(), |x| margin(cx, x))).parse(after)?;
+            out.margin = Some(m);
+            rest = r;
+        } else if word == "extrapolate" && allows(Clause::Extrapolate) {
+            if out.options.extrapolate {
+                return Err(duplicate(cx, t, after, "extrapolate"));
+            }
+            out.options.extrapolate = true;
+            rest = after;
+        } else if word == "reviewed" && allows(Clause::ReviewedOnly) {
+            let (r, _) = expect(cx, after, &["only"])?;
+            if out.options.reviewed_only {
+                return Err(duplicate(cx, t, r, "reviewed only"));
+            }
+            out.options.reviewed_only = true;
+            rest = r;
+        } else {
+            let mut words: Vec<&'static str> = earlier.to_vec();
+            for clause in allowed {
+                words.push(match clause {
+                    Clause::InComposition | Clause::InTemperature => "in",
+                    Clause::Margin => "margin",
+                    Clause::Extrapolate => "extrapolate",
+                    Clause::ReviewedOnly => "reviewed",
+                });
+            }
+            words.dedup();
+            let shown: Vec<&str> = words
+                .iter()
+                .map(|w| {
+                    if *w == "reviewed" {
+                        "reviewed only"
+                    } else {
+                        *w
+                    }
+                })
+                .collect();
+            let expected = if shown.is_empty() {
+                "the end of the statement".to_string()
+            } else {
+                format!(
+                    "{} or the end of the statement",
+                    one_of(&shown).replace(" or ", ", ")
+                )
+            };
+            return Err(expected_here(cx, t, expected, &words));
+        }
+    }
+}
+
+pub(super) const DATA: [Clause; 2] = [Clause::Extrapolate, Clause::ReviewedOnly];

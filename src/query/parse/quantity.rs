@@ -1,0 +1,548 @@
+//! Quantities: numbers with units, names bound by `let`, and the one generic rule that reads
+//! a temperature, a loading or a pressure; units after `in`; temperature ranges.
+
+use nom::{
+    Err as NomErr, Parser,
+    branch::alt,
+    character::complete::{char, digit0, digit1, one_of as one_char_of},
+    combinator::{cut, opt, recognize},
+    error::context,
+};
+
+use super::super::ast::*;
+use super::super::error::ParseErrorKind;
+use super::super::lexicon::{is_keyword, nearest, unit_symbols};
+use super::plumbing::*;
+use crate::science::units::{CompositionUnit, PressureUnit, TemperatureUnit};
+
+// ---------------------------------------------------------------------------------------
+// numbers and units
+
+pub(super) fn starts_number(t: &str) -> bool {
+    let s = t.strip_prefix(['+', '-', '−']).unwrap_or(t);
+    let s = s.strip_prefix('.').unwrap_or(s);
+    s.starts_with(|c: char| c.is_ascii_digit())
+}
+
+pub(super) fn number_text(i: &str) -> R<'_, &str> {
+    recognize((
+        // U+2212, the minus sign of typeset tables, is accepted for `-`.
+        opt(one_char_of("+-−")),
+        alt((
+            recognize((digit1, opt((char('.'), digit0)))),
+            recognize((char('.'), digit1)),
+        )),
+        opt((one_char_of("eE"), opt(one_char_of("+-")), digit1)),
+    ))
+    .parse(i)
+}
+
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub(super) enum AnyUnit {
+    Temperature(TemperatureUnit),
+    Composition(CompositionUnit),
+    Pressure(PressureUnit),
+}
+
+impl AnyUnit {
+    pub(super) fn kind(self) -> ValueKind {
+        match self {
+            AnyUnit::Temperature(_) => ValueKind::Temperature,
+            AnyUnit::Composition(_) => ValueKind::Loading,
+            AnyUnit::Pressure(_) => ValueKind::Pressure,
+        }
+    }
+}
+
+/// A unit symbol through the shared vocabulary of `science::units`.
+pub(super) fn classify(symbol: &str) -> Option<AnyUnit> {
+    TemperatureUnit::from_symbol(symbol)
+        .map(AnyUnit::Temperature)
+        .or_else(|| PressureUnit::from_symbol(symbol).map(AnyUnit::Pressure))
+        .or_else(|| CompositionUnit::from_symbol(symbol).map(AnyUnit::Composition))
+}
+
+pub(super) struct UnitMatch {
+    pub(super) unit: AnyUnit,
+    /// Bytes of the input the unit took, blanks before it included.
+    pub(super) used: usize,
+    /// The unit's words joined by one space (`g/100g water`).
+    pub(super) written: String,
+}
+
+/// The longest run of up to three words at `i` that is a unit symbol.
+pub(super) fn unit_at(i: &str) -> Option<UnitMatch> {
+    let mut words: Vec<(&str, usize)> = Vec::new();
+    let mut rest = i;
+    while words.len() < 3 {
+        let (word, after) = next_word(rest);
+        if word.is_empty() {
+            break;
+        }
+        words.push((word, i.len() - after.len()));
+        rest = after;
+    }
+    (1..=words.len()).rev().find_map(|n| {
+        let written = words[..n]
+            .iter()
+            .map(|(w, _)| *w)
+            .collect::<Vec<_>>()
+            .join(" ");
+        classify(&written).map(|unit| UnitMatch {
+            unit,
+            used: words[n - 1].1,
+            written,
+        })
+    })
+}
+
+/// The closest unit symbol, preferring the kind the statement wants there.
+pub(super) fn suggest_unit(word: &str, after_word: &str, expected: ValueKind) -> Option<String> {
+    let (second, _) = next_word(after_word);
+    let two_words = format!("{word} {second}");
+    [Some(expected), None].into_iter().find_map(|kind| {
+        let symbols = unit_symbols(kind);
+        // Units keep their case (`M` is mol/L, `m` mol/kg): `MOL/KG` is a slip of case.
+        let same_letters = symbols
+            .iter()
+            .find(|s| s.eq_ignore_ascii_case(word))
+            .copied();
+        same_letters
+            .or_else(|| nearest(word, &symbols))
+            .or_else(|| {
+                (!second.is_empty())
+                    .then(|| nearest(&two_words, &symbols))
+                    .flatten()
+            })
+            .map(str::to_string)
+    })
+}
+
+/// A unit nobody knows at `i`, or a missing one after `number`.
+pub(super) fn unit_fault(
+    cx: Cx,
+    number_start: &str,
+    after_number: &str,
+    expected: ValueKind,
+) -> NomErr<PErr> {
+    let t = skip(after_number);
+    let (word, after) = next_word(t);
+    let number = number_start[..number_start.len() - after_number.len()].to_string();
+    if after_number.starts_with(',') && word.len() > 1 && starts_number(&word[1..]) {
+        // `1,5 mol/kg`: a decimal comma.
+        return failure(
+            ParseErrorKind::Expected {
+                expected: "a number with a decimal point, such as `1.5`".into(),
+                found: Some(shorten(&format!("{number}{word}"))),
+                suggestion: Some(format!("{number}.{}", &word[1..])),
+            },
+            cx.span(number_start, after),
+        );
+    }
+    if word.is_empty() || is_keyword(word) {
+        failure(
+            ParseErrorKind::MissingUnit { expected, number },
+            cx.span(number_start, after_number),
+        )
+    } else {
+        failure(
+            ParseErrorKind::UnknownUnit {
+                expected,
+                found: shorten(word),
+                suggestion: suggest_unit(word, after, expected),
+            },
+            cx.span(t, after),
+        )
+    }
+}
+
+pub(super) struct Quantity {
+    pub(super) value: f64,
+    pub(super) unit: AnyUnit,
+    pub(super) span: Span,
+    pub(super) text: String,
+}
+
+/// A number and its unit. A soft error when no number stands here.
+pub(super) fn quantity<'a>(cx: Cx<'a>, i: &'a str, expected: ValueKind) -> R<'a, Quantity> {
+    let t = skip(i);
+    if !starts_number(t) {
+        return Err(soft(t));
+    }
+    let (after, number) = number_text(t)?;
+    let value = match number.replace('−', "-").parse::<f64>() {
+        Ok(v) if v.is_finite() => v,
+        _ => {
+            return Err(failure(
+                ParseErrorKind::InvalidNumber {
+                    found: shorten(number),
+                },
+                cx.span(t, after),
+            ));
+        }
+    };
+    let Some(found) = unit_at(after) else {
+        return Err(unit_fault(cx, t, after, expected));
+    };
+    let rest = &after[found.used..];
+    let text = shorten(&t[..t.len() - rest.len()]);
+    Ok((
+        rest,
+        Quantity {
+            value,
+            unit: found.unit,
+            span: cx.span(t, rest),
+            text,
+        },
+    ))
+}
+
+pub(super) fn is_name_of_own(word: &str) -> bool {
+    let mut chars = word.chars();
+    chars.next().is_some_and(|c| c.is_alphabetic() || c == '_')
+        && chars.all(|c| c.is_alphanumeric() || c == '_' || c == '-')
+}
+
+/// A name bound by `let`, resolved. A soft error when no such word stands here.
+pub(super) fn resolve<'a>(cx: Cx<'a>, i: &'a str, expected: ValueKind) -> R<'a, (String, Value)> {
+    let t = skip(i);
+    let (word, after) = next_word(t);
+    // Keywords and unit symbols can never be bound, so they are never "unbound names".
+    if !is_name_of_own(word) || is_keyword(word) || classify(word).is_some() {
+        return Err(soft(t));
+    }
+    let span = cx.span(t, after);
+    match cx.env.get(word) {
+        Some(value) => Ok((after, (word.to_string(), value.at(span)))),
+        None => {
+            let names: Vec<&str> = cx.env.names().collect();
+            Err(failure(
+                ParseErrorKind::UnboundName {
+                    expected,
+                    name: shorten(word),
+                    suggestion: nearest(word, &names).map(str::to_string),
+                },
+                span,
+            ))
+        }
+    }
+}
+
+pub(super) fn mismatch(
+    expected: ValueKind,
+    name: String,
+    bound: ValueKind,
+    span: Span,
+) -> NomErr<PErr> {
+    failure(
+        ParseErrorKind::NameKindMismatch {
+            expected,
+            name,
+            bound,
+        },
+        span,
+    )
+}
+
+pub(super) fn wrong_quantity(expected: ValueKind, q: &Quantity) -> NomErr<PErr> {
+    failure(
+        ParseErrorKind::WrongQuantity {
+            expected,
+            found: q.text.clone(),
+            found_kind: q.unit.kind(),
+        },
+        q.span,
+    )
+}
+
+pub(super) fn checked_temperature(
+    q: &Quantity,
+    unit: TemperatureUnit,
+) -> Result<Temperature, NomErr<PErr>> {
+    let t = Temperature {
+        value: q.value,
+        unit,
+        span: q.span,
+    };
+    if t.kelvin() < 0.0 {
+        Err(failure(
+            ParseErrorKind::BelowAbsoluteZero {
+                found: q.text.clone(),
+            },
+            q.span,
+        ))
+    } else {
+        Ok(t)
+    }
+}
+
+pub(super) fn negative(q: &Quantity) -> NomErr<PErr> {
+    failure(
+        ParseErrorKind::NegativeAmount {
+            found: q.text.clone(),
+        },
+        q.span,
+    )
+}
+
+/// What the generic quantity rule needs to know of a temperature, a loading or a pressure:
+/// its kind, how a written quantity becomes one (or why it cannot), and how a bound value is
+/// taken back out of a `let`.
+pub(super) trait Measured: Sized {
+    const KIND: ValueKind;
+    fn from_quantity(q: &Quantity) -> Result<Self, NomErr<PErr>>;
+    fn from_value(value: Value) -> Option<Self>;
+}
+
+impl Measured for Temperature {
+    const KIND: ValueKind = ValueKind::Temperature;
+    fn from_quantity(q: &Quantity) -> Result<Self, NomErr<PErr>> {
+        match q.unit {
+            AnyUnit::Temperature(unit) => checked_temperature(q, unit),
+            _ => Err(wrong_quantity(Self::KIND, q)),
+        }
+    }
+    fn from_value(value: Value) -> Option<Self> {
+        match value {
+            Value::Temperature(v) => Some(v),
+            _ => None,
+        }
+    }
+}
+
+impl Measured for Loading {
+    const KIND: ValueKind = ValueKind::Loading;
+    fn from_quantity(q: &Quantity) -> Result<Self, NomErr<PErr>> {
+        match q.unit {
+            AnyUnit::Composition(_) if q.value < 0.0 => Err(negative(q)),
+            AnyUnit::Composition(unit) => Ok(Loading {
+                value: q.value,
+                unit,
+                span: q.span,
+            }),
+            _ => Err(wrong_quantity(Self::KIND, q)),
+        }
+    }
+    fn from_value(value: Value) -> Option<Self> {
+        match value {
+            Value::Loading(v) => Some(v),
+            _ => None,
+        }
+    }
+}
+
+impl Measured for Pressure {
+    const KIND: ValueKind = ValueKind::Pressure;
+    fn from_quantity(q: &Quantity) -> Result<Self, NomErr<PErr>> {
+        match q.unit {
+            AnyUnit::Pressure(_) if q.value < 0.0 => Err(negative(q)),
+            AnyUnit::Pressure(unit) => Ok(Pressure {
+                value: q.value,
+                unit,
+                span: q.span,
+            }),
+            _ => Err(wrong_quantity(Self::KIND, q)),
+        }
+    }
+    fn from_value(value: Value) -> Option<Self> {
+        match value {
+            Value::Pressure(v) => Some(v),
+            _ => None,
+        }
+    }
+}
+
+/// The one quantity rule: a number with a unit of the kind `T` wants, or a name bound by
+/// `let` to a value of that kind.
+pub(super) fn measured<'a, T: Measured>(cx: Cx<'a>, i: &'a str) -> R<'a, T> {
+    let t = skip(i);
+    if starts_number(t) {
+        let (rest, q) = quantity(cx, t, T::KIND)?;
+        return Ok((rest, T::from_quantity(&q)?));
+    }
+    let (rest, (name, value)) = resolve(cx, t, T::KIND)?;
+    let bound = value.kind();
+    match T::from_value(value) {
+        Some(v) => Ok((rest, v)),
+        None => Err(mismatch(T::KIND, name, bound, cx.span(t, rest))),
+    }
+}
+
+pub(super) fn temperature<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Temperature> {
+    measured(cx, i)
+}
+
+pub(super) fn loading<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Loading> {
+    measured(cx, i)
+}
+
+pub(super) fn pressure<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Pressure> {
+    measured(cx, i)
+}
+
+pub(super) fn margin<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Margin> {
+    let t = skip(i);
+    if !starts_number(t) {
+        return Err(soft(t));
+    }
+    let (rest, q) = quantity(cx, t, ValueKind::Margin)?;
+    let written_percent = unit_at(&t[number_text(t).map_or(0, |(r, _)| t.len() - r.len())..])
+        .is_some_and(|m| m.written == "%");
+    if !written_percent {
+        return Err(wrong_quantity(ValueKind::Margin, &q));
+    }
+    if !(0.0..100.0).contains(&q.value) {
+        return Err(failure(
+            ParseErrorKind::MarginOutOfRange { found: q.text },
+            q.span,
+        ));
+    }
+    Ok((
+        rest,
+        Margin {
+            percent: q.value,
+            span: q.span,
+        },
+    ))
+}
+
+/// A unit after `in` or `to`.
+pub(super) fn unit_choice<'a>(
+    cx: Cx<'a>,
+    i: &'a str,
+    expected: ValueKind,
+) -> R<'a, (AnyUnit, Span, String)> {
+    let t = skip(i);
+    if let Some(m) = unit_at(t) {
+        let rest = &t[m.used..];
+        return Ok((rest, (m.unit, cx.span(t, rest), m.written)));
+    }
+    let (word, after) = next_word(t);
+    if word.is_empty() || is_keyword(word) {
+        return Err(soft(t));
+    }
+    Err(failure(
+        ParseErrorKind::UnknownUnit {
+            expected,
+            found: shorten(word),
+            suggestion: suggest_unit(word, after, expected),
+        },
+        cx.span(t, after),
+    ))
+}
+
+/// A unit after `in` that must be of the kind `kind`; `pick` takes it out of `AnyUnit`.
+fn unit_of_kind<'a, U>(
+    cx: Cx<'a>,
+    i: &'a str,
+    kind: ValueKind,
+    pick: fn(AnyUnit) -> Option<U>,
+) -> R<'a, UnitChoice<U>> {
+    let (rest, (unit, span, written)) =
+        cut(context(kind.unit_example(), |x| unit_choice(cx, x, kind))).parse(i)?;
+    match pick(unit) {
+        Some(unit) => Ok((rest, UnitChoice { unit, span })),
+        None => Err(failure(
+            ParseErrorKind::WrongUnit {
+                expected: kind,
+                found: written,
+                found_kind: unit.kind(),
+            },
+            span,
+        )),
+    }
+}
+
+pub(super) fn composition_unit<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, UnitChoice<CompositionUnit>> {
+    unit_of_kind(cx, i, ValueKind::Loading, |u| match u {
+        AnyUnit::Composition(unit) => Some(unit),
+        _ => None,
+    })
+}
+
+pub(super) fn temperature_unit<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, UnitChoice<TemperatureUnit>> {
+    unit_of_kind(cx, i, ValueKind::Temperature, |u| match u {
+        AnyUnit::Temperature(unit) => Some(unit),
+        _ => None,
+    })
+}
+
+// ---------------------------------------------------------------------------------------
+// temperatures
+
+/// `from T1 to T2`, `from` included.
+pub(super) fn range_from<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, TemperatureRange> {
+    let begin = skip(i);
+    let (rest, _) = expect(cx, begin, &["from"])?;
+    let (rest, low) = committed_temperature(cx, rest)?;
+    let (rest, _) = expect(cx, rest, &["to"])?;
+    let (rest, high) = committed_temperature(cx, rest)?;
+    let span = cx.span(begin, rest);
+    if low.kelvin() > high.kelvin() {
+        return Err(failure(
+            ParseErrorKind::ReversedRange {
+                low: cx.text(low.span),
+                high: cx.text(high.span),
+            },
+            span,
+        ));
+    }
+    Ok((rest, TemperatureRange { low, high, span }))
+}
+
+pub(super) fn committed_temperature<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Temperature> {
+    cut(context(ValueKind::Temperature.example(), |x| {
+        temperature(cx, x)
+    }))
+    .parse(i)
+}
+
+/// After `at` or `over`: a temperature, or a name bound to a temperature or a range.
+pub(super) fn point_or_range<'a>(
+    cx: Cx<'a>,
+    i: &'a str,
+    expected: ValueKind,
+) -> R<'a, Temperatures> {
+    let t = skip(i);
+    if starts_number(t) {
+        let (rest, temperature) = temperature(cx, t)?;
+        return Ok((rest, Temperatures::At(temperature)));
+    }
+    match resolve(cx, t, expected)? {
+        (rest, (_, Value::Temperature(v))) => Ok((rest, Temperatures::At(v))),
+        (rest, (_, Value::Range(r))) => Ok((rest, Temperatures::Range(r))),
+        (rest, (name, other)) => Err(mismatch(expected, name, other.kind(), cx.span(t, rest))),
+    }
+}
+
+/// `at T`, `from T1 to T2`, `over NAME` (or `over from T1 to T2`).
+pub(super) fn temperatures<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Temperatures> {
+    const WHAT: &str = "a temperature or a range, as in `at 5 C`, `from 2 C to 8 C` or `over cold`";
+    let t = skip(i);
+    if has_keyword(t, "from").is_some() {
+        let (rest, range) = range_from(cx, t)?;
+        return Ok((rest, Temperatures::Range(range)));
+    }
+    if let Some(rest) = has_keyword(t, "at") {
+        return cut(context(WHAT, |x| {
+            point_or_range(cx, x, ValueKind::Temperature)
+        }))
+        .parse(rest);
+    }
+    if let Some(rest) = has_keyword(t, "over") {
+        if has_keyword(rest, "from").is_some() {
+            let (rest, range) = range_from(cx, rest)?;
+            return Ok((rest, Temperatures::Range(range)));
+        }
+        return cut(context(WHAT, |x| {
+            point_or_range(cx, x, ValueKind::TemperatureRange)
+        }))
+        .parse(rest);
+    }
+    Err(expected_here(
+        cx,
+        t,
+        "`at`, `from` or `over` and a temperature".into(),
+        &["at", "from", "over"],
+    ))
+}

@@ -29,7 +29,7 @@ fn fixture(name: &str) -> Value {
     serde_json::from_str(&std::fs::read_to_string(path).unwrap()).unwrap()
 }
 
-fn rows<'a>(a: &'a Answer, quantity: &str) -> Vec<f64> {
+fn rows(a: &Answer, quantity: &str) -> Vec<f64> {
     a.rows
         .iter()
         .filter(|r| r.quantity.as_deref() == Some(quantity))

@@ -30,8 +30,8 @@ pub const MIGRATIONS: &[Migration] = &[
     },
     Migration {
         version: 3,
-        name: "0004_thermochemistry",
-        sql: include_str!("../../schema/0004_thermochemistry.sql"),
+        name: "0003_thermochemistry",
+        sql: include_str!("../../schema/0003_thermochemistry.sql"),
     },
 ];
 

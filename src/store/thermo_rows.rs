@@ -1,5 +1,5 @@
 //! Writing and reading the thermochemical tables (`thermo_values`,
-//! `laliberte_heat_capacity`, migration 0004). Parameterised SQL only.
+//! `laliberte_heat_capacity`, schema/000N_thermochemistry.sql). Parameterised SQL only.
 
 use rusqlite::{Connection, Transaction, params};
 

@@ -11,6 +11,7 @@ pub mod catalog;
 pub mod engine;
 pub mod error;
 pub mod frontend;
+pub mod librarian;
 pub mod model;
 pub mod output;
 pub mod plot;

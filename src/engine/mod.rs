@@ -165,6 +165,20 @@ impl Engine {
     pub fn solute_names(&self) -> &[String] {
         self.snapshot.names()
     }
+
+    /// The solutes of `class` that pass every filter, by the very rules of the `list`
+    /// statement (`anion phosphate` finds "hydrogen phosphate" too), in catalog order.
+    pub fn select_solutes(
+        &self,
+        class: query::SoluteClass,
+        filters: &[query::Filter],
+    ) -> Vec<&crate::model::Solute> {
+        self.catalog()
+            .solutes()
+            .iter()
+            .filter(|s| records::selects(&self.snapshot, s, class, filters))
+            .collect()
+    }
 }
 
 /// Statements parsed by [`Engine::prepare`], waiting to be answered in order.

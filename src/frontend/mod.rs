@@ -5,9 +5,11 @@
 //! its `command`s (help, output format), `complete` (completion and hints) and `help` texts.
 
 pub mod batch;
+pub mod cli;
 pub mod command;
 pub mod complete;
 pub mod help;
+pub mod librarian;
 pub mod picture;
 pub mod repl;
 

@@ -17,9 +17,10 @@ use super::limits::read_body;
 use super::reply::{self, ApiError, ErrorFields};
 use super::{Shared, auth};
 use crate::engine::Engine;
+use crate::librarian;
+use crate::store::StoreError;
 use crate::store::import::{ImportFile, ImportOptions};
 use crate::store::review::{Decision, Retirement};
-use crate::store::{self, Store, StoreError};
 
 /// `?file=NAME.csv|NAME.toml&dry_run=true&actor=NAME` of `POST /v1/admin/import`: the
 /// file's name says its format as on the command line (`sources.toml`, `<solute-id>.toml`
@@ -157,32 +158,21 @@ pub(crate) async fn import(
             Err(e) => return e.into_response(),
         };
         let planned = tokio::task::spawn_blocking(move || {
-            let store = Store::open_read_only(&path).map_err(store_error)?;
-            store.plan_import(&[file], &options).map_err(store_error)
+            librarian::import(&path, &[file], &options, true, None, &mut |_| {})
+                .map_err(store_error)
         })
         .await;
         return match planned {
-            Ok(Ok(plan)) => {
-                let mut body = plan.to_json();
-                body["dry_run"] = true.into();
-                reply::json(StatusCode::OK, &body)
-            }
+            Ok(Ok(report)) => reply::json(StatusCode::OK, &report.to_json()),
             Ok(Err(e)) => e.into_response(),
             Err(e) => ApiError::internal(format!("the dry run was lost: {e}")).into_response(),
         };
     }
     write_then_reload(&state, move |path| {
-        let mut store = Store::open(path).map_err(store_error)?;
-        let plan = store.plan_import(&[file], &options).map_err(store_error)?;
-        let actor = store::audit::actor(params.actor.as_deref());
-        let summary = store
-            .apply_import(&plan, &actor, &mut || {})
-            .map_err(store_error)?;
-        let mut body = plan.to_json();
-        body["dry_run"] = false.into();
-        body["actor"] = actor.into();
-        body["audit_rows"] = summary.audit_rows.into();
-        Ok(body)
+        let actor = params.actor.as_deref();
+        librarian::import(path, &[file], &options, false, actor, &mut |_| {})
+            .map(|report| report.to_json())
+            .map_err(store_error)
     })
     .await
 }
@@ -231,12 +221,10 @@ pub(crate) async fn review(
         }
     };
     write_then_reload(&state, move |path| {
-        let mut store = Store::open(path).map_err(store_error)?;
-        let actor = store::audit::actor(request.actor.as_deref());
-        store
-            .review(&request.dataset, decision, &request.note, &actor)
-            .map_err(store_error)?;
-        Ok(json!({"dataset": request.dataset, "decision": request.decision, "actor": actor}))
+        let actor = request.actor.as_deref();
+        librarian::review(path, &request.dataset, decision, &request.note, actor)
+            .map(|change| change.to_json(json!({"decision": request.decision})))
+            .map_err(store_error)
     })
     .await
 }
@@ -264,16 +252,10 @@ pub(crate) async fn retire(
         Retirement::Retire
     };
     write_then_reload(&state, move |path| {
-        let mut store = Store::open(path).map_err(store_error)?;
-        let actor = store::audit::actor(request.actor.as_deref());
-        store
-            .set_retired(&request.dataset, change, request.note.as_deref(), &actor)
-            .map_err(store_error)?;
-        Ok(json!({
-            "dataset": request.dataset,
-            "retired": !request.restore,
-            "actor": actor,
-        }))
+        let (note, actor) = (request.note.as_deref(), request.actor.as_deref());
+        librarian::set_retired(path, &request.dataset, change, note, actor)
+            .map(|done| done.to_json(json!({"retired": !request.restore})))
+            .map_err(store_error)
     })
     .await
 }

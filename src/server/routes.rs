@@ -24,7 +24,8 @@ use super::{Shared, auth};
 use crate::answer::{Answer, AnswerKind};
 use crate::catalog::{Catalog, citation};
 use crate::engine::{Engine, Prepared};
-use crate::model::{Solute, SoluteKind, Source};
+use crate::model::{Solute, Source};
+use crate::query::{Filter, Name, SoluteClass, Span};
 
 /// Every route, for the 404 message.
 const ROUTES: &str = "POST /v1/query, GET /v1/solutes, GET /v1/solutes/{name}, GET /v1/sources, \
@@ -298,59 +299,50 @@ fn bad_parameter(message: String) -> ApiError {
 /// The filters of `GET /v1/solutes`; each matches case-insensitively.
 #[derive(Debug, Default)]
 struct Filters {
-    kind: Option<SoluteKind>,
-    tag: Option<String>,
-    cation: Option<String>,
-    anion: Option<String>,
+    class: Option<SoluteClass>,
+    filters: Vec<Filter>,
 }
 
 impl Filters {
+    /// `kind`, `tag`, `cation` and `anion`, each at most once, as the class and filters of
+    /// the `list` statement.
     fn from_pairs(pairs: Vec<(String, String)>) -> Result<Filters, ApiError> {
         let mut f = Filters::default();
+        let mut seen: Vec<String> = Vec::new();
         for (name, value) in pairs {
             let value = value.trim().to_string();
-            let slot = match name.as_str() {
+            if seen.contains(&name) {
+                return Err(bad_parameter(format!("{name} is given twice")));
+            }
+            let as_name = Name {
+                text: value.clone(),
+                span: Span::new(0, 0),
+            };
+            match name.as_str() {
                 "kind" => {
-                    let kind = match value.to_ascii_lowercase().as_str() {
-                        "salt" => SoluteKind::Salt,
-                        "molecular" => SoluteKind::Molecular,
-                        "gas" => SoluteKind::Gas,
+                    f.class = Some(match value.to_ascii_lowercase().as_str() {
+                        "salt" => SoluteClass::Salts,
+                        "molecular" => SoluteClass::MolecularSolutes,
+                        "gas" => SoluteClass::Gases,
                         _ => {
                             return Err(bad_parameter(format!(
                                 "kind must be salt, molecular or gas, not \"{value}\""
                             )));
                         }
-                    };
-                    if f.kind.replace(kind).is_some() {
-                        return Err(bad_parameter("kind is given twice".into()));
-                    }
-                    continue;
+                    });
                 }
-                "tag" => &mut f.tag,
-                "cation" => &mut f.cation,
-                "anion" => &mut f.anion,
+                "tag" => f.filters.push(Filter::Tag(as_name)),
+                "cation" => f.filters.push(Filter::Cation(as_name)),
+                "anion" => f.filters.push(Filter::Anion(as_name)),
                 other => {
                     return Err(bad_parameter(format!(
                         "unknown filter \"{other}\"; the filters are kind, tag, cation, anion"
                     )));
                 }
-            };
-            if slot.replace(value).is_some() {
-                return Err(bad_parameter(format!("{name} is given twice")));
             }
+            seen.push(name);
         }
         Ok(f)
-    }
-
-    fn admits(&self, s: &Solute) -> bool {
-        let same = |want: &Option<String>, have: Option<&str>| match want {
-            None => true,
-            Some(w) => have.is_some_and(|h| h.eq_ignore_ascii_case(w)),
-        };
-        self.kind.is_none_or(|k| k == s.kind)
-            && (self.tag.is_none() || s.tags.iter().any(|t| same(&self.tag, Some(t))))
-            && same(&self.cation, s.cation.as_deref())
-            && same(&self.anion, s.anion.as_deref())
     }
 }
 
@@ -390,10 +382,10 @@ async fn solutes(
     };
     let engine = state.engine();
     let catalog = engine.catalog();
-    let list: Vec<Value> = catalog
-        .solutes()
-        .iter()
-        .filter(|s| filters.admits(s))
+    let class = filters.class.unwrap_or(SoluteClass::Solutes);
+    let list: Vec<Value> = engine
+        .select_solutes(class, &filters.filters)
+        .into_iter()
         .map(|s| solute_summary(catalog, s))
         .collect();
     reply::json(

@@ -388,11 +388,18 @@ pub fn shortfall(rows: &[Row]) -> Option<String> {
 struct Locator<'s> {
     script: &'s str,
     cursor: usize,
+    /// Where the script's lines start, found once: a position is then a binary search, not
+    /// a count from the start of the script (which made a long script quadratic).
+    lines: crate::query::LineIndex,
 }
 
 impl<'s> Locator<'s> {
     fn new(script: &'s str) -> Self {
-        Locator { script, cursor: 0 }
+        Locator {
+            script,
+            cursor: 0,
+            lines: crate::query::LineIndex::new(script),
+        }
     }
 
     /// The 1-based line and column of the answer's statement, if it can be found.
@@ -408,17 +415,8 @@ impl<'s> Locator<'s> {
         let rest = self.script.get(self.cursor..)?;
         let found = self.cursor + rest.find(wanted)?;
         self.cursor = found + wanted.len();
-        Some(line_and_column(self.script, found))
+        Some(self.lines.line_column(self.script, found))
     }
-}
-
-/// The 1-based line and column (in characters) of a byte offset.
-fn line_and_column(text: &str, offset: usize) -> (usize, usize) {
-    let before = text.get(..offset).unwrap_or(text);
-    let line = before.matches('\n').count() + 1;
-    let line_start = before.rfind('\n').map(|i| i + 1).unwrap_or(0);
-    let column = before.get(line_start..).unwrap_or("").chars().count() + 1;
-    (line, column)
 }
 
 #[cfg(test)]
@@ -611,7 +609,9 @@ mod tests {
 
     #[test]
     fn line_and_column_count_characters() {
-        assert_eq!(line_and_column("ab\ncé x", 7), (2, 4));
-        assert_eq!(line_and_column("abc", 0), (1, 1));
+        let text = "ab\ncé x";
+        let index = crate::query::LineIndex::new(text);
+        assert_eq!(index.line_column(text, 7), (2, 4));
+        assert_eq!(index.line_column("abc", 0), (1, 1));
     }
 }

@@ -95,6 +95,13 @@ pub fn heat(snap: &Snapshot, s: &HeatOfSolution, answer: &mut Answer) -> Result<
     };
     let (apparent, apparent_error) = match apparent {
         Ok(kj) => (Some(kj), None),
+        // Beyond liquid water at 1 atm the question itself is out of reach: the tables'
+        // 25 °C values would not answer it.
+        Err(e @ EvalError::OutOfRange { .. })
+            if !(0.0..=100.0).contains(&s.temperature.celsius()) =>
+        {
+            return Err(e);
+        }
         Err(e) => (None, Some(e)),
     };
     let apparent_phase = apparent

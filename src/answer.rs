@@ -8,7 +8,7 @@ use std::collections::BTreeMap;
 use serde::Serialize;
 
 /// What kind of statement an answer belongs to.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, utoipa::ToSchema)]
 #[serde(rename_all = "kebab-case")]
 pub enum AnswerKind {
     Lookup,
@@ -54,7 +54,7 @@ impl AnswerKind {
 }
 
 /// How a number was obtained from the data.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, utoipa::ToSchema)]
 #[serde(rename_all = "kebab-case")]
 pub enum Basis {
     /// A value printed in the source.
@@ -82,7 +82,7 @@ impl Basis {
 }
 
 /// One row of an answer. Fields that do not apply to a kind of answer are absent from JSON.
-#[derive(Debug, Clone, Default, PartialEq, Serialize)]
+#[derive(Debug, Clone, Default, PartialEq, Serialize, utoipa::ToSchema)]
 pub struct Row {
     #[serde(skip_serializing_if = "Option::is_none")]
     pub solute: Option<String>,
@@ -114,14 +114,14 @@ pub struct Row {
 }
 
 /// A source an answer rests on.
-#[derive(Debug, Clone, PartialEq, Eq, Serialize)]
+#[derive(Debug, Clone, PartialEq, Eq, Serialize, utoipa::ToSchema)]
 pub struct SourceRef {
     pub key: String,
     pub citation: String,
 }
 
 /// Where a statement went wrong, ready for any renderer.
-#[derive(Debug, Clone, PartialEq, Eq, Serialize)]
+#[derive(Debug, Clone, PartialEq, Eq, Serialize, utoipa::ToSchema)]
 pub struct ErrorReport {
     /// Which stage failed: `parse` or `evaluate`.
     pub stage: &'static str,
@@ -138,7 +138,7 @@ pub struct ErrorReport {
 }
 
 /// The answer to one statement.
-#[derive(Debug, Clone, PartialEq, Serialize)]
+#[derive(Debug, Clone, PartialEq, Serialize, utoipa::ToSchema)]
 pub struct Answer {
     /// The statement as written.
     pub statement: String,

@@ -417,6 +417,33 @@ async fn drive(client: &Client, addr: SocketAddr) {
         "the solute's points",
     )
     .await;
+    let facts = client
+        .find(Locator::Css("#solute-body dl.facts"))
+        .await
+        .unwrap()
+        .text()
+        .await
+        .unwrap();
+    assert!(
+        facts.contains("KCl") && !facts.contains("[object"),
+        "the record: {facts}"
+    );
+    let overflow = client
+        .execute(
+            "return document.documentElement.scrollWidth - document.documentElement.clientWidth",
+            vec![],
+        )
+        .await
+        .unwrap();
+    assert_eq!(overflow, json!(0), "the solute's page fits the window");
+    let hidden = client
+        .execute(
+            "return document.getElementById('view-ask').offsetParent === null",
+            vec![],
+        )
+        .await
+        .unwrap();
+    assert_eq!(hidden, json!(true), "only the solute's view is shown");
     let (_, _, body) = get(addr, "/v1/solutes/KCl");
     let record: Value = serde_json::from_slice(&body).unwrap();
     let stored: usize = record["datasets"]

@@ -425,7 +425,7 @@
 
   function facts(pairs) {
     return el('dl', { class: 'facts' }, pairs.filter(([, v]) => v !== null && v !== undefined && v !== '' &&
-      !(Array.isArray(v) && v.length === 0)).map(([k, v]) => [el('dt', {}, k), el('dd', {}, v instanceof Node ? v : show(v))]));
+      !(Array.isArray(v) && v.length === 0)).flatMap(([k, v]) => [el('dt', {}, k), el('dd', {}, v instanceof Node ? v : show(v))]));
   }
 
   function stateBadge(review) {

@@ -25,7 +25,8 @@ use crate::store::review::{Decision, Retirement};
 /// `?file=NAME.csv|NAME.toml&dry_run=true&actor=NAME` of `POST /v1/admin/import`: the
 /// file's name says its format as on the command line (`sources.toml`, `<solute-id>.toml`
 /// in the seed format, or a `.csv` of points).
-#[derive(Debug, Deserialize)]
+#[derive(Debug, Deserialize, utoipa::IntoParams)]
+#[into_params(parameter_in = Query)]
 pub(crate) struct ImportParams {
     file: String,
     #[serde(default)]
@@ -34,7 +35,7 @@ pub(crate) struct ImportParams {
 }
 
 /// The JSON body of `POST /v1/admin/review`.
-#[derive(Debug, Deserialize)]
+#[derive(Debug, Deserialize, utoipa::ToSchema)]
 pub(crate) struct ReviewBody {
     dataset: String,
     decision: String,
@@ -43,7 +44,7 @@ pub(crate) struct ReviewBody {
 }
 
 /// The JSON body of `POST /v1/admin/retire`.
-#[derive(Debug, Deserialize)]
+#[derive(Debug, Deserialize, utoipa::ToSchema)]
 pub(crate) struct RetireBody {
     dataset: String,
     #[serde(default)]
@@ -105,6 +106,19 @@ where
 /// `POST /v1/admin/import?file=NAME[&dry_run=true][&actor=NAME]`: the body is one file in
 /// the seed TOML format or the documented CSV columns. A dry run writes nothing and
 /// answers what would change; a real import is one transaction.
+#[utoipa::path(post, path = "/v1/admin/import", tag = "librarian", params(ImportParams),
+    request_body(content = String, content_type = "text/plain", description = "one file: sources.toml or <solute-id>.toml in the seed format, or a .csv of points"),
+    responses(
+        (status = 200, description = "the import plan (written unless a dry run)", body = Object),
+        (status = 400, description = "a statement or parameter that cannot be read", body = super::reply::ErrorBody),
+        (status = 401, description = "no or a wrong bearer token", body = super::reply::ErrorBody),
+        (status = 403, description = "a read-only server (started without a token)", body = super::reply::ErrorBody),
+        (status = 409, description = "the embedded default database is read-only", body = super::reply::ErrorBody),
+        (status = 413, description = "a body or query over the limits", body = super::reply::ErrorBody),
+        (status = 422, description = "statements that parsed but could not be answered, or a refused write", body = super::reply::ErrorBody),
+        (status = 500, description = "a fault inside the server", body = super::reply::ErrorBody)
+    ),
+    security(("bearer" = [])))]
 pub(crate) async fn import(
     State(state): State<Shared>,
     params: Result<Query<ImportParams>, axum::extract::rejection::QueryRejection>,
@@ -192,6 +206,17 @@ fn json_body<T: serde::de::DeserializeOwned>(bytes: &[u8]) -> Result<T, ApiError
 
 /// `POST /v1/admin/review` with `{"dataset", "decision": "approve"|"reject", "note",
 /// "actor"?}`.
+#[utoipa::path(post, path = "/v1/admin/review", tag = "librarian", request_body = ReviewBody,
+    responses(
+        (status = 200, description = "`{dataset, decision, actor}`; the engine is swapped", body = Object),
+        (status = 400, description = "a statement or parameter that cannot be read", body = super::reply::ErrorBody),
+        (status = 401, description = "no or a wrong bearer token", body = super::reply::ErrorBody),
+        (status = 403, description = "a read-only server (started without a token)", body = super::reply::ErrorBody),
+        (status = 409, description = "the embedded default database is read-only", body = super::reply::ErrorBody),
+        (status = 422, description = "statements that parsed but could not be answered, or a refused write", body = super::reply::ErrorBody),
+        (status = 500, description = "a fault inside the server", body = super::reply::ErrorBody)
+    ),
+    security(("bearer" = [])))]
 pub(crate) async fn review(
     State(state): State<Shared>,
     headers: HeaderMap,
@@ -230,6 +255,17 @@ pub(crate) async fn review(
 }
 
 /// `POST /v1/admin/retire` with `{"dataset", "restore"?: bool, "note"?, "actor"?}`.
+#[utoipa::path(post, path = "/v1/admin/retire", tag = "librarian", request_body = RetireBody,
+    responses(
+        (status = 200, description = "`{dataset, retired, actor}`; the engine is swapped", body = Object),
+        (status = 400, description = "a statement or parameter that cannot be read", body = super::reply::ErrorBody),
+        (status = 401, description = "no or a wrong bearer token", body = super::reply::ErrorBody),
+        (status = 403, description = "a read-only server (started without a token)", body = super::reply::ErrorBody),
+        (status = 409, description = "the embedded default database is read-only", body = super::reply::ErrorBody),
+        (status = 422, description = "statements that parsed but could not be answered, or a refused write", body = super::reply::ErrorBody),
+        (status = 500, description = "a fault inside the server", body = super::reply::ErrorBody)
+    ),
+    security(("bearer" = [])))]
 pub(crate) async fn retire(
     State(state): State<Shared>,
     headers: HeaderMap,

@@ -18,6 +18,7 @@ mod admin;
 mod auth;
 mod layers;
 mod limits;
+mod openapi;
 mod page;
 mod queue;
 mod reply;

@@ -103,7 +103,19 @@ fn statements(
 
 /// `GET /v1/query?q=STATEMENTS`: exactly the answer of `POST /v1/query` with the statements
 /// as its plain-text body (same limits, statuses and JSON).
-async fn query(
+#[utoipa::path(get, path = "/v1/query", tag = "statements",
+    params(("q" = String, Query, description = "URL-encoded statements")),
+    responses(
+        (status = 200, description = "exactly what `POST /v1/query` answers for the same statements", body = Vec<crate::answer::Answer>),
+        (status = 400, description = "a statement or parameter that cannot be read", body = super::reply::ErrorBody),
+        (status = 404, description = "an unknown solute, source or route", body = super::reply::ErrorBody),
+        (status = 408, description = "not read and answered within the time limit", body = super::reply::ErrorBody),
+        (status = 413, description = "a body or query over the limits", body = super::reply::ErrorBody),
+        (status = 422, description = "statements that parsed but could not be answered, or a refused write", body = super::reply::ErrorBody),
+        (status = 500, description = "a fault inside the server", body = super::reply::ErrorBody),
+        (status = 503, description = "too many requests at once", body = super::reply::ErrorBody)
+    ))]
+pub(super) async fn query(
     State(state): State<Shared>,
     permit: Option<axum::Extension<Permit>>,
     pairs: Result<Query<Vec<(String, String)>>, QueryRejection>,
@@ -118,7 +130,20 @@ async fn query(
 
 /// `GET /v1/plot?q=STATEMENT[&format=svg|png&width=W&height=H]`: the picture of
 /// `POST /v1/plot` with the statement as its body, so a page can show it in an `<img>`.
-async fn plot(
+#[utoipa::path(get, path = "/v1/plot", tag = "statements",
+    params(("q" = String, Query, description = "one URL-encoded `plot` statement"), super::routes::PlotParams),
+    responses(
+        (status = 200, description = "the picture `POST /v1/plot` draws", content(
+            (String = "image/svg+xml"),
+            (Vec<u8> = "image/png"),
+        )),
+        (status = 400, description = "a statement or parameter that cannot be read", body = super::reply::ErrorBody),
+        (status = 404, description = "an unknown solute, source or route", body = super::reply::ErrorBody),
+        (status = 413, description = "a body or query over the limits", body = super::reply::ErrorBody),
+        (status = 422, description = "statements that parsed but could not be answered, or a refused write", body = super::reply::ErrorBody),
+        (status = 500, description = "a fault inside the server", body = super::reply::ErrorBody)
+    ))]
+pub(super) async fn plot(
     state: State<Shared>,
     params: Result<Query<Vec<(String, String)>>, QueryRejection>,
     picture: Result<Query<super::routes::PlotParams>, QueryRejection>,
@@ -130,7 +155,7 @@ async fn plot(
 }
 
 /// What the statement box completes and the page offers to start from.
-#[derive(Debug, Serialize)]
+#[derive(Debug, Serialize, utoipa::ToSchema)]
 pub(crate) struct Vocabulary {
     /// The language's keywords.
     keywords: Vec<&'static str>,
@@ -145,7 +170,9 @@ pub(crate) struct Vocabulary {
 }
 
 /// `GET /v1/vocabulary`.
-async fn vocabulary(State(state): State<Shared>) -> Response {
+#[utoipa::path(get, path = "/v1/vocabulary", tag = "statements",
+    responses((status = 200, description = "what the page's statement box completes", body = Vocabulary)))]
+pub(super) async fn vocabulary(State(state): State<Shared>) -> Response {
     let engine = state.engine();
     let units = TemperatureUnit::ALL
         .iter()

@@ -61,7 +61,15 @@ where
 
 /// `GET /v1/admin/queue`: the records waiting for review (what `satline review list`
 /// shows), datasets first. Needs the bearer token.
-async fn queue(State(state): State<Shared>, headers: HeaderMap) -> Response {
+#[utoipa::path(get, path = "/v1/admin/queue", tag = "librarian",
+    responses(
+        (status = 200, description = "`{count, records}`: what waits for review", body = Object),
+        (status = 401, description = "no or a wrong bearer token", body = super::reply::ErrorBody),
+        (status = 403, description = "a read-only server (started without a token)", body = super::reply::ErrorBody),
+        (status = 500, description = "a fault inside the server", body = super::reply::ErrorBody)
+    ),
+    security(("bearer" = [])))]
+pub(super) async fn queue(State(state): State<Shared>, headers: HeaderMap) -> Response {
     read(state, headers, |store| {
         let records = store.unreviewed()?;
         Ok(json!({"count": records.len(), "records": records}))
@@ -71,7 +79,18 @@ async fn queue(State(state): State<Shared>, headers: HeaderMap) -> Response {
 
 /// `GET /v1/admin/history/{solute}`: every audit row about a solute and its records, oldest
 /// first (what `satline history` shows). Needs the bearer token.
-async fn history(
+#[utoipa::path(get, path = "/v1/admin/history/{solute}", tag = "librarian",
+    params(("solute" = String, Path, description = "a slug, name, formula or synonym")),
+    responses(
+        (status = 200, description = "`{solute, count, entries}`: every change, oldest first", body = Object),
+        (status = 400, description = "a statement or parameter that cannot be read", body = super::reply::ErrorBody),
+        (status = 401, description = "no or a wrong bearer token", body = super::reply::ErrorBody),
+        (status = 403, description = "a read-only server (started without a token)", body = super::reply::ErrorBody),
+        (status = 404, description = "an unknown solute, source or route", body = super::reply::ErrorBody),
+        (status = 500, description = "a fault inside the server", body = super::reply::ErrorBody)
+    ),
+    security(("bearer" = [])))]
+pub(super) async fn history(
     State(state): State<Shared>,
     headers: HeaderMap,
     solute: Result<Path<String>, PathRejection>,

@@ -11,7 +11,7 @@ const JSON: &str = "application/json";
 
 /// The fields of an error body. `line` and `column` are 1-based positions in the query text
 /// (or the JSON body); they are `null` for errors that have no position.
-#[derive(Debug, Clone, PartialEq, Eq, Serialize)]
+#[derive(Debug, Clone, PartialEq, Eq, Serialize, utoipa::ToSchema)]
 pub(crate) struct ErrorFields {
     pub code: &'static str,
     pub message: String,
@@ -51,11 +51,14 @@ impl ErrorFields {
     }
 }
 
-#[derive(Serialize)]
-struct ErrorBody<'a> {
+/// The body of every error reply.
+#[derive(Serialize, utoipa::ToSchema)]
+pub(crate) struct ErrorBody<'a> {
+    #[schema(value_type = ErrorFields)]
     error: &'a ErrorFields,
     /// Every answer of a query whose statements all failed, so the caller sees each one.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schema(value_type = Option<Vec<Answer>>)]
     answers: Option<&'a [Answer]>,
 }
 

@@ -31,7 +31,7 @@ use crate::query::{Filter, Name, SoluteClass, Span};
 const ROUTES: &str = "GET / (the page), GET|POST /v1/query, GET /v1/vocabulary, GET /v1/solutes, GET /v1/solutes/{name}, GET /v1/sources, \
 GET /v1/sources/{key}, GET /v1/version, GET /v1/health, GET|POST /v1/plot, POST /v1/admin/reload, \
 POST /v1/admin/import, POST /v1/admin/review, POST /v1/admin/retire, GET /v1/admin/queue, \
-GET /v1/admin/history/{solute}";
+GET /v1/admin/history/{solute}, GET /v1/openapi.json";
 
 /// The routes with the layers every request goes through.
 pub(crate) fn router(state: Shared) -> Router {
@@ -48,6 +48,7 @@ fn routes() -> Router<Shared> {
     Router::new()
         .merge(super::page::routes())
         .merge(super::queue::routes())
+        .merge(super::openapi::routes())
         .route("/v1/query", post(query))
         .route("/v1/solutes", get(solutes))
         .route("/v1/solutes/{name}", get(solute))
@@ -87,9 +88,9 @@ const INLINE_BYTES: usize = 1024;
 const INLINE_STATEMENTS: usize = 4;
 
 /// A query sent as JSON.
-#[derive(Debug, Deserialize)]
+#[derive(Debug, Deserialize, utoipa::ToSchema)]
 #[serde(deny_unknown_fields)]
-struct QueryBody {
+pub(super) struct QueryBody {
     query: String,
 }
 
@@ -224,6 +225,21 @@ fn internal(message: String) -> Evaluated {
 
 /// `POST /v1/query`: the answers to the statements of the body, the same JSON objects as
 /// `satline run --format json`, as one array.
+#[utoipa::path(post, path = "/v1/query", tag = "statements",
+    request_body(content(
+        (String = "text/plain"),
+        (QueryBody = "application/json"),
+    ), description = "statements, one a line or separated by `;`"),
+    responses(
+        (status = 200, description = "one answer per statement, in order (a failed one has `ok: false`)", body = Vec<Answer>),
+        (status = 400, description = "a statement or parameter that cannot be read", body = super::reply::ErrorBody),
+        (status = 404, description = "an unknown solute, source or route", body = super::reply::ErrorBody),
+        (status = 408, description = "not read and answered within the time limit", body = super::reply::ErrorBody),
+        (status = 413, description = "a body or query over the limits", body = super::reply::ErrorBody),
+        (status = 422, description = "statements that parsed but could not be answered, or a refused write", body = super::reply::ErrorBody),
+        (status = 500, description = "a fault inside the server", body = super::reply::ErrorBody),
+        (status = 503, description = "too many requests at once", body = super::reply::ErrorBody)
+    ))]
 pub(super) async fn query(
     State(state): State<Shared>,
     permit: Option<axum::Extension<Permit>>,
@@ -369,7 +385,18 @@ fn source_record(s: &Source) -> Value {
 }
 
 /// `GET /v1/solutes?kind=&tag=&cation=&anion=`: the solutes that pass every filter given.
-async fn solutes(
+#[utoipa::path(get, path = "/v1/solutes", tag = "catalog",
+    params(
+        ("kind" = Option<String>, Query, description = "salt, molecular or gas"),
+        ("tag" = Option<String>, Query, description = "a tag, ignoring case"),
+        ("cation" = Option<String>, Query, description = "a cation, ignoring case"),
+        ("anion" = Option<String>, Query, description = "an anion, ignoring case"),
+    ),
+    responses(
+        (status = 200, description = "`{count, solutes}`: each solute's record with its numbers of datasets and Henry's-law records", body = Object),
+        (status = 400, description = "a statement or parameter that cannot be read", body = super::reply::ErrorBody)
+    ))]
+pub(super) async fn solutes(
     State(state): State<Shared>,
     query: Result<Query<Vec<(String, String)>>, QueryRejection>,
 ) -> Response {
@@ -403,7 +430,14 @@ fn path_error(e: PathRejection) -> ApiError {
 
 /// `GET /v1/solutes/{name}`: one solute (by slug, name, formula or synonym) with its
 /// datasets and their points, Henry's-law records, freezing data and full citations.
-async fn solute(
+#[utoipa::path(get, path = "/v1/solutes/{name}", tag = "catalog",
+    params(("name" = String, Path, description = "a slug, name, formula or synonym")),
+    responses(
+        (status = 200, description = "`{solute, datasets, gas_constants, freezing, sources}`", body = Object),
+        (status = 400, description = "a statement or parameter that cannot be read", body = super::reply::ErrorBody),
+        (status = 404, description = "an unknown solute, source or route", body = super::reply::ErrorBody)
+    ))]
+pub(super) async fn solute(
     State(state): State<Shared>,
     name: Result<Path<String>, PathRejection>,
 ) -> Response {
@@ -437,7 +471,9 @@ async fn solute(
 }
 
 /// `GET /v1/sources`: every source with its citation.
-async fn sources(State(state): State<Shared>) -> Response {
+#[utoipa::path(get, path = "/v1/sources", tag = "catalog",
+    responses((status = 200, description = "`{count, sources}`, each with its citation", body = Object)))]
+pub(super) async fn sources(State(state): State<Shared>) -> Response {
     let engine = state.engine();
     let list: Vec<Value> = engine
         .catalog()
@@ -452,7 +488,17 @@ async fn sources(State(state): State<Shared>) -> Response {
 }
 
 /// `GET /v1/sources/{key}`: one source by its key.
-async fn source(State(state): State<Shared>, key: Result<Path<String>, PathRejection>) -> Response {
+#[utoipa::path(get, path = "/v1/sources/{key}", tag = "catalog",
+    params(("key" = String, Path, description = "a source key")),
+    responses(
+        (status = 200, description = "`{source}` with its citation", body = Object),
+        (status = 400, description = "a statement or parameter that cannot be read", body = super::reply::ErrorBody),
+        (status = 404, description = "an unknown solute, source or route", body = super::reply::ErrorBody)
+    ))]
+pub(super) async fn source(
+    State(state): State<Shared>,
+    key: Result<Path<String>, PathRejection>,
+) -> Response {
     let key = match key {
         Ok(Path(key)) => key,
         Err(e) => return path_error(e).into_response(),
@@ -478,12 +524,15 @@ fn version_of(engine: &Engine) -> Value {
 }
 
 /// `GET /v1/version`: the crate version, the store's schema version, the data fingerprint.
-async fn version(State(state): State<Shared>) -> Response {
+#[utoipa::path(get, path = "/v1/version", tag = "server",
+    responses((status = 200, description = "`{satline, schema_version, fingerprint}`", body = Object)))]
+pub(super) async fn version(State(state): State<Shared>) -> Response {
     reply::json(StatusCode::OK, &version_of(&state.engine()))
 }
 
 /// `?format=svg|png&width=W&height=H` of `POST /v1/plot`.
-#[derive(Debug, Deserialize)]
+#[derive(Debug, Deserialize, utoipa::IntoParams)]
+#[into_params(parameter_in = Query)]
 pub(super) struct PlotParams {
     format: Option<String>,
     width: Option<u32>,
@@ -493,6 +542,19 @@ pub(super) struct PlotParams {
 /// `POST /v1/plot`: the body is one `plot` statement; the answer is the picture
 /// (`image/svg+xml` by default, `image/png` with `?format=png`). A statement that cannot be
 /// answered gets the JSON error of `/v1/query` (400 parse, 404 unknown solute, 422 other).
+#[utoipa::path(post, path = "/v1/plot", tag = "statements", params(PlotParams),
+    request_body(content = String, content_type = "text/plain", description = "one `plot` statement (with `let` statements it uses)"),
+    responses(
+        (status = 200, description = "the picture", content(
+            (String = "image/svg+xml"),
+            (Vec<u8> = "image/png"),
+        )),
+        (status = 400, description = "a statement or parameter that cannot be read", body = super::reply::ErrorBody),
+        (status = 404, description = "an unknown solute, source or route", body = super::reply::ErrorBody),
+        (status = 413, description = "a body or query over the limits", body = super::reply::ErrorBody),
+        (status = 422, description = "statements that parsed but could not be answered, or a refused write", body = super::reply::ErrorBody),
+        (status = 500, description = "a fault inside the server", body = super::reply::ErrorBody)
+    ))]
 pub(super) async fn plot(
     State(state): State<Shared>,
     params: Result<Query<PlotParams>, QueryRejection>,
@@ -564,13 +626,23 @@ pub(super) async fn plot(
 }
 
 /// `GET /v1/health`: the server is up and answering.
-async fn health() -> Response {
+#[utoipa::path(get, path = "/v1/health", tag = "server",
+    responses((status = 200, description = "`{\"status\": \"ok\"}`", body = Object)))]
+pub(super) async fn health() -> Response {
     reply::json(StatusCode::OK, &json!({"status": "ok"}))
 }
 
 /// `POST /v1/admin/reload`: re-reads the database and swaps in a fresh engine; requests
 /// already running finish on the snapshot they started with. Needs the bearer token.
-async fn reload(State(state): State<Shared>, headers: HeaderMap) -> Response {
+#[utoipa::path(post, path = "/v1/admin/reload", tag = "librarian",
+    responses(
+        (status = 200, description = "`{reloaded, satline, schema_version, fingerprint, previous_fingerprint}`", body = Object),
+        (status = 401, description = "no or a wrong bearer token", body = super::reply::ErrorBody),
+        (status = 403, description = "a read-only server (started without a token)", body = super::reply::ErrorBody),
+        (status = 500, description = "a fault inside the server", body = super::reply::ErrorBody)
+    ),
+    security(("bearer" = [])))]
+pub(super) async fn reload(State(state): State<Shared>, headers: HeaderMap) -> Response {
     if let Err(e) = auth::authorize(state.token.as_ref(), &headers) {
         return e.into_response();
     }

@@ -6,6 +6,7 @@
 //! synonym, case-insensitively and whatever hydrate dot is used (`·`, `.`, `*`), with the
 //! closest names suggested when nothing matches.
 
+use crate::model::thermo::Thermochemistry;
 use std::collections::HashMap;
 use std::path::Path;
 
@@ -68,6 +69,7 @@ pub struct Catalog {
     densities: Vec<DensityCoefficients>,
     /// Corroboration checks, by key.
     checks: Vec<Check>,
+    thermochemistry: Thermochemistry,
     source_index: HashMap<String, usize>,
     solute_index: HashMap<String, usize>,
     /// Normalised lookup name (case kept) → solute index; tried first so `Co` and `CO`
@@ -141,6 +143,7 @@ impl Catalog {
             freezing,
             densities,
             checks,
+            thermochemistry,
         } = contents;
         let datasets: Vec<Dataset> = datasets.into_iter().filter(|d| !d.retired).collect();
         let freezing: Vec<FreezingData> = freezing.into_iter().map(|f| f.data).collect();
@@ -207,6 +210,7 @@ impl Catalog {
             freezing,
             densities,
             checks,
+            thermochemistry,
             source_index,
             solute_index,
             exact_names,
@@ -383,6 +387,12 @@ impl Catalog {
     /// Every set of freezing data, by key.
     pub fn freezing(&self) -> &[FreezingData] {
         &self.freezing
+    }
+
+    /// The thermochemical records: enthalpies of formation and hydration, radii,
+    /// ionisation energies, heat-capacity coefficients.
+    pub fn thermochemistry(&self) -> &Thermochemistry {
+        &self.thermochemistry
     }
 
     /// The freezing data of one solute (by id).

@@ -352,3 +352,4 @@ pub struct Check {
     /// What ran the check, with versions, e.g. `make_fixtures.py, chemicals 1.5.2`.
     pub tool: Option<String>,
 }
+pub mod thermo;

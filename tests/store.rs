@@ -232,6 +232,51 @@ fn assert_round_trip(files: &[(String, String)], stored: &Contents) {
             }
             continue;
         }
+        if let Some(stem) = path
+            .strip_prefix("thermochemistry/")
+            .and_then(|p| p.strip_suffix(".toml"))
+        {
+            // Every [species, value] pair of every group comes back, value exactly.
+            let pairs: Vec<(String, f64)> = doc
+                .get("group")
+                .and_then(|v| v.as_array())
+                .into_iter()
+                .flatten()
+                .flat_map(|g| {
+                    g.get("values")
+                        .and_then(|v| v.as_array())
+                        .cloned()
+                        .unwrap_or_default()
+                })
+                .map(|pair| {
+                    let pair = pair.as_array().unwrap();
+                    let value = pair[1]
+                        .as_float()
+                        .or_else(|| pair[1].as_integer().map(|i| i as f64))
+                        .unwrap();
+                    (pair[0].as_str().unwrap().to_string(), value)
+                })
+                .collect();
+            let back: Vec<(String, f64)> = stored
+                .thermochemistry
+                .values
+                .iter()
+                .filter(|v| v.file == stem)
+                .map(|v| (v.species.clone(), v.value))
+                .collect();
+            assert_eq!(back, pairs, "{path}");
+            let fits = doc
+                .get("heat_capacity")
+                .and_then(|v| v.as_array())
+                .map_or(0, |a| a.len());
+            let stored_fits = stored
+                .thermochemistry
+                .heat_capacity
+                .iter()
+                .filter(|h| h.file == stem);
+            assert_eq!(stored_fits.count(), fits, "{path}");
+            continue;
+        }
         let id = text(&doc, "id").unwrap();
         let s = stored.solutes.iter().find(|s| s.id == id).unwrap();
         assert_eq!(Some(s.name.clone()), text(&doc, "name"));

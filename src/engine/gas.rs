@@ -335,14 +335,14 @@ pub fn dissolved(snap: &Snapshot, s: &DissolvedGas, answer: &mut Answer) -> Resu
     Ok(())
 }
 
-/// `heat of solution of O2 at 25 C`: from the temperature dependence of the Henry's-law
-/// record.
+/// The Henry's-law view of `heat of solution of O2 at 25 C`: from the temperature
+/// dependence of the Henry's-law record; pushes its row and returns ΔH in kJ/mol.
 pub fn heat(
     snap: &Snapshot,
     solute: &Solute,
     s: &HeatOfSolution,
     answer: &mut Answer,
-) -> Result<(), EvalError> {
+) -> Result<f64, EvalError> {
     let t_k = s.temperature.kelvin();
     liquid_water(solute, None, t_k, s.temperature.span)?;
     let laws = laws(snap, solute, &s.options);
@@ -369,6 +369,7 @@ pub fn heat(
         extra: [
             ("sign".to_string(), json!(sign.as_str())),
             ("henry_record".to_string(), json!(law.key)),
+            ("view".to_string(), json!("curve")),
         ]
         .into_iter()
         .collect(),
@@ -376,5 +377,5 @@ pub fn heat(
     });
     answer.caveat("from the temperature dependence of the Henry's-law constant (van 't Hoff)");
     cite_law(snap, law, solute, answer);
-    Ok(())
+    Ok(kj)
 }

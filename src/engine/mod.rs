@@ -17,6 +17,7 @@ mod error;
 mod filters;
 mod freezing;
 mod gas;
+mod heat;
 mod per_litre;
 mod plot;
 mod records;
@@ -146,7 +147,7 @@ impl Engine {
             Statement::Screen(s) => solid::screen(&self.snapshot, s, &mut answer),
             Statement::Saturation(s) => solid::saturation(&self.snapshot, s, &mut answer),
             Statement::Ceiling(s) => solid::ceiling(&self.snapshot, s, &mut answer),
-            Statement::HeatOfSolution(s) => solid::heat(&self.snapshot, s, &mut answer),
+            Statement::HeatOfSolution(s) => heat::heat(&self.snapshot, s, &mut answer),
             Statement::DissolvedGas(s) => gas::dissolved(&self.snapshot, s, &mut answer),
             Statement::Freezing(s) => freezing::freezing(&self.snapshot, s, &mut answer),
             Statement::Convert(s) => solid::convert(&self.snapshot, s, &mut answer),

@@ -6,6 +6,7 @@ use std::collections::BTreeMap;
 use serde_json::json;
 
 use crate::answer::{Answer, Basis, Row};
+use crate::engine::CAUTION;
 use crate::engine::common;
 use crate::engine::common::{
     basis_caveat, bounds, celsius, cite_curve, cite_source, curve_error, curve_of, in_unit,
@@ -15,7 +16,6 @@ use crate::engine::error::EvalError;
 use crate::engine::per_litre::{self, DEFAULT_VOLUME_T_K, Volume};
 use crate::engine::records::selects;
 use crate::engine::snapshot::Snapshot;
-use crate::engine::{CAUTION, gas};
 use crate::model::{Provenance, Review, Solute, SoluteKind};
 use crate::output::number::round_significant;
 use crate::query::{Ceiling, Convert, HeatOfSolution, Require, Saturation, Screen, Solubility};
@@ -447,12 +447,14 @@ pub fn ceiling(snap: &Snapshot, s: &Ceiling, answer: &mut Answer) -> Result<(), 
     Ok(())
 }
 
-/// `heat of solution of KNO3 at 25 C`.
-pub fn heat(snap: &Snapshot, s: &HeatOfSolution, answer: &mut Answer) -> Result<(), EvalError> {
-    let solute = resolve(snap, &s.solute)?;
-    if solute.kind == SoluteKind::Gas {
-        return gas::heat(snap, solute, s, answer);
-    }
+/// The curve's view of `heat of solution of KNO3 at 25 C` (the apparent value at
+/// saturation): pushes its row, caveats and citations, and returns ΔH in kJ/mol.
+pub fn apparent_heat(
+    snap: &Snapshot,
+    solute: &Solute,
+    s: &HeatOfSolution,
+    answer: &mut Answer,
+) -> Result<f64, EvalError> {
     let built = curve_of(snap, solute, &s.solute, &s.options)?;
     let heat = heat_of_solution(
         &built.curve,
@@ -470,9 +472,12 @@ pub fn heat(snap: &Snapshot, s: &HeatOfSolution, answer: &mut Answer) -> Result<
         basis: Some(basis),
         phase: Some(heat.phase.clone()),
         temperature_c: Some(celsius(s.temperature.kelvin())),
-        extra: [("sign".to_string(), json!(heat.sign.as_str()))]
-            .into_iter()
-            .collect(),
+        extra: [
+            ("sign".to_string(), json!(heat.sign.as_str())),
+            ("view".to_string(), json!("curve")),
+        ]
+        .into_iter()
+        .collect(),
         ..Row::default()
     });
     answer.caveat(
@@ -481,7 +486,7 @@ pub fn heat(snap: &Snapshot, s: &HeatOfSolution, answer: &mut Answer) -> Result<
     basis_caveat(basis, answer);
     phase_caveat(&heat.phase, answer);
     cite_curve(snap, built, solute, answer);
-    Ok(())
+    Ok(heat.kj_per_mol)
 }
 
 /// `convert 20 g/100g water of KCl to mol/kg`, with `as <hydrate>` on either side.

@@ -5,6 +5,8 @@ pub mod activity;
 pub mod bounds;
 pub mod curve;
 pub mod density;
+pub mod dissolving;
+pub mod enthalpy;
 pub mod error;
 pub mod fit;
 pub mod formula;

@@ -45,6 +45,11 @@ pub struct Contents {
     /// Corroboration checks, by key (see [`super::corroboration`]).
     #[serde(default, skip_serializing_if = "Vec::is_empty")]
     pub checks: Vec<crate::model::Check>,
+    /// Enthalpies of formation and hydration, radii, ionisation energies and heat-capacity
+    /// coefficients (`thermochemistry/` in the seed). Not yet written by the exports (nor
+    /// read by imports), so it is left out of the JSON export too.
+    #[serde(skip)]
+    pub thermochemistry: crate::model::thermo::Thermochemistry,
 }
 
 impl Contents {
@@ -60,7 +65,7 @@ impl Contents {
     }
 }
 
-fn corrupt(what: String) -> StoreError {
+pub(super) fn corrupt(what: String) -> StoreError {
     StoreError::Corrupt {
         location: "database".to_string(),
         what,
@@ -138,7 +143,10 @@ pub(crate) fn read_all(conn: &Connection) -> Result<Contents, StoreError> {
 }
 
 fn read_inside(conn: &Connection) -> Result<Contents, StoreError> {
-    let mut contents = Contents::default();
+    let mut contents = Contents {
+        thermochemistry: super::thermo_rows::read(conn)?,
+        ..Contents::default()
+    };
 
     let mut stmt = conn.prepare_cached(
         "SELECT key, kind, title, authors, publisher, edition, year, locator, doi, isbn, url, note

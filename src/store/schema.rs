@@ -38,6 +38,11 @@ pub const MIGRATIONS: &[Migration] = &[
         name: "0004_corroboration_checks",
         sql: include_str!("../../schema/0004_corroboration_checks.sql"),
     },
+    Migration {
+        version: 5,
+        name: "0005_thermochemistry",
+        sql: include_str!("../../schema/0005_thermochemistry.sql"),
+    },
 ];
 
 /// The schema version this binary writes and reads.

@@ -128,6 +128,7 @@ def main():
             f.write("\n")
     __import__("fixtures_phase").write(HERE)  # phase diagram: pytzer, CoolProp
     fixtures_corroboration.write_checks()
+    __import__("fixtures_thermochemistry").write_all()
 
 
 if __name__ == "__main__":

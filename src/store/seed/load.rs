@@ -108,6 +108,7 @@ pub(crate) fn write(
         for c in &contents.checks {
             crate::store::corroboration::replace_check(&tx, c)?;
         }
+        super::super::thermo_rows::write(&tx, &contents.thermochemistry)?;
 
         let mut set_meta = tx.prepare_cached(
             "INSERT INTO metadata (key, value) VALUES (?1, ?2)

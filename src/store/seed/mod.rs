@@ -73,7 +73,7 @@ pub enum SeedProblem {
 
     /// A `.toml` file outside the layout, e.g. `notes/extra.toml`.
     #[error(
-        "not a seed file: expected sources.toml, densities.toml, solutes/<id>.toml or checks/<name>.toml"
+        "not a seed file: expected sources.toml, densities.toml, solutes/<id>.toml, checks/<name>.toml or thermochemistry/<name>.toml"
     )]
     UnexpectedFile,
 

@@ -898,6 +898,7 @@ pub fn parse_with_known<P: AsRef<str>, C: AsRef<str>>(
     let mut sources_file: Option<(&str, &str)> = None;
     let mut solute_files: Vec<(&str, &str, &str)> = Vec::new();
     let mut check_files: Vec<(&str, &str)> = Vec::new();
+    let mut thermo_files: Vec<(&str, &str, &str)> = Vec::new();
     for (path, text) in files {
         let (path, text) = (path.as_ref(), text.as_ref());
         if path == "sources.toml" {
@@ -925,6 +926,12 @@ pub fn parse_with_known<P: AsRef<str>, C: AsRef<str>>(
             continue;
         } else if crate::store::corroboration::is_check_path(path) {
             check_files.push((path, text));
+        } else if let Some(stem) = path
+            .strip_prefix(crate::store::thermo_seed::FOLDER)
+            .and_then(|rest| rest.strip_suffix(".toml"))
+            .filter(|stem| !stem.contains('/'))
+        {
+            thermo_files.push((path, stem, text));
         } else {
             return Err(problem(path, "whole file", SeedProblem::UnexpectedFile));
         }
@@ -986,6 +993,17 @@ pub fn parse_with_known<P: AsRef<str>, C: AsRef<str>>(
         parts.push(part);
     }
 
+    let mut thermochemistry = crate::model::thermo::Thermochemistry::default();
+    thermo_files.sort();
+    for (path, stem, text) in thermo_files {
+        crate::store::thermo_seed::parse_file(
+            path,
+            stem,
+            text,
+            &source_keys,
+            &mut thermochemistry,
+        )?;
+    }
     let densities = match densities_file {
         Some(text) => {
             let solutes: HashSet<&str> = parts
@@ -1000,6 +1018,7 @@ pub fn parse_with_known<P: AsRef<str>, C: AsRef<str>>(
     let mut contents = Contents {
         sources,
         densities,
+        thermochemistry,
         ..Contents::default()
     };
     for part in parts {

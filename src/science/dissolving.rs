@@ -1,0 +1,165 @@
+//! How warm or cold a batch gets while a solid dissolves with no heat exchanged with its
+//! surroundings: the heat of solution taken up or given off, over the solution's heat
+//! capacity (Laliberté's correlation where it has coefficients, else the water-based
+//! estimate).
+
+use super::error::ScienceError;
+use super::units::positive;
+use crate::model::thermo::HeatCapacityFit;
+
+/// Specific isobaric heat capacity of liquid water at 0.1 MPa, J/(g·K), every 10 °C from 0 to
+/// 100 °C (100 °C: at saturation), IAPWS-95 values as the CRC Handbook prints them (97th ed.,
+/// Section 6, Properties of Water in the Range 0–100 °C); typed from memory, and checked
+/// against the `iapws` package's IAPWS-95 in `tests/science_reference.rs`.
+const WATER_CP: [f64; 11] = [
+    4.2199, 4.1955, 4.1844, 4.1801, 4.1796, 4.1815, 4.1851, 4.1902, 4.1969, 4.2053, 4.2157,
+];
+
+/// [`WATER_CP`] at `t_c` by linear interpolation, clamped to 0–100 °C (outside that the
+/// value at the nearer end, which [`batch_temperature`]'s callers are told about).
+pub fn water_heat_capacity(t_c: f64) -> f64 {
+    let x = (t_c / 10.0).clamp(0.0, 10.0);
+    let i = (x.floor() as usize).min(9);
+    let f = x - i as f64;
+    WATER_CP[i] * (1.0 - f) + WATER_CP[i + 1] * f
+}
+
+/// The solute's apparent specific heat capacity in solution by Laliberté's correlation
+/// (M. Laliberté, J. Chem. Eng. Data 54 (2009) 1725, eq. 11–12):
+/// Cp,i = a1·exp(α) + a5·(1 − w_w)^a6, α = a2·t + a3·exp(0.01·t) + a4·(1 − w_w), J/(g·K),
+/// t in °C, w_w the mass fraction of water.
+pub fn laliberte_solute_cp(fit: &HeatCapacityFit, t_c: f64, w_water: f64) -> f64 {
+    let [a1, a2, a3, a4, a5, a6] = fit.a;
+    let ws = 1.0 - w_water;
+    let alpha = a2 * t_c + a3 * (0.01 * t_c).exp() + a4 * ws;
+    a1 * alpha.exp() + a5 * ws.powf(a6)
+}
+
+/// How the solution's heat capacity was found.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum HeatCapacityBasis {
+    /// Laliberté's mixing rule Cp = w_w·Cp,w + w_s·Cp,s, inside the fit's ranges.
+    Laliberte,
+    /// Laliberté's correlation used outside its published temperature or composition range.
+    LaliberteOutsideRange,
+    /// The water-based estimate: the whole solution taken to have water's specific heat
+    /// (the usual calorimetry convention; for concentrated salt solutions it overstates Cp,
+    /// so it understates the temperature change).
+    Water,
+}
+
+/// A batch's temperature after dissolving, with no heat exchanged.
+#[derive(Debug, Clone, PartialEq)]
+pub struct BatchTemperature {
+    pub start_c: f64,
+    pub end_c: f64,
+    /// Heat given off (positive) or taken up (negative) by dissolving, kJ.
+    pub heat_released_kj: f64,
+    /// The solution's mean specific heat capacity over the change, J/(g·K).
+    pub cp: f64,
+    pub cp_basis: HeatCapacityBasis,
+    /// Mass fraction of solute in the final solution.
+    pub w_solute: f64,
+}
+
+/// The temperature a batch reaches when `solute_g` grams of a solid of molar mass
+/// `molar_mass` (g/mol) dissolve completely in `water_g` grams of water at `start_c`, with
+/// no heat exchanged, from an enthalpy of solution `delta_h` (kJ/mol; negative gives off
+/// heat):
+///
+/// −n·ΔH = (m_water + m_solute)·Cp·(T_end − T_start), n = m_solute/M,
+///
+/// Cp the solution's specific heat at the mean temperature (Laliberté's mixing rule
+/// Cp = w_w·Cp,w + w_s·Cp,s where `fit` is given, else water's; solved by fixed-point
+/// iteration). The enthalpy is taken as constant over the change.
+pub fn batch_temperature(
+    solute_g: f64,
+    water_g: f64,
+    molar_mass: f64,
+    delta_h: f64,
+    start_c: f64,
+    fit: Option<&HeatCapacityFit>,
+) -> Result<BatchTemperature, ScienceError> {
+    let solute_g = positive("mass of solid (g)", solute_g)?;
+    let water_g = positive("mass of water (g)", water_g)?;
+    let molar_mass = positive("molar mass (g/mol)", molar_mass)?;
+    let total = solute_g + water_g;
+    let w_solute = solute_g / total;
+    let heat_released_kj = -solute_g / molar_mass * delta_h;
+    let cp_at = |t: f64| -> (f64, HeatCapacityBasis) {
+        let cw = water_heat_capacity(t);
+        match fit {
+            Some(f) => {
+                let cs = laliberte_solute_cp(f, t, 1.0 - w_solute);
+                let inside = (f.t_min_c..=f.t_max_c).contains(&t) && w_solute <= f.w_max;
+                let basis = if inside {
+                    HeatCapacityBasis::Laliberte
+                } else {
+                    HeatCapacityBasis::LaliberteOutsideRange
+                };
+                ((1.0 - w_solute) * cw + w_solute * cs, basis)
+            }
+            None => (cw, HeatCapacityBasis::Water),
+        }
+    };
+    let mut end_c = start_c;
+    let mut cp_basis = HeatCapacityBasis::Water;
+    let mut cp = water_heat_capacity(start_c);
+    for _ in 0..50 {
+        let mean = 0.5 * (start_c + end_c);
+        let (c, basis) = cp_at(mean);
+        // A correlation far outside its range can give nonsense; fall back to water's.
+        let (c, basis) = if c.is_finite() && c > 0.5 {
+            (c, basis)
+        } else {
+            (water_heat_capacity(mean), HeatCapacityBasis::Water)
+        };
+        cp = c;
+        cp_basis = basis;
+        let next = start_c + heat_released_kj * 1000.0 / (total * cp);
+        if (next - end_c).abs() < 1e-9 {
+            end_c = next;
+            break;
+        }
+        end_c = next;
+    }
+    Ok(BatchTemperature {
+        start_c,
+        end_c,
+        heat_released_kj,
+        cp,
+        cp_basis,
+        w_solute,
+    })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn water_cp_interpolates_the_table() {
+        assert_eq!(water_heat_capacity(20.0), 4.1844);
+        assert!((water_heat_capacity(25.0) - 0.5 * (4.1844 + 4.1801)).abs() < 1e-12);
+        assert_eq!(water_heat_capacity(-5.0), 4.2199);
+        assert_eq!(water_heat_capacity(120.0), 4.2157);
+    }
+
+    #[test]
+    fn energy_balance_by_hand() {
+        // Invented: 10 g of a solid (M = 100 g/mol) giving off 41.8 kJ/mol in 90 g water:
+        // 4.18 kJ over 100 g at Cp ≈ 4.18 J/(g·K) is about 10 K.
+        let b = batch_temperature(10.0, 90.0, 100.0, -41.8, 30.0, None).unwrap();
+        assert!((b.heat_released_kj - 4.18).abs() < 1e-12);
+        let want = 30.0 + 4180.0 / (100.0 * b.cp);
+        assert!(
+            (b.end_c - want).abs() < 1e-9 && (b.end_c - 40.0).abs() < 0.05,
+            "{b:?}"
+        );
+        assert_eq!(b.cp_basis, HeatCapacityBasis::Water);
+        // Endothermic: it cools.
+        let c = batch_temperature(10.0, 90.0, 100.0, 41.8, 30.0, None).unwrap();
+        assert!(c.end_c < 30.0);
+        assert!(batch_temperature(0.0, 90.0, 100.0, 1.0, 20.0, None).is_err());
+    }
+}

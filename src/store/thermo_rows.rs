@@ -1,0 +1,150 @@
+//! Writing and reading the thermochemical tables (`thermo_values`,
+//! `laliberte_heat_capacity`, schema/000N_thermochemistry.sql). Parameterised SQL only.
+
+use rusqlite::{Connection, Transaction, params};
+
+use super::StoreError;
+use super::read::{corrupt, provenance, review};
+use crate::model::thermo::{
+    HeatCapacityFit, ThermoQuantity, ThermoState, ThermoValue, Thermochemistry,
+};
+
+/// Writes every record (the tables are expected empty: a fresh seed load).
+pub(crate) fn write(tx: &Transaction<'_>, thermo: &Thermochemistry) -> Result<(), StoreError> {
+    let mut insert = tx.prepare_cached(
+        "INSERT INTO thermo_values
+           (file, quantity, state, stage, species, value, unit, source, provenance, review, note)
+         VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10, ?11)",
+    )?;
+    for v in &thermo.values {
+        insert.execute(params![
+            v.file,
+            v.quantity.as_str(),
+            v.state.map(ThermoState::as_str),
+            v.stage,
+            v.species,
+            v.value,
+            v.quantity.unit(),
+            v.source,
+            v.provenance.as_str(),
+            v.review.as_str(),
+            v.note,
+        ])?;
+    }
+    let mut insert = tx.prepare_cached(
+        "INSERT INTO laliberte_heat_capacity
+           (solute, file, a1, a2, a3, a4, a5, a6, t_min_c, t_max_c, w_max, source, provenance, review, note)
+         VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10, ?11, ?12, ?13, ?14, ?15)",
+    )?;
+    for h in &thermo.heat_capacity {
+        insert.execute(params![
+            h.solute,
+            h.file,
+            h.a[0],
+            h.a[1],
+            h.a[2],
+            h.a[3],
+            h.a[4],
+            h.a[5],
+            h.t_min_c,
+            h.t_max_c,
+            h.w_max,
+            h.source,
+            h.provenance.as_str(),
+            h.review.as_str(),
+            h.note,
+        ])?;
+    }
+    Ok(())
+}
+
+/// Reads every record, in the order written.
+pub(crate) fn read(conn: &Connection) -> Result<Thermochemistry, StoreError> {
+    let mut thermo = Thermochemistry::default();
+    let mut stmt = conn.prepare_cached(
+        "SELECT file, quantity, state, stage, species, value, source, provenance, review, note
+         FROM thermo_values ORDER BY id",
+    )?;
+    let rows = stmt.query_map([], |r| {
+        Ok((
+            r.get::<_, String>(0)?,
+            r.get::<_, String>(1)?,
+            r.get::<_, Option<String>>(2)?,
+            r.get::<_, Option<u8>>(3)?,
+            r.get::<_, String>(4)?,
+            r.get::<_, f64>(5)?,
+            r.get::<_, String>(6)?,
+            r.get::<_, String>(7)?,
+            r.get::<_, String>(8)?,
+            r.get::<_, Option<String>>(9)?,
+        ))
+    })?;
+    for row in rows {
+        let (file, quantity, state, stage, species, value, source, prov, rev, note) = row?;
+        let quantity = ThermoQuantity::from_name(&quantity)
+            .ok_or_else(|| corrupt(format!("thermo_values: unknown quantity {quantity:?}")))?;
+        let state = match state {
+            Some(s) => Some(
+                ThermoState::from_name(&s)
+                    .ok_or_else(|| corrupt(format!("thermo_values: unknown state {s:?}")))?,
+            ),
+            None => None,
+        };
+        thermo.values.push(ThermoValue {
+            file,
+            quantity,
+            state,
+            stage,
+            species,
+            value,
+            source,
+            provenance: provenance(&prov)?,
+            review: review(&rev)?,
+            note,
+        });
+    }
+    let mut stmt = conn.prepare_cached(
+        "SELECT solute, file, a1, a2, a3, a4, a5, a6, t_min_c, t_max_c, w_max, source,
+                provenance, review, note
+         FROM laliberte_heat_capacity ORDER BY rowid",
+    )?;
+    let rows = stmt.query_map([], |r| {
+        Ok((
+            r.get::<_, String>(0)?,
+            r.get::<_, String>(1)?,
+            [
+                r.get::<_, f64>(2)?,
+                r.get::<_, f64>(3)?,
+                r.get::<_, f64>(4)?,
+                r.get::<_, f64>(5)?,
+                r.get::<_, f64>(6)?,
+                r.get::<_, f64>(7)?,
+            ],
+            (
+                r.get::<_, f64>(8)?,
+                r.get::<_, f64>(9)?,
+                r.get::<_, f64>(10)?,
+            ),
+            r.get::<_, String>(11)?,
+            r.get::<_, String>(12)?,
+            r.get::<_, String>(13)?,
+            r.get::<_, Option<String>>(14)?,
+        ))
+    })?;
+    for row in rows {
+        let (solute, file, a, (t_min_c, t_max_c, w_max), source, prov, rev, note) = row?;
+        thermo.heat_capacity.push(HeatCapacityFit {
+            file,
+            solute,
+            a,
+            t_min_c,
+            t_max_c,
+            w_max,
+            source,
+            provenance: provenance(&prov)?,
+            review: review(&rev)?,
+            note,
+        });
+    }
+    Ok(thermo)
+}

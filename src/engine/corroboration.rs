@@ -31,7 +31,10 @@ pub fn caveat_for(snap: &Snapshot, datasets: &[&Dataset], solute: &Solute, answe
             .map(|c| format!("the {} check against {}", c.kind, c.reference))
             .collect();
         if passing.is_empty() {
-            not.push(dataset.phase.formula.clone());
+            // Two datasets of one solid (e.g. a branch and its eutectic point) name it once.
+            if !not.contains(&dataset.phase.formula) {
+                not.push(dataset.phase.formula.clone());
+            }
         } else {
             corroborated.push(format!(
                 "{} corroborated by {}",

@@ -9,7 +9,7 @@ use crate::engine::common::{basis_caveat, celsius, cite_source, hazard, resolve,
 use crate::engine::error::EvalError;
 use crate::engine::snapshot::Snapshot;
 use crate::model::{GasConstant, GasLaw, Provenance, Review, Solute, SoluteKind};
-use crate::output::number::round_significant;
+use crate::number::round_significant;
 use crate::query::{DissolvedGas, GasPressure, HeatOfSolution, Options, Span};
 use crate::science::curve::Basis as CurveBasis;
 use crate::science::gas::{self as science_gas, Dissolved, STANDARD_ATMOSPHERE};

@@ -277,7 +277,7 @@ mod tests {
     use super::*;
 
     #[test]
-    fn prepare_counts_and_answers_like_run_text() {
+    fn prepared_statements_answer_in_order_with_their_lines_and_faults() {
         let engine = Engine::open_embedded().unwrap();
         let text = "solubility of KNO3 at 20 C; solubilty of KCl\ndescribe NaCl";
         let mut session = engine.session();
@@ -285,7 +285,23 @@ mod tests {
         assert_eq!(prepared.len(), 3);
         assert!(!prepared.is_light());
         let answers: Vec<Answer> = prepared.answers(&engine).collect();
-        assert_eq!(answers, engine.run_text(text, &mut engine.session()));
+        let summary: Vec<(AnswerKind, bool, usize)> =
+            answers.iter().map(|a| (a.kind, a.ok, a.line)).collect();
+        assert_eq!(
+            summary,
+            [
+                (AnswerKind::Lookup, true, 1),
+                (AnswerKind::Invalid, false, 1),
+                (AnswerKind::Describe, true, 2),
+            ]
+        );
+        assert_eq!(answers[0].statement, "solubility of KNO3 at 20 C");
+        assert!(!answers[0].rows.is_empty());
+        // The misspelt word is the fault, at its own column of line 1.
+        let error = answers[1].error.as_ref().unwrap();
+        assert_eq!((error.stage, error.code), ("parse", "unknown-statement"));
+        assert_eq!((error.line, error.column), (1, 29));
+        assert_eq!(&text[error.span.0..error.span.1], "solubilty");
     }
 
     #[test]

@@ -15,7 +15,7 @@ use crate::engine::records::selects;
 use crate::engine::snapshot::Snapshot;
 use crate::engine::{CAUTION, gas};
 use crate::model::{Provenance, Review, Solute, SoluteKind};
-use crate::output::number::round_significant;
+use crate::number::round_significant;
 use crate::query::{
     Ceiling, Convert, Freezing, HeatOfSolution, Require, Saturation, Screen, Solubility,
 };

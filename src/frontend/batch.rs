@@ -13,7 +13,7 @@ use crate::answer::{Answer, Row};
 use crate::engine::Engine;
 use crate::frontend::picture::Pictures;
 use crate::frontend::{Outcome, database_name, open_engine};
-use crate::output::number::{display, round_significant};
+use crate::number::{display, round_significant};
 use crate::output::{Format, Printer};
 
 /// How standard input is named in messages.

@@ -8,7 +8,7 @@ use tabled::builder::Builder;
 use tabled::settings::Style;
 
 use crate::answer::{Answer, AnswerKind, ErrorReport, Row};
-use crate::output::number::display;
+use crate::number::display;
 
 /// Reads one cell of a row, or nothing when the row has no such field.
 type Cell = Box<dyn Fn(&Row) -> Option<String>>;

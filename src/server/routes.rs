@@ -519,7 +519,8 @@ async fn plot(
     let engine = state.engine();
     let drawn = tokio::task::spawn_blocking(move || {
         catch_unwind(AssertUnwindSafe(|| {
-            picture_for(&engine, &text, format, width, height)
+            let answers = engine.run_text(&text, &mut engine.session());
+            picture_for(&answers, format, width, height)
         }))
     })
     .await;

@@ -121,6 +121,7 @@ impl Engine {
         let kind = kind_of(&statement.node);
         let mut answer = Answer::new(written.clone(), kind);
         answer.line = query::line_column(text, statement.span.start).0;
+        answer.span = (statement.span.start, statement.span.end);
         let result = match &statement.node {
             Statement::Solubility(s) => solid::lookup(&self.snapshot, s, &mut answer),
             Statement::Screen(s) => solid::screen(&self.snapshot, s, &mut answer),
@@ -146,6 +147,7 @@ impl Engine {
                     written,
                     kind,
                     ErrorReport {
+                        class: error.class(),
                         stage: "evaluate",
                         code: error.code(),
                         message: error.to_string(),
@@ -155,6 +157,7 @@ impl Engine {
                     },
                 );
                 failed.line = answer.line;
+                failed.span = answer.span;
                 failed
             }
         }

@@ -180,6 +180,7 @@ impl ParseError {
     pub fn report(&self, source: &str) -> crate::answer::ErrorReport {
         let (line, column) = self.line_column(source);
         crate::answer::ErrorReport {
+            class: crate::answer::ErrorClass::Parse,
             stage: "parse",
             code: self.kind.code(),
             message: self.kind.to_string(),

@@ -92,7 +92,7 @@ fn fold(name: &str) -> String {
 }
 
 /// Levenshtein distance over characters.
-fn edit_distance(a: &str, b: &str) -> usize {
+pub(crate) fn edit_distance(a: &str, b: &str) -> usize {
     let b: Vec<char> = b.chars().collect();
     let mut row: Vec<usize> = (0..=b.len()).collect();
     for (i, ca) in a.chars().enumerate() {
@@ -236,7 +236,8 @@ impl Catalog {
             .or_else(|| self.folded_names.get(&fold(name)))
             .map(|&i| &self.solutes[i])
             .ok_or_else(|| CatalogError::UnknownSolute {
-                name: name.trim().to_string(),
+                // A pasted megabyte is not echoed back.
+                name: crate::engine::cut(name.trim()),
                 suggestions: self.suggestions(name),
             })
     }
@@ -251,6 +252,9 @@ impl Catalog {
         let mut scored: Vec<(usize, usize, &str, usize)> = self
             .all_names
             .iter()
+            // A length differing by more than the limit cannot be within it: not measured
+            // (so a very long name costs one pass, not a distance to every name).
+            .filter(|(n, _)| n.chars().count().abs_diff(length) <= limit)
             .map(|(n, i)| {
                 let folded = fold(n);
                 let distance = edit_distance(&wanted, &folded);

@@ -69,7 +69,7 @@ fn outside_the_data_is_an_error_unless_extrapolation_is_asked() {
     let error = a.error.expect("an error");
     assert_eq!(error.code, "out-of-range");
     assert!(error.message.contains("extrapolate"), "{}", error.message);
-    let a = answer(&e, "solubility of KNO3 at 105 C extrapolate");
+    let a = answer(&e, "solubility of CuSO4 at 90 C extrapolate");
     assert!(a.ok, "{:?}", a.error);
     assert_eq!(a.rows[0].basis, Some(Basis::Extrapolated));
     assert!(a.caveats.iter().any(|c| c.contains("extrapolated")));

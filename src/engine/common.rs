@@ -28,8 +28,24 @@ impl From<CurveBasis> for Basis {
 
 /// Kelvin to °C, rounded to 0.01 K (the precision of the inversions).
 pub fn celsius(t_k: f64) -> f64 {
+    let c = t_k - 273.15;
+    // Beyond 1e12 the rounding would overflow to infinity; such a number has no hundredths.
+    if c.abs() > 1e12 {
+        return c;
+    }
     // `+ 0.0` turns a rounded −0 into 0, so nothing prints as `-0 C`.
-    ((t_k - 273.15) * 100.0).round() / 100.0 + 0.0
+    (c * 100.0).round() / 100.0 + 0.0
+}
+
+/// A temperature (K) in °C for a message: to 0.01 K, or in exponent form when it is far
+/// beyond any liquid (so `1e308 C` is not written out in 309 digits).
+pub fn celsius_text(t_k: f64) -> String {
+    let c = celsius(t_k);
+    if c.abs() >= 1e6 {
+        format!("{c:e}")
+    } else {
+        c.to_string()
+    }
 }
 
 /// A composition value for an answer, rounded to [`VALUE_DIGITS`].
@@ -189,7 +205,7 @@ pub fn curve_error(error: ScienceError, solute: &Solute, span: Span) -> EvalErro
         } => EvalError::OutOfRange {
             message: format!(
                 "{} C is outside the data for {} ({} C to {} C); add `extrapolate` to go beyond it",
-                celsius(t_k),
+                celsius_text(t_k),
                 solute.name,
                 celsius(t_min_k),
                 celsius(t_max_k)
@@ -207,6 +223,26 @@ pub fn curve_error(error: ScienceError, solute: &Solute, span: Span) -> EvalErro
                 solute.name,
                 celsius(below_k),
                 celsius(above_k)
+            ),
+            span,
+        },
+        ScienceError::BeyondExtrapolation { t_k, low_k, high_k } => EvalError::OutOfRange {
+            message: format!(
+                "{} C is beyond what `extrapolate` may reach for {} ({} C to {} C): at most {} K beyond its data, never past the boiling point of water at one atmosphere (100 C) nor below -55 C",
+                celsius_text(t_k),
+                solute.name,
+                celsius(low_k),
+                celsius(high_k),
+                crate::science::bounds::MAX_EXTRAPOLATION_K
+            ),
+            span,
+        },
+        ScienceError::ImpossibleExtrapolation { t_k, w, why } => EvalError::OutOfRange {
+            message: format!(
+                "{}: extrapolated to {} C the saturated solution would be {} % solute by mass, which {why}; not answered",
+                solute.name,
+                celsius(t_k),
+                round_significant(w * 100.0, 4)
             ),
             span,
         },

@@ -5,12 +5,15 @@ use serde_json::json;
 
 use crate::answer::{Answer, Basis, Row};
 use crate::engine::CAUTION;
-use crate::engine::common::{basis_caveat, celsius, cite_source, hazard, resolve, value};
+use crate::engine::common::{
+    basis_caveat, celsius, celsius_text, cite_source, hazard, resolve, value,
+};
 use crate::engine::error::EvalError;
 use crate::engine::snapshot::Snapshot;
 use crate::model::{GasConstant, GasLaw, Provenance, Review, Solute, SoluteKind};
 use crate::number::round_significant;
 use crate::query::{DissolvedGas, GasPressure, HeatOfSolution, Options, Span};
+use crate::science::bounds;
 use crate::science::curve::Basis as CurveBasis;
 use crate::science::gas::{self as science_gas, Dissolved, STANDARD_ATMOSPHERE};
 use crate::science::units::CompositionUnit;
@@ -80,7 +83,31 @@ fn evaluate<'a>(
         }
     }
     match (outside, extrapolate) {
-        (Some(found), true) => Ok(found),
+        (Some((found, law)), true) => {
+            if let GasLaw::MoleFractionFit {
+                t_min_k, t_max_k, ..
+            }
+            | GasLaw::MolalityFit {
+                t_min_k, t_max_k, ..
+            } = law.law
+            {
+                bounds::check_window(t_k, t_min_k, t_max_k).map_err(|_| {
+                    let (low, high) = bounds::extrapolation_window(t_min_k, t_max_k);
+                    EvalError::OutOfRange {
+                        message: format!(
+                            "{} C is beyond what `extrapolate` may reach for the Henry's-law data of {} ({} C to {} C: at most {} K beyond them)",
+                            celsius_text(t_k),
+                            solute.name,
+                            celsius(low),
+                            celsius(high),
+                            bounds::MAX_EXTRAPOLATION_K
+                        ),
+                        span,
+                    }
+                })?;
+            }
+            Ok((found, law))
+        }
         (Some((_, law)), false) => {
             let range = match law.law {
                 GasLaw::MoleFractionFit {
@@ -94,7 +121,7 @@ fn evaluate<'a>(
             Err(EvalError::OutOfRange {
                 message: format!(
                     "{} C is outside the range of the Henry's-law data for {}{range}; add `extrapolate` to go beyond it",
-                    celsius(t_k),
+                    celsius_text(t_k),
                     solute.name
                 ),
                 span,
@@ -121,6 +148,50 @@ pub(crate) fn cite_law(snap: &Snapshot, law: &GasConstant, solute: &Solute, answ
     if law.review == Review::Unreviewed {
         answer.caveat(format!("{}: rests on unreviewed data", solute.name));
     }
+}
+
+/// Refuses a temperature where water is not liquid under the pressure asked: above its
+/// critical point at any pressure, below 0 C, or boiling under the total pressure of a
+/// mixture (air at 1 atm when none is given). A gas's own partial pressure says nothing of
+/// the total, so then only the critical point and the ice point bound it.
+fn liquid_water(
+    solute: &Solute,
+    pressure: Option<&GasPressure>,
+    t_k: f64,
+    span: Span,
+) -> Result<(), EvalError> {
+    let total = match pressure {
+        None => Some(STANDARD_ATMOSPHERE),
+        Some(GasPressure::Mixture { total, .. }) => {
+            Some(total.map_or(STANDARD_ATMOSPHERE, |p| p.pascals()))
+        }
+        Some(GasPressure::Partial(_)) => None,
+    };
+    bounds::check_liquid_water(t_k, total).map_err(|e| EvalError::OutOfRange {
+        message: match e {
+            crate::science::ScienceError::NotLiquid { why, .. } => format!(
+                "{} in water at {} C: {why}; not answered, with or without `extrapolate`",
+                solute.name,
+                celsius_text(t_k)
+            ),
+            other => format!("{}: {other}", solute.name),
+        },
+        span,
+    })
+}
+
+/// Refuses a partial pressure beyond [`bounds::HENRY_LIMIT_PA`]; true when it needs the
+/// caveat of [`bounds::HENRY_CAVEAT_PA`].
+fn henry_pressure(solute: &Solute, partial_pa: f64, span: Span) -> Result<bool, EvalError> {
+    bounds::check_henry_pressure(partial_pa).map_err(|_| EvalError::OutOfRange {
+        message: format!(
+            "{}: a partial pressure of {} bar is beyond the {} bar up to which this reference uses Henry's law (a dilute, low-pressure law); not answered",
+            solute.name,
+            round_significant(partial_pa / 1e5, 4),
+            bounds::HENRY_LIMIT_PA / 1e5
+        ),
+        span,
+    })
 }
 
 /// The gas's partial pressure (Pa) at `t_k` under `pressure` (none: humid air at 1 atm),
@@ -205,7 +276,9 @@ pub(crate) fn amount_in(
 pub fn dissolved(snap: &Snapshot, s: &DissolvedGas, answer: &mut Answer) -> Result<(), EvalError> {
     let solute = gas_of(snap, &s.gas)?;
     let t_k = s.temperature.kelvin();
+    liquid_water(solute, s.pressure.as_ref(), t_k, s.temperature.span)?;
     let (partial_pa, described) = partial_pressure(solute, s.pressure.as_ref(), t_k, s.gas.span)?;
+    let high_pressure = henry_pressure(solute, partial_pa, s.gas.span)?;
     let laws = laws(snap, solute, &s.options);
     let (amount, law) = evaluate(
         &laws,
@@ -246,6 +319,12 @@ pub fn dissolved(snap: &Snapshot, s: &DissolvedGas, answer: &mut Answer) -> Resu
     answer.caveat(format!(
         "Henry's law for {described} in pure water; dilute solution taken as dense as pure water"
     ));
+    if high_pressure {
+        answer.caveat(format!(
+            "above {} bar of partial pressure Henry's law overstates the amount dissolved (the gas is no longer ideal and the pressure acts on the liquid): treat the value as an upper estimate",
+            bounds::HENRY_CAVEAT_PA / 1e5
+        ));
+    }
     if unit.needs_density() {
         answer.caveat("per-litre amounts use the density of pure water at this temperature");
     }
@@ -265,6 +344,7 @@ pub fn heat(
     answer: &mut Answer,
 ) -> Result<(), EvalError> {
     let t_k = s.temperature.kelvin();
+    liquid_water(solute, None, t_k, s.temperature.span)?;
     let laws = laws(snap, solute, &s.options);
     let (_, law) = evaluate(
         &laws,

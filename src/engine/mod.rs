@@ -12,6 +12,7 @@
 
 mod common;
 mod error;
+mod filters;
 mod gas;
 mod plot;
 mod records;
@@ -22,6 +23,7 @@ use std::path::Path;
 use std::sync::Arc;
 
 pub use error::EvalError;
+pub use filters::cut;
 pub use snapshot::Snapshot;
 
 use crate::answer::{Answer, AnswerKind, ErrorReport};
@@ -92,6 +94,7 @@ impl Engine {
     pub fn prepare<'t>(&self, text: &'t str, session: &mut Session) -> Prepared<'t> {
         Prepared {
             text,
+            lines: query::LineIndex::new(text),
             parsed: query::parse_with(text, &mut session.env),
         }
     }
@@ -101,11 +104,12 @@ impl Engine {
         &self,
         parsed: &Result<Located<Statement>, query::ParseError>,
         text: &str,
+        lines: &query::LineIndex,
     ) -> Answer {
         match parsed {
-            Ok(statement) => self.run(statement, text),
+            Ok(statement) => self.run_located(statement, text, lines),
             Err(error) => {
-                let report = error.report(text);
+                let report = error.report_at(lines.line_column(text, error.span.start));
                 let line = report.line;
                 let statement = statement_text(text, error.span.start);
                 let mut answer = Answer::failed(statement, AnswerKind::Invalid, report);
@@ -116,11 +120,23 @@ impl Engine {
     }
 
     /// Answers one parsed statement; `text` is the script its spans point into.
+    /// (Indexes the lines of `text` for this one statement; a caller answering many
+    /// statements of one text goes through [`Engine::prepare`], which indexes it once.)
     pub fn run(&self, statement: &Located<Statement>, text: &str) -> Answer {
+        self.run_located(statement, text, &query::LineIndex::new(text))
+    }
+
+    /// [`Engine::run`] with the lines of `text` already indexed.
+    fn run_located(
+        &self,
+        statement: &Located<Statement>,
+        text: &str,
+        lines: &query::LineIndex,
+    ) -> Answer {
         let written = statement.span.text(text).trim().to_string();
         let kind = kind_of(&statement.node);
         let mut answer = Answer::new(written.clone(), kind);
-        answer.line = query::line_column(text, statement.span.start).0;
+        answer.line = lines.line_column(text, statement.span.start).0;
         answer.span = (statement.span.start, statement.span.end);
         let result = match &statement.node {
             Statement::Solubility(s) => solid::lookup(&self.snapshot, s, &mut answer),
@@ -142,7 +158,7 @@ impl Engine {
             Ok(()) => answer,
             Err(error) => {
                 let span = error.span();
-                let (line, column) = query::line_column(text, span.start);
+                let (line, column) = lines.line_column(text, span.start);
                 let mut failed = Answer::failed(
                     written,
                     kind,
@@ -187,6 +203,8 @@ impl Engine {
 #[derive(Debug)]
 pub struct Prepared<'t> {
     text: &'t str,
+    /// Where the lines of `text` start: every answer's line found without a rescan.
+    lines: query::LineIndex,
     parsed: Vec<Result<Located<Statement>, query::ParseError>>,
 }
 
@@ -218,7 +236,7 @@ impl<'t> Prepared<'t> {
     pub fn answers<'a>(&'a self, engine: &'a Engine) -> impl Iterator<Item = Answer> + 'a {
         self.parsed
             .iter()
-            .map(move |parsed| engine.answer_parsed(parsed, self.text))
+            .map(move |parsed| engine.answer_parsed(parsed, self.text, &self.lines))
     }
 }
 

@@ -249,16 +249,25 @@ fn solids(
                 });
             }
         };
+        let (reach_lo, reach_hi) = curve.extrapolation_window();
         for t in grid(t0, t1, extra) {
             let outside = t < lo - 1e-9 || t > hi + 1e-9;
-            if outside && !s.options.extrapolate {
+            let beyond_reach = t < reach_lo - 1e-9 || t > reach_hi + 1e-9;
+            if outside && (!s.options.extrapolate || beyond_reach) {
                 finish(run.take(), &mut by_branch);
                 previous_t = None;
                 continue;
             }
-            let evaluation = curve
-                .evaluate(t, true)
-                .map_err(|e| curve_error(e, solute, name.span))?;
+            let evaluation = match curve.evaluate(t, true) {
+                Ok(evaluation) => evaluation,
+                // An extrapolation the bounds refuse is not drawn, like one not asked for.
+                Err(_) if outside => {
+                    finish(run.take(), &mut by_branch);
+                    previous_t = None;
+                    continue;
+                }
+                Err(e) => return Err(curve_error(e, solute, name.span)),
+            };
             let extrapolated = evaluation.basis == CurveBasis::Extrapolated;
             let point = (
                 to_celsius(t),
@@ -308,6 +317,15 @@ fn solids(
                 ),
                 span: range_span(s),
             });
+        }
+        if s.options.extrapolate && (t0 < reach_lo - 1e-9 || t1 > reach_hi + 1e-9) {
+            answer.caveat(format!(
+                "{}: extrapolation reaches only {} C to {} C (at most {} K beyond the data, never past the boiling point of water at one atmosphere); the rest of the range is not drawn",
+                solute.name,
+                celsius(reach_lo),
+                celsius(reach_hi),
+                crate::science::bounds::MAX_EXTRAPOLATION_K
+            ));
         }
         if !s.options.extrapolate && (t0 < lo - 1e-9 || t1 > hi + 1e-9) {
             answer.caveat(format!(

@@ -207,8 +207,9 @@ pub fn sources(snap: &Snapshot, s: &Sources, answer: &mut Answer) -> Result<(), 
 
 /// `list salts with anion sulfate`.
 pub fn list(snap: &Snapshot, s: &List, answer: &mut Answer) -> Result<(), EvalError> {
+    let filters = crate::engine::filters::checked(snap, &s.filters, answer)?;
     for solute in snap.catalog.solutes() {
-        if !selects(snap, solute, s.class, &s.filters) {
+        if !selects(snap, solute, s.class, &filters) {
             continue;
         }
         let range = snap.curve(&solute.id, s.options.reviewed_only).map(|b| {

@@ -19,10 +19,11 @@ use crate::number::{display, round_significant};
 use crate::query::{
     Ceiling, Convert, Freezing, HeatOfSolution, Require, Saturation, Screen, Solubility,
 };
+use crate::science::ScienceError;
 use crate::science::formula::parse_formula;
 use crate::science::freezing::{FirstSolid, IceBasis, first_solid_on_cooling, ice_line};
 use crate::science::heat::heat_of_solution;
-use crate::science::solve::{self, Screening, stays_dissolved};
+use crate::science::solve::{self, Screening, stays_dissolved_with};
 use crate::science::units::{
     self, CompositionUnit, TemperatureUnit, anhydrous_to_hydrate, hydrate_to_anhydrous,
 };
@@ -73,6 +74,20 @@ fn headroom(pct: f64) -> f64 {
     (pct * 10.0).round() / 10.0
 }
 
+/// Headroom for a row: none for a zero loading (it holds trivially, without limit).
+fn finite_headroom(pct: f64) -> Option<f64> {
+    pct.is_finite().then(|| headroom(pct))
+}
+
+/// The caveat of a zero loading.
+fn zero_loading_caveat(w: f64, answer: &mut Answer) {
+    if w == 0.0 {
+        answer.caveat(
+            "a zero loading holds trivially: nothing is dissolved, so nothing can crystallise",
+        );
+    }
+}
+
 /// `which salts stay dissolved at 30 g/100g water from 2 C to 8 C margin 10%`.
 pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), EvalError> {
     let (t1, t2) = bounds(&s.temperatures);
@@ -91,10 +106,11 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
     // Option, so the rows can be taken out in rank order without another copy.
     let mut ranked: Vec<Option<(&Solute, Screening, Option<f64>)>> =
         Vec::with_capacity(snap.catalog.solutes().len());
+    let filters = crate::engine::filters::checked(snap, &s.filters, answer)?;
     let mut no_data: Vec<Row> = Vec::new();
     let (mut from_memory, mut unreviewed) = (0usize, 0usize);
     for (index, solute) in snap.catalog.solutes().iter().enumerate() {
-        if !selects(snap, solute, s.class, &s.filters) {
+        if !selects(snap, solute, s.class, &filters) {
             continue;
         }
         let missing = |reason: String| Row {
@@ -122,18 +138,23 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
             continue;
         };
         let w = loading_mass_fraction(&s.loading, solute)?;
-        let screening = match stays_dissolved(&built.curve, w, t1, t2, margin) {
-            Ok(screening) => screening,
-            Err(_) => {
-                let (lo, hi) = built.curve.temperature_range();
-                no_data.push(missing(format!(
-                    "data do not cover the whole range (they cover {} C to {} C)",
-                    celsius(lo),
-                    celsius(hi)
-                )));
-                continue;
-            }
-        };
+        let screening =
+            match stays_dissolved_with(&built.curve, w, t1, t2, margin, s.options.extrapolate) {
+                Ok(screening) => screening,
+                Err(ScienceError::OutOfRange { .. } | ScienceError::InGap { .. }) => {
+                    let (lo, hi) = built.curve.temperature_range();
+                    no_data.push(missing(format!(
+                        "data do not cover the whole range (they cover {} C to {} C)",
+                        celsius(lo),
+                        celsius(hi)
+                    )));
+                    continue;
+                }
+                Err(other) => {
+                    no_data.push(missing(other.to_string()));
+                    continue;
+                }
+            };
         let datasets = snap.catalog.datasets();
         if built
             .datasets
@@ -189,6 +210,9 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
         }
     }
     answer.rows.extend(no_data);
+    if s.loading.value == 0.0 {
+        zero_loading_caveat(0.0, answer);
+    }
     answer.caveat(format!(
         "{held} of {with_data} solutes with data stay dissolved; {no_data_count} without data over the range are listed apart as \"no data\", never as passing"
     ));
@@ -227,7 +251,7 @@ fn screening_row(
         basis: Some(Basis::from(screening.basis)),
         temperature_c: Some(celsius(screening.limiting_t_k)),
         holds: Some(screening.holds),
-        headroom_pct: Some(headroom(screening.headroom_pct)),
+        headroom_pct: finite_headroom(screening.headroom_pct),
         // `holds` says whether it stays dissolved; no `extra` map, so no allocation for it
         // (a screening may have 100,000 rows).
         extra: BTreeMap::new(),
@@ -261,7 +285,7 @@ pub fn require(snap: &Snapshot, s: &Require, answer: &mut Answer) -> Result<(), 
         phase: Some(screening.phase.clone()),
         temperature_c: Some(celsius(screening.limiting_t_k)),
         holds: Some(screening.holds),
-        headroom_pct: Some(headroom(screening.headroom_pct)),
+        headroom_pct: finite_headroom(screening.headroom_pct),
         extra: [(
             "margin_pct".to_string(),
             json!(round_significant(margin * 100.0, 4)),
@@ -269,6 +293,7 @@ pub fn require(snap: &Snapshot, s: &Require, answer: &mut Answer) -> Result<(), 
         .into_iter()
         .collect(),
     });
+    zero_loading_caveat(w, answer);
     if !screening.holds {
         let needed = (1.0 + margin) * 100.0;
         answer.caveat(format!(
@@ -488,6 +513,7 @@ pub fn freezing(snap: &Snapshot, s: &Freezing, answer: &mut Answer) -> Result<()
         IceBasis::Tabulated => Basis::Tabulated,
         IceBasis::Interpolated => Basis::Interpolated,
         IceBasis::Ideal => Basis::Computed,
+        IceBasis::Eutectic => Basis::Tabulated,
     };
     let ions = solute.ions.max(1);
     if let Some(d) = data {
@@ -514,6 +540,7 @@ pub fn freezing(snap: &Snapshot, s: &Freezing, answer: &mut Answer) -> Result<()
             if ice.basis == IceBasis::Ideal {
                 ideal_caveat(ions, answer);
             }
+            eutectic_caveat(ice.basis, answer);
         }
         Some(t) => {
             let check = first_solid_on_cooling(
@@ -593,6 +620,7 @@ pub fn freezing(snap: &Snapshot, s: &Freezing, answer: &mut Answer) -> Result<()
             if check.ice_basis == IceBasis::Ideal {
                 ideal_caveat(ions, answer);
             }
+            eutectic_caveat(check.ice_basis, answer);
             if let Some(built) = curve {
                 cite_curve(snap, built, solute, answer);
             }
@@ -601,6 +629,15 @@ pub fn freezing(snap: &Snapshot, s: &Freezing, answer: &mut Answer) -> Result<()
     hazard(solute, answer);
     answer.caveat(CAUTION);
     Ok(())
+}
+
+/// The caveat of a loading richer than the eutectic.
+fn eutectic_caveat(basis: IceBasis, answer: &mut Answer) {
+    if basis == IceBasis::Eutectic {
+        answer.caveat(
+            "the loading is richer than the eutectic: on cooling the salt crystallises first, and ice appears only at the eutectic temperature (the ice line never goes below it)",
+        );
+    }
 }
 
 fn ideal_caveat(ions: u32, answer: &mut Answer) {

@@ -14,7 +14,7 @@ use crate::engine::Engine;
 use crate::frontend::picture::Pictures;
 use crate::frontend::{Outcome, database_name, open_engine};
 use crate::output::{Format, Printer};
-use crate::query::line_column;
+use crate::query::LineIndex;
 
 /// How standard input is named in messages.
 pub const STDIN_NAME: &str = "<stdin>";
@@ -224,6 +224,7 @@ pub fn run_scripts(
     let mut plots = 0;
     for script in scripts {
         let mut answers = engine.run_text(&script.text, &mut session);
+        let lines = LineIndex::new(&script.text);
         for answer in &mut answers {
             if let Some(spec) = answer.plot.as_deref() {
                 plots += 1;
@@ -236,7 +237,7 @@ pub fn run_scripts(
                 }
             }
             let answer = &*answer;
-            let position = Some(line_column(&script.text, answer.span.0));
+            let position = Some(lines.line_column(&script.text, answer.span.0));
             if let Some(problem) = judge(&script.name, position, answer) {
                 report(err, &problem.message);
                 outcome = outcome.worst(problem.outcome);
@@ -498,5 +499,13 @@ mod tests {
         );
         assert_ne!(outcome, Outcome::Trouble);
         assert!(!String::from_utf8(err).unwrap().contains("cannot write"));
+    }
+
+    #[test]
+    fn line_and_column_count_characters() {
+        let text = "ab\ncé x";
+        let index = crate::query::LineIndex::new(text);
+        assert_eq!(index.line_column(text, 7), (2, 4));
+        assert_eq!(index.line_column("abc", 0), (1, 1));
     }
 }

@@ -146,6 +146,13 @@ pub enum ParseErrorKind {
     /// The same clause twice: `ceiling of KCl from 2 C to 8 C margin 10% margin 5%`.
     #[error("`{clause}` is given twice in one statement")]
     DuplicateClause { clause: String },
+
+    /// A character that cannot be seen (here a zero-width space after the formula; a
+    /// direction mark, a control character) inside a statement: `solubility of KNO3​ at 20 C`.
+    #[error(
+        "an invisible character ({code}, {name}) stands here; delete it (it is neither a space nor a letter)"
+    )]
+    InvisibleCharacter { code: String, name: &'static str },
 }
 
 impl ParseErrorKind {
@@ -167,6 +174,7 @@ impl ParseErrorKind {
             ParseErrorKind::NameKindMismatch { .. } => "name-kind-mismatch",
             ParseErrorKind::ReservedName { .. } => "reserved-name",
             ParseErrorKind::DuplicateClause { .. } => "duplicate-clause",
+            ParseErrorKind::InvisibleCharacter { .. } => "invisible-character",
         }
     }
 }
@@ -178,7 +186,12 @@ impl ParseError {
 
     /// The error as data, with line and column taken from `source`.
     pub fn report(&self, source: &str) -> crate::answer::ErrorReport {
-        let (line, column) = self.line_column(source);
+        self.report_at(self.line_column(source))
+    }
+
+    /// The error as data, at a (line, column) already found (e.g. by a
+    /// [`super::LineIndex`] built once for a whole script).
+    pub fn report_at(&self, (line, column): (usize, usize)) -> crate::answer::ErrorReport {
         crate::answer::ErrorReport {
             class: crate::answer::ErrorClass::Parse,
             stage: "parse",

@@ -18,11 +18,14 @@
 
 pub mod ast;
 pub mod error;
+pub mod invisible;
 pub mod lexicon;
+pub mod lines;
 pub mod parse;
 
 pub use ast::*;
 pub use error::{ParseError, ParseErrorKind, line_column};
+pub use lines::LineIndex;
 pub use parse::{Env, parse_script, parse_statement, parse_with};
 
 /// Every word of the language, sorted and each once (for completion and help).

@@ -324,6 +324,14 @@ impl Branch {
                 t_max_k: hi,
             });
         }
+        if !self.covers(t_k) {
+            super::bounds::check_window(t_k, lo, hi)?;
+            super::bounds::check_extrapolated_fraction(
+                &self.phase,
+                self.interpolant.eval(t_k).0,
+                t_k,
+            )?;
+        }
         let (w, slope) = self.value_unchecked(t_k);
         Ok(Evaluation {
             mass_fraction: w,
@@ -530,7 +538,26 @@ impl Curve {
                 above_k,
             });
         }
+        let (lo, hi) = self.temperature_range();
+        if t_k < lo || t_k > hi {
+            // Extrapolated beyond every branch: within reach, and a possible composition.
+            super::bounds::check_window(t_k, lo, hi)?;
+            let (i, w, d) = self.stable(t_k);
+            let branch = &self.branches[i];
+            super::bounds::check_extrapolated_fraction(
+                &branch.phase,
+                branch.interpolant.eval(t_k).0,
+                t_k,
+            )?;
+            return Ok((i, w, d));
+        }
         Ok(self.stable(t_k))
+    }
+
+    /// The temperatures (K) `extrapolate` may reach: see [`super::bounds::extrapolation_window`].
+    pub fn extrapolation_window(&self) -> (f64, f64) {
+        let (lo, hi) = self.temperature_range();
+        super::bounds::extrapolation_window(lo, hi)
     }
 
     /// Where the stable branch changes: found on a grid of every knot plus 50 steps per

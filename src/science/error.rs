@@ -90,6 +90,23 @@ pub enum ScienceError {
     /// A freezing question above 0 °C or an ice line with no usable data: `freezing at 5 C`.
     #[error("{0}")]
     Freezing(&'static str),
+    /// `extrapolate` asked for a temperature farther than the rules of
+    /// [`super::bounds`] allow: data from 273.15 K to 373.15 K evaluated at 5273.15 K.
+    #[error("{t_k:.2} K is beyond what extrapolation may reach ({low_k:.2} K to {high_k:.2} K)")]
+    BeyondExtrapolation { t_k: f64, low_k: f64, high_k: f64 },
+    /// An extrapolated composition no solution could have: an end tangent reaching a mass
+    /// fraction of 1 (all solute, no water) or below 0.
+    #[error("extrapolated to {t_k:.2} K the mass fraction would be {w:.4}, which {why}")]
+    ImpossibleExtrapolation { t_k: f64, w: f64, why: &'static str },
+    /// Water is not liquid at this temperature and pressure: 773.15 K at any pressure,
+    /// 383.15 K under one atmosphere of air.
+    #[error("{t_k:.2} K: {why}")]
+    NotLiquid { t_k: f64, why: String },
+    /// A partial pressure where the dilute Henry's law is not used: 10,000 bar.
+    #[error(
+        "a partial pressure of {partial_pa:.0} Pa is beyond the {limit_pa:.0} Pa up to which this reference uses Henry's law (a dilute, low-pressure law)"
+    )]
+    BeyondHenry { partial_pa: f64, limit_pa: f64 },
 }
 
 #[cfg(test)]
@@ -210,6 +227,23 @@ mod tests {
         assert!(matches!(
             first_solid_on_cooling(None, 0.1, 58.44, 2, None, 278.15),
             Err(ScienceError::Freezing(_))
+        ));
+        assert!(matches!(
+            curve().evaluate(5273.15, true),
+            Err(ScienceError::BeyondExtrapolation { .. })
+        ));
+        let steep = Curve::single(Branch::new("A", &[(273.15, 0.1), (283.15, 0.9)]).unwrap());
+        assert!(matches!(
+            steep.evaluate(290.0, true),
+            Err(ScienceError::ImpossibleExtrapolation { .. })
+        ));
+        assert!(matches!(
+            crate::science::bounds::check_liquid_water(773.15, None),
+            Err(ScienceError::NotLiquid { .. })
+        ));
+        assert!(matches!(
+            crate::science::bounds::check_henry_pressure(1.0e10),
+            Err(ScienceError::BeyondHenry { .. })
         ));
         // Messages name what was wrong.
         let msg = to_mass_fraction(250.0, U::GramsPerLitre, &none)

@@ -4,6 +4,7 @@
 //! Units: temperatures in K, compositions as mass fraction of anhydrous solute, molar mass
 //! in g/mol.
 
+use super::bounds::LOWEST_LIQUID_K;
 use super::curve::{Curve, Pchip};
 use super::error::ScienceError;
 use super::solve::saturation_temperatures;
@@ -26,6 +27,9 @@ pub enum IceBasis {
     Interpolated,
     /// Ideal freezing-point depression (no tabulated data cover this composition).
     Ideal,
+    /// Richer than the eutectic: the salt crystallises first on cooling, and ice appears
+    /// only at the eutectic temperature (a simple eutectic system, common practice).
+    Eutectic,
 }
 
 impl IceBasis {
@@ -35,6 +39,7 @@ impl IceBasis {
             IceBasis::Tabulated => "tabulated",
             IceBasis::Interpolated => "interpolated",
             IceBasis::Ideal => "ideal",
+            IceBasis::Eutectic => "eutectic",
         }
     }
 }
@@ -75,7 +80,9 @@ pub struct IcePoint {
 ///
 /// From `data` where its points (with the eutectic as a last point, when it lies beyond
 /// them) cover `w`, by monotone interpolation in mass fraction; otherwise ideal:
-/// T = 273.15 K − i·K_f·m (see [`ideal_depression`]).
+/// T = 273.15 K − i·K_f·m (see [`ideal_depression`]). Never below the eutectic: a loading
+/// richer than the data's eutectic gives the eutectic temperature ([`IceBasis::Eutectic`]);
+/// an ideal line that would fall below [`LOWEST_LIQUID_K`] is refused.
 pub fn ice_line(
     w: f64,
     molar_mass: f64,
@@ -85,6 +92,14 @@ pub fn ice_line(
     let w = check_w(w)?;
     let m = positive("molar mass (g/mol)", molar_mass)?;
     if let Some(d) = data {
+        if let Some((we, te)) = d.eutectic
+            && w > we
+        {
+            return Ok(IcePoint {
+                t_k: te,
+                basis: IceBasis::Eutectic,
+            });
+        }
         let mut pts = d.points.clone();
         if let Some(e) = d.eutectic
             && pts.last().is_none_or(|p| e.0 > p.0)
@@ -111,8 +126,14 @@ pub fn ice_line(
             });
         }
     }
+    let t_k = ICE_POINT - ideal_depression(molality(w, m), ions);
+    if t_k.is_nan() || t_k < LOWEST_LIQUID_K {
+        return Err(ScienceError::Freezing(
+            "the ideal freezing-point depression would put the ice line below -55 C, where no aqueous salt solution stays liquid: the dilute law does not reach this loading, and the data hold no eutectic to bound it",
+        ));
+    }
     Ok(IcePoint {
-        t_k: ICE_POINT - ideal_depression(molality(w, m), ions),
+        t_k,
         basis: IceBasis::Ideal,
     })
 }

@@ -43,6 +43,11 @@ fn check_loading(w: f64) -> Result<f64, ScienceError> {
     }
 }
 
+/// [`check_loading`], with zero allowed: a zero loading stays dissolved trivially.
+fn check_loading_or_zero(w: f64) -> Result<f64, ScienceError> {
+    if w == 0.0 { Ok(w) } else { check_loading(w) }
+}
+
 /// Grid of every knot, every transition and `STEPS` subdivisions between neighbours,
 /// restricted to [lo, hi] and, unless `uncovered_too`, to temperatures with data.
 fn scan_grid(curve: &Curve, lo: f64, hi: f64, uncovered_too: bool) -> Vec<f64> {
@@ -180,6 +185,13 @@ pub fn minimum(
 ) -> Result<Minimum, ScienceError> {
     if !(t1_k.is_finite() && t2_k.is_finite()) || t2_k < t1_k {
         return Err(ScienceError::BadRange { t1_k, t2_k });
+    }
+    if extrapolate {
+        // Both ends within reach: the window is an interval around the data, so the
+        // whole range is.
+        let (lo, hi) = curve.temperature_range();
+        super::bounds::check_window(t1_k, lo, hi)?;
+        super::bounds::check_window(t2_k, lo, hi)?;
     }
     if t1_k == t2_k {
         let uncovered = !curve.covers(t1_k);
@@ -327,11 +339,12 @@ pub fn stays_dissolved_with(
     margin: f64,
     extrapolate: bool,
 ) -> Result<Screening, ScienceError> {
-    let w = check_loading(w)?;
+    let w = check_loading_or_zero(w)?;
     let margin = check_margin(margin)?;
     let m = minimum(curve, t1_k, t2_k, extrapolate)?;
     let (r_min, r_load) = (ratio(m.mass_fraction), ratio(w));
     Ok(Screening {
+        // A zero loading holds trivially (nothing is dissolved); its headroom is infinite.
         holds: r_min >= r_load * (1.0 + margin),
         limiting_t_k: m.t_k,
         phase: m.phase,
@@ -486,6 +499,13 @@ mod tests {
             minimum(&c, 270.0, 270.0, false),
             Err(ScienceError::OutOfRange { .. })
         ));
+    }
+
+    #[test]
+    fn a_zero_loading_stays_dissolved_trivially() {
+        let s = stays_dissolved(&peaked(), 0.0, 283.15, 293.15, 0.1).unwrap();
+        assert!(s.holds);
+        assert!(s.headroom_pct.is_infinite());
     }
 
     #[test]

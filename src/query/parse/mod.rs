@@ -135,6 +135,15 @@ fn parse_piece(
     env: &Env,
 ) -> Result<Located<Statement>, ParseError> {
     let piece = &text[start..end];
+    if let Some((at, c)) = super::invisible::find(piece) {
+        return Err(ParseError::new(
+            ParseErrorKind::InvisibleCharacter {
+                code: format!("U+{:04X}", u32::from(c)),
+                name: super::invisible::name(c).unwrap_or("invisible character"),
+            },
+            Span::new(start + at, start + at + c.len_utf8()),
+        ));
+    }
     let cx = Cx { piece, start, env };
     match statement(cx, piece) {
         Ok((_, node)) => Ok(Located {

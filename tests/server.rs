@@ -393,7 +393,7 @@ fn unknown_solute_source_and_route_are_404() {
         "unknown-source"
     );
     assert_eq!(c.get("/v2/query").error(404)["code"], "no-such-route");
-    assert_eq!(c.get("/").error(404)["code"], "no-such-route");
+    assert_eq!(c.get("/nothing-here").error(404)["code"], "no-such-route");
     assert_eq!(
         c.request("DELETE", "/v1/health", &[], b"").error(405)["code"],
         "method-not-allowed"

@@ -18,6 +18,8 @@ mod admin;
 mod auth;
 mod layers;
 mod limits;
+mod page;
+mod queue;
 mod reply;
 mod routes;
 
@@ -313,7 +315,8 @@ pub fn serve(mut config: Config) -> Result<(), ServerError> {
     let loopback = config.addr.ip().is_loopback();
     let running = start(config)?;
     eprintln!(
-        "satline: serving on http://{}/v1 ({writes}); stop with Ctrl-C",
+        "satline: serving on http://{}/ (open it in a browser; the API is under /v1, {writes}); \
+         stop with Ctrl-C",
         running.addr()
     );
     if !loopback {

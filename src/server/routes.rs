@@ -28,9 +28,10 @@ use crate::model::{Solute, Source};
 use crate::query::{Filter, Name, SoluteClass, Span};
 
 /// Every route, for the 404 message.
-const ROUTES: &str = "POST /v1/query, GET /v1/solutes, GET /v1/solutes/{name}, GET /v1/sources, \
-GET /v1/sources/{key}, GET /v1/version, GET /v1/health, POST /v1/plot, POST /v1/admin/reload, \
-POST /v1/admin/import, POST /v1/admin/review, POST /v1/admin/retire";
+const ROUTES: &str = "GET / (the page), GET|POST /v1/query, GET /v1/vocabulary, GET /v1/solutes, GET /v1/solutes/{name}, GET /v1/sources, \
+GET /v1/sources/{key}, GET /v1/version, GET /v1/health, GET|POST /v1/plot, POST /v1/admin/reload, \
+POST /v1/admin/import, POST /v1/admin/review, POST /v1/admin/retire, GET /v1/admin/queue, \
+GET /v1/admin/history/{solute}";
 
 /// The routes with the layers every request goes through.
 pub(crate) fn router(state: Shared) -> Router {
@@ -45,6 +46,8 @@ pub(crate) fn router(state: Shared) -> Router {
 
 fn routes() -> Router<Shared> {
     Router::new()
+        .merge(super::page::routes())
+        .merge(super::queue::routes())
         .route("/v1/query", post(query))
         .route("/v1/solutes", get(solutes))
         .route("/v1/solutes/{name}", get(solute))
@@ -228,7 +231,7 @@ fn internal(message: String) -> Evaluated {
 
 /// `POST /v1/query`: the answers to the statements of the body, the same JSON objects as
 /// `satline run --format json`, as one array.
-async fn query(
+pub(super) async fn query(
     State(state): State<Shared>,
     permit: Option<axum::Extension<Permit>>,
     headers: HeaderMap,
@@ -488,7 +491,7 @@ async fn version(State(state): State<Shared>) -> Response {
 
 /// `?format=svg|png&width=W&height=H` of `POST /v1/plot`.
 #[derive(Debug, Deserialize)]
-struct PlotParams {
+pub(super) struct PlotParams {
     format: Option<String>,
     width: Option<u32>,
     height: Option<u32>,
@@ -497,7 +500,7 @@ struct PlotParams {
 /// `POST /v1/plot`: the body is one `plot` statement; the answer is the picture
 /// (`image/svg+xml` by default, `image/png` with `?format=png`). A statement that cannot be
 /// answered gets the JSON error of `/v1/query` (400 parse, 404 unknown solute, 422 other).
-async fn plot(
+pub(super) async fn plot(
     State(state): State<Shared>,
     params: Result<Query<PlotParams>, QueryRejection>,
     headers: HeaderMap,

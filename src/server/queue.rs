@@ -1,0 +1,95 @@
+//! The librarian's reads over HTTP, behind the token like the writes in `admin`: the review
+//! queue and a solute's history, read by the same store functions as `satline review list`
+//! and `satline history`. The page's librarian view shows them and approves or rejects
+//! through `POST /v1/admin/review`.
+
+use axum::Router;
+use axum::extract::rejection::PathRejection;
+use axum::extract::{Path, State};
+use axum::http::{HeaderMap, StatusCode};
+use axum::response::{IntoResponse, Response};
+use axum::routing::get;
+use serde_json::{Value, json};
+
+use super::reply::{self, ApiError};
+use super::{Shared, auth};
+use crate::store::{self, Store, StoreError};
+
+/// The routes of this module; merged into the server's router.
+pub(crate) fn routes() -> Router<Shared> {
+    Router::new()
+        .route("/v1/admin/queue", get(queue))
+        .route("/v1/admin/history/{solute}", get(history))
+}
+
+fn store_error(e: StoreError) -> ApiError {
+    match e {
+        StoreError::UnknownSolute { .. } => {
+            ApiError::new(StatusCode::NOT_FOUND, "unknown-solute", e.to_string())
+        }
+        e if e.is_bad_input() => {
+            ApiError::new(StatusCode::UNPROCESSABLE_ENTITY, "refused", e.to_string())
+        }
+        e => ApiError::new(StatusCode::INTERNAL_SERVER_ERROR, "store", e.to_string()),
+    }
+}
+
+/// Reads from the server's database (the file, or the embedded default) on a blocking
+/// thread, once the token is checked.
+async fn read<F>(state: Shared, headers: HeaderMap, what: F) -> Response
+where
+    F: FnOnce(&Store) -> Result<Value, StoreError> + Send + 'static,
+{
+    if let Err(e) = auth::authorize(state.token.as_ref(), &headers) {
+        return e.into_response();
+    }
+    let db = state.db.clone();
+    let done = tokio::task::spawn_blocking(move || {
+        let store = match &db {
+            Some(path) => Store::open_read_only(path)?,
+            None => store::default_db::open_default()?,
+        };
+        what(&store)
+    })
+    .await;
+    match done {
+        Ok(Ok(body)) => reply::json(StatusCode::OK, &body),
+        Ok(Err(e)) => store_error(e).into_response(),
+        Err(e) => ApiError::internal(format!("the read was lost: {e}")).into_response(),
+    }
+}
+
+/// `GET /v1/admin/queue`: the records waiting for review (what `satline review list`
+/// shows), datasets first. Needs the bearer token.
+async fn queue(State(state): State<Shared>, headers: HeaderMap) -> Response {
+    read(state, headers, |store| {
+        let records = store.unreviewed()?;
+        Ok(json!({"count": records.len(), "records": records}))
+    })
+    .await
+}
+
+/// `GET /v1/admin/history/{solute}`: every audit row about a solute and its records, oldest
+/// first (what `satline history` shows). Needs the bearer token.
+async fn history(
+    State(state): State<Shared>,
+    headers: HeaderMap,
+    solute: Result<Path<String>, PathRejection>,
+) -> Response {
+    let name = match solute {
+        Ok(Path(name)) => name,
+        Err(e) => {
+            return ApiError::new(
+                StatusCode::BAD_REQUEST,
+                "bad-parameter",
+                format!("the path cannot be read: {e}"),
+            )
+            .into_response();
+        }
+    };
+    read(state, headers, move |store| {
+        let (id, entries) = store.history(&name)?;
+        Ok(json!({"solute": id, "count": entries.len(), "entries": entries}))
+    })
+    .await
+}

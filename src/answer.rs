@@ -120,9 +120,25 @@ pub struct SourceRef {
     pub citation: String,
 }
 
+/// The class of a fault, for front ends that map it to their own terms (an HTTP status, an
+/// exit code) with a `match`, never by comparing codes.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum ErrorClass {
+    /// The statement could not be parsed.
+    #[default]
+    Parse,
+    /// A solute named in the statement is not in the catalog.
+    UnknownSolute,
+    /// The statement parsed but the data or the method cannot answer it.
+    Unanswerable,
+}
+
 /// Where a statement went wrong, ready for any renderer.
 #[derive(Debug, Clone, PartialEq, Eq, Serialize, utoipa::ToSchema)]
 pub struct ErrorReport {
+    /// The class of the fault (not part of the JSON: `stage` and `code` say it there).
+    #[serde(skip)]
+    pub class: ErrorClass,
     /// Which stage failed: `parse` or `evaluate`.
     pub stage: &'static str,
     /// A stable name for the class of fault, e.g. `unknown-solute`, `wrong-quantity`.
@@ -150,6 +166,14 @@ pub struct Answer {
     /// For `require`: whether the assertion held.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub holds: Option<bool>,
+    /// For a `require` that did not hold: what it lacks, in words (the limiting row's
+    /// solute, temperature, headroom and shortfall), as the engine states it.
+    #[serde(skip)]
+    pub shortfall: Option<String>,
+    /// Byte range of the statement in its script (not part of the JSON), for front ends
+    /// that point at it.
+    #[serde(skip)]
+    pub span: (usize, usize),
     pub rows: Vec<Row>,
     pub caveats: Vec<String>,
     pub sources: Vec<SourceRef>,
@@ -172,6 +196,8 @@ impl Answer {
             kind,
             ok: true,
             holds: None,
+            shortfall: None,
+            span: (0, 0),
             rows: Vec::new(),
             caveats: Vec::new(),
             sources: Vec::new(),

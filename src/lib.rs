@@ -13,6 +13,7 @@ pub mod error;
 pub mod frontend;
 pub mod librarian;
 pub mod model;
+pub mod number;
 pub mod output;
 pub mod plot;
 pub mod query;

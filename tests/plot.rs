@@ -36,7 +36,11 @@ fn lines_in(doc: &roxmltree::Document, colour: &str) -> usize {
 #[test]
 fn svg_holds_a_series_per_solute_and_phase_axis_labels_and_legend() {
     let engine = engine();
-    let svg = plot::svg_for(&engine, "plot KNO3, KCl, Na2SO4 from 0 C to 60 C").unwrap();
+    let svg = plot::svg_for(&engine.run_text(
+        "plot KNO3, KCl, Na2SO4 from 0 C to 60 C",
+        &mut engine.session(),
+    ))
+    .unwrap();
     let doc = roxmltree::Document::parse(&svg).expect("the SVG is well-formed XML");
     assert_eq!(doc.root_element().tag_name().name(), "svg");
     assert_eq!(doc.root_element().attribute("width"), Some("800"));
@@ -113,7 +117,7 @@ fn the_answer_rows_describe_the_series() {
 fn a_loading_draws_its_line_and_limiting_point() {
     let engine = engine();
     let text = "plot KCl from 0 C to 40 C with loading 30 g/100g water from 2 C to 8 C";
-    let svg = plot::svg_for(&engine, text).unwrap();
+    let svg = plot::svg_for(&engine.run_text(text, &mut engine.session())).unwrap();
     let doc = roxmltree::Document::parse(&svg).unwrap();
     let texts = texts(&doc);
     assert!(
@@ -134,7 +138,11 @@ fn a_loading_draws_its_line_and_limiting_point() {
 #[test]
 fn gases_are_drawn_against_temperature_at_a_pressure() {
     let engine = engine();
-    let svg = plot::svg_for(&engine, "plot O2, N2 from 0 C to 40 C under air").unwrap();
+    let svg = plot::svg_for(&engine.run_text(
+        "plot O2, N2 from 0 C to 40 C under air",
+        &mut engine.session(),
+    ))
+    .unwrap();
     let doc = roxmltree::Document::parse(&svg).unwrap();
     let texts = texts(&doc);
     assert!(texts.iter().any(|t| t == "oxygen (O2)"), "{texts:?}");
@@ -149,8 +157,7 @@ fn gases_are_drawn_against_temperature_at_a_pressure() {
 fn png_decodes_to_the_size_asked_for() {
     let engine = engine();
     let (bytes, _) = plot::picture_for(
-        &engine,
-        "plot KNO3 from 0 C to 100 C",
+        &engine.run_text("plot KNO3 from 0 C to 100 C", &mut engine.session()),
         Format::Png,
         640,
         400,
@@ -166,7 +173,7 @@ fn png_decodes_to_the_size_asked_for() {
 fn unknown_solutes_and_other_statements_are_errors_not_pictures() {
     let engine = engine();
     let Err(PlotRequestError::Unanswered { answer }) =
-        plot::svg_for(&engine, "plot KNO4 from 0 C to 100 C")
+        plot::svg_for(&engine.run_text("plot KNO4 from 0 C to 100 C", &mut engine.session()))
     else {
         panic!("an unknown solute must be an error");
     };
@@ -179,13 +186,16 @@ fn unknown_solutes_and_other_statements_are_errors_not_pictures() {
     );
     assert_eq!(error.column, 6);
     assert!(matches!(
-        plot::svg_for(&engine, "solubility of KNO3 at 20 C"),
+        plot::svg_for(&engine.run_text("solubility of KNO3 at 20 C", &mut engine.session())),
         Err(PlotRequestError::NotOnePlot { .. })
     ));
     // A solid and a gas in one picture, and a range with no data.
-    assert!(plot::svg_for(&engine, "plot KCl, O2 from 0 C to 40 C").is_err());
+    assert!(
+        plot::svg_for(&engine.run_text("plot KCl, O2 from 0 C to 40 C", &mut engine.session()))
+            .is_err()
+    );
     let Err(PlotRequestError::Unanswered { answer }) =
-        plot::svg_for(&engine, "plot KNO3 from 150 C to 200 C")
+        plot::svg_for(&engine.run_text("plot KNO3 from 150 C to 200 C", &mut engine.session()))
     else {
         panic!("no data in the range must be an error");
     };

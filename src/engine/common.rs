@@ -7,7 +7,7 @@ use crate::engine::error::EvalError;
 use crate::engine::per_litre::{self, Volume};
 use crate::engine::snapshot::{BuiltCurve, Snapshot};
 use crate::model::{Provenance, Review, Solute, SoluteKind};
-use crate::output::number::round_significant;
+use crate::number::round_significant;
 use crate::query::{Loading, Name, Options, Span, Temperatures};
 use crate::science::ScienceError;
 use crate::science::curve::Basis as CurveBasis;

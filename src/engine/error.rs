@@ -33,6 +33,14 @@ impl EvalError {
         }
     }
 
+    /// The class of the error, for front ends to map with a `match`.
+    pub fn class(&self) -> crate::answer::ErrorClass {
+        match self {
+            EvalError::UnknownSolute { .. } => crate::answer::ErrorClass::UnknownSolute,
+            _ => crate::answer::ErrorClass::Unanswerable,
+        }
+    }
+
     /// A short code for the class of error, for JSON and HTTP consumers.
     pub fn code(&self) -> &'static str {
         match self {

@@ -11,7 +11,7 @@ use crate::engine::common::{
 use crate::engine::error::EvalError;
 use crate::engine::snapshot::Snapshot;
 use crate::model::{GasConstant, GasLaw, Provenance, Review, Solute, SoluteKind};
-use crate::output::number::round_significant;
+use crate::number::round_significant;
 use crate::query::{DissolvedGas, GasPressure, HeatOfSolution, Options, Span};
 use crate::science::bounds;
 use crate::science::curve::Basis as CurveBasis;

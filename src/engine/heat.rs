@@ -11,7 +11,7 @@ use crate::engine::snapshot::Snapshot;
 use crate::engine::{gas, solid};
 use crate::model::thermo::ThermoValue;
 use crate::model::{Provenance, Review, Solute, SoluteKind};
-use crate::output::number::round_significant;
+use crate::number::round_significant;
 use crate::query::HeatOfSolution;
 use crate::science::enthalpy::{
     self, LatticeMethod, dissociate, gas_standard_heat_of_solution, split_hydrate,

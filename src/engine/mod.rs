@@ -142,6 +142,7 @@ impl Engine {
         let kind = kind_of(&statement.node);
         let mut answer = Answer::new(written.clone(), kind);
         answer.line = lines.line_column(text, statement.span.start).0;
+        answer.span = (statement.span.start, statement.span.end);
         let result = match &statement.node {
             Statement::Solubility(s) => solid::lookup(&self.snapshot, s, &mut answer),
             Statement::Screen(s) => solid::screen(&self.snapshot, s, &mut answer),
@@ -167,6 +168,7 @@ impl Engine {
                     written,
                     kind,
                     ErrorReport {
+                        class: error.class(),
                         stage: "evaluate",
                         code: error.code(),
                         message: error.to_string(),
@@ -176,6 +178,7 @@ impl Engine {
                     },
                 );
                 failed.line = answer.line;
+                failed.span = answer.span;
                 failed
             }
         }
@@ -300,7 +303,7 @@ mod tests {
     use super::*;
 
     #[test]
-    fn prepare_counts_and_answers_like_run_text() {
+    fn prepared_statements_answer_in_order_with_their_lines_and_faults() {
         let engine = Engine::open_embedded().unwrap();
         let text = "solubility of KNO3 at 20 C; solubilty of KCl\ndescribe NaCl";
         let mut session = engine.session();
@@ -308,7 +311,23 @@ mod tests {
         assert_eq!(prepared.len(), 3);
         assert!(!prepared.is_light());
         let answers: Vec<Answer> = prepared.answers(&engine).collect();
-        assert_eq!(answers, engine.run_text(text, &mut engine.session()));
+        let summary: Vec<(AnswerKind, bool, usize)> =
+            answers.iter().map(|a| (a.kind, a.ok, a.line)).collect();
+        assert_eq!(
+            summary,
+            [
+                (AnswerKind::Lookup, true, 1),
+                (AnswerKind::Invalid, false, 1),
+                (AnswerKind::Describe, true, 2),
+            ]
+        );
+        assert_eq!(answers[0].statement, "solubility of KNO3 at 20 C");
+        assert!(!answers[0].rows.is_empty());
+        // The misspelt word is the fault, at its own column of line 1.
+        let error = answers[1].error.as_ref().unwrap();
+        assert_eq!((error.stage, error.code), ("parse", "unknown-statement"));
+        assert_eq!((error.line, error.column), (1, 29));
+        assert_eq!(&text[error.span.0..error.span.1], "solubilty");
     }
 
     #[test]

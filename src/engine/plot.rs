@@ -15,7 +15,7 @@ use crate::engine::error::EvalError;
 use crate::engine::gas;
 use crate::engine::snapshot::{BuiltCurve, Snapshot};
 use crate::model::{GasLaw, Provenance, Review, Solute, SoluteKind};
-use crate::output::number::round_significant;
+use crate::number::round_significant;
 use crate::plot::spec::{
     Limiting, LoadingLine, PlotSpec, PointSet, Segment, Series, TransitionMark,
 };
@@ -409,7 +409,7 @@ fn solids(
                     "{} → {} at {} C",
                     transition.below,
                     transition.above,
-                    crate::output::number::display(hundredth(t_c))
+                    crate::number::display(hundredth(t_c))
                 ),
                 colour,
             });
@@ -525,8 +525,8 @@ fn solids(
                         } else {
                             "crystallises"
                         },
-                        crate::output::number::display(headroom),
-                        crate::output::number::display(t_c)
+                        crate::number::display(headroom),
+                        crate::number::display(t_c)
                     ),
                     holds: screening.holds,
                 });
@@ -555,7 +555,7 @@ fn solids(
             Some(LoadingLine {
                 label: format!(
                     "loading {} {}",
-                    crate::output::number::display(l.loading.value),
+                    crate::number::display(l.loading.value),
                     l.loading.unit.symbol()
                 ),
                 value: y,

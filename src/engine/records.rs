@@ -8,7 +8,7 @@ use crate::engine::common::{celsius, cite_source, hazard, resolve};
 use crate::engine::error::EvalError;
 use crate::engine::snapshot::Snapshot;
 use crate::model::{GasLaw, Solute, SoluteKind};
-use crate::output::number::round_significant;
+use crate::number::round_significant;
 use crate::query::{Describe, Filter, Let, List, SoluteClass, Sources, Value};
 use crate::science::formula::parse_formula;
 

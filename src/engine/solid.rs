@@ -17,7 +17,7 @@ use crate::engine::per_litre::{self, DEFAULT_VOLUME_T_K, Volume};
 use crate::engine::records::selects;
 use crate::engine::snapshot::Snapshot;
 use crate::model::{Provenance, Review, Solute, SoluteKind};
-use crate::output::number::round_significant;
+use crate::number::{display, round_significant};
 use crate::query::{Ceiling, Convert, HeatOfSolution, Require, Saturation, Screen, Solubility};
 use crate::science::ScienceError;
 use crate::science::formula::parse_formula;
@@ -336,10 +336,63 @@ pub fn require(snap: &Snapshot, s: &Require, answer: &mut Answer) -> Result<(), 
             round_significant(needed, 4)
         ));
     }
+    if !screening.holds {
+        answer.shortfall = shortfall(&answer.rows);
+    }
     phase_caveat(&screening.phase, answer);
     cite_curve(snap, built, solute, answer);
     answer.caveat(CAUTION);
     Ok(())
+}
+
+/// A number for a message: four significant figures, shortest form.
+fn figure(x: f64) -> String {
+    display(round_significant(x, 4))
+}
+
+/// The limiting row of a failed requirement (the failing row with the least headroom) said
+/// in words: its solute, limiting temperature, headroom and shortfall.
+///
+/// The shortfall is how much headroom is missing: the margin asked for minus the headroom
+/// found. The margin is read from the row's `margin_pct` field; without it the shortfall is
+/// measured from zero headroom (saturation itself).
+pub(crate) fn shortfall(rows: &[Row]) -> Option<String> {
+    let failing = rows.iter().filter(|r| r.holds == Some(false));
+    let limiting = failing
+        .min_by(|a, b| {
+            let a = a.headroom_pct.unwrap_or(f64::INFINITY);
+            let b = b.headroom_pct.unwrap_or(f64::INFINITY);
+            a.total_cmp(&b)
+        })
+        .or_else(|| rows.first())?;
+    let mut parts = Vec::new();
+    if let Some(solute) = &limiting.solute {
+        parts.push(solute.clone());
+    }
+    if let Some(t) = limiting.temperature_c {
+        parts.push(format!("limiting temperature {} C", figure(t)));
+    }
+    if let Some(headroom) = limiting.headroom_pct {
+        let margin = limiting
+            .extra
+            .get("margin_pct")
+            .and_then(|v| v.as_f64())
+            .unwrap_or(0.0);
+        let missing = margin - headroom;
+        let mut text = format!("headroom {}%", figure(headroom));
+        if margin != 0.0 {
+            text.push_str(&format!(" against a margin of {}%", figure(margin)));
+        }
+        if missing > 0.0 {
+            text.push_str(&format!(", short by {} percentage points", figure(missing)));
+        }
+        parts.push(text);
+    }
+    if parts.is_empty() {
+        None
+    } else {
+        Some(parts.join(", "))
+    }
 }
 
 /// `saturation of KNO3 at 40 g/100g water [in F]`.
@@ -587,4 +640,36 @@ pub fn convert(snap: &Snapshot, s: &Convert, answer: &mut Answer) -> Result<(), 
         ..Row::default()
     });
     Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn row(holds: bool, headroom: f64, t: f64) -> Row {
+        Row {
+            solute: Some("potassium chloride".into()),
+            holds: Some(holds),
+            headroom_pct: Some(headroom),
+            temperature_c: Some(t),
+            ..Row::default()
+        }
+    }
+
+    #[test]
+    fn shortfall_is_measured_against_the_margin_or_saturation() {
+        let mut limiting = row(false, 4.0, 2.0);
+        limiting.extra.insert("margin_pct".into(), json!(10.0));
+        let rows = vec![row(true, 30.0, 8.0), limiting];
+        assert_eq!(
+            shortfall(&rows).unwrap(),
+            "potassium chloride, limiting temperature 2 C, headroom 4% against a margin of 10%, \
+             short by 6 percentage points"
+        );
+        assert_eq!(
+            shortfall(&[row(false, -12.5, 2.0)]).unwrap(),
+            "potassium chloride, limiting temperature 2 C, headroom -12.5%, short by 12.5 \
+             percentage points"
+        );
+    }
 }

@@ -9,12 +9,12 @@
 use std::io::{self, IsTerminal, Read, Write};
 use std::path::{Path, PathBuf};
 
-use crate::answer::{Answer, Row};
+use crate::answer::Answer;
 use crate::engine::Engine;
 use crate::frontend::picture::Pictures;
 use crate::frontend::{Outcome, database_name, open_engine};
-use crate::output::number::{display, round_significant};
 use crate::output::{Format, Printer};
+use crate::query::LineIndex;
 
 /// How standard input is named in messages.
 pub const STDIN_NAME: &str = "<stdin>";
@@ -224,7 +224,7 @@ pub fn run_scripts(
     let mut plots = 0;
     for script in scripts {
         let mut answers = engine.run_text(&script.text, &mut session);
-        let mut locator = Locator::new(&script.text);
+        let lines = LineIndex::new(&script.text);
         for answer in &mut answers {
             if let Some(spec) = answer.plot.as_deref() {
                 plots += 1;
@@ -237,7 +237,7 @@ pub fn run_scripts(
                 }
             }
             let answer = &*answer;
-            let position = locator.position(answer);
+            let position = Some(lines.line_column(&script.text, answer.span.0));
             if let Some(problem) = judge(&script.name, position, answer) {
                 report(err, &problem.message);
                 outcome = outcome.worst(problem.outcome);
@@ -313,9 +313,9 @@ pub fn judge(name: &str, position: Option<(usize, usize)>, answer: &Answer) -> O
             located(name, position),
             answer.statement
         );
-        if let Some(detail) = shortfall(&answer.rows) {
+        if let Some(detail) = &answer.shortfall {
             message.push_str(": ");
-            message.push_str(&detail);
+            message.push_str(detail);
         }
         return Some(Problem {
             message,
@@ -332,102 +332,21 @@ fn located(name: &str, position: Option<(usize, usize)>) -> String {
     }
 }
 
-/// A number for a message: four significant figures, shortest form.
-fn figure(x: f64) -> String {
-    display(round_significant(x, 4))
-}
-
-/// The limiting row of a failed requirement (the failing row with the least headroom) said
-/// in words: its solute, limiting temperature, headroom and shortfall.
-///
-/// The shortfall is how much headroom is missing: the margin asked for minus the headroom
-/// found. The margin is read from the row's `margin_pct` field when the engine gives it;
-/// without it the shortfall is measured from zero headroom (saturation itself).
-pub fn shortfall(rows: &[Row]) -> Option<String> {
-    let failing = rows.iter().filter(|r| r.holds == Some(false));
-    let limiting = failing
-        .min_by(|a, b| {
-            let a = a.headroom_pct.unwrap_or(f64::INFINITY);
-            let b = b.headroom_pct.unwrap_or(f64::INFINITY);
-            a.total_cmp(&b)
-        })
-        .or_else(|| rows.first())?;
-    let mut parts = Vec::new();
-    if let Some(solute) = &limiting.solute {
-        parts.push(solute.clone());
-    }
-    if let Some(t) = limiting.temperature_c {
-        parts.push(format!("limiting temperature {} C", figure(t)));
-    }
-    if let Some(headroom) = limiting.headroom_pct {
-        let margin = limiting
-            .extra
-            .get("margin_pct")
-            .and_then(|v| v.as_f64())
-            .unwrap_or(0.0);
-        let missing = margin - headroom;
-        let mut text = format!("headroom {}%", figure(headroom));
-        if margin != 0.0 {
-            text.push_str(&format!(" against a margin of {}%", figure(margin)));
-        }
-        if missing > 0.0 {
-            text.push_str(&format!(", short by {} percentage points", figure(missing)));
-        }
-        parts.push(text);
-    }
-    if parts.is_empty() {
-        None
-    } else {
-        Some(parts.join(", "))
-    }
-}
-
-/// Finds where each answered statement stands in its script, for messages about answers
-/// that carry no position of their own (a `require` that did not hold). Statements are
-/// looked for in order, each after the one before.
-struct Locator<'s> {
-    script: &'s str,
-    cursor: usize,
-    /// Where the script's lines start, found once: a position is then a binary search, not
-    /// a count from the start of the script (which made a long script quadratic).
-    lines: crate::query::LineIndex,
-}
-
-impl<'s> Locator<'s> {
-    fn new(script: &'s str) -> Self {
-        Locator {
-            script,
-            cursor: 0,
-            lines: crate::query::LineIndex::new(script),
-        }
-    }
-
-    /// The 1-based line and column of the answer's statement, if it can be found.
-    fn position(&mut self, answer: &Answer) -> Option<(usize, usize)> {
-        if let Some(error) = &answer.error {
-            self.cursor = self.cursor.max(error.span.1.min(self.script.len()));
-            return Some((error.line, error.column));
-        }
-        let wanted = answer.statement.trim();
-        if wanted.is_empty() {
-            return None;
-        }
-        let rest = self.script.get(self.cursor..)?;
-        let found = self.cursor + rest.find(wanted)?;
-        self.cursor = found + wanted.len();
-        Some(self.lines.line_column(self.script, found))
-    }
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::answer::{AnswerKind, ErrorReport};
+    use crate::answer::{AnswerKind, ErrorClass, ErrorReport, Row};
 
     fn require_answer(statement: &str, rows: Vec<Row>) -> Answer {
         let mut answer = Answer::new(statement, AnswerKind::Require);
         answer.holds = Some(rows.iter().all(|r| r.holds == Some(true)));
         answer.rows = rows;
+        // What the engine states for such a row.
+        answer.shortfall = Some(
+            "potassium chloride, limiting temperature 2 C, headroom -12.5%, short by 12.5 \
+             percentage points"
+                .into(),
+        );
         answer
     }
 
@@ -458,20 +377,6 @@ mod tests {
     }
 
     #[test]
-    fn shortfall_against_margin() {
-        let mut limiting = row("potassium chloride", false, 4.0, 2.0);
-        limiting
-            .extra
-            .insert("margin_pct".into(), serde_json::json!(10.0));
-        let rows = vec![row("potassium chloride", true, 30.0, 8.0), limiting];
-        assert_eq!(
-            shortfall(&rows).unwrap(),
-            "potassium chloride, limiting temperature 2 C, headroom 4% against a margin of 10%, \
-             short by 6 percentage points"
-        );
-    }
-
-    #[test]
     fn held_requirement_and_plain_answers_are_no_problem() {
         let answer = require_answer("require x", vec![row("x", true, 20.0, 2.0)]);
         assert!(judge("a", None, &answer).is_none());
@@ -488,6 +393,7 @@ mod tests {
     #[test]
     fn unanswered_statement_reported_with_file_line_column() {
         let error = ErrorReport {
+            class: ErrorClass::Parse,
             stage: "parse",
             code: "test",
             message: "expected a temperature, found `g/L`".into(),
@@ -502,18 +408,6 @@ mod tests {
             problem.message,
             "<stdin>:2:23: parse error: expected a temperature, found `g/L`"
         );
-    }
-
-    #[test]
-    fn locator_finds_statements_in_order() {
-        let script = "let cold = from 2 C to 8 C\n# note\n  require a\nrequire a\n";
-        let mut locator = Locator::new(script);
-        let first = Answer::new("let cold = from 2 C to 8 C", AnswerKind::Let);
-        let second = Answer::new("require a", AnswerKind::Require);
-        assert_eq!(locator.position(&first), Some((1, 1)));
-        assert_eq!(locator.position(&second), Some((3, 3)));
-        assert_eq!(locator.position(&second), Some((4, 1)));
-        assert_eq!(locator.position(&second), None);
     }
 
     #[test]

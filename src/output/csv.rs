@@ -4,7 +4,7 @@
 use std::io::{self, Write};
 
 use crate::answer::Answer;
-use crate::output::number::display;
+use crate::number::display;
 
 const HEADER: [&str; 12] = [
     "statement",

@@ -3,7 +3,6 @@
 
 pub mod csv;
 pub mod json;
-pub mod number;
 pub mod table;
 
 use std::io::{self, Write};

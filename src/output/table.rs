@@ -8,7 +8,7 @@ use tabled::builder::Builder;
 use tabled::settings::Style;
 
 use crate::answer::{Answer, AnswerKind, ErrorReport, Row};
-use crate::output::number::display;
+use crate::number::display;
 
 /// Reads one cell of a row, or nothing when the row has no such field.
 type Cell = Box<dyn Fn(&Row) -> Option<String>>;
@@ -181,7 +181,7 @@ pub fn write_answer(out: &mut impl Write, answer: &Answer, script: &str) -> io::
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::answer::Basis;
+    use crate::answer::{Basis, ErrorClass};
 
     #[test]
     fn table_has_only_used_columns() {
@@ -224,6 +224,7 @@ mod tests {
     fn caret_under_fault() {
         let script = "describe NaCl\nsolubility of KNO3 at 5 g/L\n";
         let error = ErrorReport {
+            class: ErrorClass::Parse,
             stage: "parse",
             code: "test",
             message: "expected a temperature".into(),

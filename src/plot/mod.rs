@@ -1,12 +1,14 @@
 //! Pictures of solubility curves: the `PlotSpec` the engine builds for a `plot` statement,
 //! drawn as SVG or PNG with plotters (`render`), or as a text sketch for the terminal
-//! (`sketch`). The front ends and the server call the functions here; nothing here reads
-//! the catalog or computes a solubility.
+//! (`sketch`). The front ends and the server ask the engine for the answers, then call the
+//! functions here with them; nothing here calls the engine, reads the catalog or computes a
+//! solubility.
 //!
 //! ```
 //! use satline::engine::Engine;
 //! let engine = Engine::open_embedded().unwrap();
-//! let svg = satline::plot::svg_for(&engine, "plot KNO3, KCl from 0 C to 100 C").unwrap();
+//! let answers = engine.run_text("plot KNO3, KCl from 0 C to 100 C", &mut engine.session());
+//! let svg = satline::plot::svg_for(&answers).unwrap();
 //! assert!(svg.starts_with("<svg"));
 //! ```
 
@@ -23,7 +25,6 @@ pub use sketch::sketch;
 pub use spec::PlotSpec;
 
 use crate::answer::{Answer, AnswerKind};
-use crate::engine::Engine;
 
 /// Why a picture could not be made for a request (from the server or a front end).
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
@@ -54,17 +55,15 @@ impl PlotRequestError {
     }
 }
 
-/// Answers `text` in a fresh session and draws its one `plot` statement (`let` statements
-/// may come before it). Returns the answer too, for its caveats and sources.
+/// Draws the one `plot` answer among the answers of a script (`let` statements may come
+/// before it); a failed answer is returned as the error. Returns the plot's answer too, for
+/// its caveats and sources.
 pub fn picture_for(
-    engine: &Engine,
-    text: &str,
+    answers: &[Answer],
     format: Format,
     width: u32,
     height: u32,
 ) -> Result<(Vec<u8>, Answer), PlotRequestError> {
-    let mut session = engine.session();
-    let answers = engine.run_text(text, &mut session);
     if let Some(failed) = answers.iter().find(|a| !a.ok) {
         return Err(PlotRequestError::Unanswered {
             answer: Box::new(failed.clone()),
@@ -91,10 +90,10 @@ pub fn picture_for(
     Ok((bytes, (*answer).clone()))
 }
 
-/// The SVG picture (800×500) of the one `plot` statement in `text`: what the server's
+/// The SVG picture (800×500) of the one `plot` answer among `answers`: what the server's
 /// picture endpoint returns as `image/svg+xml`.
-pub fn svg_for(engine: &Engine, text: &str) -> Result<String, PlotRequestError> {
+pub fn svg_for(answers: &[Answer]) -> Result<String, PlotRequestError> {
     let (width, height) = DEFAULT_SIZE;
-    let (bytes, _) = picture_for(engine, text, Format::Svg, width, height)?;
+    let (bytes, _) = picture_for(answers, Format::Svg, width, height)?;
     String::from_utf8(bytes).map_err(|e| PlotError::Draw(e.to_string()).into())
 }

@@ -437,12 +437,12 @@ fn legend_corner(spec: &PlotSpec, width: u32, height: u32, y: (f64, f64)) -> Ser
 
 /// A value for an axis label: three significant figures, shortest form.
 fn label_value(y: f64) -> String {
-    crate::output::number::display(crate::output::number::round_significant(y, 3))
+    crate::number::display(crate::number::round_significant(y, 3))
 }
 
 /// A temperature for a label: at most one decimal.
 fn figure(x: f64) -> String {
-    crate::output::number::display((x * 10.0).round() / 10.0)
+    crate::number::display((x * 10.0).round() / 10.0)
 }
 
 #[cfg(test)]

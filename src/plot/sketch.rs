@@ -5,7 +5,7 @@
 
 use super::palette::glyph;
 use super::spec::PlotSpec;
-use crate::output::number::{display, round_significant};
+use crate::number::{display, round_significant};
 
 /// Columns and rows of the drawing area of a sketch.
 pub const COLUMNS: usize = 60;

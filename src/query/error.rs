@@ -206,6 +206,7 @@ impl ParseError {
     /// [`super::LineIndex`] built once for a whole script).
     pub fn report_at(&self, (line, column): (usize, usize)) -> crate::answer::ErrorReport {
         crate::answer::ErrorReport {
+            class: crate::answer::ErrorClass::Parse,
             stage: "parse",
             code: self.kind.code(),
             message: self.kind.to_string(),

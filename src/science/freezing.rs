@@ -161,8 +161,8 @@ impl System<'_> {
             }
             reasons.push(format!(
                 "the tabulated freezing points cover {} to {} %w/w",
-                crate::output::number::display((first * 1000.0).round() / 10.0),
-                crate::output::number::display((last * 1000.0).round() / 10.0)
+                crate::number::display((first * 1000.0).round() / 10.0),
+                crate::number::display((last * 1000.0).round() / 10.0)
             ));
         } else {
             reasons.push("no tabulated freezing points".into());

@@ -21,7 +21,7 @@ use super::layers::{catch_panic, log_request, panic_message};
 use super::limits::{Permit, admit, read_body};
 use super::reply::{self, ApiError, ErrorFields, line_column};
 use super::{Shared, auth};
-use crate::answer::{Answer, AnswerKind};
+use crate::answer::{Answer, AnswerKind, ErrorClass};
 use crate::catalog::{Catalog, citation};
 use crate::engine::{Engine, Prepared};
 use crate::model::{Solute, Source};
@@ -201,18 +201,25 @@ fn answer_prepared(
         .iter()
         .find(|a| all_parse || a.kind != AnswerKind::Invalid)
         .and_then(|a| a.error.as_ref());
-    let status = if all_parse {
-        StatusCode::BAD_REQUEST
-    } else if first.is_some_and(|e| e.code == "unknown-solute") {
-        StatusCode::NOT_FOUND
-    } else {
-        StatusCode::UNPROCESSABLE_ENTITY
+    let status = match first {
+        Some(report) => status_of(report.class),
+        None => StatusCode::BAD_REQUEST,
     };
     let fields = match first {
         Some(report) => ErrorFields::from_report(report),
         None => ErrorFields::new("unanswered", "no statement could be answered"),
     };
     Evaluated::Reply(status, reply::error_body(&fields, Some(&answers)))
+}
+
+/// The HTTP status of a statement that failed: 400 it did not parse, 404 it names an unknown
+/// solute, 422 the data cannot answer it.
+fn status_of(class: ErrorClass) -> StatusCode {
+    match class {
+        ErrorClass::Parse => StatusCode::BAD_REQUEST,
+        ErrorClass::UnknownSolute => StatusCode::NOT_FOUND,
+        ErrorClass::Unanswerable => StatusCode::UNPROCESSABLE_ENTITY,
+    }
 }
 
 fn internal(message: String) -> Evaluated {
@@ -601,7 +608,8 @@ pub(super) async fn plot(
         // The permit lives as long as the drawing, even past a timed-out reply.
         let _permit = permit;
         catch_unwind(AssertUnwindSafe(|| {
-            picture_for(&engine, &text, format, width, height)
+            let answers = engine.run_text(&text, &mut engine.session());
+            picture_for(&answers, format, width, height)
         }))
     });
     let remaining = deadline.saturating_duration_since(Instant::now());
@@ -615,11 +623,10 @@ pub(super) async fn plot(
             .body(Body::from(picture))
             .unwrap_or_else(|e| ApiError::internal(e.to_string()).into_response()),
         Ok(Ok(Err(PlotRequestError::Unanswered { answer }))) => {
-            let status = match answer.error.as_ref().map(|e| (e.stage, e.code)) {
-                Some(("parse", _)) => StatusCode::BAD_REQUEST,
-                Some((_, "unknown-solute")) => StatusCode::NOT_FOUND,
-                _ => StatusCode::UNPROCESSABLE_ENTITY,
-            };
+            let status = answer
+                .error
+                .as_ref()
+                .map_or(StatusCode::UNPROCESSABLE_ENTITY, |e| status_of(e.class));
             let fields = match &answer.error {
                 Some(report) => ErrorFields::from_report(report),
                 None => ErrorFields::new("unanswered", "the plot could not be answered"),

@@ -1,5 +1,6 @@
-//! Numbers for people and for JSON: rounded to significant figures so that `31.6` prints as
-//! `31.6`, never `31.600000001`.
+//! Rounding for display, shared by the engine (the numbers an answer carries) and the
+//! printers (tables, CSV, pictures): rounded to significant figures so that `31.6` prints as
+//! `31.6`, never `31.600000001`. A neutral module: it depends on nothing in the crate.
 
 use std::fmt::Write as _;
 

@@ -243,6 +243,8 @@ struct Origins {
     /// For a solute file made from CSV rows: the solute and its first line, to stand in for
     /// a position in the made-up TOML text.
     made_from_csv: HashMap<String, (String, u64)>,
+    /// For a solute file made from CSV rows: the 1-based column of `value` in its CSV file.
+    value_column: HashMap<String, usize>,
 }
 
 impl Origins {
@@ -382,7 +384,7 @@ pub fn plan(
         }
     }
     for d in &incoming.datasets {
-        check_sane(d, &solute_file)?;
+        check_sane(d, &solute_file, &origins)?;
     }
     for c in &incoming.checks {
         if let Some(reason) = super::corroboration::unknown_subject(c, &[&incoming, &existing]) {
@@ -435,7 +437,13 @@ fn check_names(
     Ok(())
 }
 
-fn check_sane(d: &Dataset, files: &HashMap<String, String>) -> Result<(), StoreError> {
+/// Every point's value within [`sane_range`] of its unit; a point from a CSV row is named by
+/// its line and the `value` column.
+fn check_sane(
+    d: &Dataset,
+    files: &HashMap<String, String>,
+    origins: &Origins,
+) -> Result<(), StoreError> {
     let Some(unit) = CompositionUnit::from_symbol(&d.unit) else {
         return Ok(());
     };
@@ -447,9 +455,20 @@ fn check_sane(d: &Dataset, files: &HashMap<String, String>) -> Result<(), StoreE
         let ok = v > low && if inclusive { v <= high } else { v < high };
         if !ok {
             let local = d.key.split_once('/').map_or(d.key.as_str(), |k| k.1);
+            let record = format!("dataset \"{local}\", point {}", i + 1);
+            let made = format!("solutes/{}.toml", d.solute);
+            let record = match (
+                origins.lines.get(&(made.clone(), record.clone())),
+                origins.value_column.get(&made),
+            ) {
+                (Some(line), Some(column)) => {
+                    format!("line {line}, column {column} (value; {record})")
+                }
+                _ => record,
+            };
             return Err(import_error(
                 files.get(&d.solute).map_or("", String::as_str),
-                format!("dataset \"{local}\", point {}", i + 1),
+                record,
                 format!(
                     "{v} {} is outside the sane range for {} (above {low}, up to {high}{}); check the number and its unit",
                     d.unit,
@@ -1072,6 +1091,9 @@ fn parse_csv(
     for (id, solute) in &mut solutes {
         let name = format!("solutes/{id}.toml");
         origins.files.insert(name.clone(), file.to_string());
+        if let Some(&i) = column.get("value") {
+            origins.value_column.insert(name.clone(), i + 1);
+        }
         let field = |k: &str| solute.fields.get(k).map(|v| v.0.clone());
         let stored = existing.solutes.iter().find(|s| &s.id == id);
         let mut table = toml::Table::new();

@@ -72,3 +72,55 @@ fn an_out_of_range_value_in_a_csv_row_names_its_line_and_column() {
         "{message}"
     );
 }
+
+/// `rows` invented rows over solutes of 100 points each.
+fn many_rows(rows: usize) -> String {
+    let mut text = format!("{HEADER}\n");
+    for i in 0..rows {
+        let (solute, point) = (i / 100, i % 100);
+        let t = 0.5 + point as f64 * 0.99;
+        let value = 10.0 + 0.3 * t;
+        text.push_str(&format!(
+            "invented-{solute:05},KCl,KCl,{t:.2},C,{value:.3},g/100g water,invented-a\n"
+        ));
+    }
+    text
+}
+
+#[test]
+fn a_large_import_writes_progress_lines_when_stderr_is_not_a_terminal() {
+    let dir = tempfile::tempdir().unwrap();
+    let (path, store) = database(dir.path());
+    drop(store);
+    std::fs::write(dir.path().join("many.csv"), many_rows(20_000)).unwrap();
+    let output = assert_cmd::Command::new(env!("CARGO_BIN_EXE_satline"))
+        .current_dir(dir.path())
+        .env_remove("SATLINE_DB")
+        .env("SATLINE_PROGRESS_EVERY_MS", "5")
+        .args(["import", "--db"])
+        .arg(&path)
+        .arg("many.csv")
+        .output()
+        .unwrap();
+    let stderr = String::from_utf8(output.stderr).unwrap();
+    assert!(output.status.success(), "{stderr}");
+    let lines: Vec<&str> = stderr.lines().collect();
+    assert!(
+        lines.iter().any(
+            |l| l.starts_with("satline: import: planning 1 file (20000 CSV rows), ")
+                || l.starts_with("satline: import: writing, ")
+        ),
+        "{stderr}"
+    );
+    assert!(
+        lines
+            .last()
+            .is_some_and(|l| l.starts_with("satline: import: 20000 points written in ")),
+        "{stderr}"
+    );
+    // Every row was stored.
+    let stored = Store::open(&path).unwrap().read_all().unwrap();
+    let points: usize = stored.datasets.iter().map(|d| d.points.len()).sum();
+    assert_eq!(points, 20_000);
+    assert_eq!(stored.solutes.len(), 200);
+}

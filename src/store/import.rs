@@ -675,22 +675,30 @@ fn compare(incoming: &Contents, existing: &Contents, options: &ImportOptions) ->
         })
         .collect();
     let written_keys: HashSet<&str> = written.iter().map(|d| d.key.as_str()).collect();
-    let stored: Vec<&Dataset> = existing
+    // Datasets are only compared within one solute and solid phase: grouped by both, so
+    // planning stays linear in the datasets rather than comparing every pair.
+    let same_solid = |d: &Dataset| (d.solute.clone(), d.phase.formula.clone());
+    let mut stored: HashMap<(String, String), Vec<&Dataset>> = HashMap::new();
+    for d in existing
         .datasets
         .iter()
         .filter(|d| !d.retired && d.review != Review::Rejected)
         .filter(|d| !written_keys.contains(d.key.as_str()))
-        .collect();
+    {
+        stored.entry(same_solid(d)).or_default().push(d);
+    }
+    let mut written_with: HashMap<(String, String), Vec<usize>> = HashMap::new();
+    for (i, d) in written.iter().enumerate() {
+        written_with.entry(same_solid(d)).or_default().push(i);
+    }
     for (i, d) in written.iter().enumerate() {
         let Some(solute) = solutes.get(d.solute.as_str()) else {
             continue;
         };
         plan.findings
             .extend(findings::outliers(d, solute.molar_mass));
-        for o in &stored {
-            if o.solute != d.solute || o.phase.formula != d.phase.formula {
-                continue;
-            }
+        let group = same_solid(d);
+        for o in stored.get(&group).into_iter().flatten() {
             if o.points == d.points || o.source == d.source {
                 plan.findings.push(Finding {
                     kind: "duplicate",
@@ -713,7 +721,8 @@ fn compare(incoming: &Contents, existing: &Contents, options: &ImportOptions) ->
                     .or_else(|| findings::conflict(o, d, solute, options.tolerance)),
             );
         }
-        for o in written.iter().skip(i + 1) {
+        let later = written_with.get(&group).into_iter().flatten();
+        for o in later.filter(|&&j| j > i).map(|&j| written[j]) {
             plan.findings.extend(
                 findings::conflict(d, o, solute, options.tolerance)
                     .or_else(|| findings::conflict(o, d, solute, options.tolerance)),
@@ -982,6 +991,8 @@ fn parse_csv(
     }
 
     let mut solutes: Vec<(String, CsvSolute)> = Vec::new();
+    // Where each solute is in `solutes`: one look-up per row, not a scan (linear in rows).
+    let mut solute_index: HashMap<String, usize> = HashMap::new();
     for record in reader.records() {
         let record = record.map_err(csv_error)?;
         let line = record.position().map_or(0, |p| p.line());
@@ -1039,9 +1050,10 @@ fn parse_csv(
             .ok_or_else(|| import_error(file, format!("line {line}"), "the value is empty"))?;
         let uncertainty = number("uncertainty")?;
 
-        let index = match solutes.iter().position(|(s, _)| s == id) {
-            Some(i) => i,
+        let index = match solute_index.get(id) {
+            Some(&i) => i,
             None => {
+                solute_index.insert(id.to_string(), solutes.len());
                 solutes.push((
                     id.to_string(),
                     CsvSolute {

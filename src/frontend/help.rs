@@ -84,7 +84,12 @@ pub const TOPICS: &[Topic] = &[
     },
     Topic {
         name: "dissolving",
-        aliases: &["batch", "warming", "cooling", "exothermic", "endothermic"],
+        aliases: &[
+            "dissolving temperature",
+            "warming",
+            "exothermic",
+            "endothermic",
+        ],
         summary: "how warm or cold a batch gets while its solid dissolves",
         body: "dissolving MASS SOLUTE in MASS water from TEMPERATURE [extrapolate]\n\
                The temperature a batch reaches when the solid dissolves with no heat \

@@ -18,8 +18,9 @@ use crate::model::thermo::HeatCapacityFit;
 use crate::model::{Solute, SoluteKind};
 use crate::number::round_significant;
 use crate::query::Dissolving;
+use crate::science::ScienceError;
 use crate::science::dissolving::{
-    BatchTemperature, Dissolution, HeatCapacityBasis, batch_temperature, stops_at_saturation,
+    Batch, BatchTemperature, Dissolution, HeatCapacityBasis, stops_at_saturation,
 };
 use crate::science::enthalpy::standard_heat_of_solution;
 use crate::science::freezing::IceBasis;
@@ -77,22 +78,20 @@ fn cp_caveat(
         format!("{temps}, up to {} %w/w", value(f.w_max * 100.0))
     };
     match (b.cp_basis, fit) {
-        (HeatCapacityBasis::Laliberte, Some(f)) => {
+        (HeatCapacityBasis::Laliberte | HeatCapacityBasis::LaliberteOutsideRange, Some(f)) => {
+            let inside = b.cp_basis == HeatCapacityBasis::Laliberte;
             cite_source(snap, &f.source, answer);
             answer.caveat(format!(
-                "the solution's heat capacity ({} J/(g·K)) from Laliberté's correlation for {}, inside its published range ({})",
+                "the solution's heat capacity ({} J/(g·K)) from Laliberté's correlation for {}, {} its published range ({}){}",
                 round_significant(b.cp, 3),
                 solute.formula,
-                range(f)
-            ));
-        }
-        (HeatCapacityBasis::LaliberteOutsideRange, Some(f)) => {
-            cite_source(snap, &f.source, answer);
-            answer.caveat(format!(
-                "the solution's heat capacity ({} J/(g·K)) from Laliberté's correlation for {} used outside its published range ({}): an extrapolation, treat with care",
-                round_significant(b.cp, 3),
-                solute.formula,
-                range(f)
+                if inside { "inside" } else { "used outside" },
+                range(f),
+                if inside {
+                    ""
+                } else {
+                    ": an extrapolation, treat with care"
+                }
             ));
         }
         _ => answer.caveat(format!(
@@ -174,11 +173,19 @@ pub fn dissolving(snap: &Snapshot, s: &Dissolving, answer: &mut Answer) -> Resul
     let delta_h = standard.kj_per_mol;
     let fit = thermo.heat_capacity_of(&solute.formula);
     let (solid_g, water_g) = (s.solid.grams(), s.water.grams());
-    let whole = batch_temperature(solid_g, water_g, solute.molar_mass, delta_h, start_c, fit)
-        .map_err(|e| EvalError::Unanswerable {
-            message: format!("{}: {e}", solute.name),
-            span: s.solid.span,
-        })?;
+    let to_dissolve = Batch {
+        solute_g: solid_g,
+        water_g,
+        molar_mass: solute.molar_mass,
+        delta_h,
+        start_c,
+        fit,
+    };
+    let unanswerable = |e: ScienceError| EvalError::Unanswerable {
+        message: format!("{}: {e}", solute.name),
+        span: s.solid.span,
+    };
+    let whole = to_dissolve.temperature().map_err(unanswerable)?;
 
     // Does it all dissolve? Follow the batch as it dissolves, against the solubility curve.
     let built = snap.curve(&solute.id, false);
@@ -190,19 +197,7 @@ pub fn dissolving(snap: &Snapshot, s: &Dissolving, answer: &mut Answer) -> Resul
             .map(|e| e.mass_fraction)
     };
     let dissolution = match built {
-        Some(_) => stops_at_saturation(
-            solid_g,
-            water_g,
-            solute.molar_mass,
-            delta_h,
-            start_c,
-            fit,
-            saturation,
-        )
-        .map_err(|e| EvalError::Unanswerable {
-            message: format!("{}: {e}", solute.name),
-            span: s.solid.span,
-        })?,
+        Some(_) => stops_at_saturation(&to_dissolve, saturation).map_err(unanswerable)?,
         None => Dissolution::Unknown { t_c: whole.end_c },
     };
     let (batch, dissolved_g) = match &dissolution {

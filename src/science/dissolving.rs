@@ -133,6 +133,32 @@ pub fn batch_temperature(
     })
 }
 
+/// A batch to dissolve: grams of solid (molar mass g/mol, heat of solution kJ/mol) and of
+/// water, the start temperature (°C) and the solute's heat-capacity coefficients, if any.
+#[derive(Debug, Clone, Copy)]
+pub struct Batch<'a> {
+    pub solute_g: f64,
+    pub water_g: f64,
+    pub molar_mass: f64,
+    pub delta_h: f64,
+    pub start_c: f64,
+    pub fit: Option<&'a HeatCapacityFit>,
+}
+
+impl Batch<'_> {
+    /// [`batch_temperature`] of the whole batch.
+    pub fn temperature(&self) -> Result<BatchTemperature, ScienceError> {
+        batch_temperature(
+            self.solute_g,
+            self.water_g,
+            self.molar_mass,
+            self.delta_h,
+            self.start_c,
+            self.fit,
+        )
+    }
+}
+
 /// How far a batch dissolves before its solution saturates.
 #[derive(Debug, Clone, PartialEq)]
 pub enum Dissolution {
@@ -154,14 +180,17 @@ pub enum Dissolution {
 /// mass fraction at `t_c`, `None` where it is unknown. The first crossing is found on a grid
 /// of 200 steps, then by bisection.
 pub fn stops_at_saturation(
-    solute_g: f64,
-    water_g: f64,
-    molar_mass: f64,
-    delta_h: f64,
-    start_c: f64,
-    fit: Option<&HeatCapacityFit>,
+    batch: &Batch<'_>,
     saturation: impl Fn(f64) -> Option<f64>,
 ) -> Result<Dissolution, ScienceError> {
+    let Batch {
+        solute_g,
+        water_g,
+        molar_mass,
+        delta_h,
+        start_c,
+        fit,
+    } = *batch;
     let solute_g = positive("mass of solid (g)", solute_g)?;
     // Headroom to saturation with x grams dissolved (positive while more can dissolve), or
     // the temperature where the saturation is unknown.
@@ -255,8 +284,16 @@ mod tests {
         // 100 g water from 30 °C would end near −3 °C, where nothing dissolves; it stops
         // where x/(x + 100) = 0.01·T(x).
         let sat = |t: f64| Some((0.01 * t).max(0.0));
+        let demo = |solute_g: f64| Batch {
+            solute_g,
+            water_g: 100.0,
+            molar_mass: 100.0,
+            delta_h: 41.8,
+            start_c: 30.0,
+            fit: None,
+        };
         let Dissolution::Stops { dissolved_g, batch } =
-            stops_at_saturation(50.0, 100.0, 100.0, 41.8, 30.0, None, sat).unwrap()
+            stops_at_saturation(&demo(50.0), sat).unwrap()
         else {
             panic!("it must stop");
         };
@@ -270,12 +307,12 @@ mod tests {
         assert!((direct.end_c - batch.end_c).abs() < 1e-9);
         // A small batch dissolves whole.
         assert_eq!(
-            stops_at_saturation(1.0, 100.0, 100.0, 41.8, 30.0, None, sat).unwrap(),
+            stops_at_saturation(&demo(1.0), sat).unwrap(),
             Dissolution::Whole
         );
         // Unknown saturation on the way is said, not guessed.
         assert!(matches!(
-            stops_at_saturation(50.0, 100.0, 100.0, 41.8, 30.0, None, |_| None).unwrap(),
+            stops_at_saturation(&demo(50.0), |_| None).unwrap(),
             Dissolution::Unknown { .. }
         ));
     }

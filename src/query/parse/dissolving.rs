@@ -62,17 +62,14 @@ pub(super) fn mass<'a>(cx: Cx<'a>, i: &'a str, what: &'static str) -> R<'a, Mass
     };
     let span = cx.span(t, rest);
     let found = shorten(&t[..t.len() - rest.len()]);
-    let value = match number.replace('−', "-").parse::<f64>() {
-        Ok(v) if v.is_finite() => v,
-        _ => {
-            return Err(failure(
-                ParseErrorKind::InvalidNumber {
-                    found: shorten(number),
-                },
-                span,
-            ));
-        }
+    let invalid = || {
+        let found = shorten(number);
+        failure(ParseErrorKind::InvalidNumber { found }, span)
     };
+    let value: f64 = number.replace('−', "-").parse().map_err(|_| invalid())?;
+    if !value.is_finite() {
+        return Err(invalid());
+    }
     if value < 0.0 {
         return Err(failure(ParseErrorKind::NegativeAmount { found }, span));
     }

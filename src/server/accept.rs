@@ -123,6 +123,16 @@ struct Watched {
     epoch: Instant,
 }
 
+impl Watched {
+    /// Notes a write that moved bytes; passes the poll on.
+    fn wrote(&self, polled: Poll<io::Result<usize>>) -> Poll<io::Result<usize>> {
+        if matches!(polled, Poll::Ready(Ok(n)) if n > 0) {
+            self.watch.touch(self.epoch);
+        }
+        polled
+    }
+}
+
 impl AsyncRead for Watched {
     fn poll_read(
         self: Pin<&mut Self>,
@@ -147,10 +157,7 @@ impl AsyncWrite for Watched {
     ) -> Poll<io::Result<usize>> {
         let this = self.get_mut();
         let polled = Pin::new(&mut this.stream).poll_write(cx, buf);
-        if matches!(polled, Poll::Ready(Ok(n)) if n > 0) {
-            this.watch.touch(this.epoch);
-        }
-        polled
+        this.wrote(polled)
     }
 
     fn poll_write_vectored(
@@ -160,10 +167,7 @@ impl AsyncWrite for Watched {
     ) -> Poll<io::Result<usize>> {
         let this = self.get_mut();
         let polled = Pin::new(&mut this.stream).poll_write_vectored(cx, bufs);
-        if matches!(polled, Poll::Ready(Ok(n)) if n > 0) {
-            this.watch.touch(this.epoch);
-        }
-        polled
+        this.wrote(polled)
     }
 
     fn is_write_vectored(&self) -> bool {

@@ -27,6 +27,8 @@ pub enum AnswerKind {
     Let,
     Require,
     Plot,
+    /// `which solids form in RECIPE ...`.
+    Solids,
     /// A statement that could not be parsed.
     Invalid,
 }
@@ -48,6 +50,7 @@ impl AnswerKind {
             AnswerKind::Let => "let",
             AnswerKind::Require => "require",
             AnswerKind::Plot => "plot",
+            AnswerKind::Solids => "solids",
             AnswerKind::Invalid => "invalid",
         }
     }

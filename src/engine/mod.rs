@@ -18,8 +18,10 @@ mod filters;
 mod freezing;
 mod gas;
 mod heat;
+pub mod mixture;
 mod per_litre;
 mod plot;
+mod recipe;
 mod records;
 mod snapshot;
 mod solid;
@@ -158,6 +160,7 @@ impl Engine {
             Statement::List(s) => records::list(&self.snapshot, s, &mut answer),
             Statement::Let(s) => records::binding(s, text, &mut answer),
             Statement::Plot(s) => plot::plot(&self.snapshot, s, &mut answer),
+            Statement::Recipe(s) => recipe::recipe(&self.snapshot, s, &mut answer),
         };
         match result {
             Ok(()) => answer,
@@ -270,7 +273,8 @@ fn is_light(statement: &Statement) -> bool {
         | Statement::Freezing(_)
         | Statement::Describe(_)
         | Statement::List(_)
-        | Statement::Plot(_) => false,
+        | Statement::Plot(_)
+        | Statement::Recipe(_) => false,
     }
 }
 
@@ -290,6 +294,13 @@ fn kind_of(statement: &Statement) -> AnswerKind {
         Statement::Let(_) => AnswerKind::Let,
         Statement::Require(_) => AnswerKind::Require,
         Statement::Plot(_) => AnswerKind::Plot,
+        Statement::Recipe(r) => match r.question {
+            query::RecipeQuestion::Define => AnswerKind::Let,
+            query::RecipeQuestion::Require { .. } => AnswerKind::Require,
+            query::RecipeQuestion::SolidsForm { .. } => AnswerKind::Solids,
+            query::RecipeQuestion::Saturation { .. } => AnswerKind::Saturation,
+            query::RecipeQuestion::Describe { .. } => AnswerKind::Describe,
+        },
     }
 }
 

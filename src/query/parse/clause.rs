@@ -196,6 +196,12 @@ pub(super) fn tail<'a>(
             }
             out.options.extrapolate = true;
             rest = after;
+        } else if word == "assuming" && allows(Clause::ReviewedOnly) {
+            if out.options.assume_unit_density {
+                return Err(duplicate(cx, t, after, "assuming density"));
+            }
+            rest = super::recipe::assuming_density(cx, after)?.0;
+            out.options.assume_unit_density = true;
         } else if word == "reviewed" && allows(Clause::ReviewedOnly) {
             let (r, _) = expect(cx, after, &["only"])?;
             if out.options.reviewed_only {

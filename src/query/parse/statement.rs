@@ -8,6 +8,7 @@ use super::super::lexicon::{STATEMENT_WORDS, ends_name, is_keyword, nearest, one
 use super::clause::*;
 use super::plumbing::*;
 use super::quantity::*;
+use super::recipe;
 
 // ---------------------------------------------------------------------------------------
 // statements
@@ -17,6 +18,7 @@ pub(super) fn statement<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     let (word, after) = next_word(t);
     match word.to_lowercase().as_str() {
         "solubility" => solubility(cx, after),
+        "which" if recipe::asks_solids(after) => recipe::solids_form(cx, after),
         "which" => screen(cx, after),
         "saturation" => saturation(cx, after),
         "ceiling" => ceiling(cx, after),
@@ -93,6 +95,9 @@ pub(super) fn screen<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
 }
 
 pub(super) fn require<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
+    if let (rest, Some(r)) = recipe::subject(cx, i)? {
+        return recipe::require(cx, r, rest);
+    }
     let (i, solute) = solute(cx, i, &["stays", "stay"])?;
     let (i, (loading, temperatures)) = stays_dissolved_at(cx, i)?;
     let (i, tail) = tail(cx, i, &[Clause::Margin, DATA[0], DATA[1]], &[])?;
@@ -111,6 +116,9 @@ pub(super) fn require<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
 pub(super) fn saturation<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     let i = has_keyword(i, "temperature").unwrap_or(i);
     let (i, _) = expect(cx, i, &["of"])?;
+    if let (rest, Some(r)) = recipe::subject(cx, i)? {
+        return recipe::saturation(cx, r, rest);
+    }
     let (i, solute) = solute(cx, i, &["at"])?;
     let (i, _) = expect(cx, i, &["at"])?;
     let (i, loading) = committed_loading(cx, i)?;
@@ -303,6 +311,9 @@ pub(super) fn convert<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
 }
 
 pub(super) fn describe<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
+    if let (rest, Some(r)) = recipe::subject(cx, i)? {
+        return recipe::describe(cx, r, rest);
+    }
     let (i, solute) = solute(cx, i, &[])?;
     let (i, tail) = tail(cx, i, &[Clause::ReviewedOnly], &[])?;
     Ok((
@@ -383,6 +394,9 @@ pub(super) fn binding<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
         Ok((rest, _)) => rest,
         Err(_) => return Err(expected_here(cx, after, "`=`".into(), &[])),
     };
+    if let Some(after) = has_keyword(rest, "recipe") {
+        return recipe::define(cx, name, skip(rest), after);
+    }
     let (rest, value) = cut(context(LET_VALUE, |x| let_value(cx, x))).parse(rest)?;
     let (rest, _) = tail(cx, rest, &[], &[])?;
     Ok((rest, Statement::Let(Let { name, value })))

@@ -63,35 +63,33 @@ pub enum IceLine {
     NotEvaluated(String),
 }
 
+/// What a model is asked with: the data, the mixture, the statement's options, and the
+/// answer it cites its data in.
+pub struct Ask<'q, 'a> {
+    pub snap: &'q Snapshot,
+    pub mixture: &'q Mixture<'a>,
+    pub options: &'q Options,
+    pub answer: &'q mut Answer,
+}
+
+/// A range of temperature (K) and a margin (a share of the solute-to-water ratio).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Limits {
+    pub t1: f64,
+    pub t2: f64,
+    pub margin: f64,
+}
+
 /// The model that checks a mixture's solutes for solids.
 pub trait SolidModel {
     /// The caveat every answer resting on this model carries.
     fn caveat(&self) -> &'static str;
 
-    /// Whether solute `index` stays dissolved from `t1` to `t2` (K) with `margin` (a share
-    /// of its solute-to-water ratio); cites the data used.
-    #[allow(clippy::too_many_arguments)]
-    fn stays_dissolved(
-        &self,
-        snap: &Snapshot,
-        mixture: &Mixture,
-        index: usize,
-        t1: f64,
-        t2: f64,
-        margin: f64,
-        options: &Options,
-        answer: &mut Answer,
-    ) -> Result<Screening, EvalError>;
+    /// Whether solute `index` stays dissolved within the limits; cites the data used.
+    fn check(&self, ask: &mut Ask, index: usize, at: Limits) -> Result<Screening, EvalError>;
 
     /// The temperatures where solute `index` is saturated; cites the data used.
-    fn saturation(
-        &self,
-        snap: &Snapshot,
-        mixture: &Mixture,
-        index: usize,
-        options: &Options,
-        answer: &mut Answer,
-    ) -> Result<Vec<Crossing>, EvalError>;
+    fn saturation(&self, ask: &mut Ask, index: usize) -> Result<Vec<Crossing>, EvalError>;
 
     /// Where ice appears on cooling the mixture.
     fn ice_line(&self, mixture: &Mixture) -> IceLine;
@@ -124,49 +122,29 @@ impl SolidModel for EachOnItsOwn {
         EACH_ON_ITS_OWN
     }
 
-    fn stays_dissolved(
-        &self,
-        snap: &Snapshot,
-        mixture: &Mixture,
-        index: usize,
-        t1: f64,
-        t2: f64,
-        margin: f64,
-        options: &Options,
-        answer: &mut Answer,
-    ) -> Result<Screening, EvalError> {
-        let (solute, name) = entry(mixture, index)?;
-        let built = curve_of(snap, solute, name, options)?;
-        let screening = solve::stays_dissolved_with(
-            &built.curve,
-            mixture.alone(index),
-            t1,
-            t2,
-            margin,
-            options.extrapolate,
-        )
-        .map_err(|e| curve_error(e, solute, name.span))?;
-        cite_curve(snap, built, solute, answer);
+    fn check(&self, ask: &mut Ask, index: usize, at: Limits) -> Result<Screening, EvalError> {
+        let (solute, name) = entry(ask.mixture, index)?;
+        let built = curve_of(ask.snap, solute, name, ask.options)?;
+        let w = ask.mixture.alone(index);
+        let extrapolate = ask.options.extrapolate;
+        let screening =
+            solve::stays_dissolved_with(&built.curve, w, at.t1, at.t2, at.margin, extrapolate)
+                .map_err(|e| curve_error(e, solute, name.span))?;
+        cite_curve(ask.snap, built, solute, ask.answer);
         Ok(screening)
     }
 
-    fn saturation(
-        &self,
-        snap: &Snapshot,
-        mixture: &Mixture,
-        index: usize,
-        options: &Options,
-        answer: &mut Answer,
-    ) -> Result<Vec<Crossing>, EvalError> {
-        let (solute, name) = entry(mixture, index)?;
-        let built = curve_of(snap, solute, name, options)?;
-        let w = mixture.alone(index);
+    fn saturation(&self, ask: &mut Ask, index: usize) -> Result<Vec<Crossing>, EvalError> {
+        let (solute, name) = entry(ask.mixture, index)?;
+        let built = curve_of(ask.snap, solute, name, ask.options)?;
+        let w = ask.mixture.alone(index);
         if w == 0.0 {
             return Ok(Vec::new());
         }
-        let crossings = solve::saturation_temperatures_with(&built.curve, w, options.extrapolate)
-            .map_err(|e| curve_error(e, solute, name.span))?;
-        cite_curve(snap, built, solute, answer);
+        let crossings =
+            solve::saturation_temperatures_with(&built.curve, w, ask.options.extrapolate)
+                .map_err(|e| curve_error(e, solute, name.span))?;
+        cite_curve(ask.snap, built, solute, ask.answer);
         Ok(crossings)
     }
 

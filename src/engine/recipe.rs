@@ -14,7 +14,7 @@ use crate::answer::{Answer, Basis, Row};
 use crate::engine::CAUTION;
 use crate::engine::common::{bounds, celsius, phase_caveat, resolve, value};
 use crate::engine::error::EvalError;
-use crate::engine::mixture::{IceLine, Mixture, SolidModel, model_for};
+use crate::engine::mixture::{Ask, IceLine, Limits, Mixture, SolidModel, model_for};
 use crate::engine::per_litre::{self, DEFAULT_VOLUME_T_K, Solution, Volume};
 use crate::engine::snapshot::Snapshot;
 use crate::model::{Solute, SoluteKind};
@@ -22,6 +22,7 @@ use crate::number::round_significant;
 use crate::query::{Loading, Options, Recipe, RecipeQuestion, RecipeStatement, Span};
 use crate::science::enthalpy::dissociate;
 use crate::science::freezing::ICE_POINT;
+use crate::science::solve::{Crossing, Screening};
 use crate::science::units::{CompositionUnit, TemperatureUnit};
 
 /// A recipe's solved composition.
@@ -149,35 +150,45 @@ fn compose<'a>(
     })
 }
 
-/// Answers a statement about a recipe.
+/// Answers a statement about a recipe: solves its composition once, then asks the
+/// mixture's model.
 pub fn recipe(snap: &Snapshot, s: &RecipeStatement, answer: &mut Answer) -> Result<(), EvalError> {
+    let composed = compose(snap, &s.recipe, &s.options, answer)?;
+    let model = model_for(snap, &composed.mixture);
+    let mut ask = Ask {
+        snap,
+        mixture: &composed.mixture,
+        options: &s.options,
+        answer,
+    };
+    let limits = |temperatures: &crate::query::Temperatures, margin: f64| {
+        let (t1, t2) = bounds(temperatures);
+        Limits { t1, t2, margin }
+    };
     match &s.question {
-        RecipeQuestion::Define => define(snap, s, answer),
+        RecipeQuestion::Define => return define(&mut ask, &s.recipe),
+        RecipeQuestion::Describe { at } => {
+            return describe(&mut ask, &s.recipe, &composed, at.map(|t| t.kelvin()));
+        }
         RecipeQuestion::Require {
             temperatures,
             margin,
         } => {
-            let (t1, t2) = bounds(temperatures);
             let margin = margin.map_or(0.0, |m| m.percent / 100.0);
-            require(snap, s, t1, t2, margin, temperatures.span(), answer)
+            let at = limits(temperatures, margin);
+            require(&mut ask, model, &s.recipe, at, temperatures.span())?;
         }
         RecipeQuestion::SolidsForm { temperatures } => {
-            let (t1, t2) = bounds(temperatures);
-            solids_form(snap, s, t1, t2, answer)
+            solids_form(&mut ask, model, limits(temperatures, 0.0))?;
         }
-        RecipeQuestion::Saturation { unit } => saturation(
-            snap,
-            s,
-            unit.map_or(TemperatureUnit::Celsius, |u| u.unit),
-            answer,
-        ),
-        RecipeQuestion::Describe { at } => describe(snap, s, at.map(|t| t.kelvin()), answer),
+        RecipeQuestion::Saturation { unit } => {
+            let unit = unit.map_or(TemperatureUnit::Celsius, |u| u.unit);
+            saturation(&mut ask, model, unit)?;
+        }
     }
-}
-
-fn closing_caveats(model: &dyn SolidModel, answer: &mut Answer) {
     answer.caveat(model.caveat());
     answer.caveat(CAUTION);
+    Ok(())
 }
 
 fn solute_row(solute: &Solute, quantity: &'static str) -> Row {
@@ -188,15 +199,23 @@ fn solute_row(solute: &Solute, quantity: &'static str) -> Row {
     }
 }
 
-/// `let eyewash = recipe ...`: the ingredients as read, each per kg of the recipe's water.
-fn define(snap: &Snapshot, s: &RecipeStatement, answer: &mut Answer) -> Result<(), EvalError> {
-    let composed = compose(snap, &s.recipe, &s.options, answer)?;
-    let mixture = &composed.mixture;
-    for (index, ((solute, _), ingredient)) in mixture
-        .solutes
-        .iter()
-        .zip(&s.recipe.ingredients)
-        .enumerate()
+/// Headroom for a row, to 0.1 %; none for a zero amount (it holds without limit).
+fn headroom(screening: &Screening) -> Option<f64> {
+    let pct = screening.headroom_pct;
+    pct.is_finite().then(|| (pct * 10.0).round() / 10.0)
+}
+
+/// Grams of solute `index` per 100 g of the mixture's water, for rows.
+fn per_100g_water(mixture: &Mixture, index: usize) -> serde_json::Value {
+    json!(value(mixture.per_water(index) * 100.0))
+}
+
+/// `let eyewash = recipe ...`: the ingredients as read, each per 100 g of the recipe's
+/// water.
+fn define(ask: &mut Ask, recipe: &Recipe) -> Result<(), EvalError> {
+    let mixture = ask.mixture;
+    for (index, ((solute, _), ingredient)) in
+        mixture.solutes.iter().zip(&recipe.ingredients).enumerate()
     {
         let mut row = solute_row(solute, "ingredient");
         row.value = Some(value(ingredient.amount.value));
@@ -205,54 +224,35 @@ fn define(snap: &Snapshot, s: &RecipeStatement, answer: &mut Answer) -> Result<(
         row.extra = BTreeMap::from([
             (
                 "g_per_100g_water".to_string(),
-                json!(value(mixture.per_water(index) * 100.0)),
+                per_100g_water(mixture, index),
             ),
             (
                 "recipe".to_string(),
-                json!(s.recipe.name.as_ref().map(|n| n.text.clone())),
+                json!(recipe.name.as_ref().map(|n| n.text.clone())),
             ),
         ]);
-        answer.rows.push(row);
+        ask.answer.rows.push(row);
     }
-    answer.caveat("ask `describe NAME` for the composition in every basis, `require NAME stays dissolved from T1 to T2` to check it");
+    ask.answer.caveat("ask `describe NAME` for the composition in every basis, `require NAME stays dissolved from T1 to T2` to check it");
     Ok(())
-}
-
-/// The loading of solute `index` per 100 g of the mixture's water, for rows.
-fn loading_row_extra(
-    mixture: &Mixture,
-    index: usize,
-    margin: f64,
-) -> BTreeMap<String, serde_json::Value> {
-    BTreeMap::from([
-        (
-            "loading_g_per_100g_water".to_string(),
-            json!(value(mixture.per_water(index) * 100.0)),
-        ),
-        (
-            "margin_pct".to_string(),
-            json!(round_significant(margin * 100.0, 4)),
-        ),
-    ])
 }
 
 /// The ice line's part of a range reaching below 0 °C: whether ice forms in it (a row and a
 /// caveat), or a refusal when it cannot be said.
 fn ice_in_range(
+    ask: &mut Ask,
     model: &dyn SolidModel,
-    mixture: &Mixture,
     t1: f64,
     span: Span,
-    answer: &mut Answer,
 ) -> Result<bool, EvalError> {
     if t1 >= ICE_POINT {
         return Ok(false);
     }
-    match model.ice_line(mixture) {
+    match model.ice_line(ask.mixture) {
         IceLine::At { t_k, how } => {
-            answer.caveat(how);
+            ask.answer.caveat(how);
             let forms = t_k > t1;
-            answer.rows.push(Row {
+            ask.answer.rows.push(Row {
                 solute: Some("ice".into()),
                 quantity: Some("ice appears on cooling below".into()),
                 value: Some(celsius(t_k)),
@@ -274,189 +274,179 @@ fn ice_in_range(
 
 /// `require eyewash stays dissolved from 2 C to 8 C margin 10%`.
 fn require(
-    snap: &Snapshot,
-    s: &RecipeStatement,
-    t1: f64,
-    t2: f64,
-    margin: f64,
+    ask: &mut Ask,
+    model: &dyn SolidModel,
+    recipe: &Recipe,
+    at: Limits,
     span: Span,
-    answer: &mut Answer,
 ) -> Result<(), EvalError> {
-    let composed = compose(snap, &s.recipe, &s.options, answer)?;
-    let mixture = &composed.mixture;
-    let model = model_for(snap, mixture);
-    let ice = ice_in_range(model, mixture, t1, span, answer)?;
-    let mut all_hold = !ice;
-    for index in 0..mixture.solutes.len() {
-        let solute = mixture.solutes[index].0;
-        let screening =
-            model.stays_dissolved(snap, mixture, index, t1, t2, margin, &s.options, answer)?;
+    let mut all_hold = !ice_in_range(ask, model, at.t1, span)?;
+    for index in 0..ask.mixture.solutes.len() {
+        let solute = ask.mixture.solutes[index].0;
+        let screening = model.check(ask, index, at)?;
         all_hold &= screening.holds;
         let r = screening.limiting_mass_fraction / (1.0 - screening.limiting_mass_fraction);
-        answer.rows.push(Row {
+        phase_caveat(&screening.phase, ask.answer);
+        ask.answer.rows.push(Row {
             value: Some(value(r * 100.0)),
             unit: Some(CompositionUnit::GramsPer100gWater.symbol().into()),
             basis: Some(Basis::from(screening.basis)),
-            phase: Some(screening.phase.clone()),
             temperature_c: Some(celsius(screening.limiting_t_k)),
             holds: Some(screening.holds),
-            headroom_pct: screening
-                .headroom_pct
-                .is_finite()
-                .then(|| (screening.headroom_pct * 10.0).round() / 10.0),
-            extra: loading_row_extra(mixture, index, margin),
+            headroom_pct: headroom(&screening),
+            extra: BTreeMap::from([
+                (
+                    "loading_g_per_100g_water".to_string(),
+                    per_100g_water(ask.mixture, index),
+                ),
+                (
+                    "margin_pct".to_string(),
+                    json!(round_significant(at.margin * 100.0, 4)),
+                ),
+            ]),
+            phase: Some(screening.phase),
             ..solute_row(solute, "solubility at the limiting temperature")
         });
-        phase_caveat(&screening.phase, answer);
     }
-    answer.holds = Some(all_hold);
-    answer.caveat(format!(
+    ask.answer.holds = Some(all_hold);
+    ask.answer.caveat(format!(
         "amounts and solubilities per 100 g of the water of {} (the solutes' own water share of the solution)",
-        s.recipe.title()
+        recipe.title()
     ));
-    if margin > 0.0 {
-        answer.caveat(format!(
+    if at.margin > 0.0 {
+        ask.answer.caveat(format!(
             "margin {}%: each solubility must exceed its solute's amount by that share of its solute-to-water ratio",
-            round_significant(margin * 100.0, 4)
+            round_significant(at.margin * 100.0, 4)
         ));
     }
     if !all_hold {
-        answer.shortfall = crate::engine::solid::shortfall(&answer.rows);
+        ask.answer.shortfall = crate::engine::solid::shortfall(&ask.answer.rows);
     }
-    closing_caveats(model, answer);
     Ok(())
+}
+
+/// The ice row of `which solids form`, for a range reaching below 0 °C.
+fn ice_row(model: &dyn SolidModel, mixture: &Mixture, t1: f64, answer: &mut Answer) -> Row {
+    let (temperature_c, holds, extra) = match model.ice_line(mixture) {
+        IceLine::At { t_k, how } => {
+            answer.caveat(how);
+            let forms = if t_k > t1 {
+                format!("below {} C", celsius(t_k))
+            } else {
+                "no".to_string()
+            };
+            (
+                Some(celsius(t_k)),
+                Some(t_k <= t1),
+                BTreeMap::from([("forms".to_string(), json!(forms))]),
+            )
+        }
+        IceLine::NotEvaluated(why) => (
+            None,
+            None,
+            BTreeMap::from([
+                ("forms".to_string(), json!("not evaluated")),
+                ("reason".to_string(), json!(why)),
+            ]),
+        ),
+    };
+    Row {
+        solute: Some("ice".into()),
+        quantity: Some("solid".into()),
+        phase: Some("ice".into()),
+        temperature_c,
+        holds,
+        extra,
+        ..Row::default()
+    }
+}
+
+/// Where a solute's solid appears within the limits, in words: `no`, `over the whole
+/// range`, or `below 12.5 C` (`above ...` for a retrograde curve).
+fn forms_in(screening: &Screening, crossings: &[Crossing], at: Limits) -> String {
+    if screening.holds {
+        return "no".to_string();
+    }
+    let inside: Vec<String> = crossings
+        .iter()
+        .filter(|c| c.t_k >= at.t1 && c.t_k <= at.t2)
+        .map(|c| {
+            let side = if c.rising { "below" } else { "above" };
+            format!("{side} {} C", celsius(c.t_k))
+        })
+        .collect();
+    if inside.is_empty() {
+        "over the whole range".to_string()
+    } else {
+        inside.join(" and ")
+    }
 }
 
 /// `which solids form in eyewash from -5 C to 25 C`: for each solute whether its solid
 /// appears in the range and below (or above) which temperature; ice below 0 °C.
-fn solids_form(
-    snap: &Snapshot,
-    s: &RecipeStatement,
-    t1: f64,
-    t2: f64,
-    answer: &mut Answer,
-) -> Result<(), EvalError> {
-    let composed = compose(snap, &s.recipe, &s.options, answer)?;
-    let mixture = &composed.mixture;
-    let model = model_for(snap, mixture);
-    if t1 < ICE_POINT {
-        match model.ice_line(mixture) {
-            IceLine::At { t_k, how } => {
-                answer.caveat(how);
-                answer.rows.push(Row {
-                    solute: Some("ice".into()),
-                    quantity: Some("solid".into()),
-                    phase: Some("ice".into()),
-                    temperature_c: Some(celsius(t_k)),
-                    holds: Some(t_k <= t1),
-                    extra: BTreeMap::from([(
-                        "forms".to_string(),
-                        json!(if t_k > t1 {
-                            format!("below {} C", celsius(t_k))
-                        } else {
-                            "no".to_string()
-                        }),
-                    )]),
-                    ..Row::default()
-                });
-            }
-            IceLine::NotEvaluated(why) => answer.rows.push(Row {
-                solute: Some("ice".into()),
-                quantity: Some("solid".into()),
-                phase: Some("ice".into()),
-                extra: BTreeMap::from([
-                    ("forms".to_string(), json!("not evaluated")),
-                    ("reason".to_string(), json!(why)),
-                ]),
-                ..Row::default()
-            }),
-        }
+fn solids_form(ask: &mut Ask, model: &dyn SolidModel, at: Limits) -> Result<(), EvalError> {
+    if at.t1 < ICE_POINT {
+        let row = ice_row(model, ask.mixture, at.t1, ask.answer);
+        ask.answer.rows.push(row);
     }
-    for index in 0..mixture.solutes.len() {
-        let solute = mixture.solutes[index].0;
-        let screening =
-            match model.stays_dissolved(snap, mixture, index, t1, t2, 0.0, &s.options, answer) {
-                Ok(screening) => screening,
-                Err(e) => {
-                    answer.rows.push(Row {
-                        extra: BTreeMap::from([
-                            ("forms".to_string(), json!("not evaluated")),
-                            ("reason".to_string(), json!(e.to_string())),
-                        ]),
-                        ..solute_row(solute, "solid")
-                    });
-                    continue;
-                }
-            };
+    for index in 0..ask.mixture.solutes.len() {
+        let solute = ask.mixture.solutes[index].0;
+        let screening = match model.check(ask, index, at) {
+            Ok(screening) => screening,
+            Err(e) => {
+                ask.answer.rows.push(Row {
+                    extra: BTreeMap::from([
+                        ("forms".to_string(), json!("not evaluated")),
+                        ("reason".to_string(), json!(e.to_string())),
+                    ]),
+                    ..solute_row(solute, "solid")
+                });
+                continue;
+            }
+        };
         let crossings = if screening.holds {
             Vec::new()
         } else {
-            model.saturation(snap, mixture, index, &s.options, answer)?
+            model.saturation(ask, index)?
         };
-        let inside: Vec<_> = crossings
-            .iter()
-            .filter(|c| c.t_k >= t1 && c.t_k <= t2)
-            .collect();
-        let forms = if screening.holds {
-            "no".to_string()
-        } else if inside.is_empty() {
-            "over the whole range".to_string()
-        } else {
-            inside
-                .iter()
-                .map(|c| {
-                    format!(
-                        "{} {} C",
-                        if c.rising { "below" } else { "above" },
-                        celsius(c.t_k)
-                    )
-                })
-                .collect::<Vec<_>>()
-                .join(" and ")
-        };
-        answer.rows.push(Row {
-            phase: Some(screening.phase.clone()),
+        phase_caveat(&screening.phase, ask.answer);
+        ask.answer.rows.push(Row {
             temperature_c: Some(celsius(screening.limiting_t_k)),
             basis: Some(Basis::from(screening.basis)),
             holds: Some(screening.holds),
-            headroom_pct: screening
-                .headroom_pct
-                .is_finite()
-                .then(|| (screening.headroom_pct * 10.0).round() / 10.0),
+            headroom_pct: headroom(&screening),
             extra: BTreeMap::from([
-                ("forms".to_string(), json!(forms)),
+                (
+                    "forms".to_string(),
+                    json!(forms_in(&screening, &crossings, at)),
+                ),
                 (
                     "loading_g_per_100g_water".to_string(),
-                    json!(value(mixture.per_water(index) * 100.0)),
+                    per_100g_water(ask.mixture, index),
                 ),
             ]),
+            phase: Some(screening.phase),
             ..solute_row(solute, "solid")
         });
-        phase_caveat(&screening.phase, answer);
     }
-    answer.caveat(
+    ask.answer.caveat(
         "`holds` says the solid does not form; `temperature_c` is where each solute comes closest to saturation in the range",
     );
-    closing_caveats(model, answer);
     Ok(())
 }
 
 /// `saturation of eyewash`: each solute's saturation temperatures at its amount per kg of
 /// the recipe's water.
 fn saturation(
-    snap: &Snapshot,
-    s: &RecipeStatement,
+    ask: &mut Ask,
+    model: &dyn SolidModel,
     unit: TemperatureUnit,
-    answer: &mut Answer,
 ) -> Result<(), EvalError> {
-    let composed = compose(snap, &s.recipe, &s.options, answer)?;
-    let mixture = &composed.mixture;
-    let model = model_for(snap, mixture);
-    for index in 0..mixture.solutes.len() {
-        let solute = mixture.solutes[index].0;
-        let crossings = model.saturation(snap, mixture, index, &s.options, answer)?;
+    for index in 0..ask.mixture.solutes.len() {
+        let solute = ask.mixture.solutes[index].0;
+        let crossings = model.saturation(ask, index)?;
         if crossings.is_empty() {
-            answer.rows.push(Row {
+            ask.answer.rows.push(Row {
                 extra: BTreeMap::from([(
                     "crystals".to_string(),
                     json!("no saturation temperature within the data"),
@@ -466,25 +456,21 @@ fn saturation(
         }
         for crossing in crossings {
             let t = unit.from_kelvin(crossing.t_k);
-            phase_caveat(&crossing.phase, answer);
-            answer.rows.push(Row {
+            phase_caveat(&crossing.phase, ask.answer);
+            let side = if crossing.rising { "below" } else { "above" };
+            ask.answer.rows.push(Row {
                 value: Some((t * 100.0).round() / 100.0 + 0.0),
                 unit: Some(unit.symbol().into()),
                 basis: Some(Basis::Computed),
                 phase: Some(crossing.phase),
                 extra: BTreeMap::from([(
                     "crystals".to_string(),
-                    json!(if crossing.rising {
-                        "below this temperature"
-                    } else {
-                        "above this temperature"
-                    }),
+                    json!(format!("{side} this temperature")),
                 )]),
                 ..solute_row(solute, "saturation temperature")
             });
         }
     }
-    closing_caveats(model, answer);
     Ok(())
 }
 
@@ -516,13 +502,12 @@ fn ionic_strength(mixture: &Mixture, answer: &mut Answer) -> f64 {
 /// `describe eyewash [at 25 C]`: every solute per kg of water, by mass fraction and per
 /// litre at a stated temperature; the solution's density, water share and ionic strength.
 fn describe(
-    snap: &Snapshot,
-    s: &RecipeStatement,
+    ask: &mut Ask,
+    recipe: &Recipe,
+    composed: &Composed,
     at_k: Option<f64>,
-    answer: &mut Answer,
 ) -> Result<(), EvalError> {
-    let composed = compose(snap, &s.recipe, &s.options, answer)?;
-    let mixture = &composed.mixture;
+    let (snap, mixture) = (ask.snap, ask.mixture);
     let mut volume = composed.volume;
     if let Some(t) = at_k {
         volume.t_k = t;
@@ -534,11 +519,11 @@ fn describe(
         volume,
     };
     // Per litre only where a density can be had; the reason otherwise, never a guess.
-    let span = s.recipe.span;
+    let span = recipe.span;
     let density = match solution.density(snap, CompositionUnit::GramsPerLitre, span) {
         Ok(rho) => Some(rho),
         Err(e) => {
-            answer.caveat(format!("no per-litre amounts: {e}"));
+            ask.answer.caveat(format!("no per-litre amounts: {e}"));
             None
         }
     };
@@ -547,7 +532,7 @@ fn describe(
         let mut extra = BTreeMap::from([
             (
                 "g_per_100g_water".to_string(),
-                json!(value(mixture.per_water(index) * 100.0)),
+                per_100g_water(mixture, index),
             ),
             (
                 "mol_per_kg".to_string(),
@@ -563,17 +548,17 @@ fn describe(
                 ("g_per_l", CompositionUnit::GramsPerLitre),
                 ("mmol_per_l", CompositionUnit::MillimolesPerLitre),
             ] {
-                let amount = solution.amount(snap, index, unit, span, answer)?;
+                let amount = solution.amount(snap, index, unit, span, ask.answer)?;
                 extra.insert(key.to_string(), json!(amount));
             }
         }
-        answer.rows.push(Row {
+        ask.answer.rows.push(Row {
             basis: Some(Basis::Computed),
             extra,
             ..solute_row(solute, "composition")
         });
     }
-    let ionic = ionic_strength(mixture, answer);
+    let ionic = ionic_strength(mixture, ask.answer);
     let mut extra = BTreeMap::from([
         (
             "water_percent_w_w".to_string(),
@@ -585,18 +570,18 @@ fn describe(
         extra.insert("density_kg_per_l".into(), json!(round_significant(rho, 5)));
         extra.insert("volume_temperature_c".into(), json!(celsius(volume.t_k)));
     }
-    answer.rows.push(Row {
-        solute: Some(s.recipe.title()),
+    ask.answer.rows.push(Row {
+        solute: Some(recipe.title()),
         quantity: Some("solution".into()),
         basis: Some(Basis::Computed),
         extra,
         ..Row::default()
     });
-    answer.caveat(
+    ask.answer.caveat(
         "ionic strength with every salt fully dissociated (ideal): ion pairs and partly dissociated ions such as H2PO4- are not accounted for",
     );
     if !composed.per_litre && density.is_some() {
-        answer.caveat("per-litre amounts use the solution's density at the temperature named; the recipe itself is given by mass");
+        ask.answer.caveat("per-litre amounts use the solution's density at the temperature named; the recipe itself is given by mass");
     }
     Ok(())
 }

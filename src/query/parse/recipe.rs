@@ -30,35 +30,7 @@ fn ends_ingredient(word: &str) -> bool {
 /// name, the rest, and whether a comma ended it.
 fn ingredient_name<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, (Name, bool)> {
     let begin = skip(i);
-    let mut words: Vec<&str> = Vec::new();
-    let mut end = begin;
-    let mut cursor = begin;
-    let mut comma = false;
-    loop {
-        let t = skip(cursor);
-        if let Some(after) = t.strip_prefix(',') {
-            comma = true;
-            cursor = after;
-            break;
-        }
-        let (word, after) = next_word(t);
-        if word.is_empty() || ends_ingredient(word) {
-            cursor = t;
-            break;
-        }
-        if let Some(head) = word.strip_suffix(',') {
-            if !head.is_empty() {
-                words.push(head);
-                end = &t[head.len()..];
-            }
-            comma = true;
-            cursor = after;
-            break;
-        }
-        words.push(word);
-        end = after;
-        cursor = after;
-    }
+    let (words, end, cursor, comma) = listed_name(begin, ends_ingredient, |_, _, _| Ok(()))?;
     if words.is_empty() {
         return Err(expected_here(cx, begin, SOLUTE.into(), &[]));
     }
@@ -165,18 +137,20 @@ fn required_subject<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Recipe> {
     }
 }
 
+/// The statement asking `question` of `recipe`.
+fn asked(recipe: Recipe, question: RecipeQuestion, options: Options) -> Statement {
+    Statement::Recipe(RecipeStatement {
+        recipe,
+        question,
+        options,
+    })
+}
+
 /// `let NAME = recipe ...`, after the `=`.
 pub(super) fn define<'a>(cx: Cx<'a>, name: Name, begin: &'a str, i: &'a str) -> R<'a, Statement> {
     let (rest, recipe) = recipe_body(cx, begin, i, Some(name))?;
     let (rest, tail) = tail(cx, rest, &[Clause::ReviewedOnly], &[])?;
-    Ok((
-        rest,
-        Statement::Recipe(RecipeStatement {
-            recipe,
-            question: RecipeQuestion::Define,
-            options: tail.options,
-        }),
-    ))
+    Ok((rest, asked(recipe, RecipeQuestion::Define, tail.options)))
 }
 
 /// `require RECIPE stays dissolved from 2 C to 8 C [margin 10%]`, after the recipe.
@@ -187,14 +161,14 @@ pub(super) fn require<'a>(cx: Cx<'a>, recipe: Recipe, i: &'a str) -> R<'a, State
     let (i, tail) = tail(cx, i, &[Clause::Margin, DATA[0], DATA[1]], &[])?;
     Ok((
         i,
-        Statement::Recipe(RecipeStatement {
+        asked(
             recipe,
-            question: RecipeQuestion::Require {
+            RecipeQuestion::Require {
                 temperatures,
                 margin: tail.margin,
             },
-            options: tail.options,
-        }),
+            tail.options,
+        ),
     ))
 }
 
@@ -213,11 +187,11 @@ pub(super) fn solids_form<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     let (i, tail) = tail(cx, i, &DATA, &[])?;
     Ok((
         i,
-        Statement::Recipe(RecipeStatement {
+        asked(
             recipe,
-            question: RecipeQuestion::SolidsForm { temperatures },
-            options: tail.options,
-        }),
+            RecipeQuestion::SolidsForm { temperatures },
+            tail.options,
+        ),
     ))
 }
 
@@ -226,34 +200,33 @@ pub(super) fn saturation<'a>(cx: Cx<'a>, recipe: Recipe, i: &'a str) -> R<'a, St
     let (i, tail) = tail(cx, i, &[Clause::InTemperature, DATA[0], DATA[1]], &[])?;
     Ok((
         i,
-        Statement::Recipe(RecipeStatement {
+        asked(
             recipe,
-            question: RecipeQuestion::Saturation {
+            RecipeQuestion::Saturation {
                 unit: tail.temperature,
             },
-            options: tail.options,
-        }),
+            tail.options,
+        ),
     ))
+}
+
+/// An optional `at T`: the temperature, or nothing read.
+fn optional_at<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Option<Temperature>> {
+    let Some(after) = has_keyword(i, "at") else {
+        return Ok((i, None));
+    };
+    let (rest, t) = committed_temperature(cx, after)?;
+    Ok((rest, Some(t)))
 }
 
 /// `describe RECIPE [at 25 C]`, after the recipe.
 pub(super) fn describe<'a>(cx: Cx<'a>, recipe: Recipe, i: &'a str) -> R<'a, Statement> {
-    let (i, at) = match has_keyword(i, "at") {
-        Some(after) => {
-            let (r, t) = committed_temperature(cx, after)?;
-            (r, Some(t))
-        }
-        None => (i, None),
-    };
+    let (i, at) = optional_at(cx, i)?;
     let earlier: &[&'static str] = if at.is_none() { &["at"] } else { &[] };
     let (i, tail) = tail(cx, i, &[Clause::ReviewedOnly], earlier)?;
     Ok((
         i,
-        Statement::Recipe(RecipeStatement {
-            recipe,
-            question: RecipeQuestion::Describe { at },
-            options: tail.options,
-        }),
+        asked(recipe, RecipeQuestion::Describe { at }, tail.options),
     ))
 }
 

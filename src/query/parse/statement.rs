@@ -463,51 +463,29 @@ pub(super) fn solute_list<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Vec<Name>> {
     let mut rest = i;
     loop {
         let begin = skip(rest);
-        let mut words: Vec<&str> = Vec::new();
-        let mut end = begin;
-        let mut cursor = begin;
-        let mut comma = false;
-        loop {
-            let t = skip(cursor);
-            if let Some(after) = t.strip_prefix(',') {
-                comma = true;
-                cursor = after;
-                break;
+        let ends = |w: &str| ends_name(w) || ends_as_number(w);
+        let misspelt_follower = |t: &'a str, word: &'a str, after: &'a str| {
+            if word.chars().count() < 2 {
+                return Ok(());
             }
-            let (word, after) = next_word(t);
-            if word.is_empty() || ends_name(word) || ends_as_number(word) {
-                cursor = t;
-                break;
+            let Some(meant) = nearest(word, &FOLLOWERS) else {
+                return Ok(());
+            };
+            let next = skip(after);
+            let (following, _) = next_word(next);
+            if starts_number(next) || is_keyword(following) {
+                return Err(failure(
+                    ParseErrorKind::Expected {
+                        expected: one_of(&FOLLOWERS),
+                        found: Some(shorten(word)),
+                        suggestion: Some(meant.to_string()),
+                    },
+                    cx.span(t, after),
+                ));
             }
-            if !words.is_empty() && word.chars().count() >= 2 {
-                if let Some(meant) = nearest(word, &FOLLOWERS) {
-                    let next = skip(after);
-                    let (following, _) = next_word(next);
-                    if starts_number(next) || is_keyword(following) {
-                        return Err(failure(
-                            ParseErrorKind::Expected {
-                                expected: one_of(&FOLLOWERS),
-                                found: Some(shorten(word)),
-                                suggestion: Some(meant.to_string()),
-                            },
-                            cx.span(t, after),
-                        ));
-                    }
-                }
-            }
-            if let Some(head) = word.strip_suffix(',') {
-                if !head.is_empty() {
-                    words.push(head);
-                    end = &t[head.len()..];
-                }
-                comma = true;
-                cursor = after;
-                break;
-            }
-            words.push(word);
-            end = after;
-            cursor = after;
-        }
+            Ok(())
+        };
+        let (words, end, cursor, comma) = listed_name(begin, ends, misspelt_follower)?;
         if words.is_empty() {
             return Err(expected_here(cx, begin, SOLUTE.into(), &[]));
         }

@@ -13,6 +13,7 @@
 mod basis;
 mod common;
 mod corroboration;
+mod echo;
 mod error;
 mod filters;
 mod freezing;
@@ -29,6 +30,7 @@ mod solid;
 use std::path::Path;
 use std::sync::Arc;
 
+pub use echo::STATEMENT_CHARS;
 pub use error::EvalError;
 pub use filters::cut;
 pub use snapshot::Snapshot;
@@ -140,11 +142,12 @@ impl Engine {
         text: &str,
         lines: &query::LineIndex,
     ) -> Answer {
-        let written = statement.span.text(text).trim().to_string();
+        let span = (statement.span.start, statement.span.end);
+        let written = echo::statement(statement.span.text(text).trim(), span);
         let kind = kind_of(&statement.node);
         let mut answer = Answer::new(written.clone(), kind);
         answer.line = lines.line_column(text, statement.span.start).0;
-        answer.span = (statement.span.start, statement.span.end);
+        answer.span = span;
         let result = match &statement.node {
             Statement::Solubility(s) => solid::lookup(&self.snapshot, s, &mut answer),
             Statement::Screen(s) => solid::screen(&self.snapshot, s, &mut answer),
@@ -255,7 +258,7 @@ fn statement_text(text: &str, offset: usize) -> String {
     let end = text[offset..]
         .find(['\n', ';'])
         .map_or(text.len(), |i| offset + i);
-    text.get(start..end).unwrap_or("").trim().to_string()
+    echo::statement(text.get(start..end).unwrap_or("").trim(), (start, end))
 }
 
 fn is_light(statement: &Statement) -> bool {

@@ -13,6 +13,7 @@
 mod basis;
 mod common;
 mod corroboration;
+mod dissolving;
 mod echo;
 mod error;
 mod filters;
@@ -154,6 +155,7 @@ impl Engine {
             Statement::Saturation(s) => solid::saturation(&self.snapshot, s, &mut answer),
             Statement::Ceiling(s) => solid::ceiling(&self.snapshot, s, &mut answer),
             Statement::HeatOfSolution(s) => heat::heat(&self.snapshot, s, &mut answer),
+            Statement::Dissolving(s) => dissolving::dissolving(&self.snapshot, s, &mut answer),
             Statement::DissolvedGas(s) => gas::dissolved(&self.snapshot, s, &mut answer),
             Statement::Freezing(s) => freezing::freezing(&self.snapshot, s, &mut answer),
             Statement::Convert(s) => solid::convert(&self.snapshot, s, &mut answer),
@@ -274,6 +276,7 @@ fn is_light(statement: &Statement) -> bool {
         | Statement::Saturation(_)
         | Statement::Ceiling(_)
         | Statement::Freezing(_)
+        | Statement::Dissolving(_)
         | Statement::Describe(_)
         | Statement::List(_)
         | Statement::Plot(_)
@@ -288,6 +291,7 @@ fn kind_of(statement: &Statement) -> AnswerKind {
         Statement::Saturation(_) => AnswerKind::Saturation,
         Statement::Ceiling(_) => AnswerKind::Ceiling,
         Statement::HeatOfSolution(_) => AnswerKind::Heat,
+        Statement::Dissolving(_) => AnswerKind::Dissolving,
         Statement::DissolvedGas(_) => AnswerKind::Gas,
         Statement::Freezing(_) => AnswerKind::Freezing,
         Statement::Convert(_) => AnswerKind::Convert,

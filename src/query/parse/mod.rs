@@ -12,6 +12,7 @@ use super::error::{ParseError, ParseErrorKind};
 use super::recipe::{Recipe, RecipeQuestion, RecipeStatement};
 
 mod clause;
+mod dissolving;
 mod plumbing;
 mod quantity;
 mod recipe;

@@ -17,6 +17,8 @@ pub enum AnswerKind {
     Ceiling,
     #[serde(rename = "heat-of-solution")]
     Heat,
+    /// `dissolving`: a batch's temperature as its solid dissolves.
+    Dissolving,
     #[serde(rename = "dissolved-gas")]
     Gas,
     Freezing,
@@ -39,6 +41,7 @@ impl AnswerKind {
             AnswerKind::Saturation => "saturation",
             AnswerKind::Ceiling => "ceiling",
             AnswerKind::Heat => "heat-of-solution",
+            AnswerKind::Dissolving => "dissolving",
             AnswerKind::Gas => "dissolved-gas",
             AnswerKind::Freezing => "freezing",
             AnswerKind::Convert => "convert",

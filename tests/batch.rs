@@ -457,3 +457,34 @@ fn every_help_example_is_answered() {
     let run = ran(satline(dir.path()).args(["run", "examples.sl"]));
     assert_eq!(run.code, Some(0), "{}", run.stderr);
 }
+
+/// A pasted megabyte as a solute name: the JSON answer and the message on the error stream
+/// repeat neither the megabyte nor more than the cut statement, and the answer still says
+/// where the whole statement is.
+#[test]
+fn a_megabyte_statement_is_not_echoed_back() {
+    let dir = tempfile::tempdir().unwrap();
+    let name = "x".repeat(1_000_000);
+    let script = format!("solubility of KNO3 at 20 C\nsolubility of {name} at 20 C\n");
+    write(dir.path(), "big.sl", &script);
+    let run = ran(satline(dir.path()).args(["run", "big.sl", "--format", "json"]));
+    assert_eq!(run.code, Some(2));
+    assert!(run.stdout.len() < 10_000, "{} bytes", run.stdout.len());
+    assert!(run.stderr.len() < 10_000, "{} bytes", run.stderr.len());
+    let second: serde_json::Value =
+        serde_json::from_str(run.stdout.lines().nth(1).unwrap()).unwrap();
+    assert_eq!(second["line"], 2);
+    let statement = second["statement"].as_str().unwrap();
+    assert!(statement.starts_with("solubility of xxxx"), "{statement}");
+    let whole = format!("solubility of {name} at 20 C");
+    assert!(
+        statement.ends_with(&format!(
+            "[cut: {} characters in all; the whole statement is bytes 27–{} of the script]",
+            whole.len(),
+            27 + whole.len()
+        )),
+        "{}",
+        &statement[statement.len() - 200..]
+    );
+    assert_eq!(&script[27..27 + whole.len()], whole);
+}

@@ -287,3 +287,178 @@ fn calcium_chloride_temperature_rise_worked_example() {
     let rise = b.end_c - 20.0;
     assert!((rise - 17.6).abs() < 0.1, "{rise}");
 }
+
+fn row<'a>(a: &'a Answer, quantity: &str) -> &'a satline::answer::Row {
+    a.rows
+        .iter()
+        .find(|r| r.quantity.as_deref() == Some(quantity))
+        .unwrap_or_else(|| panic!("no `{quantity}` row in {:?}", a.rows))
+}
+
+#[test]
+fn dissolving_temperatures_match_an_independent_computation() {
+    // tests/reference/dissolving_batches.json: the same energy balance computed with
+    // chemicals 1.5.2 (CRC tables, molar masses), thermo 0.6.1 (Laliberté's solution heat
+    // capacity, water by Laliberté's own correlation, integrated over the change) and scipy's
+    // root finder. Ours: IAPWS-95 water, Cp at the mean temperature; within 0.15 K.
+    let e = engine();
+    let f = fixture("dissolving_batches.json");
+    let list = f["rows"].as_array().unwrap();
+    assert_eq!(list.len(), 4);
+    for r in list {
+        let solute = r["solute"].as_str().unwrap();
+        let (solid, water, start) = (
+            r["solid_g"].as_f64().unwrap(),
+            r["water_g"].as_f64().unwrap(),
+            r["start_c"].as_f64().unwrap(),
+        );
+        let want = r["end_c"].as_f64().unwrap();
+        let thermo = e.catalog().thermochemistry();
+        let dh = standard_heat_of_solution(thermo, solute)
+            .unwrap()
+            .kj_per_mol;
+        let fit = thermo.heat_capacity_of(solute);
+        assert!(fit.is_some(), "{solute}: no Laliberté coefficients");
+        let b = batch_temperature(
+            solid,
+            water,
+            r["molar_mass"].as_f64().unwrap(),
+            dh,
+            start,
+            fit,
+        )
+        .unwrap();
+        assert!(
+            (b.end_c - want).abs() < 0.15,
+            "{solute}: {} vs {want}",
+            b.end_c
+        );
+        let a = answer(
+            &e,
+            &format!("dissolving {solid} g {solute} in {water} g water from {start} C extrapolate"),
+        );
+        assert!(a.ok, "{solute}: {:?}", a.error);
+        let end = row(&a, "final temperature").value.unwrap();
+        assert!(
+            (end - want).abs() < 0.15,
+            "{solute}: answer {end} vs {want}"
+        );
+    }
+}
+
+#[test]
+fn dissolving_warms_with_calcium_chloride_and_sodium_hydroxide_and_chills_with_ammonium_nitrate_and_urea()
+ {
+    // Common practice: CaCl2 and NaOH heat a batch sharply; NH4NO3 and urea chill it.
+    let e = engine();
+    for (solute, warms) in [
+        ("CaCl2", true),
+        ("NaOH", true),
+        ("NH4NO3", false),
+        ("urea", false),
+    ] {
+        let a = answer(
+            &e,
+            // `extrapolate`: calcium chloride's curve has a gap between its hydrates' data.
+            &format!("dissolving 150 g {solute} in 1 kg water from 20 C extrapolate"),
+        );
+        assert!(a.ok, "{solute}: {:?}", a.error);
+        let change = row(&a, "temperature change").value.unwrap();
+        assert_eq!(change > 5.0, warms, "{solute}: {change}");
+        assert_eq!(change < -5.0, !warms, "{solute}: {change}");
+        let has = |text: &str| a.caveats.iter().any(|c| c.contains(text));
+        assert!(has("adiabatic"), "{solute}");
+        assert!(has("infinite dilution"), "{solute}");
+        assert!(has("heat capacity"), "{solute}");
+        assert!(has("safety data sheet"), "{solute}");
+        if warms {
+            assert!(has("add the solid slowly"), "{solute}: {:?}", a.caveats);
+            assert_eq!(row(&a, "heat given off").unit.as_deref(), Some("kJ"));
+        } else {
+            assert!(has("cold room"), "{solute}: {:?}", a.caveats);
+            assert_eq!(row(&a, "heat taken up").unit.as_deref(), Some("kJ"));
+        }
+        assert_eq!(row(&a, "final temperature").extra["dissolves_fully"], true);
+    }
+    // Urea has no Laliberté coefficients (not an electrolyte): water's heat capacity, said.
+    let a = answer(&e, "dissolving 150 g urea in 1 kg water from 20 C");
+    assert_eq!(
+        row(&a, "solution heat capacity").extra["method"],
+        "water's heat capacity"
+    );
+}
+
+#[test]
+fn dissolving_near_the_boil_says_so_and_stops_at_100_c() {
+    let e = engine();
+    let a = answer(&e, "dissolving 500 g NaOH in 500 g water from 20 C");
+    assert!(a.ok);
+    let end = row(&a, "final temperature");
+    assert_eq!(end.value, Some(100.0));
+    assert_eq!(end.extra["boils"], true);
+    assert!(a.caveats.iter().any(|c| c.contains("boil-over")));
+}
+
+#[test]
+fn a_batch_that_saturates_on_the_way_stops_there() {
+    // 45 g KCl in 100 g water from 25 C chills until the solution is saturated: the final
+    // temperature is where the dissolved loading is the solubility.
+    let e = engine();
+    let a = answer(&e, "dissolving 45 g KCl in 100 g water from 25 C");
+    assert!(a.ok, "{:?}", a.error);
+    let end = row(&a, "final temperature");
+    assert_eq!(end.extra["dissolves_fully"], false);
+    let t = end.value.unwrap();
+    let dissolved = row(&a, "dissolved").value.unwrap();
+    assert!(dissolved > 20.0 && dissolved < 45.0, "{dissolved}");
+    let s = answer(&e, &format!("solubility of KCl at {t} C"));
+    let sat = s.rows[0].value.unwrap();
+    assert!(
+        (sat - dissolved).abs() < 0.3,
+        "{sat} g/100g water vs {dissolved} g"
+    );
+    assert!(
+        a.caveats
+            .iter()
+            .any(|c| c.contains("does not dissolve fully"))
+    );
+}
+
+#[test]
+fn a_batch_chilled_past_its_eutectic_is_not_given_a_figure() {
+    let e = engine();
+    let a = answer(&e, "dissolving 1 kg NH4NO3 in 1 kg water from 5 C");
+    assert!(a.ok, "{:?}", a.error);
+    let end = row(&a, "final temperature");
+    assert_eq!(end.value, None);
+    assert!(end.extra["not_reached_c"].as_f64().unwrap() < -30.0);
+    assert!(a.caveats.iter().any(|c| c.starts_with("not reached")));
+}
+
+#[test]
+fn dissolving_refuses_what_it_cannot_answer() {
+    let e = engine();
+    for (text, code) in [
+        ("dissolving 10 g CO2 in 1 kg water from 20 C", "no-data"),
+        (
+            "dissolving 100 g NaCl in 1 kg water from -5 C",
+            "out-of-range",
+        ),
+        (
+            "dissolving 100 g NaCl in 1 kg water from 100 C",
+            "out-of-range",
+        ),
+        (
+            "dissolving 100 g sucrose in 1 kg water from 20 C",
+            "no-data",
+        ),
+        (
+            "dissolving 100 g KNO4 in 1 kg water from 20 C",
+            "unknown-solute",
+        ),
+    ] {
+        let a = answer(&e, text);
+        assert!(!a.ok, "{text}");
+        assert_eq!(a.error.as_ref().unwrap().code, code, "{text}");
+    }
+}

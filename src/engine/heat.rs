@@ -45,7 +45,7 @@ fn row(
 }
 
 /// Cites every record's source and says which were typed from memory or are unreviewed.
-fn cite_records(snap: &Snapshot, used: &[&ThermoValue], answer: &mut Answer) {
+pub(super) fn cite_records(snap: &Snapshot, used: &[&ThermoValue], answer: &mut Answer) {
     let mut memory: Vec<&str> = Vec::new();
     for v in used {
         cite_source(snap, &v.source, answer);

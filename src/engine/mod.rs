@@ -13,6 +13,8 @@
 mod basis;
 mod common;
 mod corroboration;
+mod dissolving;
+mod echo;
 mod error;
 mod filters;
 mod freezing;
@@ -27,6 +29,7 @@ mod solid;
 use std::path::Path;
 use std::sync::Arc;
 
+pub use echo::STATEMENT_CHARS;
 pub use error::EvalError;
 pub use filters::cut;
 pub use snapshot::Snapshot;
@@ -138,17 +141,19 @@ impl Engine {
         text: &str,
         lines: &query::LineIndex,
     ) -> Answer {
-        let written = statement.span.text(text).trim().to_string();
+        let span = (statement.span.start, statement.span.end);
+        let written = echo::statement(statement.span.text(text).trim(), span);
         let kind = kind_of(&statement.node);
         let mut answer = Answer::new(written.clone(), kind);
         answer.line = lines.line_column(text, statement.span.start).0;
-        answer.span = (statement.span.start, statement.span.end);
+        answer.span = span;
         let result = match &statement.node {
             Statement::Solubility(s) => solid::lookup(&self.snapshot, s, &mut answer),
             Statement::Screen(s) => solid::screen(&self.snapshot, s, &mut answer),
             Statement::Saturation(s) => solid::saturation(&self.snapshot, s, &mut answer),
             Statement::Ceiling(s) => solid::ceiling(&self.snapshot, s, &mut answer),
             Statement::HeatOfSolution(s) => heat::heat(&self.snapshot, s, &mut answer),
+            Statement::Dissolving(s) => dissolving::dissolving(&self.snapshot, s, &mut answer),
             Statement::DissolvedGas(s) => gas::dissolved(&self.snapshot, s, &mut answer),
             Statement::Freezing(s) => freezing::freezing(&self.snapshot, s, &mut answer),
             Statement::Convert(s) => solid::convert(&self.snapshot, s, &mut answer),
@@ -257,7 +262,7 @@ fn statement_text(text: &str, offset: usize) -> String {
     let end = text[offset..]
         .find(['\n', ';'])
         .map_or(text.len(), |i| offset + i);
-    text.get(start..end).unwrap_or("").trim().to_string()
+    echo::statement(text.get(start..end).unwrap_or("").trim(), (start, end))
 }
 
 fn is_light(statement: &Statement) -> bool {
@@ -273,6 +278,7 @@ fn is_light(statement: &Statement) -> bool {
         | Statement::Saturation(_)
         | Statement::Ceiling(_)
         | Statement::Freezing(_)
+        | Statement::Dissolving(_)
         | Statement::Describe(_)
         | Statement::List(_)
         | Statement::Plot(_) => false,
@@ -286,6 +292,7 @@ fn kind_of(statement: &Statement) -> AnswerKind {
         Statement::Saturation(_) => AnswerKind::Saturation,
         Statement::Ceiling(_) => AnswerKind::Ceiling,
         Statement::HeatOfSolution(_) => AnswerKind::Heat,
+        Statement::Dissolving(_) => AnswerKind::Dissolving,
         Statement::DissolvedGas(_) => AnswerKind::Gas,
         Statement::Freezing(_) => AnswerKind::Freezing,
         Statement::Convert(_) => AnswerKind::Convert,

@@ -1,6 +1,7 @@
 //! Help texts of the interactive session: `help` gives the overview, `help TOPIC` one
 //! statement or subject, with examples that are statements of the acceptance set.
 
+use crate::query::MassUnit;
 use crate::science::units::{CompositionUnit, PressureUnit, TemperatureUnit};
 
 /// The caution shown once per session (see DESIGN.md, "Cautions").
@@ -80,6 +81,26 @@ pub const TOPICS: &[Topic] = &[
                The heat of solution in kJ/mol. Positive: the solute dissolves \
                endothermically and its solubility rises with temperature.",
         examples: &["heat of solution of KNO3 at 25 C"],
+    },
+    Topic {
+        name: "dissolving",
+        aliases: &[
+            "dissolving temperature",
+            "warming",
+            "exothermic",
+            "endothermic",
+        ],
+        summary: "how warm or cold a batch gets while its solid dissolves",
+        body: "dissolving MASS SOLUTE in MASS water from TEMPERATURE [extrapolate]\n\
+               The temperature a batch reaches when the solid dissolves with no heat \
+               exchanged (adiabatic), from the tables' standard heat of solution and the \
+               solution's heat capacity; whether it all dissolves at that temperature; and \
+               the cautions of a batch that heats sharply or chills. Masses in mg, g, kg \
+               or lb.",
+        examples: &[
+            "dissolving 300 g CaCl2 in 1 kg water from 20 C",
+            "dissolving 300 g NH4NO3 in 1 kg water from 20 C",
+        ],
     },
     Topic {
         name: "dissolved",
@@ -327,11 +348,13 @@ fn units_text() -> String {
          loadings:     {}\n  \
          per litre:    {}\n                (mM, uM, M too; per litre of solution at 20 C unless\n                 `at T` says; the density comes from Laliberté's model)\n  \
          pressures:    {}   (2.5 bar; or `under air`)\n  \
-         margins:      a percentage of headroom, as in `margin 10%`\n",
+         margins:      a percentage of headroom, as in `margin 10%`\n  \
+         masses:       {}   (a batch in `dissolving`: 300 g, 1 kg)\n",
         join(TemperatureUnit::ALL.iter().map(|u| u.symbol()).collect()),
         loadings(false),
         loadings(true),
         join(PressureUnit::ALL.iter().map(|u| u.symbol()).collect()),
+        join(MassUnit::ALL.iter().map(|u| u.symbol()).collect()),
     )
 }
 

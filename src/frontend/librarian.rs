@@ -7,7 +7,7 @@ use std::path::{Path, PathBuf};
 
 use crate::catalog::Catalog;
 use crate::frontend::cli::{Command, ReviewAction, SourceAction};
-use crate::librarian::{self, Progress};
+use crate::librarian;
 use crate::output::Format;
 use crate::store::export::ExportFormat;
 use crate::store::review::{Decision, Retirement};
@@ -87,25 +87,6 @@ fn tolerance(percent: f64) -> Result<f64, Failure> {
     librarian::tolerance_fraction(percent).map_err(Failure::Usage)
 }
 
-/// The import's progress bar: drawn on standard error when it is a terminal and the import
-/// is large (see [`store::import::progress_bar`]).
-fn progress_bar() -> impl FnMut(Progress) {
-    let mut bar = None;
-    move |step| match step {
-        Progress::Planned(points) => bar = store::import::progress_bar(points),
-        Progress::Point => {
-            if let Some(b) = &bar {
-                b.inc(1);
-            }
-        }
-        Progress::Done => {
-            if let Some(b) = bar.take() {
-                b.finish_and_clear();
-            }
-        }
-    }
-}
-
 /// Runs one librarian's command (or `describe`/`solutes`), writing its report to `out`.
 pub fn run(
     db: Option<&Path>,
@@ -170,8 +151,12 @@ pub fn run(
                 .map(|f| ImportFile::read(f))
                 .collect::<Result<Vec<_>, _>>()?;
             let actor = who.actor.as_deref();
-            let done =
-                librarian::import(&path, &files, &options, dry_run, actor, &mut progress_bar())?;
+            let mut progress = super::progress::ImportProgress::start(&files);
+            let done = librarian::import(&path, &files, &options, dry_run, actor, &mut |step| {
+                progress.step(step)
+            });
+            progress.finish();
+            let done = done?;
             if json {
                 writeln!(out, "{}", done.to_json())?;
             } else if dry_run {

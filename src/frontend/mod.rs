@@ -11,6 +11,7 @@ pub mod complete;
 pub mod help;
 pub mod librarian;
 pub mod picture;
+pub mod progress;
 pub mod repl;
 
 use std::io::IsTerminal;

@@ -308,6 +308,72 @@ pub struct HeatOfSolution {
     pub options: Options,
 }
 
+/// A unit of mass for the amounts of a batch (`g`, `kg`, `mg`, `lb`).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+pub enum MassUnit {
+    Milligram,
+    Gram,
+    Kilogram,
+    /// The avoirdupois pound, 453.59237 g exactly.
+    Pound,
+}
+
+impl MassUnit {
+    pub const ALL: [MassUnit; 4] = [
+        MassUnit::Milligram,
+        MassUnit::Gram,
+        MassUnit::Kilogram,
+        MassUnit::Pound,
+    ];
+
+    pub fn symbol(self) -> &'static str {
+        match self {
+            MassUnit::Milligram => "mg",
+            MassUnit::Gram => "g",
+            MassUnit::Kilogram => "kg",
+            MassUnit::Pound => "lb",
+        }
+    }
+
+    pub fn grams(self) -> f64 {
+        match self {
+            MassUnit::Milligram => 1e-3,
+            MassUnit::Gram => 1.0,
+            MassUnit::Kilogram => 1e3,
+            MassUnit::Pound => 453.592_37,
+        }
+    }
+
+    pub fn from_symbol(symbol: &str) -> Option<Self> {
+        MassUnit::ALL.into_iter().find(|u| u.symbol() == symbol)
+    }
+}
+
+/// A mass as written (`300 g`, `1 kg`); always above zero (the parser checks).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Mass {
+    pub value: f64,
+    pub unit: MassUnit,
+    pub span: Span,
+}
+
+impl Mass {
+    pub fn grams(&self) -> f64 {
+        self.value * self.unit.grams()
+    }
+}
+
+/// `dissolving 300 g CaCl2 in 1 kg water from 20 C`: how warm or cold the batch gets
+/// while the solid dissolves, with no heat exchanged.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Dissolving {
+    pub solid: Mass,
+    pub solute: Name,
+    pub water: Mass,
+    pub start: Temperature,
+    pub options: Options,
+}
+
 /// `dissolved O2 at 25 C [under air] [in mg/L]`.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct DissolvedGas {
@@ -419,6 +485,7 @@ pub enum Statement {
     Saturation(Saturation),
     Ceiling(Ceiling),
     HeatOfSolution(HeatOfSolution),
+    Dissolving(Dissolving),
     DissolvedGas(DissolvedGas),
     Freezing(Freezing),
     Convert(Convert),
@@ -439,6 +506,7 @@ impl Statement {
             Statement::Saturation(_) => "saturation",
             Statement::Ceiling(_) => "ceiling",
             Statement::HeatOfSolution(_) => "heat-of-solution",
+            Statement::Dissolving(_) => "dissolving",
             Statement::DissolvedGas(_) => "dissolved-gas",
             Statement::Freezing(_) => "freezing",
             Statement::Convert(_) => "convert",

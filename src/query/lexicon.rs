@@ -5,12 +5,13 @@ use super::ast::ValueKind;
 use crate::science::units::{CompositionUnit, PressureUnit, TemperatureUnit};
 
 /// Words that begin a statement.
-pub const STATEMENT_WORDS: [&str; 14] = [
+pub const STATEMENT_WORDS: [&str; 15] = [
     "solubility",
     "which",
     "saturation",
     "ceiling",
     "heat",
+    "dissolving",
     "dissolved",
     "freezing",
     "convert",

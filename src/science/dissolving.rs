@@ -133,6 +133,121 @@ pub fn batch_temperature(
     })
 }
 
+/// A batch to dissolve: grams of solid (molar mass g/mol, heat of solution kJ/mol) and of
+/// water, the start temperature (°C) and the solute's heat-capacity coefficients, if any.
+#[derive(Debug, Clone, Copy)]
+pub struct Batch<'a> {
+    pub solute_g: f64,
+    pub water_g: f64,
+    pub molar_mass: f64,
+    pub delta_h: f64,
+    pub start_c: f64,
+    pub fit: Option<&'a HeatCapacityFit>,
+}
+
+impl Batch<'_> {
+    /// [`batch_temperature`] of the whole batch.
+    pub fn temperature(&self) -> Result<BatchTemperature, ScienceError> {
+        batch_temperature(
+            self.solute_g,
+            self.water_g,
+            self.molar_mass,
+            self.delta_h,
+            self.start_c,
+            self.fit,
+        )
+    }
+}
+
+/// How far a batch dissolves before its solution saturates.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Dissolution {
+    /// The whole solid dissolves.
+    Whole,
+    /// Dissolving stops, the solution saturated, after `dissolved_g` grams.
+    Stops {
+        dissolved_g: f64,
+        batch: BatchTemperature,
+    },
+    /// The saturation is not known at `t_c`, which the batch passes on the way.
+    Unknown { t_c: f64 },
+}
+
+/// Where a batch stops dissolving when its solution saturates on the way: the first mass
+/// dissolved, x, at which the solution's mass fraction x/(x + m_water) reaches the
+/// saturation mass fraction at the temperature [`batch_temperature`] gives for x dissolved
+/// (the undissolved solid's own heat capacity left out). `saturation(t_c)` is the saturated
+/// mass fraction at `t_c`, `None` where it is unknown. The first crossing is found on a grid
+/// of 200 steps, then by bisection.
+pub fn stops_at_saturation(
+    batch: &Batch<'_>,
+    saturation: impl Fn(f64) -> Option<f64>,
+) -> Result<Dissolution, ScienceError> {
+    let Batch {
+        solute_g,
+        water_g,
+        molar_mass,
+        delta_h,
+        start_c,
+        fit,
+    } = *batch;
+    let solute_g = positive("mass of solid (g)", solute_g)?;
+    // Headroom to saturation with x grams dissolved (positive while more can dissolve), or
+    // the temperature where the saturation is unknown.
+    let headroom = |x: f64| -> Result<Result<(f64, BatchTemperature), f64>, ScienceError> {
+        let b = batch_temperature(x, water_g, molar_mass, delta_h, start_c, fit)?;
+        Ok(match saturation(b.end_c) {
+            Some(w_sat) => Ok((w_sat - x / (x + water_g), b)),
+            None => Err(b.end_c),
+        })
+    };
+    const STEPS: usize = 200;
+    let mut low = 0.0;
+    for k in 1..=STEPS {
+        let x = solute_g * k as f64 / STEPS as f64;
+        let h = match headroom(x)? {
+            Ok((h, _)) => h,
+            Err(t_c) => return Ok(Dissolution::Unknown { t_c }),
+        };
+        if h >= 0.0 {
+            low = x;
+            continue;
+        }
+        let mut high = x;
+        for _ in 0..60 {
+            let mid = 0.5 * (low + high);
+            match headroom(mid)? {
+                Ok((h, _)) if h < 0.0 => high = mid,
+                Ok(_) => low = mid,
+                Err(t_c) => return Ok(Dissolution::Unknown { t_c }),
+            }
+        }
+        if low <= 0.0 {
+            // Saturated from the first grain: nothing dissolves, nothing changes.
+            let batch = BatchTemperature {
+                start_c,
+                end_c: start_c,
+                heat_released_kj: 0.0,
+                cp: water_heat_capacity(start_c),
+                cp_basis: HeatCapacityBasis::Water,
+                w_solute: 0.0,
+            };
+            return Ok(Dissolution::Stops {
+                dissolved_g: 0.0,
+                batch,
+            });
+        }
+        return Ok(match headroom(low)? {
+            Ok((_, batch)) => Dissolution::Stops {
+                dissolved_g: low,
+                batch,
+            },
+            Err(t_c) => Dissolution::Unknown { t_c },
+        });
+    }
+    Ok(Dissolution::Whole)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -161,5 +276,44 @@ mod tests {
         let c = batch_temperature(10.0, 90.0, 100.0, 41.8, 30.0, None).unwrap();
         assert!(c.end_c < 30.0);
         assert!(batch_temperature(0.0, 90.0, 100.0, 1.0, 20.0, None).is_err());
+    }
+
+    #[test]
+    fn an_endothermic_batch_stops_where_it_saturates() {
+        // Invented: M = 100 g/mol, +41.8 kJ/mol, saturation w = 0.01·t (t in °C). 50 g in
+        // 100 g water from 30 °C would end near −3 °C, where nothing dissolves; it stops
+        // where x/(x + 100) = 0.01·T(x).
+        let sat = |t: f64| Some((0.01 * t).max(0.0));
+        let demo = |solute_g: f64| Batch {
+            solute_g,
+            water_g: 100.0,
+            molar_mass: 100.0,
+            delta_h: 41.8,
+            start_c: 30.0,
+            fit: None,
+        };
+        let Dissolution::Stops { dissolved_g, batch } =
+            stops_at_saturation(&demo(50.0), sat).unwrap()
+        else {
+            panic!("it must stop");
+        };
+        let x = dissolved_g;
+        assert!(x > 0.0 && x < 50.0, "{x}");
+        assert!(
+            (x / (x + 100.0) - 0.01 * batch.end_c).abs() < 1e-6,
+            "{x} {batch:?}"
+        );
+        let direct = batch_temperature(x, 100.0, 100.0, 41.8, 30.0, None).unwrap();
+        assert!((direct.end_c - batch.end_c).abs() < 1e-9);
+        // A small batch dissolves whole.
+        assert_eq!(
+            stops_at_saturation(&demo(1.0), sat).unwrap(),
+            Dissolution::Whole
+        );
+        // Unknown saturation on the way is said, not guessed.
+        assert!(matches!(
+            stops_at_saturation(&demo(50.0), |_| None).unwrap(),
+            Dissolution::Unknown { .. }
+        ));
     }
 }

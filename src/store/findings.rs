@@ -107,7 +107,11 @@ fn mass_fraction_at(d: &Dataset, t_k: f64) -> Option<f64> {
     if let [only] = d.points.as_slice() {
         return ((only.temperature_k - t_k).abs() < 1e-9).then_some(only.mass_fraction);
     }
-    d.points.windows(2).find_map(|w| {
+    // The points are sorted by temperature: the first window that can hold `t_k` is found
+    // by bisection (comparing two long datasets stays O(n log n), not O(n²)).
+    let first_at_or_above = d.points.partition_point(|p| p.temperature_k < t_k);
+    let from = first_at_or_above.saturating_sub(1);
+    d.points[from..].windows(2).find_map(|w| {
         let (a, b) = (w[0], w[1]);
         (a.temperature_k <= t_k && t_k <= b.temperature_k && b.temperature_k > a.temperature_k)
             .then(|| {

@@ -243,6 +243,8 @@ struct Origins {
     /// For a solute file made from CSV rows: the solute and its first line, to stand in for
     /// a position in the made-up TOML text.
     made_from_csv: HashMap<String, (String, u64)>,
+    /// For a solute file made from CSV rows: the 1-based column of `value` in its CSV file.
+    value_column: HashMap<String, usize>,
 }
 
 impl Origins {
@@ -382,7 +384,7 @@ pub fn plan(
         }
     }
     for d in &incoming.datasets {
-        check_sane(d, &solute_file)?;
+        check_sane(d, &solute_file, &origins)?;
     }
     for c in &incoming.checks {
         if let Some(reason) = super::corroboration::unknown_subject(c, &[&incoming, &existing]) {
@@ -435,7 +437,13 @@ fn check_names(
     Ok(())
 }
 
-fn check_sane(d: &Dataset, files: &HashMap<String, String>) -> Result<(), StoreError> {
+/// Every point's value within [`sane_range`] of its unit; a point from a CSV row is named by
+/// its line and the `value` column.
+fn check_sane(
+    d: &Dataset,
+    files: &HashMap<String, String>,
+    origins: &Origins,
+) -> Result<(), StoreError> {
     let Some(unit) = CompositionUnit::from_symbol(&d.unit) else {
         return Ok(());
     };
@@ -447,9 +455,20 @@ fn check_sane(d: &Dataset, files: &HashMap<String, String>) -> Result<(), StoreE
         let ok = v > low && if inclusive { v <= high } else { v < high };
         if !ok {
             let local = d.key.split_once('/').map_or(d.key.as_str(), |k| k.1);
+            let record = format!("dataset \"{local}\", point {}", i + 1);
+            let made = format!("solutes/{}.toml", d.solute);
+            let record = match (
+                origins.lines.get(&(made.clone(), record.clone())),
+                origins.value_column.get(&made),
+            ) {
+                (Some(line), Some(column)) => {
+                    format!("line {line}, column {column} (value; {record})")
+                }
+                _ => record,
+            };
             return Err(import_error(
                 files.get(&d.solute).map_or("", String::as_str),
-                format!("dataset \"{local}\", point {}", i + 1),
+                record,
                 format!(
                     "{v} {} is outside the sane range for {} (above {low}, up to {high}{}); check the number and its unit",
                     d.unit,
@@ -656,22 +675,30 @@ fn compare(incoming: &Contents, existing: &Contents, options: &ImportOptions) ->
         })
         .collect();
     let written_keys: HashSet<&str> = written.iter().map(|d| d.key.as_str()).collect();
-    let stored: Vec<&Dataset> = existing
+    // Datasets are only compared within one solute and solid phase: grouped by both, so
+    // planning stays linear in the datasets rather than comparing every pair.
+    let same_solid = |d: &Dataset| (d.solute.clone(), d.phase.formula.clone());
+    let mut stored: HashMap<(String, String), Vec<&Dataset>> = HashMap::new();
+    for d in existing
         .datasets
         .iter()
         .filter(|d| !d.retired && d.review != Review::Rejected)
         .filter(|d| !written_keys.contains(d.key.as_str()))
-        .collect();
+    {
+        stored.entry(same_solid(d)).or_default().push(d);
+    }
+    let mut written_with: HashMap<(String, String), Vec<usize>> = HashMap::new();
+    for (i, d) in written.iter().enumerate() {
+        written_with.entry(same_solid(d)).or_default().push(i);
+    }
     for (i, d) in written.iter().enumerate() {
         let Some(solute) = solutes.get(d.solute.as_str()) else {
             continue;
         };
         plan.findings
             .extend(findings::outliers(d, solute.molar_mass));
-        for o in &stored {
-            if o.solute != d.solute || o.phase.formula != d.phase.formula {
-                continue;
-            }
+        let group = same_solid(d);
+        for o in stored.get(&group).into_iter().flatten() {
             if o.points == d.points || o.source == d.source {
                 plan.findings.push(Finding {
                     kind: "duplicate",
@@ -694,7 +721,8 @@ fn compare(incoming: &Contents, existing: &Contents, options: &ImportOptions) ->
                     .or_else(|| findings::conflict(o, d, solute, options.tolerance)),
             );
         }
-        for o in written.iter().skip(i + 1) {
+        let later = written_with.get(&group).into_iter().flatten();
+        for o in later.filter(|&&j| j > i).map(|&j| written[j]) {
             plan.findings.extend(
                 findings::conflict(d, o, solute, options.tolerance)
                     .or_else(|| findings::conflict(o, d, solute, options.tolerance)),
@@ -963,6 +991,8 @@ fn parse_csv(
     }
 
     let mut solutes: Vec<(String, CsvSolute)> = Vec::new();
+    // Where each solute is in `solutes`: one look-up per row, not a scan (linear in rows).
+    let mut solute_index: HashMap<String, usize> = HashMap::new();
     for record in reader.records() {
         let record = record.map_err(csv_error)?;
         let line = record.position().map_or(0, |p| p.line());
@@ -1020,9 +1050,10 @@ fn parse_csv(
             .ok_or_else(|| import_error(file, format!("line {line}"), "the value is empty"))?;
         let uncertainty = number("uncertainty")?;
 
-        let index = match solutes.iter().position(|(s, _)| s == id) {
-            Some(i) => i,
+        let index = match solute_index.get(id) {
+            Some(&i) => i,
             None => {
+                solute_index.insert(id.to_string(), solutes.len());
                 solutes.push((
                     id.to_string(),
                     CsvSolute {
@@ -1072,6 +1103,9 @@ fn parse_csv(
     for (id, solute) in &mut solutes {
         let name = format!("solutes/{id}.toml");
         origins.files.insert(name.clone(), file.to_string());
+        if let Some(&i) = column.get("value") {
+            origins.value_column.insert(name.clone(), i + 1);
+        }
         let field = |k: &str| solute.fields.get(k).map(|v| v.0.clone());
         let stored = existing.solutes.iter().find(|s| &s.id == id);
         let mut table = toml::Table::new();

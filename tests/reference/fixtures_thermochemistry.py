@@ -15,7 +15,10 @@ import iapws
 import thermo
 from chemicals.heat_capacity import CRC_standard_data
 from iapws import IAPWS95
-from thermo.electrochem import CRC_aqueous_thermodynamics, Laliberte_heat_capacity_i, Laliberte_data
+from chemicals.elements import molecular_weight, simple_formula_parser
+from scipy.integrate import quad
+from scipy.optimize import brentq
+from thermo.electrochem import CRC_aqueous_thermodynamics, Laliberte_heat_capacity, Laliberte_heat_capacity_i, Laliberte_data
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 
@@ -99,6 +102,45 @@ def water_cp():
     return rows
 
 
+# Batches for the dissolving-temperature check: (formula, CAS number, grams of solid, grams
+# of water, start in C).
+BATCHES = [
+    ("CaCl2", "10043-52-4", 300.0, 1000.0, 20.0),
+    ("NaOH", "1310-73-2", 100.0, 1000.0, 20.0),
+    ("NH4NO3", "6484-52-2", 300.0, 1000.0, 20.0),
+    ("KCl", "7447-40-7", 30.0, 100.0, 25.0),
+]
+
+
+def batch_temperatures():
+    """The temperature a batch reaches with no heat exchanged, computed independently: the
+    heat −n·ΔH°sol (ΔH°sol from chemicals' CRC tables, molar mass from chemicals) equals the
+    integral of the solution's heat capacity (thermo's Laliberte_heat_capacity, water
+    included by its own correlation) from the start to the end temperature, solved with
+    scipy's brentq."""
+    heats = {r["crystal"]: r["standard_heat_kj_per_mol"] for r in standard_heats()}
+    rows = []
+    for formula, cas, solid_g, water_g, start_c in BATCHES:
+        mw = molecular_weight(simple_formula_parser(formula))
+        q_j = -solid_g / mw * heats[formula] * 1000.0
+        total_kg = (solid_g + water_g) / 1000.0
+        w = solid_g / (solid_g + water_g)
+
+        def cp(t_k):
+            return Laliberte_heat_capacity(t_k, [w], [cas])  # J/(kg K)
+
+        def balance(t_end_c):
+            t0, t1 = start_c + 273.15, t_end_c + 273.15
+            return total_kg * quad(cp, t0, t1)[0] - q_j
+
+        end_c = brentq(balance, start_c - 40.0, start_c + 75.0)
+        rows.append({
+            "solute": formula, "solid_g": solid_g, "water_g": water_g, "start_c": start_c,
+            "molar_mass": mw, "standard_heat_kj_per_mol": heats[formula], "end_c": end_c,
+        })
+    return rows
+
+
 def thermochemistry_fixtures():
     versions = {"chemicals": chemicals.__version__, "thermo": thermo.__version__, "iapws": iapws.__version__}
     return {
@@ -113,6 +155,12 @@ def thermochemistry_fixtures():
             "source": "thermo.electrochem.Laliberte_heat_capacity_i (Laliberté 2009), J/(g K); iapws.IAPWS95 cp of water at 0.101325 MPa (100 C: saturated liquid), J/(g K)",
             "laliberte": laliberte(),
             "water": water_cp(),
+        },
+        "dissolving_batches.json": {
+            "versions": {**versions, "scipy": __import__("scipy").__version__},
+            "source": "adiabatic batch temperature: -n·ΔH°sol (chemicals CRC tables) = (m_water + m_solid)·∫Cp dT with "
+            "thermo.electrochem.Laliberte_heat_capacity (water by Laliberté's own correlation), solved by scipy.optimize.brentq",
+            "rows": batch_temperatures(),
         },
     }
 

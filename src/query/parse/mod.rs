@@ -11,6 +11,7 @@ use super::ast::*;
 use super::error::{ParseError, ParseErrorKind};
 
 mod clause;
+mod dissolving;
 mod plumbing;
 mod quantity;
 mod statement;

@@ -21,6 +21,7 @@ pub(super) fn statement<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
         "saturation" => saturation(cx, after),
         "ceiling" => ceiling(cx, after),
         "heat" => heat_of_solution(cx, after),
+        "dissolving" => super::dissolving::dissolving(cx, after),
         "dissolved" => dissolved(cx, after),
         "freezing" => freezing(cx, after),
         "convert" => convert(cx, after),

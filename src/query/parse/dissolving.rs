@@ -1,0 +1,180 @@
+//! `dissolving 300 g CaCl2 in 1 kg water from 20 C`: masses of a batch (a number and a mass
+//! unit) and the statement that asks how warm or cold the batch gets while it dissolves.
+
+use nom::Parser;
+use nom::combinator::cut;
+use nom::error::context;
+
+use super::super::ast::*;
+use super::super::error::ParseErrorKind;
+use super::super::lexicon::nearest;
+use super::clause::{Clause, solute, tail};
+use super::plumbing::*;
+use super::quantity::{committed_temperature, number_text, starts_number};
+
+const SOLID: &str = "the mass of solid, such as `300 g`";
+const WATER: &str = "the mass of water, such as `1 kg`";
+const MASS_UNITS: &str = "a mass unit (`g`, `kg`, `mg` or `lb`)";
+
+/// The mass unit written `word` (any case: `Kg` is a kilogram).
+fn mass_unit(word: &str) -> Option<MassUnit> {
+    MassUnit::ALL
+        .into_iter()
+        .find(|u| u.symbol().eq_ignore_ascii_case(word))
+}
+
+/// The unit to suggest for a word that is not a mass unit: a volume of water becomes the
+/// mass it nearly is; otherwise the closest symbol.
+fn suggest_mass_unit(word: &str) -> Option<String> {
+    let by_volume = match word {
+        "L" | "l" => Some("kg"),
+        "mL" | "ml" => Some("g"),
+        _ => None,
+    };
+    let symbols: Vec<&str> = MassUnit::ALL.iter().map(|u| u.symbol()).collect();
+    by_volume
+        .or_else(|| nearest(word, &symbols))
+        .map(str::to_string)
+}
+
+/// A mass: a number above zero and a mass unit. `what` names the mass in messages.
+pub(super) fn mass<'a>(cx: Cx<'a>, i: &'a str, what: &'static str) -> R<'a, Mass> {
+    let t = skip(i);
+    if !starts_number(t) {
+        return Err(expected_here(cx, t, what.into(), &[]));
+    }
+    let (after, number) = cut(context(what, number_text)).parse(t)?;
+    let (word, rest) = next_word(after);
+    let Some(unit) = mass_unit(word) else {
+        let (span, found) = if word.is_empty() {
+            found_at(cx, t)
+        } else {
+            (cx.span(t, rest), Some(shorten(&t[..t.len() - rest.len()])))
+        };
+        return Err(failure(
+            ParseErrorKind::Expected {
+                expected: format!("{what}: {MASS_UNITS} after `{number}`"),
+                found,
+                suggestion: suggest_mass_unit(word),
+            },
+            span,
+        ));
+    };
+    let span = cx.span(t, rest);
+    let found = shorten(&t[..t.len() - rest.len()]);
+    let invalid = || {
+        let found = shorten(number);
+        failure(ParseErrorKind::InvalidNumber { found }, span)
+    };
+    let value: f64 = number.replace('−', "-").parse().map_err(|_| invalid())?;
+    if !value.is_finite() {
+        return Err(invalid());
+    }
+    if value < 0.0 {
+        return Err(failure(ParseErrorKind::NegativeAmount { found }, span));
+    }
+    if value == 0.0 {
+        return Err(failure(
+            ParseErrorKind::Expected {
+                expected: format!("{what}, above zero"),
+                found: Some(found),
+                suggestion: None,
+            },
+            span,
+        ));
+    }
+    Ok((rest, Mass { value, unit, span }))
+}
+
+/// `dissolving MASS [of] SOLUTE in MASS [of] water from|at TEMPERATURE [extrapolate]`.
+pub(super) fn dissolving<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
+    let (i, solid) = mass(cx, i, SOLID)?;
+    let i = has_keyword(i, "of").unwrap_or(i);
+    let (i, solute) = solute(cx, i, &["in"])?;
+    let (i, _) = expect(cx, i, &["in"])?;
+    let (i, water) = mass(cx, i, WATER)?;
+    let i = has_keyword(i, "of").unwrap_or(i);
+    let (i, _) = expect(cx, i, &["water"])?;
+    let (i, _) = expect(cx, i, &["from", "at"])?;
+    let (i, start) = committed_temperature(cx, i)?;
+    let (i, tail) = tail(cx, i, &[Clause::Extrapolate], &[])?;
+    Ok((
+        i,
+        Statement::Dissolving(Dissolving {
+            solid,
+            solute,
+            water,
+            start,
+            options: tail.options,
+        }),
+    ))
+}
+
+#[cfg(test)]
+mod tests {
+    use crate::query::{ParseErrorKind, Statement, parse_script};
+
+    fn one(text: &str) -> Result<Statement, crate::query::ParseError> {
+        parse_script(text).remove(0).map(|l| l.node)
+    }
+
+    #[test]
+    fn reads_the_batch() {
+        let Ok(Statement::Dissolving(d)) = one("dissolving 300 g CaCl2 in 1 kg water from 20 C")
+        else {
+            panic!("not parsed");
+        };
+        assert_eq!(d.solid.grams(), 300.0);
+        assert_eq!(d.solute.text, "CaCl2");
+        assert_eq!(d.water.grams(), 1000.0);
+        assert_eq!(d.start.celsius(), 20.0);
+        assert!(!d.options.extrapolate);
+        let Ok(Statement::Dissolving(d)) =
+            one("DISSOLVING 2 lb of ammonium nitrate in 500g of water at 68 F extrapolate")
+        else {
+            panic!("not parsed");
+        };
+        assert!((d.solid.grams() - 907.184_74).abs() < 1e-9);
+        assert_eq!(d.solute.text, "ammonium nitrate");
+        assert_eq!(d.water.grams(), 500.0);
+        assert!((d.start.celsius() - 20.0).abs() < 1e-9);
+        assert!(d.options.extrapolate);
+    }
+
+    fn fault(text: &str) -> (String, (usize, usize), ParseErrorKind) {
+        let e = one(text).expect_err("must not parse");
+        (e.to_string(), (e.span.start, e.span.end), e.kind)
+    }
+
+    #[test]
+    fn says_what_is_wrong_and_where() {
+        // A volume of water: expected a mass, with the mass it nearly is.
+        let (msg, span, _) = fault("dissolving 300 g CaCl2 in 1 L water from 20 C");
+        assert!(msg.contains("the mass of water"), "{msg}");
+        assert!(msg.contains("`kg`"), "{msg}");
+        assert_eq!(span, (26, 29));
+        // A loading where a mass belongs.
+        let (msg, _, _) = fault("dissolving 30 g/100g water CaCl2 in 1 kg water from 20 C");
+        assert!(msg.contains("the mass of solid"), "{msg}");
+        // Misspelt keyword: did you mean.
+        let (msg, span, _) = fault("dissolving 300 g CaCl2 in 1 kg watr from 20 C");
+        assert!(msg.contains("`water`"), "{msg}");
+        assert_eq!(span, (31, 35));
+        // Negative and zero masses.
+        let (_, _, kind) = fault("dissolving -3 g NaOH in 1 kg water from 20 C");
+        assert!(matches!(kind, ParseErrorKind::NegativeAmount { .. }));
+        let (msg, _, _) = fault("dissolving 0 g NaOH in 1 kg water from 20 C");
+        assert!(msg.contains("above zero"), "{msg}");
+        // No start temperature, and below absolute zero.
+        let (msg, _, _) = fault("dissolving 3 g NaOH in 1 kg water");
+        assert!(msg.contains("`from` or `at`"), "{msg}");
+        let (_, _, kind) = fault("dissolving 3 g NaOH in 1 kg water from -300 C");
+        assert!(matches!(kind, ParseErrorKind::BelowAbsoluteZero { .. }));
+        // A misspelt mass unit.
+        let (msg, _, _) = fault("dissolving 3 kgg NaOH in 1 kg water from 20 C");
+        assert!(msg.contains("did you mean `kg`"), "{msg}");
+        // A range is not a start.
+        let (msg, _, _) = fault("dissolving 3 g NaOH in 1 kg water from 20 C to 30 C");
+        assert!(msg.contains("end of the statement"), "{msg}");
+    }
+}

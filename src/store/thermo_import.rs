@@ -35,6 +35,29 @@ pub(crate) struct Planned {
     pub record: ThermoRecord,
 }
 
+/// A record with another review state, for comparing what the figures say.
+trait WithReview: Clone {
+    fn with_review(&self, review: Review) -> Self;
+}
+
+impl WithReview for ThermoValue {
+    fn with_review(&self, review: Review) -> Self {
+        ThermoValue {
+            review,
+            ..self.clone()
+        }
+    }
+}
+
+impl WithReview for HeatCapacityFit {
+    fn with_review(&self, review: Review) -> Self {
+        HeatCapacityFit {
+            review,
+            ..self.clone()
+        }
+    }
+}
+
 fn json<T: serde::Serialize>(v: &T) -> serde_json::Value {
     serde_json::to_value(v).unwrap_or(serde_json::Value::Null)
 }
@@ -73,13 +96,7 @@ pub(crate) fn plan(
             v.review = Review::Unreviewed;
         }
         let before = existing.values.iter().find(|b| same_key(b, &v));
-        let same = before.map(|b| {
-            let mut compared = v.clone();
-            if !keep_state {
-                compared.review = b.review;
-            }
-            &compared == b
-        });
+        let same = before.map(|b| v == *b || (!keep_state && v.with_review(b.review) == *b));
         out.push(Planned {
             same,
             entity: value_entity(&v),
@@ -101,13 +118,7 @@ pub(crate) fn plan(
             h.review = Review::Unreviewed;
         }
         let before = existing.heat_capacity.iter().find(|b| b.solute == h.solute);
-        let same = before.map(|b| {
-            let mut compared = h.clone();
-            if !keep_state {
-                compared.review = b.review;
-            }
-            &compared == b
-        });
+        let same = before.map(|b| h == *b || (!keep_state && h.with_review(b.review) == *b));
         out.push(Planned {
             same,
             entity: format!("heat-capacity:{}", h.solute),
@@ -154,35 +165,7 @@ pub(crate) fn write(conn: &Connection, record: &ThermoRecord) -> Result<(), Stor
                 super::thermo_rows::insert_value(conn, v)?;
             }
         }
-        ThermoRecord::HeatCapacity(h) => {
-            let updated = conn
-                .prepare_cached(
-                    "UPDATE laliberte_heat_capacity SET file = ?1, a1 = ?2, a2 = ?3, a3 = ?4,
-                       a4 = ?5, a5 = ?6, a6 = ?7, t_min_c = ?8, t_max_c = ?9, w_max = ?10,
-                       source = ?11, provenance = ?12, review = ?13, note = ?14
-                     WHERE solute = ?15",
-                )?
-                .execute(params![
-                    h.file,
-                    h.a[0],
-                    h.a[1],
-                    h.a[2],
-                    h.a[3],
-                    h.a[4],
-                    h.a[5],
-                    h.t_min_c,
-                    h.t_max_c,
-                    h.w_max,
-                    h.source,
-                    h.provenance.as_str(),
-                    h.review.as_str(),
-                    h.note,
-                    h.solute,
-                ])?;
-            if updated == 0 {
-                super::thermo_rows::insert_heat_capacity(conn, h)?;
-            }
-        }
+        ThermoRecord::HeatCapacity(h) => super::thermo_rows::upsert_heat_capacity(conn, h)?,
     }
     Ok(())
 }

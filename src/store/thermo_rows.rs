@@ -15,7 +15,7 @@ pub(crate) fn write(tx: &Transaction<'_>, thermo: &Thermochemistry) -> Result<()
         insert_value(tx, v)?;
     }
     for h in &thermo.heat_capacity {
-        insert_heat_capacity(tx, h)?;
+        upsert_heat_capacity(tx, h)?;
     }
     Ok(())
 }
@@ -43,15 +43,21 @@ pub(crate) fn insert_value(conn: &Connection, v: &ThermoValue) -> Result<(), Sto
     Ok(())
 }
 
-/// Adds one set of Laliberté's heat-capacity coefficients.
-pub(crate) fn insert_heat_capacity(
+/// Adds one set of Laliberté's heat-capacity coefficients, or updates the solute's set in
+/// place.
+pub(crate) fn upsert_heat_capacity(
     conn: &Connection,
     h: &HeatCapacityFit,
 ) -> Result<(), StoreError> {
     conn.prepare_cached(
         "INSERT INTO laliberte_heat_capacity
            (solute, file, a1, a2, a3, a4, a5, a6, t_min_c, t_max_c, w_max, source, provenance, review, note)
-         VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10, ?11, ?12, ?13, ?14, ?15)",
+         VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10, ?11, ?12, ?13, ?14, ?15)
+         ON CONFLICT (solute) DO UPDATE SET file = excluded.file, a1 = excluded.a1,
+           a2 = excluded.a2, a3 = excluded.a3, a4 = excluded.a4, a5 = excluded.a5,
+           a6 = excluded.a6, t_min_c = excluded.t_min_c, t_max_c = excluded.t_max_c,
+           w_max = excluded.w_max, source = excluded.source,
+           provenance = excluded.provenance, review = excluded.review, note = excluded.note",
     )?
     .execute(params![
         h.solute,

@@ -29,6 +29,8 @@ pub enum AnswerKind {
     Let,
     Require,
     Plot,
+    /// `which solids form in RECIPE ...`.
+    Solids,
     /// A statement that could not be parsed.
     Invalid,
 }
@@ -51,6 +53,7 @@ impl AnswerKind {
             AnswerKind::Let => "let",
             AnswerKind::Require => "require",
             AnswerKind::Plot => "plot",
+            AnswerKind::Solids => "solids",
             AnswerKind::Invalid => "invalid",
         }
     }

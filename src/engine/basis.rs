@@ -14,7 +14,7 @@ use crate::science::units::{CompositionUnit, hydrate_to_anhydrous};
 
 /// The hydrate named, when `name` is a hydrate formula of `solute` (same anhydrous part,
 /// some water of crystallisation): (formula as typed, molecules of water).
-fn named_hydrate(name: &Name, solute: &Solute) -> Option<(String, f64)> {
+pub(crate) fn named_hydrate(name: &Name, solute: &Solute) -> Option<(String, f64)> {
     if !name
         .text
         .chars()

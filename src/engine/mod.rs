@@ -20,8 +20,10 @@ mod filters;
 mod freezing;
 mod gas;
 mod heat;
+pub mod mixture;
 mod per_litre;
 mod plot;
+mod recipe;
 mod records;
 mod snapshot;
 mod solid;
@@ -163,6 +165,7 @@ impl Engine {
             Statement::List(s) => records::list(&self.snapshot, s, &mut answer),
             Statement::Let(s) => records::binding(s, text, &mut answer),
             Statement::Plot(s) => plot::plot(&self.snapshot, s, &mut answer),
+            Statement::Recipe(s) => recipe::recipe(&self.snapshot, s, &mut answer),
         };
         match result {
             Ok(()) => answer,
@@ -276,7 +279,8 @@ fn is_light(statement: &Statement) -> bool {
         | Statement::Dissolving(_)
         | Statement::Describe(_)
         | Statement::List(_)
-        | Statement::Plot(_) => false,
+        | Statement::Plot(_)
+        | Statement::Recipe(_) => false,
     }
 }
 
@@ -297,6 +301,13 @@ fn kind_of(statement: &Statement) -> AnswerKind {
         Statement::Let(_) => AnswerKind::Let,
         Statement::Require(_) => AnswerKind::Require,
         Statement::Plot(_) => AnswerKind::Plot,
+        Statement::Recipe(r) => match r.question {
+            query::RecipeQuestion::Define => AnswerKind::Let,
+            query::RecipeQuestion::Require { .. } => AnswerKind::Require,
+            query::RecipeQuestion::SolidsForm { .. } => AnswerKind::Solids,
+            query::RecipeQuestion::Saturation { .. } => AnswerKind::Saturation,
+            query::RecipeQuestion::Describe { .. } => AnswerKind::Describe,
+        },
     }
 }
 

@@ -495,6 +495,8 @@ pub enum Statement {
     Let(Let),
     Require(Require),
     Plot(Plot),
+    /// A statement about a recipe (`let eyewash = recipe ...`, `require eyewash stays ...`).
+    Recipe(super::recipe::RecipeStatement),
 }
 
 impl Statement {
@@ -516,6 +518,7 @@ impl Statement {
             Statement::Let(_) => "let",
             Statement::Require(_) => "require",
             Statement::Plot(_) => "plot",
+            Statement::Recipe(r) => r.kind(),
         }
     }
 }

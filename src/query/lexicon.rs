@@ -43,7 +43,7 @@ pub const NAME_STOP: [&str; 15] = [
 ];
 
 /// Other keywords; none of them may be bound by `let`.
-const OTHER_KEYWORDS: [&str; 18] = [
+const OTHER_KEYWORDS: [&str; 24] = [
     "dissolved",
     "solution",
     "temperature",
@@ -62,6 +62,12 @@ const OTHER_KEYWORDS: [&str; 18] = [
     "gas",
     "air",
     "loading",
+    "recipe",
+    "solids",
+    "form",
+    "volume",
+    "assuming",
+    "density",
 ];
 
 /// Every keyword of the language, for completion in the REPL.

@@ -22,11 +22,13 @@ pub mod invisible;
 pub mod lexicon;
 pub mod lines;
 pub mod parse;
+pub mod recipe;
 
 pub use ast::*;
 pub use error::{ParseError, ParseErrorKind, line_column};
 pub use lines::LineIndex;
 pub use parse::{Env, parse_script, parse_statement, parse_with};
+pub use recipe::{Ingredient, Recipe, RecipeQuestion, RecipeStatement};
 
 /// Every word of the language, sorted and each once (for completion and help).
 pub fn keywords() -> Vec<&'static str> {

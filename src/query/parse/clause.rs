@@ -68,6 +68,43 @@ pub(super) fn name<'a>(cx: Cx<'a>, i: &'a str, followers: &[&'static str]) -> R<
     ))
 }
 
+/// A name in a list: words up to a `,` (ending a word or standing alone), or up to a word
+/// `ends` says is no part of a name. `check` sees each word after the first (with what
+/// follows it) and may refuse it. Returns the name's words, where the last word ends,
+/// where reading stopped (after the comma, if any) and whether a comma ended the name.
+pub(super) fn listed_name<'a>(
+    begin: &'a str,
+    ends: impl Fn(&str) -> bool,
+    mut check: impl FnMut(&'a str, &'a str, &'a str) -> Result<(), NomErr<PErr>>,
+) -> Result<(Vec<&'a str>, &'a str, &'a str, bool), NomErr<PErr>> {
+    let mut words: Vec<&str> = Vec::new();
+    let mut end = begin;
+    let mut cursor = begin;
+    loop {
+        let t = skip(cursor);
+        if let Some(after) = t.strip_prefix(',') {
+            return Ok((words, end, after, true));
+        }
+        let (word, after) = next_word(t);
+        if word.is_empty() || ends(word) {
+            return Ok((words, end, t, false));
+        }
+        if !words.is_empty() {
+            check(t, word, after)?;
+        }
+        if let Some(head) = word.strip_suffix(',') {
+            if !head.is_empty() {
+                words.push(head);
+                end = &t[head.len()..];
+            }
+            return Ok((words, end, after, true));
+        }
+        words.push(word);
+        end = after;
+        cursor = after;
+    }
+}
+
 pub(super) const SOLUTE: &str =
     "a solute such as `KNO3`, `potassium-nitrate` or `potassium nitrate`";
 
@@ -196,6 +233,12 @@ pub(super) fn tail<'a>(
             }
             out.options.extrapolate = true;
             rest = after;
+        } else if word == "assuming" && allows(Clause::ReviewedOnly) {
+            if out.options.assume_unit_density {
+                return Err(duplicate(cx, t, after, "assuming density"));
+            }
+            rest = super::recipe::assuming_density(cx, after)?.0;
+            out.options.assume_unit_density = true;
         } else if word == "reviewed" && allows(Clause::ReviewedOnly) {
             let (r, _) = expect(cx, after, &["only"])?;
             if out.options.reviewed_only {

@@ -9,11 +9,13 @@ use nom::Err as NomErr;
 
 use super::ast::*;
 use super::error::{ParseError, ParseErrorKind};
+use super::recipe::{Recipe, RecipeQuestion, RecipeStatement};
 
 mod clause;
 mod dissolving;
 mod plumbing;
 mod quantity;
+mod recipe;
 mod statement;
 
 use plumbing::{Cx, shorten};
@@ -24,6 +26,8 @@ use statement::statement;
 #[derive(Debug, Clone, Default, PartialEq)]
 pub struct Env {
     bindings: BTreeMap<String, Value>,
+    /// Recipes bound by `let NAME = recipe ...` or loaded from a recipe file.
+    recipes: BTreeMap<String, Recipe>,
 }
 
 impl Env {
@@ -37,16 +41,53 @@ impl Env {
 
     /// Binds `name`, replacing an earlier binding of the same name.
     pub fn bind(&mut self, name: &str, value: Value) {
+        self.recipes.remove(&name.to_lowercase());
         self.bindings.insert(name.to_lowercase(), value);
     }
 
-    /// The bound names, in alphabetical order (for completion and "did you mean").
+    /// The recipe bound to `name`, if it is one.
+    pub fn recipe(&self, name: &str) -> Option<&Recipe> {
+        self.recipes.get(&name.to_lowercase())
+    }
+
+    /// Binds `name` to a recipe, replacing an earlier binding of the same name.
+    pub fn bind_recipe(&mut self, name: &str, recipe: Recipe) {
+        self.bindings.remove(&name.to_lowercase());
+        self.recipes.insert(name.to_lowercase(), recipe);
+    }
+
+    /// The bound names, values and recipes, in alphabetical order (for completion and
+    /// "did you mean").
     pub fn names(&self) -> impl Iterator<Item = &str> {
-        self.bindings.keys().map(String::as_str)
+        let mut names: Vec<&str> = self
+            .bindings
+            .keys()
+            .chain(self.recipes.keys())
+            .map(String::as_str)
+            .collect();
+        names.sort_unstable();
+        names.into_iter()
     }
 
     pub fn is_empty(&self) -> bool {
-        self.bindings.is_empty()
+        self.bindings.is_empty() && self.recipes.is_empty()
+    }
+
+    /// Applies what a statement that parsed binds: a `let` value or a recipe.
+    fn apply(&mut self, statement: &Statement) {
+        match statement {
+            Statement::Let(binding) => self.bind(&binding.name.text, binding.value),
+            Statement::Recipe(RecipeStatement {
+                recipe,
+                question: RecipeQuestion::Define,
+                ..
+            }) => {
+                if let Some(name) = &recipe.name {
+                    self.bind_recipe(&name.text, recipe.clone());
+                }
+            }
+            _ => {}
+        }
     }
 }
 
@@ -62,12 +103,8 @@ pub fn parse_with(text: &str, env: &mut Env) -> Vec<Result<Located<Statement>, P
     let mut results = Vec::new();
     for (start, end) in statement_spans(text) {
         let result = parse_piece(text, start, end, env);
-        if let Ok(Located {
-            node: Statement::Let(binding),
-            ..
-        }) = &result
-        {
-            env.bind(&binding.name.text, binding.value);
+        if let Ok(located) = &result {
+            env.apply(&located.node);
         }
         results.push(result);
     }
@@ -98,12 +135,8 @@ pub fn parse_statement(text: &str, env: &mut Env) -> Result<Located<Statement>, 
         ));
     }
     let result = parse_piece(text, start, end, env);
-    if let Ok(Located {
-        node: Statement::Let(binding),
-        ..
-    }) = &result
-    {
-        env.bind(&binding.name.text, binding.value);
+    if let Ok(located) = &result {
+        env.apply(&located.node);
     }
     result
 }

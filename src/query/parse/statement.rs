@@ -8,6 +8,7 @@ use super::super::lexicon::{STATEMENT_WORDS, ends_name, is_keyword, nearest, one
 use super::clause::*;
 use super::plumbing::*;
 use super::quantity::*;
+use super::recipe;
 
 // ---------------------------------------------------------------------------------------
 // statements
@@ -17,6 +18,7 @@ pub(super) fn statement<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     let (word, after) = next_word(t);
     match word.to_lowercase().as_str() {
         "solubility" => solubility(cx, after),
+        "which" if recipe::asks_solids(after) => recipe::solids_form(cx, after),
         "which" => screen(cx, after),
         "saturation" => saturation(cx, after),
         "ceiling" => ceiling(cx, after),
@@ -94,6 +96,9 @@ pub(super) fn screen<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
 }
 
 pub(super) fn require<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
+    if let (rest, Some(r)) = recipe::subject(cx, i)? {
+        return recipe::require(cx, r, rest);
+    }
     let (i, solute) = solute(cx, i, &["stays", "stay"])?;
     let (i, (loading, temperatures)) = stays_dissolved_at(cx, i)?;
     let (i, tail) = tail(cx, i, &[Clause::Margin, DATA[0], DATA[1]], &[])?;
@@ -112,6 +117,9 @@ pub(super) fn require<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
 pub(super) fn saturation<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     let i = has_keyword(i, "temperature").unwrap_or(i);
     let (i, _) = expect(cx, i, &["of"])?;
+    if let (rest, Some(r)) = recipe::subject(cx, i)? {
+        return recipe::saturation(cx, r, rest);
+    }
     let (i, solute) = solute(cx, i, &["at"])?;
     let (i, _) = expect(cx, i, &["at"])?;
     let (i, loading) = committed_loading(cx, i)?;
@@ -304,6 +312,9 @@ pub(super) fn convert<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
 }
 
 pub(super) fn describe<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
+    if let (rest, Some(r)) = recipe::subject(cx, i)? {
+        return recipe::describe(cx, r, rest);
+    }
     let (i, solute) = solute(cx, i, &[])?;
     let (i, tail) = tail(cx, i, &[Clause::ReviewedOnly], &[])?;
     Ok((
@@ -384,6 +395,9 @@ pub(super) fn binding<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
         Ok((rest, _)) => rest,
         Err(_) => return Err(expected_here(cx, after, "`=`".into(), &[])),
     };
+    if let Some(after) = has_keyword(rest, "recipe") {
+        return recipe::define(cx, name, skip(rest), after);
+    }
     let (rest, value) = cut(context(LET_VALUE, |x| let_value(cx, x))).parse(rest)?;
     let (rest, _) = tail(cx, rest, &[], &[])?;
     Ok((rest, Statement::Let(Let { name, value })))
@@ -450,51 +464,29 @@ pub(super) fn solute_list<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Vec<Name>> {
     let mut rest = i;
     loop {
         let begin = skip(rest);
-        let mut words: Vec<&str> = Vec::new();
-        let mut end = begin;
-        let mut cursor = begin;
-        let mut comma = false;
-        loop {
-            let t = skip(cursor);
-            if let Some(after) = t.strip_prefix(',') {
-                comma = true;
-                cursor = after;
-                break;
+        let ends = |w: &str| ends_name(w) || ends_as_number(w);
+        let misspelt_follower = |t: &'a str, word: &'a str, after: &'a str| {
+            if word.chars().count() < 2 {
+                return Ok(());
             }
-            let (word, after) = next_word(t);
-            if word.is_empty() || ends_name(word) || ends_as_number(word) {
-                cursor = t;
-                break;
+            let Some(meant) = nearest(word, &FOLLOWERS) else {
+                return Ok(());
+            };
+            let next = skip(after);
+            let (following, _) = next_word(next);
+            if starts_number(next) || is_keyword(following) {
+                return Err(failure(
+                    ParseErrorKind::Expected {
+                        expected: one_of(&FOLLOWERS),
+                        found: Some(shorten(word)),
+                        suggestion: Some(meant.to_string()),
+                    },
+                    cx.span(t, after),
+                ));
             }
-            if !words.is_empty() && word.chars().count() >= 2 {
-                if let Some(meant) = nearest(word, &FOLLOWERS) {
-                    let next = skip(after);
-                    let (following, _) = next_word(next);
-                    if starts_number(next) || is_keyword(following) {
-                        return Err(failure(
-                            ParseErrorKind::Expected {
-                                expected: one_of(&FOLLOWERS),
-                                found: Some(shorten(word)),
-                                suggestion: Some(meant.to_string()),
-                            },
-                            cx.span(t, after),
-                        ));
-                    }
-                }
-            }
-            if let Some(head) = word.strip_suffix(',') {
-                if !head.is_empty() {
-                    words.push(head);
-                    end = &t[head.len()..];
-                }
-                comma = true;
-                cursor = after;
-                break;
-            }
-            words.push(word);
-            end = after;
-            cursor = after;
-        }
+            Ok(())
+        };
+        let (words, end, cursor, comma) = listed_name(begin, ends, misspelt_follower)?;
         if words.is_empty() {
             return Err(expected_here(cx, begin, SOLUTE.into(), &[]));
         }

@@ -1,0 +1,247 @@
+//! How the solutes of a mixture are checked for solids: the seam between a recipe's
+//! composition and the model that says whether each solute stays dissolved.
+//!
+//! A [`Mixture`] is the solved composition (mass fractions of every solute, the water left).
+//! A [`SolidModel`] answers, for one solute of it, whether it stays dissolved over a range,
+//! where it saturates, and where ice appears. This version has one model, [`EachOnItsOwn`]:
+//! every solute is checked against its own pure-water solubility curve at its amount per kg
+//! of the mixture's water, which ignores common-ion and salting effects. An activity model
+//! for mixtures of ions implements the same trait and is chosen by [`model_for`] for the
+//! solutes it covers, leaving the rest to [`EachOnItsOwn`].
+
+use crate::answer::Answer;
+use crate::engine::common::{cite_curve, curve_error, curve_of};
+use crate::engine::error::EvalError;
+use crate::engine::snapshot::Snapshot;
+use crate::model::{Solute, SoluteKind};
+use crate::query::{Name, Options};
+use crate::science::freezing::{DILUTE_IONS, ICE_POINT, KF_WATER, molality};
+use crate::science::solve::{self, Crossing, Screening};
+
+/// A solution of several solutes, solved: who is in it and how much.
+#[derive(Debug, Clone)]
+pub struct Mixture<'a> {
+    /// The solutes with the name each was written by (for messages).
+    pub solutes: Vec<(&'a Solute, Name)>,
+    /// Mass fraction of each solute in the solution, in the order of `solutes`.
+    pub ws: Vec<f64>,
+}
+
+impl Mixture<'_> {
+    /// Mass fraction of water in the solution.
+    pub fn water(&self) -> f64 {
+        1.0 - self.ws.iter().sum::<f64>()
+    }
+
+    /// Grams of solute `index` per gram of the solution's water.
+    pub fn per_water(&self, index: usize) -> f64 {
+        let water = self.water();
+        self.ws.get(index).map_or(0.0, |w| w / water)
+    }
+
+    /// The mass fraction solute `index` would have alone in the mixture's water: the
+    /// loading its own pure-water curve is read at.
+    pub fn alone(&self, index: usize) -> f64 {
+        let r = self.per_water(index);
+        r / (1.0 + r)
+    }
+
+    /// Molality of solute `index`, mol per kg of the solution's water.
+    pub fn molality(&self, index: usize) -> f64 {
+        self.solutes
+            .get(index)
+            .map_or(0.0, |(s, _)| molality(self.alone(index), s.molar_mass))
+    }
+}
+
+/// Where ice appears on cooling a mixture, or why it is not said.
+#[derive(Debug, Clone, PartialEq)]
+pub enum IceLine {
+    /// Ice appears below `t_k`; `how` names the method, for a caveat.
+    At { t_k: f64, how: String },
+    /// Not evaluated, with the reason.
+    NotEvaluated(String),
+}
+
+/// What a model is asked with: the data, the mixture, the statement's options, and the
+/// answer it cites its data in.
+pub struct Ask<'q, 'a> {
+    pub snap: &'q Snapshot,
+    pub mixture: &'q Mixture<'a>,
+    pub options: &'q Options,
+    pub answer: &'q mut Answer,
+}
+
+/// A range of temperature (K) and a margin (a share of the solute-to-water ratio).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Limits {
+    pub t1: f64,
+    pub t2: f64,
+    pub margin: f64,
+}
+
+/// The model that checks a mixture's solutes for solids.
+pub trait SolidModel {
+    /// The caveat every answer resting on this model carries.
+    fn caveat(&self) -> &'static str;
+
+    /// Whether solute `index` stays dissolved within the limits; cites the data used.
+    fn check(&self, ask: &mut Ask, index: usize, at: Limits) -> Result<Screening, EvalError>;
+
+    /// The temperatures where solute `index` is saturated; cites the data used.
+    fn saturation(&self, ask: &mut Ask, index: usize) -> Result<Vec<Crossing>, EvalError>;
+
+    /// Where ice appears on cooling the mixture.
+    fn ice_line(&self, mixture: &Mixture) -> IceLine;
+}
+
+/// Every solute checked against its own solubility in pure water, at its amount per kg of
+/// the mixture's water.
+#[derive(Debug, Clone, Copy, Default)]
+pub struct EachOnItsOwn;
+
+/// The caveat of [`EachOnItsOwn`].
+pub const EACH_ON_ITS_OWN: &str =
+    "each solute checked on its own; interactions between solutes not accounted for";
+
+fn entry<'m, 'a>(
+    mixture: &'m Mixture<'a>,
+    index: usize,
+) -> Result<&'m (&'a Solute, Name), EvalError> {
+    mixture
+        .solutes
+        .get(index)
+        .ok_or_else(|| EvalError::Unanswerable {
+            message: "no such solute in the mixture".into(),
+            span: Default::default(),
+        })
+}
+
+impl SolidModel for EachOnItsOwn {
+    fn caveat(&self) -> &'static str {
+        EACH_ON_ITS_OWN
+    }
+
+    fn check(&self, ask: &mut Ask, index: usize, at: Limits) -> Result<Screening, EvalError> {
+        let (solute, name) = entry(ask.mixture, index)?;
+        let built = curve_of(ask.snap, solute, name, ask.options)?;
+        let w = ask.mixture.alone(index);
+        let extrapolate = ask.options.extrapolate;
+        let screening =
+            solve::stays_dissolved_with(&built.curve, w, at.t1, at.t2, at.margin, extrapolate)
+                .map_err(|e| curve_error(e, solute, name.span))?;
+        cite_curve(ask.snap, built, solute, ask.answer);
+        Ok(screening)
+    }
+
+    fn saturation(&self, ask: &mut Ask, index: usize) -> Result<Vec<Crossing>, EvalError> {
+        let (solute, name) = entry(ask.mixture, index)?;
+        let built = curve_of(ask.snap, solute, name, ask.options)?;
+        let w = ask.mixture.alone(index);
+        if w == 0.0 {
+            return Ok(Vec::new());
+        }
+        let crossings =
+            solve::saturation_temperatures_with(&built.curve, w, ask.options.extrapolate)
+                .map_err(|e| curve_error(e, solute, name.span))?;
+        cite_curve(ask.snap, built, solute, ask.answer);
+        Ok(crossings)
+    }
+
+    /// The ideal dilute estimate, ΔT = K_f·Σ iₖ·mₖ (van 't Hoff), only while the solution
+    /// holds at most [`DILUTE_IONS`] mol/kg of dissolved particles; beyond that the ice
+    /// line of a mixture needs the activity of water with every solute together.
+    fn ice_line(&self, mixture: &Mixture) -> IceLine {
+        let particles: f64 = (0..mixture.solutes.len())
+            .map(|i| {
+                let ions = match mixture.solutes[i].0.kind {
+                    SoluteKind::Salt => mixture.solutes[i].0.ions.max(1),
+                    _ => 1,
+                };
+                f64::from(ions) * mixture.molality(i)
+            })
+            .sum();
+        if particles <= DILUTE_IONS {
+            IceLine::At {
+                t_k: ICE_POINT - KF_WATER * particles,
+                how: format!(
+                    "ice line estimated for an ideal dilute solution (ΔT = K_f·Σ i·m, K_f = {KF_WATER} K·kg/mol, {} mol/kg of dissolved particles)",
+                    crate::number::round_significant(particles, 3)
+                ),
+            }
+        } else {
+            IceLine::NotEvaluated(format!(
+                "the solution holds {} mol/kg of dissolved particles, beyond the ideal dilute limit ({DILUTE_IONS} mol/kg); the ice line of a mixture that strong needs the activity of water with every solute together, which this version does not compute",
+                crate::number::round_significant(particles, 3)
+            ))
+        }
+    }
+}
+
+/// The model for a mixture: [`EachOnItsOwn`] for every solute in this version.
+pub fn model_for(_snap: &Snapshot, _mixture: &Mixture) -> &'static dyn SolidModel {
+    &EachOnItsOwn
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn solute(formula: &str, molar_mass: f64, ions: u32) -> Solute {
+        Solute {
+            id: formula.to_lowercase(),
+            name: formula.into(),
+            formula: formula.into(),
+            kind: SoluteKind::Salt,
+            molar_mass,
+            synonyms: vec![],
+            tags: vec![],
+            cation: None,
+            anion: None,
+            ions,
+            hazard: None,
+        }
+    }
+
+    #[test]
+    fn each_solute_is_read_per_kg_of_the_mixtures_water() {
+        let (a, b) = (solute("NaCl", 58.44, 2), solute("KCl", 74.55, 2));
+        let name = Name {
+            text: String::new(),
+            span: Default::default(),
+        };
+        // By hand: 10 % A and 20 % B leave 70 % water; A alone in that water is
+        // 10/(10+70) = 0.125 by mass.
+        let m = Mixture {
+            solutes: vec![(&a, name.clone()), (&b, name)],
+            ws: vec![0.1, 0.2],
+        };
+        assert!((m.water() - 0.7).abs() < 1e-15);
+        assert!((m.alone(0) - 0.125).abs() < 1e-15);
+        assert!((m.per_water(1) - 0.2 / 0.7).abs() < 1e-15);
+        // Far beyond the dilute limit: no ideal ice line is claimed.
+        assert!(matches!(
+            EachOnItsOwn.ice_line(&m),
+            IceLine::NotEvaluated(_)
+        ));
+    }
+
+    #[test]
+    fn a_dilute_mixture_gets_the_ideal_ice_line() {
+        let a = solute("NaCl", 58.44, 2);
+        let name = Name {
+            text: String::new(),
+            span: Default::default(),
+        };
+        // 0.05 mol/kg NaCl: 0.1 mol/kg of ions, ΔT = 0.186 K.
+        let r = 0.05 * 58.44 / 1000.0;
+        let m = Mixture {
+            solutes: vec![(&a, name)],
+            ws: vec![r / (1.0 + r)],
+        };
+        let IceLine::At { t_k, .. } = EachOnItsOwn.ice_line(&m) else {
+            panic!("dilute")
+        };
+        assert!((ICE_POINT - t_k - 0.186).abs() < 1e-9);
+    }
+}

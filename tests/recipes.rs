@@ -1,0 +1,120 @@
+//! Recipes answered end to end: a three-solute recipe over 2–8 °C, the composition in every
+//! basis against worked figures, and the refusals (unknown, duplicate, no density).
+
+use satline::answer::Answer;
+use satline::engine::Engine;
+
+fn answers(text: &str) -> Vec<Answer> {
+    let engine = Engine::open_embedded().unwrap();
+    let mut session = engine.session();
+    engine.run_text(text, &mut session)
+}
+
+fn number(answer: &Answer, row: usize, key: &str) -> f64 {
+    answer.rows[row].extra[key].as_f64().unwrap()
+}
+
+const CAVEAT: &str =
+    "each solute checked on its own; interactions between solutes not accounted for";
+
+#[test]
+fn a_three_solute_recipe_is_checked_over_two_to_eight_degrees() {
+    let a = answers(
+        "let rinse = recipe 0.9 %w/v NaCl, 10 mM KH2PO4, 5 %w/v sucrose\n\
+         require rinse stays dissolved from 2 C to 8 C margin 10%",
+    );
+    let require = &a[1];
+    assert!(require.ok, "{:?}", require.error);
+    assert_eq!(require.holds, Some(true));
+    assert_eq!(require.rows.len(), 3);
+    assert!(require.caveats.iter().any(|c| c == CAVEAT));
+    // The density's source is named for the per-litre amounts.
+    assert!(require.sources.iter().any(|s| s.key == "laliberte-2009"));
+    // Every solute's headroom at its limiting temperature is positive here.
+    assert!(require.rows.iter().all(|r| r.headroom_pct.unwrap() > 10.0));
+}
+
+#[test]
+fn a_recipe_that_crystallises_does_not_hold_and_names_the_solute() {
+    let a = answers(
+        "require recipe 30 g/100g water KNO3, 20 g/100g water KCl stays dissolved from 2 C to 25 C",
+    );
+    assert_eq!(a[0].holds, Some(false));
+    // By hand: KNO3 at 30 g per 100 g of water is above its solubility near 2 C (about
+    // 14–15 g/100g water; CRC Handbook, solubility table, as held in the reference).
+    assert_eq!(a[0].rows[0].holds, Some(false));
+    assert_eq!(a[0].rows[1].holds, Some(true));
+    assert!((number(&a[0], 0, "loading_g_per_100g_water") - 30.0).abs() < 1e-9);
+}
+
+#[test]
+fn describe_gives_every_basis_and_matches_the_worked_saline_figures() {
+    // Worked example: 0.9 %w/v NaCl is about 154 mmol/L and about 0.155 mol/kg (isotonic
+    // saline, common practice figures of pharmacy texts).
+    let a = answers("describe recipe 0.9 %w/v NaCl");
+    assert!(a[0].ok, "{:?}", a[0].error);
+    assert!((number(&a[0], 0, "mmol_per_l") - 154.0).abs() < 0.5);
+    assert!((number(&a[0], 0, "mol_per_kg") - 0.155).abs() < 0.002);
+    // Ionic strength of a 1-1 salt is its molality.
+    let i = number(&a[0], 1, "ionic_strength_mol_per_kg");
+    assert!((i - number(&a[0], 0, "mol_per_kg")).abs() < 1e-3);
+    // Mass balance: the solutes and the water make up the whole solution.
+    let total = number(&a[0], 0, "percent_w_w") + number(&a[0], 1, "water_percent_w_w");
+    assert!((total - 100.0).abs() < 0.01);
+}
+
+#[test]
+fn a_mixture_is_denser_than_either_solute_alone_at_the_same_amounts() {
+    let a = answers(
+        "describe recipe 50 g/100g water sucrose\n\
+         describe recipe 10 g/100g water NaCl\n\
+         describe recipe 50 g/100g water sucrose, 10 g/100g water NaCl",
+    );
+    let rho = |i: usize| number(&a[i], a[i].rows.len() - 1, "density_kg_per_l");
+    assert!(rho(2) > rho(0) && rho(2) > rho(1));
+}
+
+#[test]
+fn faults_of_a_recipe_are_refused_with_place_and_reason() {
+    let text = "describe recipe 1 g/L NaCl, 2 g/L sodium chloride\n\
+                describe recipe 1 g/L NaCll\n\
+                describe recipe 25 g/L urea\n\
+                describe recipe 25 g/L urea assuming density 1.000 kg/L\n\
+                describe recipe 70 %w/w NaCl, 40 %w/w KCl";
+    let a = answers(text);
+    let error = |i: usize| a[i].error.as_ref().unwrap();
+    assert_eq!(error(0).code, "unanswerable");
+    assert!(error(0).message.contains("twice"));
+    assert_eq!(&text[error(0).span.0..error(0).span.1], "sodium chloride");
+    assert_eq!(error(1).code, "unknown-solute");
+    assert!(error(1).message.contains("did you mean"));
+    assert!(
+        error(2)
+            .message
+            .contains("no density coefficients for urea")
+    );
+    assert!(a[3].ok);
+    assert!(
+        a[3].caveats
+            .iter()
+            .any(|c| c.contains("assuming density 1.000 kg/L"))
+    );
+    assert!(
+        error(4)
+            .message
+            .contains("more solute than a solution can hold")
+    );
+}
+
+#[test]
+fn below_zero_a_strong_mixture_is_refused_and_a_dilute_one_gets_its_ice_line() {
+    let a = answers(
+        "require recipe 1 mol/kg NaCl, 1 mol/kg KCl stays dissolved from -5 C to 8 C\n\
+         which solids form in recipe 0.01 mol/kg NaCl from -5 C to 25 C",
+    );
+    assert!(a[0].error.as_ref().unwrap().message.contains("ice"));
+    let ice = &a[1].rows[0];
+    assert_eq!(ice.solute.as_deref(), Some("ice"));
+    // Ideal: ΔT = 1.86 K·kg/mol × 2 × 0.01 mol/kg = 0.037 K.
+    assert!((ice.temperature_c.unwrap() + 0.04).abs() < 0.006);
+}

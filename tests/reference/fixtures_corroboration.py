@@ -130,6 +130,30 @@ EXPLANATIONS = {
         "table stops at 50 C; its end tangent from 50 C falls short of the steep last stretch. "
         "The gap lies in the extrapolation over 8 K, not in the tabulated points."
     ),
+    "calcium-chloride/perry-7-hexahydrate/continuity-linke-seidell-tetrahydrate": (
+        "The hexahydrate's table stops at 20 C, and the branch rises steeply towards the "
+        "hexahydrate's melting near 30 C; its end tangent carried 9.8 K to the 29.8 C transition "
+        "reaches about 46.7 %w/w where the solution saturated with both solids holds about 50 %w/w "
+        "(the tetrahydrate's 30 C point). The gap is the missing last stretch of the hexahydrate "
+        "branch, not a disagreement of the tabulated points."
+    ),
+    "calcium-chloride/linke-seidell-tetrahydrate/continuity-perry-7-dihydrate": (
+        "The tetrahydrate's two points (30 and 40 C) give a straight branch, which cannot follow its "
+        "steepening towards the tetrahydrate's melting near 45 C; the dihydrate's value at 45.3 C is "
+        "its end tangent carried back 14.7 K from 60 C. A gap of about 2.5 % over these "
+        "extrapolations does not show a fault in either table."
+    ),
+    "disodium-hydrogen-phosphate/perry-7-dodecahydrate/continuity-perry-7-heptahydrate": (
+        "The heptahydrate branch is one tabulated point (40 C), which satline holds flat down to the "
+        "35.4 C transition, although the solubility falls steeply below 40 C; the dodecahydrate's "
+        "value there is its end tangent carried 5.4 K from 30 C. The gap asks for more points of "
+        "both hydrates near the transition, not a correction of either table."
+    ),
+    "disodium-hydrogen-phosphate/perry-7-heptahydrate/continuity-perry-7-dihydrate": (
+        "The heptahydrate branch is one tabulated point (40 C), held flat up to the 48.1 C "
+        "transition while the solubility keeps rising steeply; the dihydrate's table begins at 50 C, "
+        "1.9 K away. The gap asks for more points of the heptahydrate."
+    ),
     "sodium-sulfate/perry-7-decahydrate/continuity-perry-7-anhydrous": (
         "The decahydrate branch is steep (solubility doubles from 20 C to 30 C) and the table stops "
         "at 30 C; the end tangent carried 2.4 K to the 32.38 C transition, and the anhydrous "

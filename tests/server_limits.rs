@@ -1,6 +1,9 @@
-//! The server's limits on `/v1/plot` over loopback: a body that never arrives is answered
-//! 408 within the time limit (it cannot hold a worker open), and a picture larger than the
-//! pixel cap is refused before anything is drawn.
+//! The server's limits over loopback: a body that never arrives on `/v1/plot` is answered
+//! 408 within the time limit (it cannot hold a worker open), a picture larger than the
+//! pixel cap is refused before anything is drawn, an idle connection, a head sent a byte at
+//! a time and an idle kept-alive connection are closed within the header timeout, a head
+//! over the size cap is refused, and `/v1/health` answers while hundreds of idle sockets
+//! are open. Timeouts here are short, configured ones: no test sleeps for long.
 
 use std::io::{Read, Write};
 use std::net::TcpStream;
@@ -77,4 +80,126 @@ fn an_oversize_picture_is_refused_before_drawing() {
         ),
     );
     assert!(status.contains(" 200 "), "{status}");
+}
+
+/// Reads until the server closes the connection (or `within` passes) and says how long that
+/// took, with whatever the server sent first.
+fn closed_after(stream: &mut TcpStream, within: Duration) -> (Option<Duration>, String) {
+    let started = Instant::now();
+    stream
+        .set_read_timeout(Some(Duration::from_millis(50)))
+        .expect("a read timeout");
+    let mut got = Vec::new();
+    let mut buf = [0u8; 4096];
+    while started.elapsed() < within {
+        match stream.read(&mut buf) {
+            Ok(0) => return (Some(started.elapsed()), text(&got)),
+            Ok(n) => got.extend_from_slice(&buf[..n]),
+            Err(e)
+                if matches!(
+                    e.kind(),
+                    std::io::ErrorKind::WouldBlock | std::io::ErrorKind::TimedOut
+                ) => {}
+            Err(_) => return (Some(started.elapsed()), text(&got)),
+        }
+    }
+    (None, text(&got))
+}
+
+fn text(bytes: &[u8]) -> String {
+    String::from_utf8_lossy(bytes).into_owned()
+}
+
+fn short_header_time(ms: u64) -> Limits {
+    Limits {
+        header_time: Duration::from_millis(ms),
+        ..Limits::default()
+    }
+}
+
+#[test]
+fn an_idle_connection_is_closed_within_the_header_timeout() {
+    let running = start(config(short_header_time(300))).expect("the server starts");
+    let mut idle = TcpStream::connect(running.addr()).expect("connects");
+    let (closed, _) = closed_after(&mut idle, Duration::from_secs(10));
+    let closed = closed.expect("the idle connection is closed");
+    assert!(closed >= Duration::from_millis(250), "{closed:?}");
+    assert!(closed < Duration::from_secs(3), "{closed:?}");
+}
+
+#[test]
+fn a_head_sent_a_byte_at_a_time_is_closed_within_the_header_timeout() {
+    let running = start(config(short_header_time(400))).expect("the server starts");
+    let mut slow = TcpStream::connect(running.addr()).expect("connects");
+    slow.write_all(b"GET /v1/health HTTP/1.1\r\nHost: x\r\n")
+        .expect("writes");
+    let started = Instant::now();
+    // One more header byte every 50 ms, never the blank line that ends the head.
+    let mut cut = None;
+    while started.elapsed() < Duration::from_secs(5) {
+        if slow.write_all(b"X").is_err() {
+            cut = Some(started.elapsed());
+            break;
+        }
+        let (closed, _) = closed_after(&mut slow, Duration::from_millis(50));
+        if closed.is_some() {
+            cut = Some(started.elapsed());
+            break;
+        }
+    }
+    let cut = cut.expect("the half-sent head is closed");
+    assert!(cut < Duration::from_secs(3), "{cut:?}");
+}
+
+#[test]
+fn a_kept_alive_connection_is_closed_when_it_goes_idle_after_an_answer() {
+    let running = start(config(short_header_time(300))).expect("the server starts");
+    let mut kept = TcpStream::connect(running.addr()).expect("connects");
+    kept.write_all(b"GET /v1/health HTTP/1.1\r\nHost: x\r\n\r\n")
+        .expect("writes");
+    let (closed, answer) = closed_after(&mut kept, Duration::from_secs(10));
+    assert!(answer.starts_with("HTTP/1.1 200 "), "{answer}");
+    let closed = closed.expect("the kept-alive connection is closed once idle");
+    assert!(closed < Duration::from_secs(3), "{closed:?}");
+}
+
+#[test]
+fn health_answers_while_hundreds_of_idle_sockets_are_open() {
+    // Idle sockets would stay for a minute; the cap of 64 open connections makes room by
+    // closing the quietest idle ones.
+    let running = start(config(Limits {
+        header_time: Duration::from_secs(60),
+        connections: 64,
+        ..Limits::default()
+    }))
+    .expect("the server starts");
+    let idle: Vec<TcpStream> = (0..300)
+        .map(|_| TcpStream::connect(running.addr()).expect("connects"))
+        .collect();
+    let started = Instant::now();
+    let (status, _) = status_after(
+        running.addr(),
+        "GET /v1/health HTTP/1.1\r\nHost: x\r\nConnection: close\r\n\r\n",
+    );
+    assert!(status.contains(" 200 "), "{status}");
+    assert!(
+        started.elapsed() < Duration::from_secs(5),
+        "{:?}",
+        started.elapsed()
+    );
+    // The first idle socket was among those closed to make room.
+    let mut first = idle.into_iter().next().expect("a socket");
+    let (closed, _) = closed_after(&mut first, Duration::from_secs(5));
+    assert!(closed.is_some(), "the oldest idle socket is still open");
+}
+
+#[test]
+fn a_head_larger_than_the_cap_is_refused() {
+    let running = start(config(Limits::default())).expect("the server starts");
+    let big = "a".repeat(satline::server::MAX_HEAD_BYTES + 10);
+    let (status, _) = status_after(
+        running.addr(),
+        &format!("GET /v1/health HTTP/1.1\r\nHost: x\r\nX-Big: {big}\r\n\r\n"),
+    );
+    assert!(status.contains(" 431 "), "{status}");
 }

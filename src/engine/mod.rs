@@ -294,6 +294,11 @@ impl<'t> Prepared<'t> {
         })
     }
 
+    /// Line and column (1-based, in characters) of a byte offset of the text.
+    pub fn line_column(&self, offset: usize) -> (usize, usize) {
+        self.lines.line_column(self.text, offset)
+    }
+
     /// The answers, one per statement, computed as the iterator is advanced: a caller can
     /// stop between statements.
     pub fn answers<'a>(&'a self, engine: &'a Engine) -> impl Iterator<Item = Answer> + 'a {

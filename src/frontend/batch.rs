@@ -14,7 +14,6 @@ use crate::engine::Engine;
 use crate::frontend::picture::Pictures;
 use crate::frontend::{Outcome, database_name, open_engine};
 use crate::output::{Format, Printer};
-use crate::query::LineIndex;
 
 /// How standard input is named in messages.
 pub const STDIN_NAME: &str = "<stdin>";
@@ -264,9 +263,10 @@ pub fn run_scripts_in(
     let mut outcome = Outcome::Success;
     let mut plots = 0;
     for script in scripts {
-        let mut answers = engine.run_text(&script.text, session);
-        let lines = LineIndex::new(&script.text);
-        for answer in &mut answers {
+        // Each answer is printed as soon as it is made and then dropped: memory does not
+        // grow with the number of statements.
+        let prepared = engine.prepare(&script.text, session);
+        for mut answer in prepared.answers(engine) {
             if let Some(spec) = answer.plot.as_deref() {
                 plots += 1;
                 match pictures.write(spec, plots) {
@@ -277,8 +277,8 @@ pub fn run_scripts_in(
                     }
                 }
             }
-            let answer = &*answer;
-            let position = Some(lines.line_column(&script.text, answer.span.0));
+            let answer = &answer;
+            let position = Some(prepared.line_column(answer.span.0));
             if let Some(problem) = judge(&script.name, position, answer) {
                 report(err, &problem.message);
                 outcome = outcome.worst(problem.outcome);

@@ -207,6 +207,21 @@ pub struct ServeArgs {
     #[arg(long, value_name = "N", default_value_t = server::DEFAULT_CONCURRENT,
           value_parser = clap::value_parser!(u64).range(1..).map(|n| n as usize))]
     pub max_concurrent: usize,
+    /// Time for a request's head to arrive whole once the connection is ready for it (opened,
+    /// or its last answer sent), in milliseconds; a silent, half-sent or idle kept-alive
+    /// connection is closed past it.
+    #[arg(long, value_name = "MS", default_value_t = server::DEFAULT_HEADER_TIME.as_millis() as u64,
+          value_parser = clap::value_parser!(u64).range(1..))]
+    pub header_timeout_ms: u64,
+    /// Time a connection may pass with no byte moving either way, in milliseconds (at least
+    /// the time limit and a second); closed past it.
+    #[arg(long, value_name = "MS", default_value_t = server::DEFAULT_IDLE_TIME.as_millis() as u64,
+          value_parser = clap::value_parser!(u64).range(1..))]
+    pub idle_timeout_ms: u64,
+    /// Most connections open at once; one more closes the quietest idle one.
+    #[arg(long, value_name = "N", default_value_t = server::DEFAULT_CONNECTIONS,
+          value_parser = clap::value_parser!(u64).range(1..).map(|n| n as usize))]
+    pub max_connections: usize,
     /// Write no request log lines on the error stream.
     #[arg(long)]
     pub quiet: bool,

@@ -1,4 +1,5 @@
-//! The server's limits (body size, statements, time, concurrent requests), their defaults,
+//! The server's limits (body size, statements, time, concurrent requests, header and idle
+//! times, open connections), their defaults,
 //! and the pieces that enforce them: a bounded body reader and the concurrency gate.
 
 use std::future::poll_fn;
@@ -24,6 +25,12 @@ pub const DEFAULT_STATEMENTS: usize = 100;
 pub const DEFAULT_TIME: Duration = Duration::from_secs(2);
 /// Default most requests in progress at once.
 pub const DEFAULT_CONCURRENT: usize = 64;
+/// Default time for a request's head to arrive once the connection is ready for it: 10 s.
+pub const DEFAULT_HEADER_TIME: Duration = Duration::from_secs(10);
+/// Default time a connection may pass with no byte moving either way: 30 s.
+pub const DEFAULT_IDLE_TIME: Duration = Duration::from_secs(30);
+/// Default most connections open at once.
+pub const DEFAULT_CONNECTIONS: usize = 512;
 
 /// The most pixels a picture drawn by the server may have: 2,000,000 (e.g. 2000 × 1000),
 /// about 6 MB of bitmap while a PNG is drawn, so `--max-concurrent` drawings stay within
@@ -56,6 +63,23 @@ pub struct Limits {
     pub time: Duration,
     /// Most requests in progress at once (503 past it).
     pub concurrent: usize,
+    /// Time for a request's head (request line and headers) to arrive whole, counted from
+    /// when the connection is ready for it (opened, or its last answer sent); the
+    /// connection is closed past it.
+    pub header_time: Duration,
+    /// Time a connection may pass with no byte moving either way before it is closed; at
+    /// least the time limit and a second (see [`Limits::idle_after`]).
+    pub idle_time: Duration,
+    /// Most connections open at once; one more closes the quietest idle one.
+    pub connections: usize,
+}
+
+impl Limits {
+    /// The idle time in force: never shorter than the time limit and a second, so an
+    /// evaluation in progress (no byte moving) is answered, not cut.
+    pub fn idle_after(&self) -> Duration {
+        self.idle_time.max(self.time + Duration::from_secs(1))
+    }
 }
 
 impl Default for Limits {
@@ -65,6 +89,9 @@ impl Default for Limits {
             statements: DEFAULT_STATEMENTS,
             time: DEFAULT_TIME,
             concurrent: DEFAULT_CONCURRENT,
+            header_time: DEFAULT_HEADER_TIME,
+            idle_time: DEFAULT_IDLE_TIME,
+            connections: DEFAULT_CONNECTIONS,
         }
     }
 }
@@ -159,6 +186,19 @@ mod tests {
         assert_eq!(l.statements, 100);
         assert_eq!(l.time, Duration::from_secs(2));
         assert_eq!(l.concurrent, 64);
+        assert_eq!(l.header_time, Duration::from_secs(10));
+        assert_eq!(l.idle_time, Duration::from_secs(30));
+        assert_eq!(l.connections, 512);
+    }
+
+    #[test]
+    fn the_idle_time_never_cuts_an_evaluation_within_the_time_limit() {
+        let l = Limits {
+            time: Duration::from_secs(40),
+            ..Limits::default()
+        };
+        assert_eq!(l.idle_after(), Duration::from_secs(41));
+        assert_eq!(Limits::default().idle_after(), Duration::from_secs(30));
     }
 
     #[test]

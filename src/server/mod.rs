@@ -1,7 +1,8 @@
 //! The query server: HTTP JSON over the same engine the command line uses, on loopback
 //! unless another address is given, read-only unless started with a token.
 //!
-//! Routes (all under `/v1`) are in `routes`; limits and their defaults in `limits`; the
+//! Connections are accepted and served by `accept` (header and idle timeouts, a cap on open
+//! connections). Routes (all under `/v1`) are in `routes`; limits and their defaults in `limits`; the
 //! bearer token in `auth`; request logs and panic catching in `layers`; the JSON error
 //! shape in `reply`. The engine is shared behind an `RwLock<Arc<Engine>>`: a request takes
 //! the current snapshot and keeps it to the end, and a reload swaps in a fresh one.
@@ -14,6 +15,7 @@
 //! # Ok::<(), satline::server::ServerError>(())
 //! ```
 
+mod accept;
 mod admin;
 mod auth;
 mod layers;
@@ -33,9 +35,11 @@ use std::time::Duration;
 
 use tokio::sync::{Semaphore, oneshot};
 
+pub use accept::MAX_HEAD_BYTES;
 pub use auth::Token;
 pub use limits::{
-    DEFAULT_BODY_BYTES, DEFAULT_CONCURRENT, DEFAULT_STATEMENTS, DEFAULT_TIME, Limits,
+    DEFAULT_BODY_BYTES, DEFAULT_CONCURRENT, DEFAULT_CONNECTIONS, DEFAULT_HEADER_TIME,
+    DEFAULT_IDLE_TIME, DEFAULT_STATEMENTS, DEFAULT_TIME, Limits,
 };
 
 use crate::engine::Engine;
@@ -246,14 +250,14 @@ pub fn start(config: Config) -> Result<Running, ServerError> {
     let app = routes::router(state);
     let (stop, stopped) = oneshot::channel::<()>();
     let on_signals = config.stop_on_signals;
+    let limits = config.limits;
     let thread = std::thread::Builder::new()
         .name("satline-server".into())
         .spawn(move || {
             let served = runtime.block_on(async move {
                 let listener = tokio::net::TcpListener::from_std(listener)?;
-                axum::serve(listener, app)
-                    .with_graceful_shutdown(shutdown(stopped, on_signals))
-                    .await
+                accept::serve(listener, app, limits, shutdown(stopped, on_signals)).await;
+                Ok::<(), io::Error>(())
             });
             runtime.shutdown_timeout(SHUTDOWN_GRACE);
             served.map_err(ServerError::Serve)

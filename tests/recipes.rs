@@ -178,3 +178,20 @@ fn a_faulty_recipe_file_stops_the_run_with_file_line_and_column() {
     assert!(out.stdout.is_empty());
     std::fs::remove_dir_all(&dir).unwrap();
 }
+
+#[test]
+fn the_guides_and_the_examples_recipe_files_parse() {
+    let guide = include_str!("../grammar/README.md");
+    let blocks: Vec<&str> = guide
+        .split("```recipes\n")
+        .skip(1)
+        .filter_map(|rest| rest.split("```").next())
+        .collect();
+    assert!(!blocks.is_empty());
+    let example = include_str!("../grammar/examples/workshop.recipes");
+    for text in blocks.into_iter().chain([example]) {
+        let recipes = satline::query::parse_recipe_file(text)
+            .unwrap_or_else(|faults| panic!("{}", faults[0].render(text, "recipes")));
+        assert_eq!(recipes.len(), 2);
+    }
+}

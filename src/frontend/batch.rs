@@ -170,7 +170,8 @@ pub fn run(
     if bad_recipes {
         return Outcome::Unanswered;
     }
-    run_scripts_in(&engine, &mut session, &scripts, format, pictures, out, err)
+    let printer = Printer::new(out, format);
+    run_in_session((&engine, &mut session), &scripts, pictures, printer, err)
 }
 
 /// A batch run over the process's standard streams.
@@ -246,20 +247,19 @@ pub fn run_scripts(
     err: &mut impl Write,
 ) -> Outcome {
     let mut session = engine.session();
-    run_scripts_in(engine, &mut session, scripts, format, pictures, out, err)
+    let printer = Printer::new(out, format);
+    run_in_session((engine, &mut session), scripts, pictures, printer, err)
 }
 
-/// [`run_scripts`] in a session already holding names (the recipes of recipe files).
-pub fn run_scripts_in(
-    engine: &Engine,
-    session: &mut crate::engine::Session,
+/// [`run_scripts`] in a session already holding names (the recipes of recipe files),
+/// printing with `printer`.
+fn run_in_session<W: Write>(
+    (engine, session): (&Engine, &mut crate::engine::Session),
     scripts: &[Script],
-    format: Format,
     pictures: &Pictures,
-    out: &mut impl Write,
+    mut printer: Printer<W>,
     err: &mut impl Write,
 ) -> Outcome {
-    let mut printer = Printer::new(out, format);
     let mut outcome = Outcome::Success;
     let mut plots = 0;
     for script in scripts {

@@ -6,7 +6,7 @@ use proptest::prelude::*;
 use satline::science::curve::{Branch, Curve, Pchip};
 use satline::science::fit::{FitModel, fit_apelblat, fit_polynomial, fit_vant_hoff};
 use satline::science::gas::{HenryConvention, from_hcp, to_hcp};
-use satline::science::solve::{saturation_temperatures, stays_dissolved};
+use satline::science::solve::{minimum, saturation_temperatures, stays_dissolved};
 use satline::science::units::{CompositionUnit, PressureUnit};
 use satline::science::units::{
     Context, anhydrous_to_hydrate, from_mass_fraction, hydrate_to_anhydrous, pressure_from_pa,
@@ -182,6 +182,67 @@ proptest! {
         // They can differ only when the loading sits on the boundary.
         if (r(min) - r(w) * (1.0 + margin)).abs() > 1e-9 {
             prop_assert_eq!(s.holds, scan_holds);
+        }
+    }
+}
+
+/// Knots with positive spacing and any values in (0.01, 0.61): peaks and dips included.
+fn wavy_data(start: f64) -> impl Strategy<Value = Vec<(f64, f64)>> {
+    prop::collection::vec((0.5f64..25.0, 0.01f64..0.61), 1..10).prop_map(move |steps| {
+        let mut t = start;
+        steps
+            .into_iter()
+            .map(|(dt, w)| {
+                t += dt;
+                (t, w)
+            })
+            .collect()
+    })
+}
+
+proptest! {
+    /// The exact range minimum (issue: screening at the speed of the arithmetic) is never
+    /// above any point of a dense scan of the same stable curve, on curves of one to three
+    /// overlapping branches with peaks and dips, some with declared stable ranges, and its
+    /// value is the curve's value where it says the minimum is.
+    #[test]
+    fn range_minimum_is_never_above_a_dense_scan(
+        a in wavy_data(270.0),
+        b in wavy_data(280.0),
+        c in wavy_data(300.0),
+        branches in 1usize..4,
+        declared in any::<bool>(),
+        f1 in 0.0f64..1.0,
+        f2 in 0.0f64..1.0,
+    ) {
+        let mut list = vec![Branch::new("A", &a).unwrap()];
+        if branches > 1 {
+            let mut hydrate = Branch::new("A·2H2O", &b).unwrap();
+            if declared {
+                let (lo, hi) = hydrate.tabulated_range();
+                hydrate = hydrate.with_stable_range(lo - 1.0, hi).unwrap();
+            }
+            list.push(hydrate);
+        }
+        if branches > 2 {
+            list.push(Branch::new("A·H2O", &c).unwrap());
+        }
+        let curve = Curve::new(list).unwrap();
+        let (lo, hi) = curve.temperature_range();
+        let (t1, t2) = (lo + (hi - lo) * f1.min(f2), lo + (hi - lo) * f1.max(f2));
+        let m = minimum(&curve, t1, t2, true);
+        // A gap without data inside the range may put the tangents beyond what bounds allow.
+        prop_assume!(m.is_ok());
+        let m = m.unwrap();
+        prop_assert!(m.t_k >= t1 && m.t_k <= t2);
+        let at = curve.mass_fraction(m.t_k, true).unwrap();
+        prop_assert!((at - m.mass_fraction).abs() < 1e-15);
+        for i in 0..=4000 {
+            let t = (t1 + (t2 - t1) * f64::from(i) / 4000.0).min(t2);
+            if let Ok(w) = curve.mass_fraction(t, true) {
+                prop_assert!(m.mass_fraction <= w + 1e-12,
+                    "scan finds {w} at {t} K below the minimum {} at {} K", m.mass_fraction, m.t_k);
+            }
         }
     }
 }

@@ -136,6 +136,54 @@ impl Pchip {
     }
 }
 
+impl Pchip {
+    /// Appends to `out` every x strictly inside (`lo`, `hi`) where one interval's cubic has a
+    /// zero derivative: the roots in (0, 1) of the quadratic h·p'(s) = A s² + B s + C with
+    /// A = 6(y₀−y₁) + 3h(d₀+d₁), B = 6(y₁−y₀) − h(4d₀+2d₁), C = h d₀ (the derivative of the
+    /// cubic Hermite form in [`Pchip::eval`]). Together with the knots these are the only
+    /// places where the interpolant can have an interior extremum. Beyond the knots the
+    /// interpolant is a straight line and has none.
+    pub fn turning_points(&self, lo: f64, hi: f64, out: &mut Vec<f64>) {
+        for k in 0..self.x.len().saturating_sub(1) {
+            let (x0, x1) = (self.x[k], self.x[k + 1]);
+            if x1 <= lo || x0 >= hi {
+                continue;
+            }
+            let h = x1 - x0;
+            let (y0, y1, d0, d1) = (self.y[k], self.y[k + 1], self.d[k], self.d[k + 1]);
+            let a = 6.0 * (y0 - y1) + 3.0 * h * (d0 + d1);
+            let b = 6.0 * (y1 - y0) - h * (4.0 * d0 + 2.0 * d1);
+            let c = h * d0;
+            let mut push = |s: f64| {
+                let x = x0 + s * h;
+                if s > 0.0 && s < 1.0 && x > lo && x < hi {
+                    out.push(x);
+                }
+            };
+            let scale = a.abs().max(b.abs()).max(c.abs());
+            if scale == 0.0 {
+                continue;
+            }
+            if a.abs() <= 1e-12 * scale {
+                if b != 0.0 {
+                    push(-c / b);
+                }
+                continue;
+            }
+            let disc = b * b - 4.0 * a * c;
+            if disc < 0.0 {
+                continue;
+            }
+            // The numerically stable pair of roots (no cancellation in either).
+            let q = -0.5 * (b + b.signum() * disc.sqrt());
+            push(q / a);
+            if q != 0.0 {
+                push(c / q);
+            }
+        }
+    }
+}
+
 fn slopes(x: &[f64], y: &[f64]) -> Vec<f64> {
     let n = x.len();
     if n == 1 {
@@ -300,6 +348,12 @@ impl Branch {
     /// Tabulated temperatures, K.
     pub fn knots(&self) -> &[f64] {
         self.interpolant.knots()
+    }
+
+    /// See [`Pchip::turning_points`]: where the branch's interpolant can turn inside
+    /// (`lo`, `hi`), K.
+    pub fn turning_points(&self, lo: f64, hi: f64, out: &mut Vec<f64>) {
+        self.interpolant.turning_points(lo, hi, out);
     }
 
     /// Tabulated mass fractions.

@@ -13,6 +13,7 @@ pub mod formula;
 pub mod freezing;
 pub mod gas;
 pub mod heat;
+pub mod range_minimum;
 pub mod solve;
 pub mod units;
 

@@ -8,6 +8,7 @@
 
 use super::curve::{Basis, Curve, dense_grid};
 use super::error::ScienceError;
+pub use super::range_minimum::{Minimum, minimum};
 
 /// Steps per interval between knots of the scanning grid.
 const STEPS: usize = 200;
@@ -154,128 +155,6 @@ pub fn saturation_temperatures_with(
         push(last, before.is_some_and(|v| v < 0.0));
     }
     Ok(out)
-}
-
-/// The lowest point of the curve over a range.
-#[derive(Debug, Clone, PartialEq)]
-pub struct Minimum {
-    /// Where the curve is lowest, K.
-    pub t_k: f64,
-    /// The curve's mass fraction there.
-    pub mass_fraction: f64,
-    /// Stable phase there.
-    pub phase: String,
-    pub basis: Basis,
-}
-
-/// The minimum of the curve over [t1_k, t2_k] (every temperature, not only the ends).
-///
-/// Candidates: both ends, every knot and transition inside, and a 200-step scan between
-/// them; the best grid point is refined by golden-section search on its two neighbouring
-/// intervals. (PCHIP is monotone between knots, so the knots and transitions alone would
-/// do; the scan guards the branch selection.) Without `extrapolate` every temperature of
-/// the range must have data (else [`ScienceError::OutOfRange`] or [`ScienceError::InGap`]);
-/// with it, missing parts are extrapolated and the basis is `Extrapolated`. A single
-/// temperature (t1_k = t2_k) is one evaluation there: the scan would hold that one point.
-pub fn minimum(
-    curve: &Curve,
-    t1_k: f64,
-    t2_k: f64,
-    extrapolate: bool,
-) -> Result<Minimum, ScienceError> {
-    if !(t1_k.is_finite() && t2_k.is_finite()) || t2_k < t1_k {
-        return Err(ScienceError::BadRange { t1_k, t2_k });
-    }
-    if extrapolate {
-        // Both ends within reach: the window is an interval around the data, so the
-        // whole range is.
-        let (lo, hi) = curve.temperature_range();
-        super::bounds::check_window(t1_k, lo, hi)?;
-        super::bounds::check_window(t2_k, lo, hi)?;
-    }
-    if t1_k == t2_k {
-        let uncovered = !curve.covers(t1_k);
-        if uncovered && !extrapolate {
-            curve.evaluate(t1_k, false)?;
-        }
-        let e = curve.evaluate(t1_k, true)?;
-        return Ok(Minimum {
-            t_k: t1_k,
-            mass_fraction: e.mass_fraction,
-            phase: e.phase,
-            basis: if uncovered {
-                Basis::Extrapolated
-            } else {
-                e.basis
-            },
-        });
-    }
-    // Every end of a branch inside the range: a side of it without data is a gap.
-    // The first temperature without data is the one an error names: an end of the range
-    // before a gap inside it.
-    let mut uncovered = [t1_k, t2_k].into_iter().find(|&t| !curve.covers(t));
-    for b in &curve.branches {
-        let (lo, hi) = b.range();
-        for t in [lo - 1e-9, hi + 1e-9] {
-            if uncovered.is_none() && t > t1_k && t < t2_k && !curve.covers(t) {
-                uncovered = Some(t);
-            }
-        }
-    }
-    if let Some(t) = uncovered
-        && !extrapolate
-    {
-        curve.evaluate(t, false)?;
-    }
-    let grid = scan_grid(curve, t1_k, t2_k, uncovered.is_some());
-    let (mut best_i, mut best_w) = (0, f64::INFINITY);
-    for (i, &t) in grid.iter().enumerate() {
-        let w = value(curve, t);
-        if w < best_w {
-            best_i = i;
-            best_w = w;
-        }
-    }
-    let mut best_t = grid.get(best_i).copied().unwrap_or(t1_k);
-    let lo = grid
-        .get(best_i.saturating_sub(1))
-        .copied()
-        .unwrap_or(best_t);
-    let hi = grid.get(best_i + 1).copied().unwrap_or(best_t);
-    if hi > lo {
-        let (t, w) = golden_min(|t| value(curve, t), lo, hi);
-        if w < best_w {
-            best_t = t;
-        }
-    }
-    let e = curve.evaluate(best_t, true)?;
-    Ok(Minimum {
-        t_k: best_t,
-        mass_fraction: e.mass_fraction,
-        phase: e.phase,
-        basis: if uncovered.is_some() {
-            Basis::Extrapolated
-        } else {
-            e.basis
-        },
-    })
-}
-
-fn golden_min(f: impl Fn(f64) -> f64, mut a: f64, mut b: f64) -> (f64, f64) {
-    let g = 0.5 * (5f64.sqrt() - 1.0);
-    let mut c = b - g * (b - a);
-    let mut d = a + g * (b - a);
-    while b - a > 1e-6 {
-        if f(c) < f(d) {
-            b = d;
-        } else {
-            a = c;
-        }
-        c = b - g * (b - a);
-        d = a + g * (b - a);
-    }
-    let t = 0.5 * (a + b);
-    (t, f(t))
 }
 
 /// The answer to "does this loading stay dissolved over this range with this margin".

@@ -255,6 +255,7 @@ pub fn to_toml_files(contents: &Contents) -> Vec<(String, String)> {
         files.push((super::density::FILE.to_string(), text));
     }
     files.extend(super::corroboration::to_toml_files(&contents.checks));
+    files.extend(super::thermo_seed::to_toml_files(&contents.thermochemistry));
     files
 }
 

@@ -109,6 +109,7 @@ enum Record {
     Freezing(FreezingRecord),
     Density(crate::model::DensityCoefficients),
     Check(Check),
+    Thermo(super::thermo_import::ThermoRecord),
 }
 
 /// One planned change.
@@ -305,6 +306,8 @@ pub fn plan(
                     "sources.toml".to_string()
                 } else if stem == "densities" {
                     super::density::FILE.to_string()
+                } else if super::thermo_import::is_thermo_text(&f.text) {
+                    format!("{}{stem}.toml", super::thermo_seed::FOLDER)
                 } else if in_checks {
                     format!("{}/{stem}.toml", super::corroboration::CHECK_DIR)
                 } else {
@@ -636,6 +639,21 @@ fn compare(incoming: &Contents, existing: &Contents, options: &ImportOptions) ->
         });
     }
 
+    for p in super::thermo_import::plan(
+        &incoming.thermochemistry,
+        &existing.thermochemistry,
+        options.keep_state,
+    ) {
+        plan.changes.push(Change {
+            kind: kind_of(p.same),
+            entity: p.entity,
+            summary: p.summary,
+            before: p.before,
+            after: p.after,
+            record: Record::Thermo(p.record),
+        });
+    }
+
     let old_checks: HashMap<&str, &Check> = existing
         .checks
         .iter()
@@ -804,6 +822,7 @@ fn write_plan(
             Record::Freezing(f) => write::replace_freezing(tx, f)?,
             Record::Density(d) => super::density::replace(tx, d)?,
             Record::Check(c) => super::corroboration::replace_check(tx, c)?,
+            Record::Thermo(t) => super::thermo_import::write(tx, t)?,
         }
         audit::record(
             tx,

@@ -20,6 +20,7 @@ pub mod review;
 pub mod schema;
 pub mod seed;
 pub mod sources;
+mod thermo_import;
 mod thermo_rows;
 pub mod thermo_seed;
 mod write;

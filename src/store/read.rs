@@ -46,9 +46,11 @@ pub struct Contents {
     #[serde(default, skip_serializing_if = "Vec::is_empty")]
     pub checks: Vec<crate::model::Check>,
     /// Enthalpies of formation and hydration, radii, ionisation energies and heat-capacity
-    /// coefficients (`thermochemistry/` in the seed). Not yet written by the exports (nor
-    /// read by imports), so it is left out of the JSON export too.
-    #[serde(skip)]
+    /// coefficients (`thermochemistry/` in the seed; exported and imported like the rest).
+    #[serde(
+        default,
+        skip_serializing_if = "crate::model::thermo::Thermochemistry::is_empty"
+    )]
     pub thermochemistry: crate::model::thermo::Thermochemistry,
 }
 

@@ -11,50 +11,71 @@ use crate::model::thermo::{
 
 /// Writes every record (the tables are expected empty: a fresh seed load).
 pub(crate) fn write(tx: &Transaction<'_>, thermo: &Thermochemistry) -> Result<(), StoreError> {
-    let mut insert = tx.prepare_cached(
+    for v in &thermo.values {
+        insert_value(tx, v)?;
+    }
+    for h in &thermo.heat_capacity {
+        upsert_heat_capacity(tx, h)?;
+    }
+    Ok(())
+}
+
+/// Adds one value.
+pub(crate) fn insert_value(conn: &Connection, v: &ThermoValue) -> Result<(), StoreError> {
+    conn.prepare_cached(
         "INSERT INTO thermo_values
            (file, quantity, state, stage, species, value, unit, source, provenance, review, note)
          VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10, ?11)",
-    )?;
-    for v in &thermo.values {
-        insert.execute(params![
-            v.file,
-            v.quantity.as_str(),
-            v.state.map(ThermoState::as_str),
-            v.stage,
-            v.species,
-            v.value,
-            v.quantity.unit(),
-            v.source,
-            v.provenance.as_str(),
-            v.review.as_str(),
-            v.note,
-        ])?;
-    }
-    let mut insert = tx.prepare_cached(
+    )?
+    .execute(params![
+        v.file,
+        v.quantity.as_str(),
+        v.state.map(ThermoState::as_str),
+        v.stage,
+        v.species,
+        v.value,
+        v.quantity.unit(),
+        v.source,
+        v.provenance.as_str(),
+        v.review.as_str(),
+        v.note,
+    ])?;
+    Ok(())
+}
+
+/// Adds one set of Laliberté's heat-capacity coefficients, or updates the solute's set in
+/// place.
+pub(crate) fn upsert_heat_capacity(
+    conn: &Connection,
+    h: &HeatCapacityFit,
+) -> Result<(), StoreError> {
+    conn.prepare_cached(
         "INSERT INTO laliberte_heat_capacity
            (solute, file, a1, a2, a3, a4, a5, a6, t_min_c, t_max_c, w_max, source, provenance, review, note)
-         VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10, ?11, ?12, ?13, ?14, ?15)",
-    )?;
-    for h in &thermo.heat_capacity {
-        insert.execute(params![
-            h.solute,
-            h.file,
-            h.a[0],
-            h.a[1],
-            h.a[2],
-            h.a[3],
-            h.a[4],
-            h.a[5],
-            h.t_min_c,
-            h.t_max_c,
-            h.w_max,
-            h.source,
-            h.provenance.as_str(),
-            h.review.as_str(),
-            h.note,
-        ])?;
-    }
+         VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10, ?11, ?12, ?13, ?14, ?15)
+         ON CONFLICT (solute) DO UPDATE SET file = excluded.file, a1 = excluded.a1,
+           a2 = excluded.a2, a3 = excluded.a3, a4 = excluded.a4, a5 = excluded.a5,
+           a6 = excluded.a6, t_min_c = excluded.t_min_c, t_max_c = excluded.t_max_c,
+           w_max = excluded.w_max, source = excluded.source,
+           provenance = excluded.provenance, review = excluded.review, note = excluded.note",
+    )?
+    .execute(params![
+        h.solute,
+        h.file,
+        h.a[0],
+        h.a[1],
+        h.a[2],
+        h.a[3],
+        h.a[4],
+        h.a[5],
+        h.t_min_c,
+        h.t_max_c,
+        h.w_max,
+        h.source,
+        h.provenance.as_str(),
+        h.review.as_str(),
+        h.note,
+    ])?;
     Ok(())
 }
 

@@ -1,0 +1,185 @@
+//! The lowest point of a solubility curve over a temperature range, found exactly from the
+//! curve's own pieces rather than by scanning.
+//!
+//! Why a finite list of candidates is enough: between two neighbouring *breakpoints* (every
+//! branch's knots, the ends of every branch's covered and stable ranges, every transition,
+//! and the range's ends) the set of branches the stable curve may choose from does not
+//! change, and the stable curve is the lowest of them there (see [`Curve::evaluate`]). The
+//! minimum over such a piece of a minimum of branches is the minimum over the branches of
+//! each branch's minimum over the piece, and a branch's cubic piece (or its straight end
+//! tangent) has its minimum at an end of the piece or where its derivative vanishes. So the
+//! candidates are: every breakpoint, a point just inside each side of every breakpoint (the
+//! limit on that side, where the set of branches changes in a step), and every turning point
+//! of every branch's cubic inside the range ([`Branch::turning_points`]). The stable curve is
+//! evaluated at each candidate and the lowest value wins; a breakpoint itself is preferred
+//! to a point beside it that is no lower by more than rounding.
+
+use super::curve::{Basis, Curve};
+use super::error::ScienceError;
+
+/// How far inside a piece the one-sided limit at a breakpoint is taken, K: far below any
+/// temperature the answers show, far above the spacing of f64 near 300 K (about 6e-14 K).
+const BESIDE_K: f64 = 1e-7;
+
+/// Values closer than this (in mass fraction) count as equal when choosing between a
+/// breakpoint and a point beside it.
+const TIE: f64 = 1e-12;
+
+/// The lowest point of the curve over a range.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Minimum {
+    /// Where the curve is lowest, K.
+    pub t_k: f64,
+    /// The curve's mass fraction there.
+    pub mass_fraction: f64,
+    /// Stable phase there.
+    pub phase: String,
+    pub basis: Basis,
+}
+
+/// The minimum of the curve over [t1_k, t2_k] (every temperature, not only the ends), exact
+/// up to the rounding of the candidates listed in the module's comment.
+///
+/// Without `extrapolate` every temperature of the range must have data (else
+/// [`ScienceError::OutOfRange`] or [`ScienceError::InGap`]); with it, missing parts are
+/// extrapolated on the branches' end tangents and the basis is `Extrapolated`. A single
+/// temperature (t1_k = t2_k) is one evaluation there.
+pub fn minimum(
+    curve: &Curve,
+    t1_k: f64,
+    t2_k: f64,
+    extrapolate: bool,
+) -> Result<Minimum, ScienceError> {
+    if !(t1_k.is_finite() && t2_k.is_finite()) || t2_k < t1_k {
+        return Err(ScienceError::BadRange { t1_k, t2_k });
+    }
+    if extrapolate {
+        // Both ends within reach: the window is an interval around the data, so the
+        // whole range is.
+        let (lo, hi) = curve.temperature_range();
+        super::bounds::check_window(t1_k, lo, hi)?;
+        super::bounds::check_window(t2_k, lo, hi)?;
+    }
+    if t1_k == t2_k {
+        let uncovered = !curve.covers(t1_k);
+        if uncovered && !extrapolate {
+            curve.evaluate(t1_k, false)?;
+        }
+        let e = curve.evaluate(t1_k, true)?;
+        return Ok(Minimum {
+            t_k: t1_k,
+            mass_fraction: e.mass_fraction,
+            phase: e.phase,
+            basis: if uncovered {
+                Basis::Extrapolated
+            } else {
+                e.basis
+            },
+        });
+    }
+    // Every end of a branch inside the range: a side of it without data is a gap.
+    // The first temperature without data is the one an error names: an end of the range
+    // before a gap inside it.
+    let mut uncovered = [t1_k, t2_k].into_iter().find(|&t| !curve.covers(t));
+    for b in &curve.branches {
+        let (lo, hi) = b.range();
+        for t in [lo - 1e-9, hi + 1e-9] {
+            if uncovered.is_none() && t > t1_k && t < t2_k && !curve.covers(t) {
+                uncovered = Some(t);
+            }
+        }
+    }
+    if let Some(t) = uncovered
+        && !extrapolate
+    {
+        curve.evaluate(t, false)?;
+    }
+    let mut best: Option<(f64, f64, bool)> = None;
+    for (t, at_breakpoint) in candidates(curve, t1_k, t2_k) {
+        let Ok(w) = curve.mass_fraction(t, true) else {
+            continue;
+        };
+        let better = match best {
+            None => true,
+            Some((_, bw, b_at)) => w < bw - TIE || (w < bw + TIE && at_breakpoint && !b_at),
+        };
+        if better {
+            best = Some((t, w, at_breakpoint));
+        }
+    }
+    let best_t = best.map_or(t1_k, |(t, _, _)| t);
+    let e = curve.evaluate(best_t, true)?;
+    Ok(Minimum {
+        t_k: best_t,
+        mass_fraction: e.mass_fraction,
+        phase: e.phase,
+        basis: if uncovered.is_some() {
+            Basis::Extrapolated
+        } else {
+            e.basis
+        },
+    })
+}
+
+/// The candidates of the module's comment inside [t1_k, t2_k], ascending, each with whether
+/// it is a breakpoint (rather than a point beside one or a turning point).
+fn candidates(curve: &Curve, t1_k: f64, t2_k: f64) -> Vec<(f64, bool)> {
+    let mut breaks = vec![t1_k, t2_k];
+    for b in &curve.branches {
+        breaks.extend_from_slice(b.knots());
+        let (lo, hi) = b.range();
+        breaks.extend([lo, hi]);
+        if let Some((lo, hi)) = b.stable_range() {
+            breaks.extend([lo, hi]);
+        }
+    }
+    breaks.extend(curve.transitions().iter().map(|t| t.t_k));
+    breaks.retain(|&t| t >= t1_k && t <= t2_k);
+    let mut turning = Vec::new();
+    for b in &curve.branches {
+        b.turning_points(t1_k, t2_k, &mut turning);
+    }
+    let mut out: Vec<(f64, bool)> = Vec::with_capacity(3 * breaks.len() + turning.len());
+    for &t in &breaks {
+        out.push((t, true));
+        for beside in [t - BESIDE_K, t + BESIDE_K] {
+            if beside > t1_k && beside < t2_k {
+                out.push((beside, false));
+            }
+        }
+    }
+    out.extend(turning.into_iter().map(|t| (t, false)));
+    // Ascending, a breakpoint before anything else at the same temperature; duplicates go.
+    out.sort_by(|a, b| a.0.total_cmp(&b.0).then(b.1.cmp(&a.1)));
+    out.dedup_by(|later, earlier| later.0 == earlier.0);
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::science::curve::Branch;
+
+    #[test]
+    fn a_dip_between_knots_is_found_at_its_knot() {
+        // Invented demo data: falls to 300 K, then rises.
+        let c = Curve::single(
+            Branch::new("A", &[(280.0, 0.30), (300.0, 0.10), (320.0, 0.30)]).unwrap(),
+        );
+        let m = minimum(&c, 281.0, 319.0, false).unwrap();
+        assert_eq!(m.t_k, 300.0);
+        assert_eq!(m.basis, Basis::Tabulated);
+        assert!((m.mass_fraction - 0.10).abs() < 1e-15);
+    }
+
+    #[test]
+    fn a_rising_curve_is_lowest_at_the_start() {
+        // Invented demo data.
+        let c = Curve::single(
+            Branch::new("A", &[(273.15, 0.10), (283.15, 0.15), (293.15, 0.25)]).unwrap(),
+        );
+        let m = minimum(&c, 275.15, 281.15, false).unwrap();
+        assert_eq!(m.t_k, 275.15);
+        assert_eq!(m.basis, Basis::Interpolated);
+    }
+}

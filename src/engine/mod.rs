@@ -22,6 +22,7 @@ mod gas;
 mod heat;
 pub mod mixture;
 mod per_litre;
+mod phase_plot;
 mod plot;
 mod recipe;
 mod records;

@@ -9,5 +9,6 @@
 pub mod debye_huckel;
 pub mod ice;
 pub mod pitzer;
+pub mod relative_enthalpy;
 
 pub use pitzer::{ParameterSet, TemperatureForm, osmotic_coefficient, water_activity};

@@ -76,7 +76,13 @@ fn main() -> ExitCode {
                 .iter()
                 .map(|f| batch::ScriptSource::from_arg(f))
                 .collect();
-            exit(batch::run_std(db, &sources, cli.format, &pictures))
+            exit(batch::run_std(
+                db,
+                &cli.recipes,
+                &sources,
+                cli.format,
+                &pictures,
+            ))
         }
         Some(Command::Repl) => exit(frontend::repl::run(db)),
         Some(Command::Serve(args)) => serve(db, args),
@@ -89,10 +95,11 @@ fn main() -> ExitCode {
         }
         None if !cli.statements.is_empty() => exit(batch::run_arguments(
             db,
+            &cli.recipes,
             &cli.statements,
             cli.format,
             &pictures,
         )),
-        None => exit(frontend::run_default(db)),
+        None => exit(frontend::run_default(db, &cli.recipes)),
     }
 }

@@ -118,3 +118,80 @@ fn below_zero_a_strong_mixture_is_refused_and_a_dilute_one_gets_its_ice_line() {
     // Ideal: ΔT = 1.86 K·kg/mol × 2 × 0.01 mol/kg = 0.037 K.
     assert!((ice.temperature_c.unwrap() + 0.04).abs() < 0.006);
 }
+
+/// The binary with a recipe file, in a fresh temporary directory.
+fn satline(args: &[&str]) -> std::process::Output {
+    std::process::Command::new(env!("CARGO_BIN_EXE_satline"))
+        .args(args)
+        .output()
+        .unwrap()
+}
+
+#[test]
+fn a_recipe_file_named_on_the_command_line_binds_its_recipes() {
+    let file = concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/grammar/examples/workshop.recipes"
+    );
+    let out = satline(&[
+        "--recipes",
+        file,
+        "--format",
+        "json",
+        "require rinse stays dissolved from 2 C to 8 C; describe coolant",
+    ]);
+    assert_eq!(
+        out.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let text = String::from_utf8(out.stdout).unwrap();
+    let answers: Vec<serde_json::Value> = text
+        .lines()
+        .map(|l| serde_json::from_str(l).unwrap())
+        .collect();
+    assert_eq!(answers[0]["holds"], true);
+    assert!(answers[0]["caveats"].to_string().contains(CAVEAT));
+    // coolant's per-litre amount is per litre at 25 C, as its file says.
+    assert!(
+        answers[1]["caveats"]
+            .to_string()
+            .contains("per litre of solution at 25 C")
+    );
+}
+
+#[test]
+fn a_faulty_recipe_file_stops_the_run_with_file_line_and_column() {
+    let dir = std::env::temp_dir().join(format!("satline-recipes-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let path = dir.join("bad.recipes");
+    std::fs::write(&path, "recipe ward\n  1 g/L NaCl\n  2 g/L KCll\n").unwrap();
+    let path = path.to_string_lossy().to_string();
+    let out = satline(&["--recipes", &path, "describe ward"]);
+    assert_eq!(out.status.code(), Some(2));
+    let err = String::from_utf8(out.stderr).unwrap();
+    assert!(
+        err.contains(&format!("{path}:3:9: unknown solute")),
+        "{err}"
+    );
+    assert!(out.stdout.is_empty());
+    std::fs::remove_dir_all(&dir).unwrap();
+}
+
+#[test]
+fn the_guides_and_the_examples_recipe_files_parse() {
+    let guide = include_str!("../grammar/README.md");
+    let blocks: Vec<&str> = guide
+        .split("```recipes\n")
+        .skip(1)
+        .filter_map(|rest| rest.split("```").next())
+        .collect();
+    assert!(!blocks.is_empty());
+    let example = include_str!("../grammar/examples/workshop.recipes");
+    for text in blocks.into_iter().chain([example]) {
+        let recipes = satline::query::parse_recipe_file(text)
+            .unwrap_or_else(|faults| panic!("{}", faults[0].render(text, "recipes")));
+        assert_eq!(recipes.len(), 2);
+    }
+}

@@ -58,6 +58,9 @@ impl Session {
     }
 }
 
+/// A fault in a recipe file, with its place in the file.
+pub type RecipeFault = ErrorReport;
+
 /// The engine over one catalog snapshot. Cloning is cheap (the snapshot is shared).
 #[derive(Debug, Clone)]
 pub struct Engine {
@@ -90,6 +93,53 @@ impl Engine {
     /// A fresh session (no `let` names bound).
     pub fn session(&self) -> Session {
         Session::default()
+    }
+
+    /// Reads a recipe file (`query::parse_recipe_file`) and binds its recipes in `session`
+    /// by name, for the statements answered after. Nothing is bound when the file has a
+    /// fault: every fault is returned, with its line and column in `text` (an unknown
+    /// solute with the nearest names, a solute named twice, any fault of the format).
+    /// Returns the names bound, in file order.
+    pub fn load_recipes(
+        &self,
+        text: &str,
+        session: &mut Session,
+    ) -> Result<Vec<String>, Vec<RecipeFault>> {
+        let lines = query::LineIndex::new(text);
+        let recipes = query::parse_recipe_file(text).map_err(|faults| {
+            faults
+                .iter()
+                .map(|f| f.report_at(lines.line_column(text, f.span.start)))
+                .collect::<Vec<_>>()
+        })?;
+        let faults: Vec<RecipeFault> = recipes
+            .iter()
+            .flat_map(|r| recipe::file_faults(&self.snapshot, r))
+            .map(|e| {
+                let span = e.span();
+                let (line, column) = lines.line_column(text, span.start);
+                ErrorReport {
+                    class: e.class(),
+                    stage: "evaluate",
+                    code: e.code(),
+                    message: e.to_string(),
+                    line,
+                    column,
+                    span: (span.start, span.end),
+                }
+            })
+            .collect();
+        if !faults.is_empty() {
+            return Err(faults);
+        }
+        let mut names = Vec::with_capacity(recipes.len());
+        for recipe in recipes {
+            if let Some(name) = recipe.name.as_ref().map(|n| n.text.clone()) {
+                session.env.bind_recipe(&name, recipe);
+                names.push(name);
+            }
+        }
+        Ok(names)
     }
 
     /// Parses and answers every statement of `text`, in order: one answer per statement,

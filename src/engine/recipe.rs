@@ -150,6 +150,33 @@ fn compose<'a>(
     })
 }
 
+/// The faults of a recipe read from a file that can be found before it is used: a solute
+/// the reference does not know (with the nearest names) or one named twice.
+pub fn file_faults(snap: &Snapshot, recipe: &Recipe) -> Vec<EvalError> {
+    let mut faults = Vec::new();
+    let mut seen: Vec<(&str, &str)> = Vec::new();
+    for ingredient in &recipe.ingredients {
+        match resolve(snap, &ingredient.solute) {
+            Ok(solute) => {
+                if let Some((_, first)) = seen.iter().find(|(id, _)| *id == solute.id) {
+                    faults.push(EvalError::Unanswerable {
+                        message: format!(
+                            "{} is in {} twice (as `{first}` and `{}`): give one amount per solute",
+                            solute.name,
+                            recipe.title(),
+                            ingredient.solute.text
+                        ),
+                        span: ingredient.solute.span,
+                    });
+                }
+                seen.push((&solute.id, &ingredient.solute.text));
+            }
+            Err(e) => faults.push(e),
+        }
+    }
+    faults
+}
+
 /// Answers a statement about a recipe: solves its composition once, then asks the
 /// mixture's model.
 pub fn recipe(snap: &Snapshot, s: &RecipeStatement, answer: &mut Answer) -> Result<(), EvalError> {

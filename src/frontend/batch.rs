@@ -118,10 +118,13 @@ pub fn read_scripts(
     (scripts, failures)
 }
 
-/// A whole batch run: reads the scripts, opens the database, runs every statement.
-/// Answers go to `out` in `format`; problems go to `err`, one per line.
+/// A whole batch run: reads the recipe files and the scripts, opens the database, binds the
+/// recipes, runs every statement. Answers go to `out` in `format`; problems go to `err`,
+/// one per line (a fault of a recipe file as `FILE:line:column: message`, exit 2).
+#[allow(clippy::too_many_arguments)]
 pub fn run(
     db: Option<&Path>,
+    recipes: &[PathBuf],
     sources: &[ScriptSource],
     format: Format,
     pictures: &Pictures,
@@ -129,7 +132,11 @@ pub fn run(
     out: &mut impl Write,
     err: &mut impl Write,
 ) -> Outcome {
-    let (scripts, failures) = read_scripts(sources, stdin);
+    let recipe_sources: Vec<ScriptSource> =
+        recipes.iter().cloned().map(ScriptSource::File).collect();
+    let (recipe_files, mut failures) = read_scripts(&recipe_sources, stdin);
+    let (scripts, script_failures) = read_scripts(sources, stdin);
+    failures.extend(script_failures);
     if !failures.is_empty() {
         for failure in &failures {
             report(err, &failure.to_string());
@@ -147,12 +154,30 @@ pub fn run(
             return Outcome::Trouble;
         }
     };
-    run_scripts(&engine, &scripts, format, pictures, out, err)
+    let mut session = engine.session();
+    let mut bad_recipes = false;
+    for file in &recipe_files {
+        if let Err(faults) = engine.load_recipes(&file.text, &mut session) {
+            bad_recipes = true;
+            for f in faults {
+                report(
+                    err,
+                    &format!("{}:{}:{}: {}", file.name, f.line, f.column, f.message),
+                );
+            }
+        }
+    }
+    if bad_recipes {
+        return Outcome::Unanswered;
+    }
+    let printer = Printer::new(out, format);
+    run_in_session((&engine, &mut session), &scripts, pictures, printer, err)
 }
 
 /// A batch run over the process's standard streams.
 pub fn run_std(
     db: Option<&Path>,
+    recipes: &[PathBuf],
     sources: &[ScriptSource],
     format: Format,
     pictures: &Pictures,
@@ -167,6 +192,7 @@ pub fn run_std(
         // messages on the error stream (standard output is line-buffered).
         run(
             db,
+            recipes,
             sources,
             format,
             pictures,
@@ -180,6 +206,7 @@ pub fn run_std(
         let mut out = io::BufWriter::new(stdout.lock());
         run(
             db,
+            recipes,
             sources,
             format,
             pictures,
@@ -194,12 +221,14 @@ pub fn run_std(
 /// the exit codes and messages of a batch run.
 pub fn run_arguments(
     db: Option<&Path>,
+    recipes: &[PathBuf],
     statements: &[String],
     format: Format,
     pictures: &Pictures,
 ) -> Outcome {
     run_std(
         db,
+        recipes,
         &[ScriptSource::Arguments(statements.to_vec())],
         format,
         pictures,
@@ -217,14 +246,26 @@ pub fn run_scripts(
     out: &mut impl Write,
     err: &mut impl Write,
 ) -> Outcome {
-    let mut printer = Printer::new(out, format);
     let mut session = engine.session();
+    let printer = Printer::new(out, format);
+    run_in_session((engine, &mut session), scripts, pictures, printer, err)
+}
+
+/// [`run_scripts`] in a session already holding names (the recipes of recipe files),
+/// printing with `printer`.
+fn run_in_session<W: Write>(
+    (engine, session): (&Engine, &mut crate::engine::Session),
+    scripts: &[Script],
+    pictures: &Pictures,
+    mut printer: Printer<W>,
+    err: &mut impl Write,
+) -> Outcome {
     let mut outcome = Outcome::Success;
     let mut plots = 0;
     for script in scripts {
         // Each answer is printed as soon as it is made and then dropped: memory does not
         // grow with the number of statements.
-        let prepared = engine.prepare(&script.text, &mut session);
+        let prepared = engine.prepare(&script.text, session);
         for mut answer in prepared.answers(engine) {
             if let Some(spec) = answer.plot.as_deref() {
                 plots += 1;

@@ -40,6 +40,12 @@ pub struct Cli {
     )]
     pub format: Format,
 
+    /// Recipe files read before the statements, whose recipes the statements can name
+    /// (`recipe NAME` lines, then one ingredient a line: `0.9 %w/v NaCl`; see the grammar
+    /// guide). May be given more than once. A fault in one stops the run (exit 2).
+    #[arg(long, global = true, value_name = "FILE")]
+    pub recipes: Vec<PathBuf>,
+
     #[command(flatten)]
     pub picture: PictureArgs,
 

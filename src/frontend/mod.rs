@@ -52,12 +52,13 @@ impl Outcome {
 
 /// `satline` with no subcommand: the interactive session when standard input is a terminal,
 /// otherwise a batch run of standard input (as `satline run -`, table output).
-pub fn run_default(db: Option<&Path>) -> Outcome {
+pub fn run_default(db: Option<&Path>, recipes: &[std::path::PathBuf]) -> Outcome {
     if std::io::stdin().is_terminal() {
         repl::run(db)
     } else {
         batch::run_std(
             db,
+            recipes,
             &[batch::ScriptSource::Stdin],
             crate::output::Format::Table,
             &picture::Pictures::default(),

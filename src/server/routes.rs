@@ -23,7 +23,7 @@ use super::reply::{self, ApiError, ErrorFields, line_column};
 use super::{Shared, auth};
 use crate::answer::{Answer, AnswerKind, ErrorClass};
 use crate::catalog::{Catalog, citation};
-use crate::engine::{Engine, Prepared};
+use crate::engine::{Engine, Prepared, Session};
 use crate::model::{Solute, Source};
 use crate::query::{Filter, Name, SoluteClass, Span};
 
@@ -92,6 +92,10 @@ const INLINE_STATEMENTS: usize = 4;
 #[serde(deny_unknown_fields)]
 pub(super) struct QueryBody {
     query: String,
+    /// A recipe file's text (`recipe NAME`, then one ingredient a line; see the grammar
+    /// guide): its recipes may be named in `query`.
+    #[serde(default)]
+    recipes: Option<String>,
 }
 
 /// Whether the body is JSON by its content type (`application/json` or `...+json`).
@@ -115,8 +119,9 @@ fn time_limit(state: &Shared) -> ApiError {
     )
 }
 
-/// The query text of a body: plain text, or the `query` field of a JSON object.
-fn query_text(headers: &HeaderMap, body: &[u8]) -> Result<String, ApiError> {
+/// The query text of a body, and the recipes sent with it: plain text (no recipes), or the
+/// `query` and `recipes` fields of a JSON object.
+fn query_text(headers: &HeaderMap, body: &[u8]) -> Result<(String, Option<String>), ApiError> {
     let text = std::str::from_utf8(body).map_err(|e| {
         let valid = e.valid_up_to();
         // The prefix before the bad byte is valid UTF-8, so its lines and columns count.
@@ -132,10 +137,10 @@ fn query_text(headers: &HeaderMap, body: &[u8]) -> Result<String, ApiError> {
         )
     })?;
     if !is_json(headers) {
-        return Ok(text.to_string());
+        return Ok((text.to_string(), None));
     }
     serde_json::from_str::<QueryBody>(text)
-        .map(|q| q.query)
+        .map(|q| (q.query, q.recipes))
         .map_err(|e| {
             ApiError::with_fields(
                 StatusCode::BAD_REQUEST,
@@ -156,18 +161,55 @@ enum Evaluated {
     TimedOut,
 }
 
-/// Answers every statement of `text` in one fresh session, stopping when the deadline
+/// Answers every statement of `text` in `session` (fresh, or holding the recipes sent with it), stopping when the deadline
 /// passes. The status: 200 when at least one statement was answered (failed ones have
 /// `ok: false`); 400 when every statement failed to parse; when every statement failed and
 /// at least one parsed, 404 if the first of those names an unknown solute, else 422; 400 for
 /// a query with no statement.
-fn evaluate(engine: &Engine, text: &str, max_statements: usize, deadline: Instant) -> Evaluated {
-    let mut session = engine.session();
+fn evaluate_in(
+    engine: &Engine,
+    mut session: Session,
+    text: &str,
+    max_statements: usize,
+    deadline: Instant,
+) -> Evaluated {
     let prepared = engine.prepare(text, &mut session);
     answer_prepared(engine, &prepared, max_statements, deadline)
 }
 
-/// [`evaluate`] once the statements are parsed.
+/// [`evaluate_in`] a fresh session.
+#[cfg(test)]
+fn evaluate(engine: &Engine, text: &str, max_statements: usize, deadline: Instant) -> Evaluated {
+    evaluate_in(engine, engine.session(), text, max_statements, deadline)
+}
+
+/// A session holding the recipes sent with a query, or a 400 naming the first fault of
+/// the recipes (line and column in the `recipes` text).
+fn session_with(engine: &Engine, recipes: Option<&str>) -> Result<Session, ApiError> {
+    let mut session = engine.session();
+    if let Some(text) = recipes {
+        engine.load_recipes(text, &mut session).map_err(|faults| {
+            let first = faults.first();
+            let message = first.map_or(String::new(), |f| f.message.clone());
+            let fields = ErrorFields::new(
+                "bad-recipes",
+                format!(
+                    "the recipes cannot be read ({} fault{}): {message}",
+                    faults.len(),
+                    if faults.len() == 1 { "" } else { "s" }
+                ),
+            );
+            let fields = match first {
+                Some(f) => fields.at(f.line, f.column),
+                None => fields,
+            };
+            ApiError::with_fields(StatusCode::BAD_REQUEST, fields)
+        })?;
+    }
+    Ok(session)
+}
+
+/// [`evaluate_in`] once the statements are parsed.
 fn answer_prepared(
     engine: &Engine,
     prepared: &Prepared<'_>,
@@ -264,17 +306,21 @@ pub(super) async fn query(
         Ok(Err(e)) => return e.into_response(),
         Ok(Ok(bytes)) => bytes,
     };
-    let text = match query_text(&headers, &bytes) {
+    let (text, recipes) = match query_text(&headers, &bytes) {
         Ok(text) => text,
         Err(e) => return e.into_response(),
     };
     let engine = state.engine();
+    let session = match session_with(&engine, recipes.as_deref()) {
+        Ok(session) => session,
+        Err(e) => return e.into_response(),
+    };
     let max_statements = state.limits.statements;
     // A short query of light statements costs microseconds, less than the hand-over to a
     // blocking thread and back; it is answered here. Everything else goes to the blocking
     // pool, off the async workers.
     if state.inline_light && text.len() <= INLINE_BYTES {
-        let mut session = engine.session();
+        let mut session = session.clone();
         let prepared = engine.prepare(&text, &mut session);
         if prepared.len() <= INLINE_STATEMENTS && prepared.is_light() {
             let evaluated = answer_prepared(&engine, &prepared, max_statements, deadline);
@@ -285,7 +331,7 @@ pub(super) async fn query(
         // The permit lives as long as the evaluation, even past a timed-out reply.
         let _permit = permit;
         catch_unwind(AssertUnwindSafe(|| {
-            evaluate(&engine, &text, max_statements, deadline)
+            evaluate_in(&engine, session, &text, max_statements, deadline)
         }))
     });
     let remaining = deadline.saturating_duration_since(Instant::now());
@@ -599,16 +645,20 @@ pub(super) async fn plot(
         Ok(Err(e)) => return e.into_response(),
         Ok(Ok(bytes)) => bytes,
     };
-    let text = match query_text(&headers, &bytes) {
+    let (text, recipes) = match query_text(&headers, &bytes) {
         Ok(text) => text,
         Err(e) => return e.into_response(),
     };
     let engine = state.engine();
+    let mut session = match session_with(&engine, recipes.as_deref()) {
+        Ok(session) => session,
+        Err(e) => return e.into_response(),
+    };
     let task = tokio::task::spawn_blocking(move || {
         // The permit lives as long as the drawing, even past a timed-out reply.
         let _permit = permit;
         catch_unwind(AssertUnwindSafe(|| {
-            let answers = engine.run_text(&text, &mut engine.session());
+            let answers = engine.run_text(&text, &mut session);
             picture_for(&answers, format, width, height)
         }))
     });

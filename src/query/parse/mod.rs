@@ -16,7 +16,10 @@ mod dissolving;
 mod plumbing;
 mod quantity;
 mod recipe;
+mod recipe_file;
 mod statement;
+
+pub use recipe_file::parse_recipe_file;
 
 use plumbing::{Cx, shorten};
 use statement::statement;

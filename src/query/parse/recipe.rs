@@ -28,7 +28,7 @@ fn ends_ingredient(word: &str) -> bool {
 
 /// A solute's name inside a recipe: words up to a `,`, a keyword or a number. Returns the
 /// name, the rest, and whether a comma ended it.
-fn ingredient_name<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, (Name, bool)> {
+pub(super) fn ingredient_name<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, (Name, bool)> {
     let begin = skip(i);
     let (words, end, cursor, comma) = listed_name(begin, ends_ingredient, |_, _, _| Ok(()))?;
     if words.is_empty() {

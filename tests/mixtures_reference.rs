@@ -5,19 +5,11 @@
 //! same J(x) (Harvie's method). Fixtures by `tests/reference/fixtures_mixtures.py`; no Python
 //! at test time.
 
-use std::path::PathBuf;
-
 use satline::science::activity::System;
 use satline::store::models::mixture_systems;
 
-fn fixture(name: &str) -> serde_json::Value {
-    let path = PathBuf::from(env!("CARGO_MANIFEST_DIR"))
-        .join("tests/reference")
-        .join(name);
-    let text = std::fs::read_to_string(&path)
-        .unwrap_or_else(|e| panic!("cannot read fixture {}: {e}", path.display()));
-    serde_json::from_str(&text).unwrap()
-}
+/// The committed fixture, compiled in.
+const FIXTURE: &str = include_str!("reference/mixtures_pytzer.json");
 
 fn systems() -> Vec<System> {
     mixture_systems(satline::seed_files::SEED_FILES).unwrap()
@@ -35,7 +27,7 @@ const TOLERANCE: f64 = 0.001;
 ///   Greenberg & Møller 1989) at 0, 25 and 50 °C, system `greenberg-moller-1989-na-k-cl`.
 #[test]
 fn mixtures_match_pytzer() {
-    let f = fixture("mixtures_pytzer.json");
+    let f: serde_json::Value = serde_json::from_str(FIXTURE).unwrap();
     let systems = systems();
     let mut checked = 0;
     let mut worst: f64 = 0.0;

@@ -55,9 +55,9 @@ fn source_keys<P: AsRef<str>, C: AsRef<str>>(
 }
 
 /// Every model file among `files`, parsed, with its path.
-fn model_files<'f, P: AsRef<str>, C: AsRef<str>>(
-    files: &'f [(P, C)],
-) -> Result<Vec<(&'f str, ModelFile)>, StoreError> {
+fn model_files<P: AsRef<str>, C: AsRef<str>>(
+    files: &[(P, C)],
+) -> Result<Vec<(&str, ModelFile)>, StoreError> {
     let mut out = Vec::new();
     for (path, text) in files {
         let path = path.as_ref();

@@ -136,3 +136,45 @@ fn a_hydrate_named_loading_is_read_on_its_basis() {
     let a = run("require Na2HPO4 stays dissolved at 1.8 g/100g water from 5 C to 25 C");
     assert!(a.rows[0].headroom_pct.unwrap() < hydrate);
 }
+
+#[test]
+fn a_screening_from_below_zero_fails_a_solute_whose_loading_freezes_in_the_range() {
+    // The same ice line as `require` gives (seed: CRC freezing points of NaCl solutions).
+    let screening = run("which salts stay dissolved at 20 g/100g water from -15 C to 8 C");
+    assert!(screening.ok, "{:?}", screening.error);
+    let nacl = screening
+        .rows
+        .iter()
+        .find(|r| r.solute.as_deref() == Some("sodium chloride"))
+        .unwrap();
+    assert_eq!(nacl.holds, Some(false));
+    assert_eq!(nacl.phase.as_deref(), Some("ice"));
+    let required = run("require NaCl stays dissolved at 20 g/100g water from -15 C to 8 C");
+    assert_eq!(required.holds, Some(false));
+    let ice = row_value(&required, "ice appears on cooling below").unwrap();
+    assert_eq!(nacl.temperature_c, Some(ice));
+    // About −12.6 C for 16.7 %w/w NaCl (CRC table of freezing-point depression).
+    assert!((ice + 12.6).abs() < 0.3, "{ice}");
+    assert!(
+        screening
+            .caveats
+            .iter()
+            .any(|c| c.contains("freeze in the range"))
+    );
+    // Above the ice line (−5 C for 10 g/100g water, ice at about −5.9 C) it passes.
+    let mild = run("which salts stay dissolved at 10 g/100g water from -5 C to 8 C");
+    let nacl = mild
+        .rows
+        .iter()
+        .find(|r| r.solute.as_deref() == Some("sodium chloride"))
+        .unwrap();
+    assert_eq!(nacl.holds, Some(true));
+    // A solute whose ice line at the loading is not known is listed apart, never passing.
+    let kcl = mild
+        .rows
+        .iter()
+        .find(|r| r.solute.as_deref() == Some("potassium chloride"))
+        .unwrap();
+    assert_eq!(kcl.holds, None);
+    assert!(kcl.extra["reason"].as_str().unwrap().contains("ice"));
+}

@@ -19,12 +19,15 @@ use crate::model::{Solute, SoluteKind};
 use crate::number::round_significant;
 use crate::query::Dissolving;
 use crate::science::ScienceError;
+use crate::science::activity::relative_enthalpy::apparent_relative_enthalpy;
 use crate::science::dissolving::{
     Batch, BatchTemperature, Dissolution, HeatCapacityBasis, stops_at_saturation,
 };
 use crate::science::enthalpy::standard_heat_of_solution;
 use crate::science::freezing::IceBasis;
 
+/// 25 °C, where the tables' standard values and the integral heats apply.
+const STANDARD_K: f64 = 298.15;
 /// Water boils at 100 °C under one standard atmosphere (a brine a little higher).
 const BOILING_C: f64 = 100.0;
 /// Common practice: hot water scalds skin within seconds from about this temperature.
@@ -170,9 +173,17 @@ pub fn dissolving(snap: &Snapshot, s: &Dissolving, answer: &mut Answer) -> Resul
             span: s.solute.span,
         });
     };
-    let delta_h = standard.kj_per_mol;
     let fit = thermo.heat_capacity_of(&solute.formula);
     let (solid_g, water_g) = (s.solid.grams(), s.water.grams());
+    let molality = solid_g / solute.molar_mass / (water_g / 1000.0);
+    // The integral heat at the batch's molality where a Pitzer set gives L_φ at 25 C.
+    let models = snap.models_for(&solute.formula);
+    let integral = models.iter().find_map(|set| {
+        apparent_relative_enthalpy(set, molality, STANDARD_K)
+            .ok()
+            .map(|l| (*set, l / 1000.0))
+    });
+    let delta_h = standard.kj_per_mol + integral.map_or(0.0, |(_, l)| l);
     let to_dissolve = Batch {
         solute_g: solid_g,
         water_g,
@@ -267,7 +278,24 @@ pub fn dissolving(snap: &Snapshot, s: &Dissolving, answer: &mut Answer) -> Resul
         "kJ/mol",
     );
     h_row.phase = Some(solute.formula.clone());
+    h_row.value = Some(round_significant(standard.kj_per_mol, 3));
     answer.rows.push(h_row);
+    if let Some((set, l)) = integral {
+        let mut r = row(
+            solute,
+            "integral heat of solution",
+            round_significant(delta_h, 3),
+            "kJ/mol",
+        );
+        r.extra
+            .insert("molality".into(), json!(round_significant(molality, 3)));
+        r.extra.insert(
+            "relative_enthalpy_kj_per_mol".into(),
+            json!(round_significant(l, 3)),
+        );
+        r.extra.insert("model".into(), json!(set.key));
+        answer.rows.push(r);
+    }
     let mut cp_row = row(
         solute,
         "solution heat capacity",
@@ -289,12 +317,25 @@ pub fn dissolving(snap: &Snapshot, s: &Dissolving, answer: &mut Answer) -> Resul
     answer.caveat(
         "no heat exchanged with the surroundings (adiabatic): the vessel, the air and the stirrer take up or give off nothing, and the solid dissolves faster than heat leaks away; a real batch changes less and drifts back toward room temperature",
     );
-    let molality = solid_g / solute.molar_mass / (water_g / 1000.0);
-    answer.caveat(format!(
-        "the heat of solution is the tables' standard value ({} kJ/mol, at 25 C and infinite dilution) taken as constant; the reference holds no integral heats of solution, and at this batch's {} mol/kg the real heat per mole differs, in concentrated solutions noticeably: the temperature is an estimate",
-        round_significant(delta_h, 3),
-        round_significant(molality, 3)
-    ));
+    match integral {
+        Some((set, l)) => {
+            cite_source(snap, &set.source, answer);
+            answer.caveat(format!(
+                "the heat of solution at this batch's {} mol/kg is the integral heat ΔH°sol + L_φ = {} + {} = {} kJ/mol at 25 C, L_φ (the relative apparent molar enthalpy) from the temperature dependence of the Pitzer parameter set {}; taken as constant over the change in temperature",
+                round_significant(molality, 3),
+                round_significant(standard.kj_per_mol, 3),
+                round_significant(l, 3),
+                round_significant(delta_h, 3),
+                set.key
+            ));
+        }
+        None => answer.caveat(format!(
+            "the heat of solution is the tables' standard value ({} kJ/mol, at 25 C and infinite dilution) taken as constant; the reference holds no integral heat of solution for {} at this batch's {} mol/kg (no Pitzer set with its temperature dependence covers it), and the real heat per mole differs, in concentrated solutions noticeably: the temperature is an estimate",
+            round_significant(delta_h, 3),
+            solute.formula,
+            round_significant(molality, 3)
+        )),
+    }
     cite_records(snap, &standard.used, answer);
     cp_caveat(snap, solute, fit, &batch, answer);
     if boils {

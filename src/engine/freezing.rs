@@ -263,6 +263,27 @@ pub fn freezing(snap: &Snapshot, s: &Freezing, answer: &mut Answer) -> Result<()
     Ok(())
 }
 
+/// Where ice first forms on cooling a solution of `w` (mass fraction) of one solute, for a
+/// screening whose range starts below 0 °C: `Ok(Some((t_k, basis)))` when ice forms at `t_k` (the
+/// loading's ice line, above the eutectic), `Ok(None)` when no ice forms before the salt
+/// (a loading beyond the eutectic's), `Err(reason)` when the ice line is not known.
+pub fn ice_onset(
+    snap: &Snapshot,
+    solute: &Solute,
+    w: f64,
+    reviewed_only: bool,
+) -> Result<Option<(f64, Basis)>, String> {
+    let models = snap.models_for(&solute.formula);
+    let system = system_of(snap, solute, reviewed_only, &models);
+    if system.eutectic().is_some_and(|(we, _)| w > we + 1e-9) {
+        return Ok(None);
+    }
+    system
+        .ice_line(w)
+        .map(|ice| Some((ice.t_k, ice_basis(ice.basis))))
+        .map_err(|e| e.to_string())
+}
+
 /// The sub-zero part of `require`: for a range reaching below 0 °C, the ice line of the
 /// loading decides where the liquid stops being the loading's. Returns the temperature
 /// from which the salt's own curve must be checked (the ice line, or the range's low end

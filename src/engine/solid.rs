@@ -21,6 +21,7 @@ use crate::number::{display, round_significant};
 use crate::query::{Ceiling, Convert, HeatOfSolution, Require, Saturation, Screen, Solubility};
 use crate::science::ScienceError;
 use crate::science::formula::parse_formula;
+use crate::science::freezing::ICE_POINT;
 use crate::science::heat::heat_of_solution;
 use crate::science::solve::{self, Screening, stays_dissolved_with};
 use crate::science::units::{
@@ -103,11 +104,10 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
     // Results are ranked as compact records and turned into rows once, in rank order, so
     // a large screening moves no rows while sorting.
     // Option, so the rows can be taken out in rank order without another copy.
-    let mut ranked: Vec<Option<(&Solute, Screening, Option<f64>)>> =
-        Vec::with_capacity(snap.catalog.solutes().len());
+    let mut ranked: Vec<Option<Ranked>> = Vec::with_capacity(snap.catalog.solutes().len());
     let filters = crate::engine::filters::checked(snap, &s.filters, answer)?;
     let mut no_data: Vec<Row> = Vec::new();
-    let (mut from_memory, mut unreviewed) = (0usize, 0usize);
+    let (mut from_memory, mut unreviewed, mut frozen) = (0usize, 0usize, 0usize);
     for (index, solute) in snap.catalog.solutes().iter().enumerate() {
         if !selects(snap, solute, s.class, &filters) {
             continue;
@@ -146,8 +146,23 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
             }
             Err(e) => return Err(e),
         };
+        // Below 0 °C the loading's ice line comes first, as in `require`: where ice forms in
+        // the range the solute does not pass, and its curve is checked from the ice line up.
+        // (A solute whose curve does not reach the range is listed for that reason first;
+        // one whose ice line is not known, for that one.)
+        let (mut from, mut ice, mut ice_unknown) = (t1, None, None);
+        if t1 < ICE_POINT {
+            match crate::engine::freezing::ice_onset(snap, solute, w, s.options.reviewed_only) {
+                Ok(Some((t_ice, basis))) if t_ice > t1 => {
+                    from = t_ice.min(t2);
+                    ice = Some((t_ice, basis));
+                }
+                Ok(_) => {}
+                Err(reason) => ice_unknown = Some(reason),
+            }
+        }
         let screening =
-            match stays_dissolved_with(&built.curve, w, t1, t2, margin, s.options.extrapolate) {
+            match stays_dissolved_with(&built.curve, w, from, t2, margin, s.options.extrapolate) {
                 Ok(screening) => screening,
                 Err(ScienceError::OutOfRange { .. } | ScienceError::InGap { .. }) => {
                     let (lo, hi) = built.curve.temperature_range();
@@ -163,6 +178,12 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
                     continue;
                 }
             };
+        if let Some(reason) = ice_unknown {
+            no_data.push(missing(format!(
+                "whether ice forms in the range is not known: {reason}"
+            )));
+            continue;
+        }
         let datasets = snap.catalog.datasets();
         if built
             .datasets
@@ -191,33 +212,32 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
             answer,
         )
         .ok();
-        ranked.push(Some((solute, screening, saturated)));
+        if ice.is_some() {
+            frozen += 1;
+        }
+        ranked.push(Some(Ranked {
+            solute,
+            screening,
+            saturated,
+            ice,
+        }));
     }
     // Best headroom first, then by name; the sort is stable, so equal rows keep catalog
     // order. Only (headroom, position) pairs move while sorting.
     let mut order: Vec<(f64, &str, usize)> = ranked
         .iter()
         .enumerate()
-        .filter_map(|(i, r)| {
-            r.as_ref()
-                .map(|(solute, sc, _)| (sc.headroom_pct, solute.name.as_str(), i))
-        })
+        .filter_map(|(i, r)| r.as_ref().map(|r| (r.rank(), r.solute.name.as_str(), i)))
         .collect();
     order.sort_by(|a, b| b.0.total_cmp(&a.0).then_with(|| a.1.cmp(b.1)));
-    let held = ranked
-        .iter()
-        .flatten()
-        .filter(|(_, sc, _)| sc.holds)
-        .count();
+    let held = ranked.iter().flatten().filter(|r| r.holds()).count();
     let with_data = ranked.len();
     let no_data_count = no_data.len();
     let unit = s.loading.unit.symbol();
     answer.rows.reserve(with_data + no_data_count);
     for &(_, _, i) in &order {
-        if let Some((solute, screening, saturated)) = ranked[i].take() {
-            answer
-                .rows
-                .push(screening_row(solute, screening, saturated, unit));
+        if let Some(r) = ranked[i].take() {
+            answer.rows.push(screening_row(r, unit));
         }
     }
     answer.rows.extend(no_data);
@@ -231,6 +251,11 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
         answer.caveat(format!(
             "margin {}%: the solubility must exceed the loading by that share of its solute-to-water ratio",
             round_significant(margin * 100.0, 4)
+        ));
+    }
+    if frozen > 0 {
+        answer.caveat(format!(
+            "{frozen} of the solutes screened freeze in the range: ice forms on cooling below the temperature given, before any salt crystallises; such a product does not stay liquid"
         ));
     }
     if from_memory > 0 {
@@ -247,13 +272,52 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
     Ok(())
 }
 
-/// One ranked row of a screening.
-fn screening_row(
-    solute: &Solute,
+/// One solute's result in a screening, before ranking.
+struct Ranked<'a> {
+    solute: &'a Solute,
     screening: Screening,
     saturated: Option<f64>,
-    unit: &'static str,
-) -> Row {
+    /// Where ice forms on cooling, K, when that is inside the range, and how that is known.
+    ice: Option<(f64, Basis)>,
+}
+
+impl Ranked<'_> {
+    fn holds(&self) -> bool {
+        self.screening.holds && self.ice.is_none()
+    }
+
+    /// The ranking key: headroom, with a solute that freezes in the range below every other.
+    fn rank(&self) -> f64 {
+        if self.ice.is_some() {
+            f64::NEG_INFINITY
+        } else {
+            self.screening.headroom_pct
+        }
+    }
+}
+
+/// One ranked row of a screening.
+fn screening_row(r: Ranked, unit: &'static str) -> Row {
+    let Ranked {
+        solute,
+        screening,
+        saturated,
+        ice,
+    } = r;
+    if let Some((t_ice, basis)) = ice {
+        return Row {
+            solute: Some(solute.name.clone()),
+            quantity: Some("ice appears on cooling below".into()),
+            value: Some(celsius(t_ice)),
+            unit: Some("C".into()),
+            basis: Some(basis),
+            temperature_c: Some(celsius(t_ice)),
+            holds: Some(false),
+            headroom_pct: None,
+            extra: BTreeMap::new(),
+            phase: Some("ice".into()),
+        };
+    }
     Row {
         solute: Some(solute.name.clone()),
         quantity: Some("solubility at the limiting temperature".into()),
@@ -281,7 +345,7 @@ pub fn require(snap: &Snapshot, s: &Require, answer: &mut Answer) -> Result<(), 
     let margin = s.margin.map_or(0.0, |m| m.percent / 100.0);
     // Below 0 °C the loading's ice line comes first: the salt's curve decides from there
     // up (below it the liquid follows the ice line, down to the eutectic).
-    let (from, ice_forms) = if t1 < crate::science::freezing::ICE_POINT {
+    let (from, ice_forms) = if t1 < ICE_POINT {
         let (from, ice) = crate::engine::freezing::require_below_zero(
             snap,
             solute,

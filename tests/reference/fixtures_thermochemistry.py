@@ -102,6 +102,50 @@ def water_cp():
     return rows
 
 
+# satline Pitzer set key -> (pytzer parameter function name, cation, anion, ν_M, ν_X,
+# highest molality), for L_φ at 25 C.
+PITZER_SETS = {
+    "greenberg-moller-1989-cacl2": ("bC_Ca_Cl_GM89", "Ca", "Cl", 1, 2, 6.0),
+    "greenberg-moller-1989-kcl": ("bC_K_Cl_GM89", "K", "Cl", 1, 1, 4.8),
+    "moller-1988-nacl": ("bC_Na_Cl_M88", "Na", "Cl", 1, 1, 6.0),
+}
+R = 8.314462618
+
+
+def relative_enthalpy_models():
+    """pytzer models (the parameter functions of the papers satline stores, Clegg-Rard-Pitzer
+    A-phi) keyed by satline set, for L_φ = −R·T²·∂(G_ex/(w RT))/∂T / m by jax's autodiff."""
+    import jax
+
+    jax.config.update("jax_enable_x64", True)
+    import pytzer as pz
+    from pytzer.libraries import Library
+
+    models = {}
+    for key, (func, cat, an, nc, na, mmax) in PITZER_SETS.items():
+        lib = Library(name=key)
+        lib.update_Aphi(pz.debyehueckel.Aosm_CRP94)
+        lib.update_ca(cat, an, getattr(pz.parameters, func))
+
+        # set_library changes pytzer's one global model: set it again before each use.
+        def l_phi(m, t=298.15, lib=lib, cat=cat, an=an, nc=nc, na=na):
+            model = pz.set_library(pz, lib).model
+            g = lambda tk: model.Gibbs_nRT({cat: nc * m, an: na * m}, tk, 10.1325)
+            return float(-R * t * t * jax.grad(g)(t) / m)
+
+        models[key] = (l_phi, mmax)
+    return models
+
+
+def relative_enthalpies(models):
+    rows = []
+    for key, (l_phi, mmax) in models.items():
+        for m in [0.1, 0.5, 1.0, 2.0, 3.0, 4.0, 6.0]:
+            if m <= mmax:
+                rows.append({"set": key, "temperature_k": 298.15, "molality": m, "l_phi_j_per_mol": l_phi(m)})
+    return rows
+
+
 # Batches for the dissolving-temperature check: (formula, CAS number, grams of solid, grams
 # of water, start in C).
 BATCHES = [
@@ -112,7 +156,11 @@ BATCHES = [
 ]
 
 
-def batch_temperatures():
+# Solutes whose batch heat is the integral heat ΔH°sol + L_φ(m), by their Pitzer set.
+INTEGRAL = {"CaCl2": "greenberg-moller-1989-cacl2", "KCl": "greenberg-moller-1989-kcl"}
+
+
+def batch_temperatures(models):
     """The temperature a batch reaches with no heat exchanged, computed independently: the
     heat −n·ΔH°sol (ΔH°sol from chemicals' CRC tables, molar mass from chemicals) equals the
     integral of the solution's heat capacity (thermo's Laliberte_heat_capacity, water
@@ -122,7 +170,9 @@ def batch_temperatures():
     rows = []
     for formula, cas, solid_g, water_g, start_c in BATCHES:
         mw = molecular_weight(simple_formula_parser(formula))
-        q_j = -solid_g / mw * heats[formula] * 1000.0
+        molality = solid_g / mw / (water_g / 1000.0)
+        l_phi = models[INTEGRAL[formula]][0](molality) if formula in INTEGRAL else 0.0
+        q_j = -solid_g / mw * (heats[formula] * 1000.0 + l_phi)
         total_kg = (solid_g + water_g) / 1000.0
         w = solid_g / (solid_g + water_g)
 
@@ -136,13 +186,17 @@ def batch_temperatures():
         end_c = brentq(balance, start_c - 40.0, start_c + 75.0)
         rows.append({
             "solute": formula, "solid_g": solid_g, "water_g": water_g, "start_c": start_c,
-            "molar_mass": mw, "standard_heat_kj_per_mol": heats[formula], "end_c": end_c,
+            "molar_mass": mw, "standard_heat_kj_per_mol": heats[formula],
+            "l_phi_j_per_mol": l_phi, "end_c": end_c,
         })
     return rows
 
 
 def thermochemistry_fixtures():
+    import pytzer
+
     versions = {"chemicals": chemicals.__version__, "thermo": thermo.__version__, "iapws": iapws.__version__}
+    models = relative_enthalpy_models()
     return {
         "thermochemistry_chemicals.json": {
             "versions": versions,
@@ -157,10 +211,17 @@ def thermochemistry_fixtures():
             "water": water_cp(),
         },
         "dissolving_batches.json": {
-            "versions": {**versions, "scipy": __import__("scipy").__version__},
-            "source": "adiabatic batch temperature: -n·ΔH°sol (chemicals CRC tables) = (m_water + m_solid)·∫Cp dT with "
+            "versions": {**versions, "scipy": __import__("scipy").__version__, "pytzer": pytzer.__version__},
+            "source": "adiabatic batch temperature: -n·(ΔH°sol + L_φ(m)) (chemicals CRC tables; L_φ by pytzer for CaCl2 and KCl, "
+            "0 for the others) = (m_water + m_solid)·∫Cp dT with "
             "thermo.electrochem.Laliberte_heat_capacity (water by Laliberté's own correlation), solved by scipy.optimize.brentq",
-            "rows": batch_temperatures(),
+            "rows": batch_temperatures(models),
+        },
+        "relative_enthalpy_pytzer.json": {
+            "versions": {**versions, "pytzer": pytzer.__version__},
+            "source": "L_φ = −R·T²·∂(G_ex/(w_w RT))/∂T / m, J/mol, at 298.15 K: pytzer's Gibbs_nRT with the parameter "
+            "functions of the papers (GM89, M88) and Aosm_CRP94, differentiated by jax",
+            "rows": relative_enthalpies(models),
         },
     }
 

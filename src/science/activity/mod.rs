@@ -13,6 +13,7 @@ pub mod ice;
 pub mod ions;
 pub mod mixture;
 pub mod pitzer;
+pub mod relative_enthalpy;
 
 pub use mixture::{Activity, Coefficients, MixingSet, System, SystemSpec};
 pub use pitzer::{ParameterSet, TemperatureForm, osmotic_coefficient, water_activity};

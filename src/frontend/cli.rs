@@ -119,8 +119,8 @@ pub enum Command {
         #[command(flatten)]
         who: Who,
     },
-    /// List what awaits review, or approve or reject a dataset (or Henry's-law record or
-    /// freezing table) with a note.
+    /// List what awaits review, or approve or reject a dataset (or Henry's-law record,
+    /// freezing table or `SOLUTE/density` coefficients) with a note.
     Review {
         #[command(subcommand)]
         action: Option<ReviewAction>,

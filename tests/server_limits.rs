@@ -203,3 +203,68 @@ fn a_head_larger_than_the_cap_is_refused() {
     );
     assert!(status.contains(" 431 "), "{status}");
 }
+
+#[test]
+fn a_plot_holds_its_place_among_max_concurrent() {
+    let running = start(config(Limits {
+        concurrent: 1,
+        time: Duration::from_secs(5),
+        ..Limits::default()
+    }))
+    .expect("the server starts");
+    let body = "plot KNO3 from 0 C to 100 C";
+    let mut plot = TcpStream::connect(running.addr()).expect("connects");
+    plot.write_all(
+        format!(
+            "POST /v1/plot?format=svg HTTP/1.1\r\nHost: x\r\nConnection: close\r\nContent-Length: {}\r\n\r\n",
+            body.len()
+        )
+        .as_bytes(),
+    )
+    .expect("writes");
+    std::thread::sleep(Duration::from_millis(300));
+    // The plot's body is still awaited: its place is taken.
+    let (status, _) = status_after(
+        running.addr(),
+        "GET /v1/health HTTP/1.1\r\nHost: x\r\nConnection: close\r\n\r\n",
+    );
+    assert!(status.contains(" 503 "), "{status}");
+    plot.write_all(body.as_bytes()).expect("writes");
+    let (_, answer) = closed_after(&mut plot, Duration::from_secs(10));
+    assert!(answer.starts_with("HTTP/1.1 200 "), "{answer}");
+    let (status, _) = status_after(
+        running.addr(),
+        "GET /v1/health HTTP/1.1\r\nHost: x\r\nConnection: close\r\n\r\n",
+    );
+    assert!(status.contains(" 200 "), "{status}");
+}
+
+#[test]
+fn a_token_beyond_loopback_is_warned_to_travel_in_clear() {
+    use std::io::BufRead;
+    let dir = tempfile::tempdir().expect("a directory");
+    let token = dir.path().join("token");
+    std::fs::write(&token, "s3cret\n").expect("writes");
+    let mut child = std::process::Command::new(env!("CARGO_BIN_EXE_satline"))
+        .env_remove("SATLINE_DB")
+        .args(["serve", "--quiet", "--addr", "0.0.0.0:0", "--token-file"])
+        .arg(&token)
+        .stderr(std::process::Stdio::piped())
+        .spawn()
+        .expect("the server starts");
+    let stderr = child.stderr.take().expect("the error stream");
+    let lines: Vec<String> = std::io::BufReader::new(stderr)
+        .lines()
+        .take(3)
+        .map(|l| l.expect("a line"))
+        .collect();
+    let _ = child.kill();
+    let _ = child.wait();
+    let text = lines.join("\n");
+    assert!(text.contains("listening beyond loopback"), "{text}");
+    assert!(
+        text.contains("the write token travels in clear over plain HTTP")
+            && text.contains("TLS-terminating proxy"),
+        "{text}"
+    );
+}

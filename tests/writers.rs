@@ -191,3 +191,45 @@ fn a_plan_made_before_another_write_is_not_applied() {
     assert!(error.to_string().contains("w.db"), "{error}");
     assert_eq!(store.audit_len().unwrap(), before);
 }
+
+/// Three command lines retiring and restoring different datasets of one file at once,
+/// through the binary: every command succeeds (none says "database is locked") and every
+/// change is in the history.
+#[test]
+fn parallel_retire_and_restore_commands_never_say_locked() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = database(dir.path());
+    let ids = ["invented-p", "invented-q", "invented-r"];
+    for (i, id) in ids.iter().enumerate() {
+        import(&path, &[solute_csv(id, i + 3, 10.0)], "setup");
+    }
+    let audit_before = Store::open(&path).unwrap().audit_len().unwrap();
+    let loops: Vec<_> = ids
+        .iter()
+        .map(|id| {
+            let path = path.clone();
+            let key = format!("{id}/invented-w");
+            thread::spawn(move || {
+                for n in 0..20 {
+                    let verb = if n % 2 == 0 { "retire" } else { "restore" };
+                    let output = std::process::Command::new(env!("CARGO_BIN_EXE_satline"))
+                        .env_remove("SATLINE_DB")
+                        .args([verb, &key, "--actor", "loop", "--db"])
+                        .arg(&path)
+                        .output()
+                        .unwrap();
+                    let stderr = String::from_utf8_lossy(&output.stderr);
+                    assert!(output.status.success(), "{key} {verb} {n}: {stderr}");
+                    assert!(!stderr.contains("locked"), "{stderr}");
+                }
+            })
+        })
+        .collect();
+    for l in loops {
+        l.join().expect("a command loop failed");
+    }
+    assert_eq!(
+        Store::open(&path).unwrap().audit_len().unwrap(),
+        audit_before + 60
+    );
+}

@@ -22,6 +22,7 @@ mod gas;
 mod heat;
 pub mod mixture;
 mod per_litre;
+mod phase_plot;
 mod plot;
 mod recipe;
 mod records;
@@ -240,6 +241,34 @@ impl Engine {
                 failed
             }
         }
+    }
+
+    /// `value` of the solute named `solute` (alone in water) converted from one unit to
+    /// another, unrounded; per-litre units are per litre at `volume_t_k` through the
+    /// solution's density (Laliberté's model), refused with the reason where the reference
+    /// holds no coefficients or the solution lies outside them. For checks of the
+    /// conversions themselves; statements round their answers.
+    pub fn convert_amount(
+        &self,
+        solute: &str,
+        value: f64,
+        units: (
+            crate::science::units::CompositionUnit,
+            crate::science::units::CompositionUnit,
+        ),
+        volume_t_k: f64,
+    ) -> Result<f64, EvalError> {
+        let name = query::Name {
+            text: solute.to_string(),
+            span: query::Span::default(),
+        };
+        let solute = common::resolve(&self.snapshot, &name)?;
+        let volume = per_litre::Volume {
+            t_k: volume_t_k,
+            stated: true,
+            ..per_litre::Volume::default()
+        };
+        per_litre::convert_alone(&self.snapshot, solute, value, units, &volume)
     }
 
     /// Solute names, ids, formulas and synonyms, sorted, for completion in the REPL.

@@ -89,6 +89,21 @@ fn density_of(
     ws: &[f64],
     volume: &Volume,
 ) -> Result<f64, String> {
+    density_with(snap, solutes, ws, volume, density::solution_density)
+}
+
+/// A density function of the model: kelvin and (mass fraction, coefficients) to kg/m³.
+type DensityModel = fn(f64, &[(f64, &Coefficients)]) -> Result<f64, Refusal>;
+
+/// [`density_of`] with the model's function given: the checked one, or
+/// [`density::iterate_density`] for the iterates of a composition solve.
+fn density_with(
+    snap: &Snapshot,
+    solutes: &[&Solute],
+    ws: &[f64],
+    volume: &Volume,
+    model: DensityModel,
+) -> Result<f64, String> {
     if volume.unit_density {
         return Ok(1.0);
     }
@@ -111,7 +126,7 @@ fn density_of(
         }
     }
     let components: Vec<(f64, &Coefficients)> = ws.iter().copied().zip(sets.iter()).collect();
-    density::solution_density(volume.t_k, &components)
+    model(volume.t_k, &components)
         .map(|kg_per_m3| kg_per_m3 / 1000.0)
         .map_err(|r| reason(&r, solutes))
 }
@@ -229,26 +244,28 @@ pub fn solution<'a>(
         .map(|(_, l)| l.span)
         .unwrap_or_default()
         .to(parts.last().map(|(_, l)| l.span).unwrap_or_default());
-    let ws = density::mass_fractions(&amounts, |ws| density_of(snap, &solutes, ws, volume))
-        .map_err(|e| match e {
-            SolveRefusal::Impossible => EvalError::Unanswerable {
-                message: "these amounts add up to more solute than a solution can hold".into(),
-                span,
-            },
-            SolveRefusal::Density(why) => {
-                let (unit, span) = first_volume
-                    .map_or((CompositionUnit::GramsPerLitre, span), |(_, l)| {
-                        (l.unit, l.span)
-                    });
-                refused(unit, &why, span)
-            }
-            SolveRefusal::NoConvergence => EvalError::Unanswerable {
-                message: "the solution's density and composition could not be solved together"
-                    .into(),
-                span,
-            },
-        })?;
-    if first_volume.is_some() {
+    // The iterates may pass beyond a solute's fitted range on the way (they start from
+    // pure water's density); the composition solved is checked below.
+    let iterate = |ws: &[f64]| density_with(snap, &solutes, ws, volume, density::iterate_density);
+    let ws = density::mass_fractions(&amounts, iterate).map_err(|e| match e {
+        SolveRefusal::Impossible => EvalError::Unanswerable {
+            message: "these amounts add up to more solute than a solution can hold".into(),
+            span,
+        },
+        SolveRefusal::Density(why) => {
+            let (unit, span) = first_volume
+                .map_or((CompositionUnit::GramsPerLitre, span), |(_, l)| {
+                    (l.unit, l.span)
+                });
+            refused(unit, &why, span)
+        }
+        SolveRefusal::NoConvergence => EvalError::Unanswerable {
+            message: "the solution's density and composition could not be solved together".into(),
+            span,
+        },
+    })?;
+    if let Some((_, l)) = first_volume {
+        density_of(snap, &solutes, &ws, volume).map_err(|why| refused(l.unit, &why, l.span))?;
         note(snap, &solutes, volume, answer);
     }
     Ok(Solution {
@@ -329,4 +346,25 @@ fn amount_in(
         _ => units::from_mass_fraction(w, unit, &ctx),
     }
     .map_err(|e| unanswerable(e.to_string()))
+}
+
+/// `value` in `from` of `solute` alone in water, in `to`, unrounded: what `convert` answers
+/// before rounding. Per-litre units on either side go through the solution's density at
+/// `volume` (so a round trip through any pair of units is exact but for the density
+/// solve's own tolerance).
+pub fn convert_alone(
+    snap: &Snapshot,
+    solute: &Solute,
+    value: f64,
+    (from, to): (CompositionUnit, CompositionUnit),
+    volume: &Volume,
+) -> Result<f64, EvalError> {
+    let mut scratch = Answer::new(String::new(), crate::answer::AnswerKind::Convert);
+    let loading = Loading {
+        value,
+        unit: from,
+        span: Span::default(),
+    };
+    let solution = solution(snap, &[(solute, &loading)], volume, &mut scratch)?;
+    amount_in(snap, &solution, 0, to, Span::default(), &mut scratch)
 }

@@ -5,6 +5,7 @@
 
 use serde_json::json;
 
+use super::phase_plot::lowest_ice_temperature;
 use crate::answer::{Answer, Basis, Row};
 use crate::engine::CAUTION;
 use crate::engine::common::{
@@ -194,6 +195,15 @@ fn solids(
                 (lo.min(a), hi.max(b))
             }),
     };
+    if let (None, Some(_)) = (s.range, s.ice) {
+        // The whole diagram: down to the lowest ice line (the eutectic), up through 0 C.
+        for (solute, _) in solutes {
+            if let Some(t) = lowest_ice_temperature(snap, solute, s.options.reviewed_only) {
+                t0 = t0.min(t);
+                t1 = t1.max(273.15);
+            }
+        }
+    }
     if let (None, Some((a, b))) = (s.range, storage) {
         if a.is_finite() {
             t0 = t0.min(a);
@@ -469,6 +479,23 @@ fn solids(
                 points,
             });
         }
+        if s.ice.is_some() {
+            let colour = series.len();
+            let in_unit = |w: f64| plotted(w, unit, solute, unit_span);
+            let (line, mark, ice_rows) = super::phase_plot::ice_line(
+                snap,
+                solute,
+                s.options.reviewed_only,
+                (t0, t1),
+                colour,
+                unit,
+                &in_unit,
+                answer,
+            )?;
+            series.extend(line);
+            transitions.extend(mark);
+            rows.extend(ice_rows);
+        }
         cite_curve(snap, built, solute, answer);
         colours_of.push(colours);
     }
@@ -576,7 +603,11 @@ fn solids(
     Ok(PlotSpec {
         title: title("Solubility in water", &named),
         x_label: X_LABEL.into(),
-        y_label: format!("solubility ({}, anhydrous solute)", unit.symbol()),
+        y_label: if s.ice.is_some() {
+            format!("liquid in equilibrium ({}, anhydrous solute)", unit.symbol())
+        } else {
+            format!("solubility ({}, anhydrous solute)", unit.symbol())
+        },
         x_range: (to_celsius(t0), to_celsius(t1)),
         series,
         points: point_sets,

@@ -185,12 +185,14 @@ pub const TOPICS: &[Topic] = &[
         aliases: &["picture", "curve", "graph", "save"],
         summary: "a picture of solubility curves, sketched here or saved as SVG or PNG",
         body: "plot SOLUTE[, SOLUTE ...] [from T1 to T2] [in UNIT] \
-               [with loading LOADING [RANGE]] [margin PERCENT] [under PRESSURE] [extrapolate]\n\
+               [with loading LOADING [RANGE]] [margin PERCENT] [with ice] [under PRESSURE] \
+               [extrapolate]\n\
                Draws each solute's curve over the range (the data's range when none is \
                given): one line per solid phase, tabulated points marked by source, \
                transitions marked, extrapolated parts dashed (drawn beyond the data only \
                with `extrapolate`). `with loading` adds the loading line over its storage \
-               range and marks the limiting point. Gases are drawn at a pressure with \
+               range and marks the limiting point; `with ice` draws the whole phase \
+               diagram (ice line down to the eutectic). Gases are drawn at a pressure with \
                `under`. Here a text sketch is shown; `save FILE.svg` or `save FILE.png` \
                writes the last plot as a picture (on the command line: --out FILE).",
         examples: &[

@@ -474,6 +474,9 @@ pub struct Plot {
     pub margin: Option<Margin>,
     /// Gases only: the pressure the dissolved amount is drawn at.
     pub pressure: Option<GasPressure>,
+    /// `with ice`: the whole phase diagram, the ice line and the eutectic too (its span).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub ice: Option<Span>,
     pub options: Options,
 }
 

@@ -78,6 +78,36 @@ pub fn solution_density(t_k: f64, components: &[(f64, &Coefficients)]) -> Result
             });
         }
     }
+    within_range_density(t_k, components)
+}
+
+/// [`solution_density`] without the check of each solute's fitted range of mass fraction
+/// (the temperature's is still checked): for the iterates of a composition solve, which
+/// may pass beyond a solute's range on the way to a composition inside it. The composition
+/// solved must then be checked with [`solution_density`].
+pub fn iterate_density(t_k: f64, components: &[(f64, &Coefficients)]) -> Result<f64, Refusal> {
+    let relaxed: Vec<Coefficients> = components
+        .iter()
+        .map(|(_, c)| Coefficients { w_max: 1.0, ..**c })
+        .collect();
+    let components: Vec<(f64, &Coefficients)> = components
+        .iter()
+        .map(|(w, _)| *w)
+        .zip(relaxed.iter())
+        .collect();
+    let rho = solution_density(t_k, &components)?;
+    if rho.is_finite() && rho > 0.0 {
+        Ok(rho)
+    } else {
+        let total = components.iter().map(|(w, _)| *w).sum();
+        Err(Refusal::Composition { total })
+    }
+}
+
+/// The model's sum once the ranges are checked.
+fn within_range_density(t_k: f64, components: &[(f64, &Coefficients)]) -> Result<f64, Refusal> {
+    let t_c = t_k - 273.15;
+    let total: f64 = components.iter().map(|(w, _)| *w).sum();
     let water = 1.0 - total;
     let rho_w = water_density(t_k).map_err(Refusal::Water)?;
     let volume = water / rho_w
@@ -98,6 +128,35 @@ pub enum Amount {
     /// Grams of solute per millilitre of solution (from `g/L`, `mol/L`, `%w/v`, …): needs
     /// the solution's density.
     PerVolume(f64),
+}
+
+impl Amount {
+    /// The mass fraction given, or 0.
+    fn mass_fraction(&self) -> f64 {
+        if let Amount::MassFraction(w) = self {
+            *w
+        } else {
+            0.0
+        }
+    }
+
+    /// Grams per gram of water given, or 0.
+    fn per_water(&self) -> f64 {
+        if let Amount::PerWater(r) = self {
+            *r
+        } else {
+            0.0
+        }
+    }
+
+    /// Grams per millilitre given, or 0.
+    fn per_volume(&self) -> f64 {
+        if let Amount::PerVolume(g) = self {
+            *g
+        } else {
+            0.0
+        }
+    }
 }
 
 /// Why a composition could not be solved.
@@ -128,19 +187,9 @@ pub fn mass_fractions<E>(
     let fractions = |rho: f64| -> Result<Vec<f64>, SolveRefusal<E>> {
         let fixed: f64 = amounts
             .iter()
-            .map(|a| match a {
-                Amount::MassFraction(w) => *w,
-                Amount::PerVolume(g) => g / rho,
-                Amount::PerWater(_) => 0.0,
-            })
+            .map(|a| a.mass_fraction() + a.per_volume() / rho)
             .sum();
-        let ratio: f64 = amounts
-            .iter()
-            .map(|a| match a {
-                Amount::PerWater(r) => *r,
-                _ => 0.0,
-            })
-            .sum();
+        let ratio: f64 = amounts.iter().map(Amount::per_water).sum();
         let water = (1.0 - fixed) / (1.0 + ratio);
         if !(water.is_finite() && water > 0.0) {
             return Err(SolveRefusal::Impossible);
@@ -157,11 +206,28 @@ pub fn mass_fractions<E>(
     if !per_volume {
         return fractions(1.0);
     }
+    // Some water is left only while Σγ/ρ < 1 − Σw (mass fractions given): ρ must exceed
+    // `floor`. A dense solution's iterates start above it, not at pure water's density
+    // (where a concentrated per-litre amount would leave no water at all).
+    let fixed: f64 = amounts.iter().map(Amount::mass_fraction).sum();
+    let per_volume: f64 = amounts.iter().map(Amount::per_volume).sum();
+    if !fixed.is_finite() || fixed >= 1.0 {
+        return Err(SolveRefusal::Impossible);
+    }
+    let floor = per_volume / (1.0 - fixed) * (1.0 + 1.0e-9);
     let zeros = vec![0.0; amounts.len()];
-    let mut rho = density(&zeros).map_err(SolveRefusal::Density)?;
+    let mut rho = density(&zeros).map_err(SolveRefusal::Density)?.max(floor);
     for _ in 0..200 {
         let ws = fractions(rho)?;
         let next = density(&ws).map_err(SolveRefusal::Density)?;
+        if next <= floor {
+            // Denser than the amounts allow is what it would have to be, and is not.
+            if rho <= floor {
+                return Err(SolveRefusal::Impossible);
+            }
+            rho = floor;
+            continue;
+        }
         if (next - rho).abs() <= 1.0e-13 * rho {
             return fractions(next);
         }
@@ -222,6 +288,21 @@ mod tests {
             solution_density(293.15, &[(1.2, &NACL)]),
             Err(Refusal::Composition { .. })
         ));
+    }
+
+    #[test]
+    fn a_dense_solution_is_solved_from_above_the_density_its_amounts_need() {
+        // ρ = 1 + 0.9·w (g/mL), 1.2 g/mL of solute: ρ² − ρ − 1.08 = 0, ρ = 1.6533,
+        // w = 1.2/ρ = 0.7258. From pure water's 1.0 the first iterate would hold no water.
+        let ws =
+            mass_fractions::<()>(&[Amount::PerVolume(1.2)], |ws| Ok(1.0 + 0.9 * ws[0])).unwrap();
+        let rho = (1.0 + (1.0f64 + 4.32).sqrt()) / 2.0;
+        assert!((ws[0] - 1.2 / rho).abs() < 1e-9, "{ws:?}");
+        // A solution that would have to be denser than it is: refused as impossible.
+        assert_eq!(
+            mass_fractions::<()>(&[Amount::PerVolume(1.5)], |_| Ok(1.0)),
+            Err(SolveRefusal::Impossible)
+        );
     }
 
     #[test]

@@ -1,5 +1,5 @@
 //! Model parameter files: `seed-data/models/*.toml`, the published parameter sets of the
-//! activity model (format in `seed-data/README.md`, "Model parameters"). They are compiled
+//! activity model (single electrolytes, mixing θ and ψ, and the systems joining them) (format in `seed-data/README.md`, "Model parameters"). They are compiled
 //! into the binary with the seed and read when an engine is built; the database does not
 //! hold them.
 
@@ -8,7 +8,7 @@ use std::collections::HashSet;
 use serde::Deserialize;
 
 use super::StoreError;
-use crate::science::activity::ParameterSet;
+use crate::science::activity::{MixingSet, ParameterSet, System, SystemSpec};
 use crate::science::formula::parse_formula;
 
 #[derive(Deserialize)]
@@ -16,6 +16,10 @@ use crate::science::formula::parse_formula;
 struct ModelFile {
     #[serde(default)]
     set: Vec<ParameterSet>,
+    #[serde(default)]
+    mixing: Vec<MixingSet>,
+    #[serde(default)]
+    system: Vec<SystemSpec>,
 }
 
 fn bad(file: &str, record: impl Into<String>, problem: impl Into<String>) -> StoreError {
@@ -26,15 +30,11 @@ fn bad(file: &str, record: impl Into<String>, problem: impl Into<String>) -> Sto
     }
 }
 
-/// Every Pitzer parameter set in the `models/` files among `files` ((path relative to
-/// `seed-data/`, contents) pairs, as [`crate::seed_files::SEED_FILES`]), validated: each
-/// cites a source of `sources.toml`, names an electrolyte by a formula, has a temperature
-/// range low to high, a positive molality limit, charges and counts of at least 1, a
-/// provenance of `compiled`, `measured` or `from-memory`, and a key used once.
-pub fn parameter_sets<P: AsRef<str>, C: AsRef<str>>(
+/// The keys of `sources.toml` among `files`.
+fn source_keys<P: AsRef<str>, C: AsRef<str>>(
     files: &[(P, C)],
-) -> Result<Vec<ParameterSet>, StoreError> {
-    let mut source_keys: HashSet<String> = HashSet::new();
+) -> Result<HashSet<String>, StoreError> {
+    let mut keys: HashSet<String> = HashSet::new();
     for (path, text) in files {
         if path.as_ref() == "sources.toml" {
             let value: toml::Value = toml::from_str(text.as_ref())
@@ -46,12 +46,19 @@ pub fn parameter_sets<P: AsRef<str>, C: AsRef<str>>(
                 .flatten()
             {
                 if let Some(k) = s.get("key").and_then(|k| k.as_str()) {
-                    source_keys.insert(k.to_string());
+                    keys.insert(k.to_string());
                 }
             }
         }
     }
-    let mut sets: Vec<ParameterSet> = Vec::new();
+    Ok(keys)
+}
+
+/// Every model file among `files`, parsed, with its path.
+fn model_files<P: AsRef<str>, C: AsRef<str>>(
+    files: &[(P, C)],
+) -> Result<Vec<(&str, ModelFile)>, StoreError> {
+    let mut out = Vec::new();
     for (path, text) in files {
         let path = path.as_ref();
         if !path.starts_with("models/") {
@@ -59,28 +66,124 @@ pub fn parameter_sets<P: AsRef<str>, C: AsRef<str>>(
         }
         let file: ModelFile =
             toml::from_str(text.as_ref()).map_err(|e| bad(path, "whole file", e.to_string()))?;
+        out.push((path, file));
+    }
+    Ok(out)
+}
+
+/// The checks every record of a model file passes: a known source, a provenance of
+/// `compiled`, `measured` or `from-memory`, no `reviewed`, a temperature range low to high.
+fn check_record(
+    sources: &HashSet<String>,
+    path: &str,
+    record: &str,
+    (source, provenance, review): (&str, &str, &str),
+    (t_min_k, t_max_k): (f64, f64),
+) -> Result<(), StoreError> {
+    if !sources.contains(source) {
+        return Err(bad(
+            path,
+            record,
+            format!("source \"{source}\" is not in sources.toml"),
+        ));
+    }
+    if !["compiled", "measured", "from-memory"].contains(&provenance) {
+        return Err(bad(
+            path,
+            record,
+            "provenance must be compiled, measured or from-memory",
+        ));
+    }
+    if review == "reviewed" {
+        return Err(bad(
+            path,
+            record,
+            "review \"reviewed\" is given only by a person checking the paper",
+        ));
+    }
+    let range_ok =
+        t_min_k.is_finite() && t_max_k.is_finite() && t_min_k > 0.0 && t_min_k <= t_max_k;
+    if !range_ok {
+        return Err(bad(
+            path,
+            record,
+            "t_min_k must be positive and at most t_max_k",
+        ));
+    }
+    Ok(())
+}
+
+/// Every mixture system of the `models/` files among `files`, resolved against the
+/// single-electrolyte sets and mixing parameters of all model files: each mixing parameter
+/// passes the checks of [`parameter_sets`] (a source, a provenance, a range, a key used once),
+/// and each system cites a source and joins sets that fit (see
+/// [`System::build`](crate::science::activity::System::build)).
+pub fn mixture_systems<P: AsRef<str>, C: AsRef<str>>(
+    files: &[(P, C)],
+) -> Result<Vec<System>, StoreError> {
+    let sets = parameter_sets(files)?;
+    let sources = source_keys(files)?;
+    let parsed = model_files(files)?;
+    let mut mixing: Vec<MixingSet> = Vec::new();
+    for (path, file) in &parsed {
+        for m in &file.mixing {
+            let record = format!("mixing \"{}\"", m.key);
+            check_record(
+                &sources,
+                path,
+                &record,
+                (&m.source, &m.provenance, &m.review),
+                (m.t_min_k, m.t_max_k),
+            )?;
+            if mixing.iter().any(|x| x.key == m.key) || sets.iter().any(|x| x.key == m.key) {
+                return Err(bad(path, record, "key used twice"));
+            }
+            mixing.push(m.clone());
+        }
+    }
+    let mut systems: Vec<System> = Vec::new();
+    for (path, file) in &parsed {
+        for spec in &file.system {
+            let record = format!("system \"{}\"", spec.key);
+            if !sources.contains(&spec.source) {
+                return Err(bad(
+                    path,
+                    record,
+                    format!("source \"{}\" is not in sources.toml", spec.source),
+                ));
+            }
+            if systems.iter().any(|s| s.key == spec.key) {
+                return Err(bad(path, record, "key used twice"));
+            }
+            let system = System::build(spec, &sets, &mixing).map_err(|e| bad(path, &record, e))?;
+            systems.push(system);
+        }
+    }
+    Ok(systems)
+}
+
+/// Every Pitzer parameter set in the `models/` files among `files` ((path relative to
+/// `seed-data/`, contents) pairs, as [`crate::seed_files::SEED_FILES`]), validated: each
+/// cites a source of `sources.toml`, names an electrolyte by a formula, has a temperature
+/// range low to high, a positive molality limit, charges and counts of at least 1, a
+/// provenance of `compiled`, `measured` or `from-memory`, and a key used once.
+pub fn parameter_sets<P: AsRef<str>, C: AsRef<str>>(
+    files: &[(P, C)],
+) -> Result<Vec<ParameterSet>, StoreError> {
+    let source_keys = source_keys(files)?;
+    let mut sets: Vec<ParameterSet> = Vec::new();
+    for (path, file) in model_files(files)? {
         for set in file.set {
             let record = format!("set \"{}\"", set.key);
-            if !source_keys.contains(&set.source) {
-                return Err(bad(
-                    path,
-                    record,
-                    format!("source \"{}\" is not in sources.toml", set.source),
-                ));
-            }
+            check_record(
+                &source_keys,
+                path,
+                &record,
+                (&set.source, &set.provenance, &set.review),
+                (set.t_min_k, set.t_max_k),
+            )?;
             parse_formula(&set.electrolyte)
                 .map_err(|e| bad(path, &record, format!("electrolyte: {e}")))?;
-            let range_ok = set.t_min_k.is_finite()
-                && set.t_max_k.is_finite()
-                && set.t_min_k > 0.0
-                && set.t_min_k <= set.t_max_k;
-            if !range_ok {
-                return Err(bad(
-                    path,
-                    record,
-                    "t_min_k must be positive and at most t_max_k",
-                ));
-            }
             if !(set.molality_max.is_finite() && set.molality_max > 0.0) {
                 return Err(bad(path, record, "molality_max must be positive"));
             }
@@ -93,20 +196,6 @@ pub fn parameter_sets<P: AsRef<str>, C: AsRef<str>>(
             .contains(&0)
             {
                 return Err(bad(path, record, "charges and counts must be at least 1"));
-            }
-            if !["compiled", "measured", "from-memory"].contains(&set.provenance.as_str()) {
-                return Err(bad(
-                    path,
-                    record,
-                    "provenance must be compiled, measured or from-memory",
-                ));
-            }
-            if set.review == "reviewed" {
-                return Err(bad(
-                    path,
-                    record,
-                    "review \"reviewed\" is given only by a person checking the paper",
-                ));
             }
             if sets.iter().any(|s| s.key == set.key) {
                 return Err(bad(path, record, "key used twice"));
@@ -129,6 +218,32 @@ mod tests {
                 .any(|s| s.key == "spencer-moller-weare-1990-mgcl2")
         );
         assert!(sets.len() >= 10);
+        let systems = mixture_systems(crate::seed_files::SEED_FILES).unwrap();
+        let hmw = systems
+            .iter()
+            .find(|s| s.key == "harvie-moller-weare-1984")
+            .unwrap();
+        assert_eq!(hmw.ions.len(), 6);
+        assert!(hmw.covers(298.15) && !hmw.covers(273.15));
+        let gm = systems
+            .iter()
+            .find(|s| s.key == "greenberg-moller-1989-na-k-cl")
+            .unwrap();
+        // The sets hold to 523.15 K; A-phi (Clegg, Rard & Pitzer 1994) to 373.15 K.
+        assert_eq!((gm.t_min_k, gm.t_max_k), (273.15, 373.15));
+    }
+
+    #[test]
+    fn a_system_naming_a_missing_set_is_refused() {
+        let files = [
+            ("sources.toml", "[[source]]\nkey = \"a\"\n"),
+            (
+                "models/y.toml",
+                "[[system]]\nkey = \"s\"\nname = \"S\"\nsource = \"a\"\nionic_strength_max = 6.0\nsets = [\"nope\"]\nmixing = []\n",
+            ),
+        ];
+        let e = mixture_systems(&files).unwrap_err().to_string();
+        assert!(e.contains("system \"s\"") && e.contains("\"nope\""), "{e}");
     }
 
     #[test]

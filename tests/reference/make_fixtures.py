@@ -127,6 +127,7 @@ def main():
             json.dump(data, f, indent=1, ensure_ascii=False)
             f.write("\n")
     __import__("fixtures_phase").write(HERE)  # phase diagram: pytzer, CoolProp
+    __import__("fixtures_mixtures").write(HERE)  # mixed electrolytes: pytzer
     fixtures_corroboration.write_checks()
     __import__("fixtures_thermochemistry").write_all()
 

@@ -540,6 +540,7 @@ pub(super) fn plot<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     let mut loading: Option<PlotLoading> = None;
     let mut margin_clause = None;
     let mut pressure = None;
+    let mut ice = None;
     let mut options = Options::default();
     loop {
         let t = skip(rest);
@@ -556,11 +557,20 @@ pub(super) fn plot<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
                 unit = Some(u);
                 rest = r;
             }
+            "with" if has_keyword(after, "ice").is_some() => {
+                if ice.is_some() {
+                    return Err(duplicate(cx, t, after, "with ice"));
+                }
+                let r = has_keyword(after, "ice").unwrap_or(after);
+                let r = has_keyword(r, "line").unwrap_or(r);
+                ice = Some(cx.span(t, r));
+                rest = r;
+            }
             "with" => {
                 if loading.is_some() {
                     return Err(duplicate(cx, t, after, "with loading"));
                 }
-                let (r, _) = expect(cx, after, &["loading"])?;
+                let (r, _) = expect(cx, after, &["loading", "ice"])?;
                 let (r, amount) = committed_loading(cx, r)?;
                 let at = skip(r);
                 let (r, temperatures) = if ["at", "from", "over"]
@@ -654,6 +664,7 @@ pub(super) fn plot<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
             loading,
             margin: margin_clause,
             pressure,
+            ice,
             options,
         }),
     ))

@@ -1,14 +1,19 @@
 //! Activity of water in electrolyte solutions: the Debye–Hückel limiting slope A_φ(T), the
 //! Pitzer osmotic coefficient of a single electrolyte with its parameters' temperature
 //! dependence ([`pitzer`]), and the ice–water equilibrium that turns a water activity into
-//! a freezing point ([`ice`]). Parameter sets are data ([`ParameterSet`]), read from
-//! `seed-data/models/`; this module only computes.
+//! a freezing point ([`ice`]); Pitzer's equations for mixtures of electrolytes, with mixing
+//! parameters θ and ψ and the unsymmetrical terms ([`mixture`], ions by symbol in
+//! [`ions`]). Parameter sets are data ([`ParameterSet`], [`MixingSet`], [`SystemSpec`]),
+//! read from `seed-data/models/`; this module only computes.
 //!
 //! Units: temperatures in K, molality in mol/kg water.
 
 pub mod debye_huckel;
 pub mod ice;
+pub mod ions;
+pub mod mixture;
 pub mod pitzer;
 pub mod relative_enthalpy;
 
+pub use mixture::{Activity, Coefficients, MixingSet, System, SystemSpec};
 pub use pitzer::{ParameterSet, TemperatureForm, osmotic_coefficient, water_activity};

@@ -85,6 +85,11 @@ fn main() -> ExitCode {
             ))
         }
         Some(Command::Repl) => exit(frontend::repl::run(db)),
+        Some(Command::Help { topic }) => exit(frontend::help_command::run(
+            &topic,
+            &mut io::stdout().lock(),
+            &mut io::stderr(),
+        )),
         Some(Command::Serve(args)) => serve(db, args),
         Some(command) => {
             let mut out = io::stdout().lock();

@@ -170,3 +170,23 @@ fn history_persists_across_sessions() {
     second.exp_string("satline> ").unwrap();
     leave(second);
 }
+
+/// Statements as arguments on a terminal: an error appears once, as the block with its
+/// position, not also as a `file:line:column` line on the error stream.
+#[test]
+fn an_error_on_a_terminal_appears_once() {
+    let mut command = Command::new(env!("CARGO_BIN_EXE_satline"));
+    command
+        .args([
+            "solubility of KNO3 at 20 C",
+            "solubility of Kryptonite at 20 C",
+        ])
+        .env("TERM", "xterm")
+        .env("NO_COLOR", "1")
+        .env_remove("SATLINE_DB");
+    let options = Options::new().timeout_ms(Some(TIMEOUT_MS));
+    let mut session = spawn_with_options(command, options).unwrap();
+    let seen = session.exp_eof().unwrap();
+    assert!(seen.contains("line 2, column"), "{seen}");
+    assert!(!seen.contains("<arguments>:2:"), "{seen}");
+}

@@ -14,10 +14,11 @@ use satline::science::units::{
 };
 
 /// Knots with positive spacing and monotone values (non-decreasing, or non-increasing when
-/// `falling`), including flat steps.
+/// `falling`), including flat steps. At most 13 steps of at most 0.05 from at most 0.3: the
+/// values stay below 0.96, so that a test adding 0.01 still has mass fractions below 1.
 fn monotone_data() -> impl Strategy<Value = (Vec<f64>, Vec<f64>)> {
     (
-        prop::collection::vec((0.1f64..30.0, prop_oneof![Just(0.0), 0.0f64..0.1]), 2..14),
+        prop::collection::vec((0.1f64..30.0, prop_oneof![Just(0.0), 0.0f64..0.05]), 2..14),
         0.0f64..0.3,
         any::<bool>(),
     )

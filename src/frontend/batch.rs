@@ -132,6 +132,29 @@ pub fn run(
     out: &mut impl Write,
     err: &mut impl Write,
 ) -> Outcome {
+    run_showing(
+        db,
+        recipes,
+        sources,
+        format,
+        pictures,
+        (stdin, out, err),
+        false,
+    )
+}
+
+/// [`run`]; with `errors_in_place`, a statement that could not be parsed or answered is not
+/// also reported on the error stream, because the answers (a table on a terminal) show it
+/// in place with its position: on a terminal an error appears once.
+pub fn run_showing(
+    db: Option<&Path>,
+    recipes: &[PathBuf],
+    sources: &[ScriptSource],
+    format: Format,
+    pictures: &Pictures,
+    (stdin, out, err): (&mut impl Read, &mut impl Write, &mut impl Write),
+    errors_in_place: bool,
+) -> Outcome {
     let recipe_sources: Vec<ScriptSource> =
         recipes.iter().cloned().map(ScriptSource::File).collect();
     let (recipe_files, mut failures) = read_scripts(&recipe_sources, stdin);
@@ -171,7 +194,26 @@ pub fn run(
         return Outcome::Unanswered;
     }
     let printer = Printer::new(out, format);
-    run_in_session((&engine, &mut session), &scripts, pictures, printer, err)
+    let errors = if errors_in_place {
+        Errors::InPlace
+    } else {
+        Errors::Reported
+    };
+    run_in_session(
+        (&engine, &mut session),
+        &scripts,
+        pictures,
+        printer,
+        (err, errors),
+    )
+}
+
+/// Whether a statement's error goes to the error stream too, or only where the answers show
+/// it.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum Errors {
+    Reported,
+    InPlace,
 }
 
 /// A batch run over the process's standard streams.
@@ -189,16 +231,16 @@ pub fn run_std(
     let mut stderr = stderr.lock();
     if stdout.is_terminal() {
         // A person is reading: each answer appears as it is ready, in step with the
-        // messages on the error stream (standard output is line-buffered).
-        run(
+        // messages on the error stream (standard output is line-buffered). A table shows a
+        // statement's error in place, with its position: it is not repeated on stderr.
+        run_showing(
             db,
             recipes,
             sources,
             format,
             pictures,
-            &mut stdin,
-            &mut stdout.lock(),
-            &mut stderr,
+            (&mut stdin, &mut stdout.lock(), &mut stderr),
+            format == Format::Table,
         )
     } else {
         // A program is reading: answers are many small writes, and a buffer keeps a long
@@ -248,7 +290,13 @@ pub fn run_scripts(
 ) -> Outcome {
     let mut session = engine.session();
     let printer = Printer::new(out, format);
-    run_in_session((engine, &mut session), scripts, pictures, printer, err)
+    run_in_session(
+        (engine, &mut session),
+        scripts,
+        pictures,
+        printer,
+        (err, Errors::Reported),
+    )
 }
 
 /// [`run_scripts`] in a session already holding names (the recipes of recipe files),
@@ -258,7 +306,7 @@ fn run_in_session<W: Write>(
     scripts: &[Script],
     pictures: &Pictures,
     mut printer: Printer<W>,
-    err: &mut impl Write,
+    (err, errors): (&mut impl Write, Errors),
 ) -> Outcome {
     let mut outcome = Outcome::Success;
     let mut plots = 0;
@@ -280,7 +328,9 @@ fn run_in_session<W: Write>(
             let answer = &answer;
             let position = Some(prepared.line_column(answer.span.0));
             if let Some(problem) = judge(&script.name, position, answer) {
-                report(err, &problem.message);
+                if answer.ok || errors == Errors::Reported {
+                    report(err, &problem.message);
+                }
                 outcome = outcome.worst(problem.outcome);
             }
             match printer.print(answer, &script.text) {

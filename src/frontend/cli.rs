@@ -22,7 +22,10 @@ use crate::store::sources::SourceFields;
     name = "satline",
     version,
     about,
-    subcommand_precedence_over_arg = true
+    subcommand_precedence_over_arg = true,
+    disable_help_subcommand = true,
+    after_long_help = LANGUAGE_GUIDE,
+    after_help = LANGUAGE_GUIDE
 )]
 pub struct Cli {
     /// The database file to use [default: the embedded database built from the seed data].
@@ -56,6 +59,11 @@ pub struct Cli {
     /// several separated by `;`).
     pub statements: Vec<String>,
 }
+
+/// Where `--help` points for the statements themselves.
+pub const LANGUAGE_GUIDE: &str = "The statements: `satline help` lists the topics of the query language,\n\
+`satline help TOPIC` shows one (`satline help require`); the whole language\n\
+guide is grammar/README.md in satline's source.\n";
 
 /// Where the pictures of `plot` statements go (for statements and `run`).
 #[derive(Debug, Clone, clap::Args)]
@@ -119,8 +127,8 @@ pub enum Command {
         #[command(flatten)]
         who: Who,
     },
-    /// List what awaits review, or approve or reject a dataset (or Henry's-law record or
-    /// freezing table) with a note.
+    /// List what awaits review, or approve or reject a dataset (or Henry's-law record,
+    /// freezing table or `SOLUTE/density` coefficients) with a note.
     Review {
         #[command(subcommand)]
         action: Option<ReviewAction>,
@@ -177,6 +185,13 @@ pub enum Command {
     },
     /// List the solutes.
     Solutes,
+    /// Help on a statement of the query language or on a command: `satline help` lists
+    /// both, `satline help require` or `satline help import` shows one.
+    Help {
+        /// A topic of the language (`solubility`, `require`, `units` …) or a command name.
+        #[arg(value_name = "TOPIC")]
+        topic: Vec<String>,
+    },
     /// Serve the query language and the catalog as HTTP JSON under /v1 (loopback by
     /// default; read-only unless a token file is given). Stops on Ctrl-C or SIGTERM.
     Serve(ServeArgs),

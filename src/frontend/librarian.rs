@@ -271,7 +271,7 @@ pub fn run(
                 crate::catalog::citation(&source)
             )?;
         }
-        Command::Run { .. } | Command::Repl | Command::Serve(_) => {}
+        Command::Run { .. } | Command::Repl | Command::Serve(_) | Command::Help { .. } => {}
     }
     out.flush()?;
     Ok(())

@@ -9,6 +9,7 @@ pub mod cli;
 pub mod command;
 pub mod complete;
 pub mod help;
+pub mod help_command;
 pub mod librarian;
 pub mod picture;
 pub mod progress;

@@ -59,11 +59,13 @@ pub(crate) fn record(
 }
 
 /// Every audit row about the solute `id` (the solute itself, its datasets, Henry's-law
-/// records and freezing data, and the sources they cite), oldest first.
+/// records, freezing data and density coefficients, and the sources they cite), oldest
+/// first.
 pub(crate) fn history(conn: &Connection, id: &str) -> Result<Vec<AuditEntry>, StoreError> {
     let mut stmt = conn.prepare_cached(
         "SELECT id, time, actor, action, entity, before, after FROM audit
          WHERE entity = 'solute:' || ?1
+            OR entity = 'density:' || ?1
             OR substr(entity, 1, length(?1) + 9) = 'dataset:' || ?1 || '/'
             OR substr(entity, 1, length(?1) + 7) = 'henry:' || ?1 || '/'
             OR substr(entity, 1, length(?1) + 10) = 'freezing:' || ?1 || '/'

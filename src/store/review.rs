@@ -9,10 +9,11 @@ use serde::Serialize;
 use super::{Store, StoreError, audit, lock};
 use crate::model::Review;
 
-/// A record waiting for review: a dataset, a Henry's-law record or freezing data.
+/// A record waiting for review: a dataset, a Henry's-law record, freezing data or a set of
+/// density coefficients (keyed `<solute>/density`).
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Unreviewed {
-    /// `dataset`, `henry` or `freezing`.
+    /// `dataset`, `henry`, `freezing` or `density`.
     pub kind: &'static str,
     pub key: String,
     pub solute: String,
@@ -38,6 +39,11 @@ pub fn write_unreviewed(list: &[Unreviewed], out: &mut dyn std::io::Write) -> st
             "henry" => writeln!(
                 out,
                 "  {}  Henry's-law record, source {}, {}",
+                u.key, u.source, u.provenance
+            )?,
+            "density" => writeln!(
+                out,
+                "  {}  density coefficients, source {}, {}",
                 u.key, u.source, u.provenance
             )?,
             _ => writeln!(
@@ -79,6 +85,10 @@ impl Store {
              SELECT 2, f.key, f.solute, f.source, '-', f.provenance,
                     (SELECT COUNT(*) FROM freezing_points WHERE freezing = f.key)
              FROM freezing f WHERE f.review = 'unreviewed'
+             UNION ALL
+             SELECT 3, solute || '/density', solute, source, '-', provenance,
+                    COALESCE(points, 0)
+             FROM density_coefficients WHERE review = 'unreviewed'
              ORDER BY 1, 2",
         )?;
         let rows = stmt.query_map([], |r| {
@@ -86,7 +96,8 @@ impl Store {
                 kind: match r.get::<_, i64>(0)? {
                     0 => "dataset",
                     1 => "henry",
-                    _ => "freezing",
+                    2 => "freezing",
+                    _ => "density",
                 },
                 key: r.get(1)?,
                 solute: r.get(2)?,
@@ -99,8 +110,9 @@ impl Store {
         Ok(rows.collect::<Result<_, _>>()?)
     }
 
-    /// Approves (reviewed) or rejects a dataset, Henry's-law record or freezing table (looked
-    /// up by key in that order), with the reviewer's note.
+    /// Approves (reviewed) or rejects a dataset, Henry's-law record, freezing table or set of
+    /// density coefficients (`<solute>/density`), looked up by key in that order, with the
+    /// reviewer's note.
     pub fn review(
         &mut self,
         key: &str,
@@ -111,24 +123,25 @@ impl Store {
         let tx = lock::begin_write(&self.conn, &self.location)?;
         // Fixed table names, never text from the user.
         let mut found = None;
-        for (table, kind) in [
-            ("datasets", "dataset"),
-            ("gas_constants", "henry"),
-            ("freezing", "freezing"),
+        for (table, key_of, kind) in [
+            ("datasets", "key", "dataset"),
+            ("gas_constants", "key", "henry"),
+            ("freezing", "key", "freezing"),
+            ("density_coefficients", "solute || '/density'", "density"),
         ] {
             let state: Option<String> = tx
                 .query_row(
-                    &format!("SELECT review FROM {table} WHERE key = ?1"),
+                    &format!("SELECT review FROM {table} WHERE {key_of} = ?1"),
                     params![key],
                     |r| r.get(0),
                 )
                 .optional()?;
             if let Some(state) = state {
-                found = Some((table, kind, state));
+                found = Some((table, key_of, kind, state));
                 break;
             }
         }
-        let (table, kind, before) = found.ok_or_else(|| StoreError::UnknownDataset {
+        let (table, key_of, kind, before) = found.ok_or_else(|| StoreError::UnknownDataset {
             key: key.to_string(),
         })?;
         let (after, action) = match decision {
@@ -141,14 +154,18 @@ impl Store {
             });
         }
         tx.execute(
-            &format!("UPDATE {table} SET review = ?1 WHERE key = ?2"),
+            &format!("UPDATE {table} SET review = ?1 WHERE {key_of} = ?2"),
             params![after.as_str(), key],
         )?;
         audit::record(
             &tx,
             actor,
             action,
-            &format!("{kind}:{key}"),
+            // Density coefficients are one set per solute, audited as `density:<solute>`.
+            &match key.strip_suffix("/density") {
+                Some(solute) if kind == "density" => format!("density:{solute}"),
+                _ => format!("{kind}:{key}"),
+            },
             Some(&serde_json::json!({ "review": before })),
             Some(&serde_json::json!({ "review": after.as_str(), "note": note })),
         )?;
@@ -229,6 +246,48 @@ mod tests {
             ])
             .unwrap();
         store
+    }
+
+    // Invented demo coefficients, not reference values.
+    const DENSITY: &str = "[[density]]\nsolute = \"demo-salt\"\nsource = \"demo\"\nc0 = 1.0\nc1 = 2.0\nc2 = 3.0\nc3 = 0.1\nc4 = 100.0\nt_min = 0\nt_max = 80\nw_max = 0.3\nprovenance = \"derived\"\nreview = \"unreviewed\"\n";
+
+    #[test]
+    fn density_coefficients_are_reviewed_like_data() {
+        let mut s = Store::open_in_memory().unwrap();
+        s.load_seed(&[
+            ("sources.toml", SOURCES),
+            ("solutes/demo-salt.toml", SOLUTE),
+            ("densities.toml", DENSITY),
+        ])
+        .unwrap();
+        let waiting = s.unreviewed().unwrap();
+        let keys: Vec<(&str, &str)> = waiting.iter().map(|u| (u.kind, u.key.as_str())).collect();
+        assert_eq!(
+            keys,
+            [("dataset", "demo-salt/d"), ("density", "demo-salt/density")]
+        );
+        s.review(
+            "demo-salt/density",
+            Decision::Reject,
+            "not the printed figures",
+            "t",
+        )
+        .unwrap();
+        assert_eq!(s.unreviewed().unwrap().len(), 1);
+        let again = s
+            .review("demo-salt/density", Decision::Reject, "n", "t")
+            .unwrap_err();
+        assert!(matches!(again, StoreError::NoChange { .. }), "{again}");
+        let (_, history) = s.history("demo-salt").unwrap();
+        assert!(
+            history
+                .iter()
+                .any(|e| e.entity == "density:demo-salt" && e.action == "reject")
+        );
+        let mut listed = Vec::new();
+        write_unreviewed(&waiting, &mut listed).unwrap();
+        let listed = String::from_utf8(listed).unwrap();
+        assert!(listed.contains("demo-salt/density  density coefficients, source demo, derived"));
     }
 
     #[test]

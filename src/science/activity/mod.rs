@@ -3,7 +3,7 @@
 //! dependence ([`pitzer`]), and the ice–water equilibrium that turns a water activity into
 //! a freezing point ([`ice`]); Pitzer's equations for mixtures of electrolytes, with mixing
 //! parameters θ and ψ and the unsymmetrical terms ([`mixture`], ions by symbol in
-//! [`ions`]). Parameter sets are data ([`ParameterSet`], [`MixingSet`], [`SystemSpec`]),
+//! [`ions`]), and a salt's saturation in a mixture from its own solubility ([`saturation`]). Parameter sets are data ([`ParameterSet`], [`MixingSet`], [`SystemSpec`]),
 //! read from `seed-data/models/`; this module only computes.
 //!
 //! Units: temperatures in K, molality in mol/kg water.
@@ -14,6 +14,7 @@ pub mod ions;
 pub mod mixture;
 pub mod pitzer;
 pub mod relative_enthalpy;
+pub mod saturation;
 
 pub use mixture::{Activity, Coefficients, MixingSet, System, SystemSpec};
 pub use pitzer::{ParameterSet, TemperatureForm, osmotic_coefficient, water_activity};

@@ -178,45 +178,121 @@ pub struct Dataset {
 }
 
 /// How a Henry's-law record expresses the gas's solubility and its temperature dependence.
+/// In JSON (and the seed format) the `form` field names it: `vant-hoff`, or a fit's
+/// quantity (`mole-fraction-fit`, `molality-fit`) beside the fit's terms.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
-#[serde(tag = "form", rename_all = "kebab-case")]
+#[serde(into = "LawForm", from = "LawForm")]
 pub enum GasLaw {
-    /// A Henry's-law constant at a reference temperature, in the named convention, with the
-    /// van 't Hoff temperature dependence `d ln H / d(1/T)` in kelvin (for the Hcp convention;
-    /// the science module converts).
-    VantHoff {
-        /// Convention and unit of `value`, e.g. `Hcp mol/(m3 Pa)`.
-        convention: String,
-        value: f64,
-        reference_temperature_k: f64,
-        /// `d ln Hcp / d(1/T)`, K. Positive for gases whose solubility falls as T rises.
-        temperature_term_k: f64,
-    },
-    /// Mole fraction of dissolved gas at a gas partial pressure of `reference_pressure_pa`:
-    /// `ln x = a + b/τ + c ln τ + d τ` with `τ = T / scale_k`.
-    MoleFractionFit {
-        a: f64,
-        b: f64,
-        c: f64,
-        d: f64,
-        scale_k: f64,
-        reference_pressure_pa: f64,
-        t_min_k: f64,
-        t_max_k: f64,
-    },
-    /// Molality of dissolved gas (mol/kg) at a gas partial pressure of
-    /// `reference_pressure_pa`: `ln m = a + b/τ + c ln τ + d τ` with `τ = T / scale_k`
-    /// (seed form `molality-fit`, for published fits that are not mole-fraction fits).
-    MolalityFit {
-        a: f64,
-        b: f64,
-        c: f64,
-        d: f64,
-        scale_k: f64,
-        reference_pressure_pa: f64,
-        t_min_k: f64,
-        t_max_k: f64,
-    },
+    /// A constant at a reference temperature with its van 't Hoff temperature dependence.
+    VantHoff(VantHoffLaw),
+    /// A fitted solubility over a range of temperatures.
+    Fit(GasFit),
+}
+
+impl GasLaw {
+    /// The fit, for a fitted record.
+    pub fn fit(&self) -> Option<&GasFit> {
+        match self {
+            GasLaw::Fit(fit) => Some(fit),
+            GasLaw::VantHoff(_) => None,
+        }
+    }
+}
+
+/// A Henry's-law constant at a reference temperature, in the named convention, with the
+/// van 't Hoff temperature dependence `d ln H / d(1/T)` in kelvin (for the Hcp convention;
+/// the science module converts).
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct VantHoffLaw {
+    /// Convention and unit of `value`, e.g. `Hcp mol/(m3 Pa)`.
+    pub convention: String,
+    pub value: f64,
+    pub reference_temperature_k: f64,
+    /// `d ln Hcp / d(1/T)`, K. Positive for gases whose solubility falls as T rises.
+    pub temperature_term_k: f64,
+}
+
+/// What a gas-solubility fit gives.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum FitQuantity {
+    /// Mole fraction of dissolved gas (seed form `mole-fraction-fit`).
+    #[default]
+    MoleFraction,
+    /// Moles of gas per kg of solution (seed form `molality-fit`, for published fits that
+    /// are not mole-fraction fits).
+    Molality,
+}
+
+impl FitQuantity {
+    /// The seed form's name.
+    pub fn form(self) -> &'static str {
+        match self {
+            FitQuantity::MoleFraction => "mole-fraction-fit",
+            FitQuantity::Molality => "molality-fit",
+        }
+    }
+
+    /// The quantity a seed form names, if it names a fit.
+    pub fn from_form(form: &str) -> Option<FitQuantity> {
+        [FitQuantity::MoleFraction, FitQuantity::Molality]
+            .into_iter()
+            .find(|q| q.form() == form)
+    }
+}
+
+/// A fitted gas solubility `q` at a gas partial pressure of `reference_pressure_pa`:
+/// `ln q = a + b/τ + c ln τ + d τ` with `τ = T / scale_k`, fitted from `t_min_k` to
+/// `t_max_k`; `quantity` says what `q` is.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct GasFit {
+    /// Named by the law's `form` in JSON.
+    #[serde(skip)]
+    pub quantity: FitQuantity,
+    pub a: f64,
+    pub b: f64,
+    pub c: f64,
+    pub d: f64,
+    pub scale_k: f64,
+    pub reference_pressure_pa: f64,
+    pub t_min_k: f64,
+    pub t_max_k: f64,
+}
+
+/// [`GasLaw`] as JSON writes it: the `form` tag names a fit's quantity.
+#[derive(Serialize, Deserialize)]
+#[serde(tag = "form", rename_all = "kebab-case")]
+enum LawForm {
+    VantHoff(VantHoffLaw),
+    MoleFractionFit(GasFit),
+    MolalityFit(GasFit),
+}
+
+impl From<GasLaw> for LawForm {
+    fn from(law: GasLaw) -> LawForm {
+        match law {
+            GasLaw::VantHoff(law) => LawForm::VantHoff(law),
+            GasLaw::Fit(fit) => match fit.quantity {
+                FitQuantity::MoleFraction => LawForm::MoleFractionFit(fit),
+                FitQuantity::Molality => LawForm::MolalityFit(fit),
+            },
+        }
+    }
+}
+
+impl From<LawForm> for GasLaw {
+    fn from(form: LawForm) -> GasLaw {
+        match form {
+            LawForm::VantHoff(law) => GasLaw::VantHoff(law),
+            LawForm::MoleFractionFit(fit) => GasLaw::Fit(GasFit {
+                quantity: FitQuantity::MoleFraction,
+                ..fit
+            }),
+            LawForm::MolalityFit(fit) => GasLaw::Fit(GasFit {
+                quantity: FitQuantity::Molality,
+                ..fit
+            }),
+        }
+    }
 }
 
 /// A Henry's-law record of a gas, with its source.

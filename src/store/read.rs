@@ -8,8 +8,8 @@ use serde::Serialize;
 
 use super::StoreError;
 use crate::model::{
-    Dataset, DensityCoefficients, FreezingData, GasConstant, GasLaw, Phase, Point, Provenance,
-    Review, Solute, SoluteKind, Source, SourceKind,
+    Dataset, DensityCoefficients, FitQuantity, FreezingData, GasConstant, GasFit, GasLaw, Phase,
+    Point, Provenance, Review, Solute, SoluteKind, Source, SourceKind, VantHoffLaw,
 };
 
 /// A (composition, temperature) pair.
@@ -333,16 +333,17 @@ fn read_inside(conn: &Connection) -> Result<Contents, StoreError> {
             r.get::<_, Option<f64>>(i)?
                 .ok_or_else(|| missing(&key, name))
         };
-        let law = match form.as_str() {
-            "vant-hoff" => GasLaw::VantHoff {
+        let law = match (form.as_str(), FitQuantity::from_form(&form)) {
+            ("vant-hoff", _) => GasLaw::VantHoff(VantHoffLaw {
                 convention: r
                     .get::<_, Option<String>>(4)?
                     .ok_or_else(|| missing(&key, "convention"))?,
                 value: f(5, "value")?,
                 reference_temperature_k: f(6, "reference_temperature_k")?,
                 temperature_term_k: f(7, "temperature_term_k")?,
-            },
-            "molality-fit" => GasLaw::MolalityFit {
+            }),
+            (_, Some(quantity)) => GasLaw::Fit(GasFit {
+                quantity,
                 a: f(8, "a")?,
                 b: f(9, "b")?,
                 c: f(10, "c")?,
@@ -351,18 +352,8 @@ fn read_inside(conn: &Connection) -> Result<Contents, StoreError> {
                 reference_pressure_pa: f(13, "reference_pressure_pa")?,
                 t_min_k: f(14, "t_min_k")?,
                 t_max_k: f(15, "t_max_k")?,
-            },
-            "mole-fraction-fit" => GasLaw::MoleFractionFit {
-                a: f(8, "a")?,
-                b: f(9, "b")?,
-                c: f(10, "c")?,
-                d: f(11, "d")?,
-                scale_k: f(12, "scale_k")?,
-                reference_pressure_pa: f(13, "reference_pressure_pa")?,
-                t_min_k: f(14, "t_min_k")?,
-                t_max_k: f(15, "t_max_k")?,
-            },
-            other => return Err(corrupt(format!("gas constant form \"{other}\""))),
+            }),
+            (other, None) => return Err(corrupt(format!("gas constant form \"{other}\""))),
         };
         contents.gas_constants.push(GasConstant {
             solute: r.get(1)?,

@@ -153,79 +153,31 @@ pub(crate) fn replace_gas_constant(conn: &Connection, g: &GasConstant) -> Result
                                     a, b, c, d, scale_k, reference_pressure_pa, t_min_k, t_max_k, provenance, review, note)
          VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10, ?11, ?12, ?13, ?14, ?15, ?16, ?17, ?18, ?19)",
     )?;
-    let none = None::<f64>;
-    match &g.law {
-        GasLaw::VantHoff {
-            convention,
-            value,
-            reference_temperature_k,
-            temperature_term_k,
-        } => insert_gas.execute(params![
-            g.key,
-            g.solute,
-            g.source,
-            "vant-hoff",
-            convention,
-            value,
-            reference_temperature_k,
-            temperature_term_k,
-            none,
-            none,
-            none,
-            none,
-            none,
-            none,
-            none,
-            none,
-            g.provenance.as_str(),
-            g.review.as_str(),
-            g.note
-        ])?,
-        GasLaw::MoleFractionFit {
-            a,
-            b,
-            c,
-            d,
-            scale_k,
-            reference_pressure_pa,
-            t_min_k,
-            t_max_k,
-        }
-        | GasLaw::MolalityFit {
-            a,
-            b,
-            c,
-            d,
-            scale_k,
-            reference_pressure_pa,
-            t_min_k,
-            t_max_k,
-        } => insert_gas.execute(params![
-            g.key,
-            g.solute,
-            g.source,
-            if matches!(g.law, GasLaw::MolalityFit { .. }) {
-                "molality-fit"
-            } else {
-                "mole-fraction-fit"
-            },
-            None::<String>,
-            none,
-            none,
-            none,
-            a,
-            b,
-            c,
-            d,
-            scale_k,
-            reference_pressure_pa,
-            t_min_k,
-            t_max_k,
-            g.provenance.as_str(),
-            g.review.as_str(),
-            g.note
-        ])?,
+    let (form, vant_hoff, fit) = match &g.law {
+        GasLaw::VantHoff(h) => ("vant-hoff", Some(h), None),
+        GasLaw::Fit(fit) => (fit.quantity.form(), None, Some(fit)),
     };
+    insert_gas.execute(params![
+        g.key,
+        g.solute,
+        g.source,
+        form,
+        vant_hoff.map(|h| &h.convention),
+        vant_hoff.map(|h| h.value),
+        vant_hoff.map(|h| h.reference_temperature_k),
+        vant_hoff.map(|h| h.temperature_term_k),
+        fit.map(|f| f.a),
+        fit.map(|f| f.b),
+        fit.map(|f| f.c),
+        fit.map(|f| f.d),
+        fit.map(|f| f.scale_k),
+        fit.map(|f| f.reference_pressure_pa),
+        fit.map(|f| f.t_min_k),
+        fit.map(|f| f.t_max_k),
+        g.provenance.as_str(),
+        g.review.as_str(),
+        g.note
+    ])?;
     Ok(())
 }
 

@@ -5,6 +5,59 @@
 
 use serde::{Deserialize, Serialize};
 
+/// A word of the enum ↔ text tables was not one of its words (a stored or typed value).
+#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+#[error("{what} \"{found}\"")]
+pub struct UnknownWord {
+    /// What the word should name, e.g. `provenance`.
+    pub what: &'static str,
+    pub found: String,
+}
+
+/// The text of each variant of a fieldless enum, written once: `as_str`, `from_name`, the
+/// list of `NAMES`, `FromStr` and `Display` all come from the one table (the words are
+/// those of the seed format, the database and JSON).
+macro_rules! words {
+    ($name:ident as $what:literal { $($variant:ident = $text:literal),+ $(,)? }) => {
+        impl $name {
+            /// Every word, in the order of the variants.
+            pub const NAMES: &'static [&'static str] = &[$($text),+];
+
+            /// The word of this variant.
+            pub fn as_str(self) -> &'static str {
+                match self {
+                    $($name::$variant => $text,)+
+                }
+            }
+
+            /// The variant a word names.
+            pub fn from_name(word: &str) -> Option<Self> {
+                match word {
+                    $($text => Some($name::$variant),)+
+                    _ => None,
+                }
+            }
+        }
+
+        impl std::str::FromStr for $name {
+            type Err = $crate::model::UnknownWord;
+
+            fn from_str(word: &str) -> Result<Self, Self::Err> {
+                $name::from_name(word).ok_or_else(|| $crate::model::UnknownWord {
+                    what: $what,
+                    found: word.to_string(),
+                })
+            }
+        }
+
+        impl std::fmt::Display for $name {
+            fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+                f.write_str(self.as_str())
+            }
+        }
+    };
+}
+
 /// What kind of publication a source is.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
 #[serde(rename_all = "kebab-case")]
@@ -16,6 +69,15 @@ pub enum SourceKind {
     Book,
     Other,
 }
+
+words!(SourceKind as "source kind" {
+    Handbook = "handbook",
+    Compilation = "compilation",
+    Paper = "paper",
+    Standard = "standard",
+    Book = "book",
+    Other = "other",
+});
 
 /// A bibliographic record. Every dataset and every gas constant names one.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
@@ -45,15 +107,11 @@ pub enum SoluteKind {
     Gas,
 }
 
-impl SoluteKind {
-    pub fn as_str(self) -> &'static str {
-        match self {
-            SoluteKind::Salt => "salt",
-            SoluteKind::Molecular => "molecular",
-            SoluteKind::Gas => "gas",
-        }
-    }
-}
+words!(SoluteKind as "solute kind" {
+    Salt = "salt",
+    Molecular = "molecular",
+    Gas = "gas",
+});
 
 /// How a dataset came to be.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
@@ -69,16 +127,12 @@ pub enum Provenance {
     Derived,
 }
 
-impl Provenance {
-    pub fn as_str(self) -> &'static str {
-        match self {
-            Provenance::Measured => "measured",
-            Provenance::Compiled => "compiled",
-            Provenance::FromMemory => "from-memory",
-            Provenance::Derived => "derived",
-        }
-    }
-}
+words!(Provenance as "provenance" {
+    Measured = "measured",
+    Compiled = "compiled",
+    FromMemory = "from-memory",
+    Derived = "derived",
+});
 
 /// Review state of a dataset.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
@@ -89,15 +143,11 @@ pub enum Review {
     Rejected,
 }
 
-impl Review {
-    pub fn as_str(self) -> &'static str {
-        match self {
-            Review::Unreviewed => "unreviewed",
-            Review::Reviewed => "reviewed",
-            Review::Rejected => "rejected",
-        }
-    }
-}
+words!(Review as "review" {
+    Unreviewed = "unreviewed",
+    Reviewed = "reviewed",
+    Rejected = "rejected",
+});
 
 /// A substance that dissolves in water.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
@@ -223,22 +273,10 @@ pub enum FitQuantity {
     Molality,
 }
 
-impl FitQuantity {
-    /// The seed form's name.
-    pub fn form(self) -> &'static str {
-        match self {
-            FitQuantity::MoleFraction => "mole-fraction-fit",
-            FitQuantity::Molality => "molality-fit",
-        }
-    }
-
-    /// The quantity a seed form names, if it names a fit.
-    pub fn from_form(form: &str) -> Option<FitQuantity> {
-        [FitQuantity::MoleFraction, FitQuantity::Molality]
-            .into_iter()
-            .find(|q| q.form() == form)
-    }
-}
+words!(FitQuantity as "gas-law form" {
+    MoleFraction = "mole-fraction-fit",
+    Molality = "molality-fit",
+});
 
 /// A fitted gas solubility `q` at a gas partial pressure of `reference_pressure_pa`:
 /// `ln q = a + b/τ + c ln τ + d τ` with `τ = T / scale_k`, fitted from `t_min_k` to
@@ -357,15 +395,11 @@ pub enum CheckSubject {
     Henry,
 }
 
-impl CheckSubject {
-    pub fn as_str(self) -> &'static str {
-        match self {
-            CheckSubject::Dataset => "dataset",
-            CheckSubject::Freezing => "freezing",
-            CheckSubject::Henry => "henry",
-        }
-    }
-}
+words!(CheckSubject as "check subject kind" {
+    Dataset = "dataset",
+    Freezing = "freezing",
+    Henry = "henry",
+});
 
 /// What a corroboration check found.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
@@ -380,15 +414,11 @@ pub enum Verdict {
     NotApplicable,
 }
 
-impl Verdict {
-    pub fn as_str(self) -> &'static str {
-        match self {
-            Verdict::Pass => "pass",
-            Verdict::Fail => "fail",
-            Verdict::NotApplicable => "not-applicable",
-        }
-    }
-}
+words!(Verdict as "check verdict" {
+    Pass = "pass",
+    Fail = "fail",
+    NotApplicable = "not-applicable",
+});
 
 /// A corroboration check: one stored record compared with something outside it (a
 /// general-purpose library's model or table, another source, another branch of the same

@@ -361,7 +361,7 @@ fn assert_round_trip(files: &[(String, String)], stored: &Contents) {
                     assert_eq!(h.reference_temperature_k, f("reference_temperature_k"));
                     assert_eq!(h.temperature_term_k, f("temperature_term_k"));
                 }
-                (GasLaw::Fit(fit), Some(form)) if fit.quantity.form() == form => {
+                (GasLaw::Fit(fit), Some(form)) if fit.quantity.as_str() == form => {
                     assert_eq!(
                         [
                             fit.a,

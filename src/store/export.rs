@@ -72,11 +72,7 @@ fn sources_toml(sources: &[Source]) -> String {
     for s in sources {
         let _ = writeln!(out, "\n[[source]]");
         let _ = writeln!(out, "key = {}", text(&s.key));
-        let _ = writeln!(
-            out,
-            "kind = {}",
-            text(super::write::source_kind_str(s.kind))
-        );
+        let _ = writeln!(out, "kind = {}", text(s.kind.as_str()));
         let _ = writeln!(out, "title = {}", text(&s.title));
         let _ = writeln!(out, "authors = {}", text(&s.authors));
         opt(&mut out, "publisher", &s.publisher);
@@ -169,7 +165,7 @@ fn henry_toml(out: &mut String, g: &GasConstant) {
             let _ = writeln!(out, "temperature_term_k = {}", number(h.temperature_term_k));
         }
         GasLaw::Fit(fit) => {
-            let _ = writeln!(out, "form = \"{}\"", fit.quantity.form());
+            let _ = writeln!(out, "form = \"{}\"", fit.quantity.as_str());
             for (name, v) in fit_terms(fit) {
                 let _ = writeln!(out, "{name} = {}", number(v));
             }

@@ -6,18 +6,7 @@ use rusqlite::{Connection, params};
 
 use super::StoreError;
 use super::read::FreezingRecord;
-use crate::model::{Dataset, GasConstant, GasLaw, Solute, Source, SourceKind};
-
-pub(crate) fn source_kind_str(kind: SourceKind) -> &'static str {
-    match kind {
-        SourceKind::Handbook => "handbook",
-        SourceKind::Compilation => "compilation",
-        SourceKind::Paper => "paper",
-        SourceKind::Standard => "standard",
-        SourceKind::Book => "book",
-        SourceKind::Other => "other",
-    }
-}
+use crate::model::{Dataset, GasConstant, GasLaw, Solute, Source};
 
 /// Inserts a source, or replaces every field of the source with the same key.
 pub(crate) fn upsert_source(conn: &Connection, s: &Source) -> Result<(), StoreError> {
@@ -31,7 +20,7 @@ pub(crate) fn upsert_source(conn: &Connection, s: &Source) -> Result<(), StoreEr
     )?;
     stmt.execute(params![
         s.key,
-        source_kind_str(s.kind),
+        s.kind.as_str(),
         s.title,
         s.authors,
         s.publisher,
@@ -155,7 +144,7 @@ pub(crate) fn replace_gas_constant(conn: &Connection, g: &GasConstant) -> Result
     )?;
     let (form, vant_hoff, fit) = match &g.law {
         GasLaw::VantHoff(h) => ("vant-hoff", Some(h), None),
-        GasLaw::Fit(fit) => (fit.quantity.form(), None, Some(fit)),
+        GasLaw::Fit(fit) => (fit.quantity.as_str(), None, Some(fit)),
     };
     insert_gas.execute(params![
         g.key,

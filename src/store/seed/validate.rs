@@ -797,7 +797,7 @@ pub(super) fn parse_henry(
                     .ok_or_else(|| missing("temperature_term_k"))?,
             })
         }
-        form if FitQuantity::from_form(form).is_some() => {
+        form if FitQuantity::from_name(form).is_some() => {
             let t_min_k = h.t_min_k.ok_or_else(|| missing("t_min_k"))?;
             let t_max_k = h.t_max_k.ok_or_else(|| missing("t_max_k"))?;
             check_t(t_min_k)?;
@@ -826,7 +826,7 @@ pub(super) fn parse_henry(
                     .ok_or_else(|| missing("reference_pressure_pa"))?,
             )?;
             GasLaw::Fit(GasFit {
-                quantity: FitQuantity::from_form(form).unwrap_or_default(),
+                quantity: FitQuantity::from_name(form).unwrap_or_default(),
                 a,
                 b,
                 c,

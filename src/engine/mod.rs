@@ -23,6 +23,7 @@ mod heat;
 pub mod mixture;
 mod per_litre;
 mod phase_plot;
+pub mod pitzer_solids;
 mod plot;
 mod recipe;
 mod records;

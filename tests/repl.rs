@@ -231,3 +231,30 @@ fn answers_on_an_80_column_terminal_fit_it() {
     );
     assert!(seen.contains("potassium nitrate"), "{seen}");
 }
+
+/// Ctrl-L and `clear` clear the screen: the session writes the terminal's "cursor home"
+/// and "erase display" sequences (ECMA-48 CUP and ED), and goes on.
+#[test]
+fn ctrl_l_and_clear_clear_the_screen() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut session = start(&dir.path().join("history"), &["repl"]);
+    session.send_line("describe NaCl").unwrap();
+    session.exp_string("satline> ").unwrap();
+    type_keys(&mut session, "sources");
+    session.send_control('l').unwrap();
+    // Home, then erase to the end of the screen (all of it, from home).
+    session.exp_string("\x1b[H").unwrap();
+    session.exp_regex("\x1b\\[[02]?J").unwrap();
+    // The line being typed is drawn again and can be finished.
+    session.exp_string("sources").unwrap();
+    type_keys(&mut session, " of KCl\r");
+    session.exp_string("» sources of KCl").unwrap();
+    session.exp_string("satline> ").unwrap();
+    session.send_line("clear").unwrap();
+    session.exp_string("\x1b[H\x1b[2J").unwrap();
+    session.exp_string("satline> ").unwrap();
+    session.send_line("solubility of KNO3 at 20 C").unwrap();
+    session.exp_string("» solubility of KNO3 at 20 C").unwrap();
+    session.exp_string("satline> ").unwrap();
+    leave(session);
+}

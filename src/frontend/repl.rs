@@ -9,7 +9,7 @@
 use std::io::{self, IsTerminal, Write};
 use std::path::{Path, PathBuf};
 
-use rustyline::Editor;
+use rustyline::{Cmd, Editor, EventHandler, KeyEvent};
 use rustyline::config::{CompletionType, Config};
 use rustyline::error::ReadlineError;
 use rustyline::history::DefaultHistory;
@@ -122,6 +122,7 @@ impl<'e> Repl<'e> {
                 self.session = self.engine.session();
                 writeln!(out, "forgot every name bound with let")?;
             }
+            SessionCommand::Clear => super::screen::clear(out)?,
             SessionCommand::Leave => return Ok(Flow::Leave),
         }
         Ok(Flow::Continue)
@@ -278,6 +279,12 @@ pub fn run(db: Option<&Path>, layout: &LayoutArgs) -> Outcome {
     };
     let vocabulary = Vocabulary::new(engine.solute_names());
     editor.set_helper(Some(SessionHelper::new(vocabulary, colour_allowed())));
+    // Ctrl-L clears the screen and redraws the line being typed (bound here, whatever the
+    // editor's defaults and mode are).
+    editor.bind_sequence(
+        KeyEvent::ctrl('L'),
+        EventHandler::Simple(Cmd::ClearScreen),
+    );
     let history = open_history(&mut editor);
 
     let stdout = io::stdout();

@@ -6,9 +6,7 @@ use crate::frontend::help::{self, Topic};
 use crate::output::Format;
 
 /// The words that start a session command. None of them starts a statement.
-pub const COMMAND_WORDS: [&str; 7] = [
-    "help", "output", "save", "forget", "clear", "quit", "exit",
-];
+pub const COMMAND_WORDS: [&str; 7] = ["help", "output", "save", "forget", "clear", "quit", "exit"];
 
 /// A session command.
 #[derive(Debug, Clone, PartialEq, Eq)]

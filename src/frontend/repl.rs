@@ -9,10 +9,10 @@
 use std::io::{self, IsTerminal, Write};
 use std::path::{Path, PathBuf};
 
-use rustyline::{Cmd, Editor, EventHandler, KeyEvent};
 use rustyline::config::{CompletionType, Config};
 use rustyline::error::ReadlineError;
 use rustyline::history::DefaultHistory;
+use rustyline::{Cmd, Editor, EventHandler, KeyEvent};
 
 use crate::engine::{Engine, Session};
 use crate::frontend::cli::LayoutArgs;
@@ -281,10 +281,7 @@ pub fn run(db: Option<&Path>, layout: &LayoutArgs) -> Outcome {
     editor.set_helper(Some(SessionHelper::new(vocabulary, colour_allowed())));
     // Ctrl-L clears the screen and redraws the line being typed (bound here, whatever the
     // editor's defaults and mode are).
-    editor.bind_sequence(
-        KeyEvent::ctrl('L'),
-        EventHandler::Simple(Cmd::ClearScreen),
-    );
+    editor.bind_sequence(KeyEvent::ctrl('L'), EventHandler::Simple(Cmd::ClearScreen));
     let history = open_history(&mut editor);
 
     let stdout = io::stdout();

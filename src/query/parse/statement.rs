@@ -236,6 +236,9 @@ pub(super) fn dissolved<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
 
 pub(super) fn freezing<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     let (i, _) = expect(cx, i, &["of"])?;
+    if let (rest, Some(r)) = recipe::subject(cx, i)? {
+        return recipe::freezing(cx, r, rest);
+    }
     let (i, solute) = solute(cx, i, &["at"])?;
     let (i, _) = expect(cx, i, &["at"])?;
     let (i, loading) = committed_loading(cx, i)?;

@@ -268,13 +268,18 @@ pub fn run_arguments(
     format: Format,
     pictures: &Pictures,
 ) -> Outcome {
-    run_std(
+    let grouped = super::arguments::group(statements);
+    let outcome = run_std(
         db,
         recipes,
-        &[ScriptSource::Arguments(statements.to_vec())],
+        &[ScriptSource::Arguments(grouped.statements)],
         format,
         pictures,
-    )
+    );
+    if let (Some(hint), true) = (grouped.hint, outcome == Outcome::Unanswered) {
+        report(&mut io::stderr(), &format!("satline: {hint}"));
+    }
+    outcome
 }
 
 /// Runs scripts that are already read, in order, in one session. With `pictures.out`,

@@ -17,6 +17,7 @@ mod dissolving;
 mod echo;
 mod error;
 mod filters;
+pub mod freeze_recipe;
 mod freezing;
 mod gas;
 mod heat;
@@ -431,6 +432,7 @@ fn kind_of(statement: &Statement) -> AnswerKind {
             query::RecipeQuestion::SolidsForm { .. } => AnswerKind::Solids,
             query::RecipeQuestion::Saturation { .. } => AnswerKind::Saturation,
             query::RecipeQuestion::Describe { .. } => AnswerKind::Describe,
+            query::RecipeQuestion::Freezing { .. } => AnswerKind::Freezing,
         },
     }
 }

@@ -8,6 +8,8 @@ pub mod audit;
 pub mod check;
 pub mod corroboration;
 pub mod default_db;
+#[cfg(test)]
+pub(crate) mod demo;
 pub mod density;
 mod error;
 pub mod export;

@@ -101,7 +101,7 @@ pub fn choose<'s>(
     // The widest range first.
     candidates.sort_by(|a, b| (b.t_max_k - b.t_min_k).total_cmp(&(a.t_max_k - a.t_min_k)));
     let within = |s: &System| range.is_none_or(|(t1, t2)| s.covers(t1) && s.covers(t2));
-    let in_a_phi = |(t1, t2): (f64, f64)| t1 >= A_PHI_RANGE_K.0 && t2 <= A_PHI_RANGE_K.1;
+    let in_a_phi = |(t1, t2): (f64, f64)| in_a_phi_range(t1) && in_a_phi_range(t2);
     let (system, beyond) = match candidates.iter().find(|s| within(s)) {
         Some(s) => (*s, false),
         None if extrapolate && range.is_none_or(in_a_phi) => (candidates[0], true),
@@ -132,12 +132,17 @@ pub fn choose<'s>(
     })
 }
 
+/// True inside A_φ's range (0.01 K leeway, as [`System::covers`]).
+fn in_a_phi_range(t_k: f64) -> bool {
+    t_k >= A_PHI_RANGE_K.0 - 0.01 && t_k <= A_PHI_RANGE_K.1 + 0.01
+}
+
 /// A solid's solubility product at one temperature, from its solute's curve.
-struct Product {
-    solid: Solid,
-    ln_k: f64,
-    phase: String,
-    basis: Basis,
+pub struct Product {
+    pub solid: Solid,
+    pub ln_k: f64,
+    pub phase: String,
+    pub basis: Basis,
 }
 
 /// Ionic strength of `molalities` in `system`'s ions.
@@ -172,7 +177,7 @@ impl PitzerSolids<'_> {
         if self.system.covers(t_k) {
             return self.system.at(t_k).map_err(|e| e.to_string());
         }
-        if self.extrapolate && (A_PHI_RANGE_K.0..=A_PHI_RANGE_K.1).contains(&t_k) {
+        if self.extrapolate && in_a_phi_range(t_k) {
             return Ok(self.system.at_unchecked(t_k));
         }
         Err(format!(
@@ -193,7 +198,9 @@ impl PitzerSolids<'_> {
         }
     }
 
-    fn product(
+    /// The solubility product of solute `index`'s solid at `t_k` (the phase its curve
+    /// names there), from its solubility in pure water.
+    pub fn product(
         &self,
         ask: &Ask,
         index: usize,
@@ -272,7 +279,8 @@ impl PitzerSolids<'_> {
         }
     }
 
-    fn cite(&self, ask: &mut Ask, index: usize) -> Result<(), EvalError> {
+    /// Cites solute `index`'s curve and the system's sources.
+    pub fn cite(&self, ask: &mut Ask, index: usize) -> Result<(), EvalError> {
         let (solute, name) = entry(ask.mixture, index)?;
         let built = curve_of(ask.snap, solute, name, ask.options)?;
         cite_curve(ask.snap, built, solute, ask.answer);

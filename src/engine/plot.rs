@@ -29,7 +29,7 @@ use crate::science::units::{self, CompositionUnit};
 const SAMPLES: usize = 240;
 
 /// The x axis label of every picture.
-const X_LABEL: &str = "temperature (C)";
+const X_LABEL: &str = "temperature (°C)";
 
 fn to_celsius(t_k: f64) -> f64 {
     t_k - 273.15

@@ -181,6 +181,16 @@ pub fn file_faults(snap: &Snapshot, recipe: &Recipe) -> Vec<EvalError> {
 /// mixture's model.
 pub fn recipe(snap: &Snapshot, s: &RecipeStatement, answer: &mut Answer) -> Result<(), EvalError> {
     let composed = compose(snap, &s.recipe, &s.options, answer)?;
+    if let RecipeQuestion::Freezing { at } = &s.question {
+        let asked = crate::engine::freeze_recipe::Asked {
+            recipe: &s.recipe,
+            at: at.kelvin(),
+            span: at.span,
+        };
+        crate::engine::freeze_recipe::freezing(snap, &composed.mixture, &s.options, asked, answer)?;
+        answer.caveat(CAUTION);
+        return Ok(());
+    }
     let range = match &s.question {
         RecipeQuestion::Require { temperatures, .. }
         | RecipeQuestion::SolidsForm { temperatures } => Some(bounds(temperatures)),
@@ -214,6 +224,8 @@ pub fn recipe(snap: &Snapshot, s: &RecipeStatement, answer: &mut Answer) -> Resu
         RecipeQuestion::SolidsForm { temperatures } => {
             solids_form(&mut ask, model, limits(temperatures, 0.0))?;
         }
+        // Answered above, before a model is chosen.
+        RecipeQuestion::Freezing { .. } => {}
         RecipeQuestion::Saturation { unit } => {
             let unit = unit.map_or(TemperatureUnit::Celsius, |u| u.unit);
             saturation(&mut ask, model, unit)?;

@@ -285,6 +285,9 @@ pub(super) fn freezing<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     // `freezing point of ...` reads the same as `freezing of ...`.
     let i = has_keyword(i, "point").unwrap_or(i);
     let (i, _) = expect(cx, i, &["of"])?;
+    if let (rest, Some(r)) = recipe::subject(cx, i)? {
+        return recipe::freezing(cx, r, rest);
+    }
     let (i, solute) = solute(cx, i, &["at"])?;
     let (i, lead) = lead(cx, i, &[Clause::InTemperature, DATA[0], DATA[1]])?;
     let (i, _) = expect(cx, i, &["at"])?;

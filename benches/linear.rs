@@ -9,7 +9,7 @@
 //! - `batch_statements/4000` and `/40000`: that many lookups run as one script by
 //!   `batch::run_scripts` (what `satline run FILE --format json` does, output discarded).
 //!   Target: 40,000 under 10 times 4,000. Yardstick `batch_floor`: the same scripts parsed
-//!   only.
+//!   only, one statement at a time as batch mode does.
 //!
 //! Run with `cargo bench --bench linear` (a few minutes: the 1,000,000-row import runs 10
 //! times), or one group, e.g. `cargo bench --bench linear -- import_rows/1000000`.
@@ -191,7 +191,7 @@ fn batch(c: &mut Criterion) {
         floor.bench_with_input(BenchmarkId::from_parameter(n), &script, |b, script| {
             b.iter(|| {
                 let mut env = satline::query::Env::default();
-                black_box(satline::query::parse_with(&script.text, &mut env).len())
+                black_box(satline::query::statements(&script.text, &mut env).count())
             })
         });
     }

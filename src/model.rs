@@ -5,6 +5,59 @@
 
 use serde::{Deserialize, Serialize};
 
+/// A word of the enum ↔ text tables was not one of its words (a stored or typed value).
+#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+#[error("{what} \"{found}\"")]
+pub struct UnknownWord {
+    /// What the word should name, e.g. `provenance`.
+    pub what: &'static str,
+    pub found: String,
+}
+
+/// The text of each variant of a fieldless enum, written once: `as_str`, `from_name`, the
+/// list of `NAMES`, `FromStr` and `Display` all come from the one table (the words are
+/// those of the seed format, the database and JSON).
+macro_rules! words {
+    ($name:ident as $what:literal { $($variant:ident = $text:literal),+ $(,)? }) => {
+        impl $name {
+            /// Every word, in the order of the variants.
+            pub const NAMES: &'static [&'static str] = &[$($text),+];
+
+            /// The word of this variant.
+            pub fn as_str(self) -> &'static str {
+                match self {
+                    $($name::$variant => $text,)+
+                }
+            }
+
+            /// The variant a word names.
+            pub fn from_name(word: &str) -> Option<Self> {
+                match word {
+                    $($text => Some($name::$variant),)+
+                    _ => None,
+                }
+            }
+        }
+
+        impl std::str::FromStr for $name {
+            type Err = $crate::model::UnknownWord;
+
+            fn from_str(word: &str) -> Result<Self, Self::Err> {
+                $name::from_name(word).ok_or_else(|| $crate::model::UnknownWord {
+                    what: $what,
+                    found: word.to_string(),
+                })
+            }
+        }
+
+        impl std::fmt::Display for $name {
+            fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+                f.write_str(self.as_str())
+            }
+        }
+    };
+}
+
 /// What kind of publication a source is.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
 #[serde(rename_all = "kebab-case")]
@@ -16,6 +69,15 @@ pub enum SourceKind {
     Book,
     Other,
 }
+
+words!(SourceKind as "source kind" {
+    Handbook = "handbook",
+    Compilation = "compilation",
+    Paper = "paper",
+    Standard = "standard",
+    Book = "book",
+    Other = "other",
+});
 
 /// A bibliographic record. Every dataset and every gas constant names one.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
@@ -45,15 +107,11 @@ pub enum SoluteKind {
     Gas,
 }
 
-impl SoluteKind {
-    pub fn as_str(self) -> &'static str {
-        match self {
-            SoluteKind::Salt => "salt",
-            SoluteKind::Molecular => "molecular",
-            SoluteKind::Gas => "gas",
-        }
-    }
-}
+words!(SoluteKind as "solute kind" {
+    Salt = "salt",
+    Molecular = "molecular",
+    Gas = "gas",
+});
 
 /// How a dataset came to be.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
@@ -69,16 +127,12 @@ pub enum Provenance {
     Derived,
 }
 
-impl Provenance {
-    pub fn as_str(self) -> &'static str {
-        match self {
-            Provenance::Measured => "measured",
-            Provenance::Compiled => "compiled",
-            Provenance::FromMemory => "from-memory",
-            Provenance::Derived => "derived",
-        }
-    }
-}
+words!(Provenance as "provenance" {
+    Measured = "measured",
+    Compiled = "compiled",
+    FromMemory = "from-memory",
+    Derived = "derived",
+});
 
 /// Review state of a dataset.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
@@ -89,15 +143,11 @@ pub enum Review {
     Rejected,
 }
 
-impl Review {
-    pub fn as_str(self) -> &'static str {
-        match self {
-            Review::Unreviewed => "unreviewed",
-            Review::Reviewed => "reviewed",
-            Review::Rejected => "rejected",
-        }
-    }
-}
+words!(Review as "review" {
+    Unreviewed = "unreviewed",
+    Reviewed = "reviewed",
+    Rejected = "rejected",
+});
 
 /// A substance that dissolves in water.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
@@ -178,45 +228,109 @@ pub struct Dataset {
 }
 
 /// How a Henry's-law record expresses the gas's solubility and its temperature dependence.
+/// In JSON (and the seed format) the `form` field names it: `vant-hoff`, or a fit's
+/// quantity (`mole-fraction-fit`, `molality-fit`) beside the fit's terms.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
-#[serde(tag = "form", rename_all = "kebab-case")]
+#[serde(into = "LawForm", from = "LawForm")]
 pub enum GasLaw {
-    /// A Henry's-law constant at a reference temperature, in the named convention, with the
-    /// van 't Hoff temperature dependence `d ln H / d(1/T)` in kelvin (for the Hcp convention;
-    /// the science module converts).
-    VantHoff {
-        /// Convention and unit of `value`, e.g. `Hcp mol/(m3 Pa)`.
-        convention: String,
-        value: f64,
-        reference_temperature_k: f64,
-        /// `d ln Hcp / d(1/T)`, K. Positive for gases whose solubility falls as T rises.
-        temperature_term_k: f64,
-    },
-    /// Mole fraction of dissolved gas at a gas partial pressure of `reference_pressure_pa`:
-    /// `ln x = a + b/τ + c ln τ + d τ` with `τ = T / scale_k`.
-    MoleFractionFit {
-        a: f64,
-        b: f64,
-        c: f64,
-        d: f64,
-        scale_k: f64,
-        reference_pressure_pa: f64,
-        t_min_k: f64,
-        t_max_k: f64,
-    },
-    /// Molality of dissolved gas (mol/kg) at a gas partial pressure of
-    /// `reference_pressure_pa`: `ln m = a + b/τ + c ln τ + d τ` with `τ = T / scale_k`
-    /// (seed form `molality-fit`, for published fits that are not mole-fraction fits).
-    MolalityFit {
-        a: f64,
-        b: f64,
-        c: f64,
-        d: f64,
-        scale_k: f64,
-        reference_pressure_pa: f64,
-        t_min_k: f64,
-        t_max_k: f64,
-    },
+    /// A constant at a reference temperature with its van 't Hoff temperature dependence.
+    VantHoff(VantHoffLaw),
+    /// A fitted solubility over a range of temperatures.
+    Fit(GasFit),
+}
+
+impl GasLaw {
+    /// The fit, for a fitted record.
+    pub fn fit(&self) -> Option<&GasFit> {
+        match self {
+            GasLaw::Fit(fit) => Some(fit),
+            GasLaw::VantHoff(_) => None,
+        }
+    }
+}
+
+/// A Henry's-law constant at a reference temperature, in the named convention, with the
+/// van 't Hoff temperature dependence `d ln H / d(1/T)` in kelvin (for the Hcp convention;
+/// the science module converts).
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct VantHoffLaw {
+    /// Convention and unit of `value`, e.g. `Hcp mol/(m3 Pa)`.
+    pub convention: String,
+    pub value: f64,
+    pub reference_temperature_k: f64,
+    /// `d ln Hcp / d(1/T)`, K. Positive for gases whose solubility falls as T rises.
+    pub temperature_term_k: f64,
+}
+
+/// What a gas-solubility fit gives.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum FitQuantity {
+    /// Mole fraction of dissolved gas (seed form `mole-fraction-fit`).
+    #[default]
+    MoleFraction,
+    /// Moles of gas per kg of solution (seed form `molality-fit`, for published fits that
+    /// are not mole-fraction fits).
+    Molality,
+}
+
+words!(FitQuantity as "gas-law form" {
+    MoleFraction = "mole-fraction-fit",
+    Molality = "molality-fit",
+});
+
+/// A fitted gas solubility `q` at a gas partial pressure of `reference_pressure_pa`:
+/// `ln q = a + b/τ + c ln τ + d τ` with `τ = T / scale_k`, fitted from `t_min_k` to
+/// `t_max_k`; `quantity` says what `q` is.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct GasFit {
+    /// Named by the law's `form` in JSON.
+    #[serde(skip)]
+    pub quantity: FitQuantity,
+    pub a: f64,
+    pub b: f64,
+    pub c: f64,
+    pub d: f64,
+    pub scale_k: f64,
+    pub reference_pressure_pa: f64,
+    pub t_min_k: f64,
+    pub t_max_k: f64,
+}
+
+/// [`GasLaw`] as JSON writes it: the `form` tag names a fit's quantity.
+#[derive(Serialize, Deserialize)]
+#[serde(tag = "form", rename_all = "kebab-case")]
+enum LawForm {
+    VantHoff(VantHoffLaw),
+    MoleFractionFit(GasFit),
+    MolalityFit(GasFit),
+}
+
+impl From<GasLaw> for LawForm {
+    fn from(law: GasLaw) -> LawForm {
+        match law {
+            GasLaw::VantHoff(law) => LawForm::VantHoff(law),
+            GasLaw::Fit(fit) => match fit.quantity {
+                FitQuantity::MoleFraction => LawForm::MoleFractionFit(fit),
+                FitQuantity::Molality => LawForm::MolalityFit(fit),
+            },
+        }
+    }
+}
+
+impl From<LawForm> for GasLaw {
+    fn from(form: LawForm) -> GasLaw {
+        match form {
+            LawForm::VantHoff(law) => GasLaw::VantHoff(law),
+            LawForm::MoleFractionFit(fit) => GasLaw::Fit(GasFit {
+                quantity: FitQuantity::MoleFraction,
+                ..fit
+            }),
+            LawForm::MolalityFit(fit) => GasLaw::Fit(GasFit {
+                quantity: FitQuantity::Molality,
+                ..fit
+            }),
+        }
+    }
 }
 
 /// A Henry's-law record of a gas, with its source.
@@ -281,15 +395,11 @@ pub enum CheckSubject {
     Henry,
 }
 
-impl CheckSubject {
-    pub fn as_str(self) -> &'static str {
-        match self {
-            CheckSubject::Dataset => "dataset",
-            CheckSubject::Freezing => "freezing",
-            CheckSubject::Henry => "henry",
-        }
-    }
-}
+words!(CheckSubject as "check subject kind" {
+    Dataset = "dataset",
+    Freezing = "freezing",
+    Henry = "henry",
+});
 
 /// What a corroboration check found.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
@@ -304,15 +414,11 @@ pub enum Verdict {
     NotApplicable,
 }
 
-impl Verdict {
-    pub fn as_str(self) -> &'static str {
-        match self {
-            Verdict::Pass => "pass",
-            Verdict::Fail => "fail",
-            Verdict::NotApplicable => "not-applicable",
-        }
-    }
-}
+words!(Verdict as "check verdict" {
+    Pass = "pass",
+    Fail = "fail",
+    NotApplicable = "not-applicable",
+});
 
 /// A corroboration check: one stored record compared with something outside it (a
 /// general-purpose library's model or table, another source, another branch of the same

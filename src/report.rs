@@ -4,7 +4,7 @@
 use std::io::{self, Write};
 
 use crate::catalog::{Catalog, Description, citation};
-use crate::model::{Dataset, GasLaw};
+use crate::model::{Dataset, FitQuantity, GasFit, GasLaw};
 use crate::science::units::TemperatureUnit;
 
 /// The usual caution, said once per report (DESIGN.md, Cautions).
@@ -204,64 +204,41 @@ pub fn write_description(d: &Description<'_>, out: &mut dyn Write) -> io::Result
         writeln!(out)?;
         writeln!(out, "Henry's law constant {}", g.key)?;
         match &g.law {
-            GasLaw::VantHoff {
-                convention,
-                value,
-                reference_temperature_k,
-                temperature_term_k,
-            } => {
+            GasLaw::VantHoff(h) => {
                 field(out, "form", "van 't Hoff")?;
-                field(out, "value", &format!("{value} ({convention})"))?;
-                field(
-                    out,
-                    "at",
-                    &format!(
-                        "{reference_temperature_k} K ({} C)",
-                        celsius(*reference_temperature_k)
-                    ),
-                )?;
-                field(out, "d ln H/d(1/T)", &format!("{temperature_term_k} K"))?;
+                field(out, "value", &format!("{} ({})", h.value, h.convention))?;
+                let t_ref = h.reference_temperature_k;
+                field(out, "at", &format!("{t_ref} K ({} C)", celsius(t_ref)))?;
+                field(out, "d ln H/d(1/T)", &format!("{} K", h.temperature_term_k))?;
             }
-            GasLaw::MoleFractionFit {
-                a,
-                b,
-                c,
-                d,
-                scale_k,
-                reference_pressure_pa,
-                t_min_k,
-                t_max_k,
-            }
-            | GasLaw::MolalityFit {
-                a,
-                b,
-                c,
-                d,
-                scale_k,
-                reference_pressure_pa,
-                t_min_k,
-                t_max_k,
-            } => {
-                let form = if matches!(g.law, GasLaw::MolalityFit { .. }) {
-                    "ln m = a + b/τ + c ln τ + d τ, τ = T/scale, m in mol/kg"
-                } else {
-                    "ln x = a + b/τ + c ln τ + d τ, τ = T/scale, x mole fraction"
+            GasLaw::Fit(fit) => {
+                let form = match fit.quantity {
+                    FitQuantity::Molality => {
+                        "ln m = a + b/τ + c ln τ + d τ, τ = T/scale, m in mol/kg"
+                    }
+                    FitQuantity::MoleFraction => {
+                        "ln x = a + b/τ + c ln τ + d τ, τ = T/scale, x mole fraction"
+                    }
                 };
+                let GasFit { a, b, c, d, .. } = fit;
                 field(out, "form", form)?;
                 field(
                     out,
                     "terms",
-                    &format!("a = {a}, b = {b}, c = {c}, d = {d}, scale = {scale_k} K"),
+                    &format!(
+                        "a = {a}, b = {b}, c = {c}, d = {d}, scale = {} K",
+                        fit.scale_k
+                    ),
                 )?;
                 field(
                     out,
                     "pressure",
-                    &format!("{reference_pressure_pa} Pa of the gas"),
+                    &format!("{} Pa of the gas", fit.reference_pressure_pa),
                 )?;
                 field(
                     out,
                     "range",
-                    &format!("{} C to {} C", celsius(*t_min_k), celsius(*t_max_k)),
+                    &format!("{} C to {} C", celsius(fit.t_min_k), celsius(fit.t_max_k)),
                 )?;
             }
         }

@@ -355,56 +355,23 @@ fn assert_round_trip(files: &[(String, String)], stored: &Contents) {
             assert_eq!(g.note, text(raw, "note"), "{key}");
             let f = |name: &str| num(raw.get(name).unwrap());
             match (&g.law, raw.get("form").and_then(|v| v.as_str())) {
-                (
-                    GasLaw::VantHoff {
-                        convention,
-                        value,
-                        reference_temperature_k,
-                        temperature_term_k,
-                    },
-                    Some("vant-hoff"),
-                ) => {
-                    assert_eq!(Some(convention.clone()), text(raw, "convention"));
-                    assert_eq!(*value, f("value"));
-                    assert_eq!(*reference_temperature_k, f("reference_temperature_k"));
-                    assert_eq!(*temperature_term_k, f("temperature_term_k"));
+                (GasLaw::VantHoff(h), Some("vant-hoff")) => {
+                    assert_eq!(Some(h.convention.clone()), text(raw, "convention"));
+                    assert_eq!(h.value, f("value"));
+                    assert_eq!(h.reference_temperature_k, f("reference_temperature_k"));
+                    assert_eq!(h.temperature_term_k, f("temperature_term_k"));
                 }
-                (
-                    GasLaw::MoleFractionFit {
-                        a,
-                        b,
-                        c,
-                        d,
-                        scale_k,
-                        reference_pressure_pa,
-                        t_min_k,
-                        t_max_k,
-                    },
-                    Some("mole-fraction-fit"),
-                )
-                | (
-                    GasLaw::MolalityFit {
-                        a,
-                        b,
-                        c,
-                        d,
-                        scale_k,
-                        reference_pressure_pa,
-                        t_min_k,
-                        t_max_k,
-                    },
-                    Some("molality-fit"),
-                ) => {
+                (GasLaw::Fit(fit), Some(form)) if fit.quantity.as_str() == form => {
                     assert_eq!(
                         [
-                            *a,
-                            *b,
-                            *c,
-                            *d,
-                            *scale_k,
-                            *reference_pressure_pa,
-                            *t_min_k,
-                            *t_max_k
+                            fit.a,
+                            fit.b,
+                            fit.c,
+                            fit.d,
+                            fit.scale_k,
+                            fit.reference_pressure_pa,
+                            fit.t_min_k,
+                            fit.t_max_k
                         ],
                         [
                             "a",

@@ -10,7 +10,7 @@ use crate::engine::common::{
 };
 use crate::engine::error::EvalError;
 use crate::engine::snapshot::Snapshot;
-use crate::model::{GasConstant, GasLaw, Provenance, Review, Solute, SoluteKind};
+use crate::model::{GasConstant, GasFit, GasLaw, Provenance, Review, Solute, SoluteKind};
 use crate::number::round_significant;
 use crate::query::{DissolvedGas, GasPressure, HeatOfSolution, Options, Span};
 use crate::science::bounds;
@@ -34,7 +34,7 @@ pub(crate) fn laws<'a>(
         .collect();
     laws.sort_by_key(|g| {
         (
-            matches!(g.law, GasLaw::VantHoff { .. }),
+            matches!(g.law, GasLaw::VantHoff(_)),
             g.review != Review::Reviewed,
             g.key.clone(),
         )
@@ -84,12 +84,9 @@ fn evaluate<'a>(
     }
     match (outside, extrapolate) {
         (Some((found, law)), true) => {
-            if let GasLaw::MoleFractionFit {
+            if let Some(&GasFit {
                 t_min_k, t_max_k, ..
-            }
-            | GasLaw::MolalityFit {
-                t_min_k, t_max_k, ..
-            } = law.law
+            }) = law.law.fit()
             {
                 bounds::check_window(t_k, t_min_k, t_max_k).map_err(|_| {
                     let (low, high) = bounds::extrapolation_window(t_min_k, t_max_k);
@@ -109,15 +106,13 @@ fn evaluate<'a>(
             Ok((found, law))
         }
         (Some((_, law)), false) => {
-            let range = match law.law {
-                GasLaw::MoleFractionFit {
-                    t_min_k, t_max_k, ..
-                }
-                | GasLaw::MolalityFit {
-                    t_min_k, t_max_k, ..
-                } => format!(" ({} C to {} C)", celsius(t_min_k), celsius(t_max_k)),
-                GasLaw::VantHoff { .. } => String::new(),
-            };
+            let range = law.law.fit().map_or(String::new(), |fit| {
+                format!(
+                    " ({} C to {} C)",
+                    celsius(fit.t_min_k),
+                    celsius(fit.t_max_k)
+                )
+            });
             Err(EvalError::OutOfRange {
                 message: format!(
                     "{} C is outside the range of the Henry's-law data for {}{range}; add `extrapolate` to go beyond it",

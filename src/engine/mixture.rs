@@ -3,11 +3,11 @@
 //!
 //! A [`Mixture`] is the solved composition (mass fractions of every solute, the water left).
 //! A [`SolidModel`] answers, for one solute of it, whether it stays dissolved over a range,
-//! where it saturates, and where ice appears. This version has one model, [`EachOnItsOwn`]:
-//! every solute is checked against its own pure-water solubility curve at its amount per kg
-//! of the mixture's water, which ignores common-ion and salting effects. An activity model
-//! for mixtures of ions implements the same trait and is chosen by [`model_for`] for the
-//! solutes it covers, leaving the rest to [`EachOnItsOwn`].
+//! where it saturates, and where ice appears. Two models: Pitzer's equations for the
+//! mixture's salts together ([`crate::engine::pitzer_solids`]), chosen by [`model_for`]
+//! when one parameter system holds every ion over the temperatures asked; otherwise
+//! [`EachOnItsOwn`]: every solute against its own pure-water solubility curve at its amount
+//! per kg of the mixture's water, which ignores common-ion and salting effects.
 
 use crate::answer::Answer;
 use crate::engine::common::{cite_curve, curve_error, curve_of};
@@ -83,7 +83,7 @@ pub struct Limits {
 /// The model that checks a mixture's solutes for solids.
 pub trait SolidModel {
     /// The caveat every answer resting on this model carries.
-    fn caveat(&self) -> &'static str;
+    fn caveat(&self) -> String;
 
     /// Whether solute `index` stays dissolved within the limits; cites the data used.
     fn check(&self, ask: &mut Ask, index: usize, at: Limits) -> Result<Screening, EvalError>;
@@ -118,8 +118,8 @@ fn entry<'m, 'a>(
 }
 
 impl SolidModel for EachOnItsOwn {
-    fn caveat(&self) -> &'static str {
-        EACH_ON_ITS_OWN
+    fn caveat(&self) -> String {
+        EACH_ON_ITS_OWN.to_string()
     }
 
     fn check(&self, ask: &mut Ask, index: usize, at: Limits) -> Result<Screening, EvalError> {
@@ -178,9 +178,32 @@ impl SolidModel for EachOnItsOwn {
     }
 }
 
-/// The model for a mixture: [`EachOnItsOwn`] for every solute in this version.
-pub fn model_for(_snap: &Snapshot, _mixture: &Mixture) -> &'static dyn SolidModel {
-    &EachOnItsOwn
+/// The model chosen for a mixture, and why the mixture model was not, when it was not.
+pub struct Chosen<'s> {
+    pub model: Box<dyn SolidModel + 's>,
+    pub note: Option<String>,
+}
+
+/// The model for a mixture over `range` (K; `None`: wherever it holds): Pitzer's equations
+/// ([`PitzerSolids`](crate::engine::pitzer_solids::PitzerSolids)) when one parameter system
+/// holds every ion of the mixture there (or beyond, with `extrapolate`), else
+/// [`EachOnItsOwn`] with the reason.
+pub fn model_for<'s>(
+    snap: &'s Snapshot,
+    mixture: &Mixture,
+    range: Option<(f64, f64)>,
+    extrapolate: bool,
+) -> Chosen<'s> {
+    match crate::engine::pitzer_solids::choose(snap, mixture, range, extrapolate) {
+        Ok(model) => Chosen {
+            model: Box::new(model),
+            note: None,
+        },
+        Err(note) => Chosen {
+            model: Box::new(EachOnItsOwn),
+            note,
+        },
+    }
 }
 
 #[cfg(test)]

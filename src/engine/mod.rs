@@ -17,12 +17,14 @@ mod dissolving;
 mod echo;
 mod error;
 mod filters;
+pub mod freeze_recipe;
 mod freezing;
 mod gas;
 mod heat;
 pub mod mixture;
 mod per_litre;
 mod phase_plot;
+pub mod pitzer_solids;
 mod plot;
 mod recipe;
 mod records;
@@ -146,7 +148,20 @@ impl Engine {
     /// Parses and answers every statement of `text`, in order: one answer per statement,
     /// failed ones included (`ok: false`, with line and column relative to `text`).
     pub fn run_text(&self, text: &str, session: &mut Session) -> Vec<Answer> {
-        self.prepare(text, session).answers(self).collect()
+        self.answer_each(text, session).collect()
+    }
+
+    /// Answers the statements of `text` one at a time as the iterator is advanced: each is
+    /// parsed (binding `let` names in `session`), answered and handed over before the next
+    /// is read, so a script of any length streams from text to answers holding one
+    /// statement at a time (batch mode). The same answers as `run_text`.
+    pub fn answer_each<'a>(&'a self, text: &'a str, session: &'a mut Session) -> Answering<'a> {
+        Answering {
+            engine: self,
+            text,
+            lines: query::LineIndex::new(text),
+            statements: query::statements(text, &mut session.env),
+        }
     }
 
     /// Parses every statement of `text` (binding `let` names in `session`) without answering
@@ -337,6 +352,32 @@ impl<'t> Prepared<'t> {
     }
 }
 
+/// The answers to the statements of one text, each parsed and answered when drawn (see
+/// [`Engine::answer_each`]).
+#[derive(Debug)]
+pub struct Answering<'a> {
+    engine: &'a Engine,
+    text: &'a str,
+    lines: query::LineIndex,
+    statements: query::Statements<'a, 'a>,
+}
+
+impl Answering<'_> {
+    /// Line and column (1-based, in characters) of a byte offset of the text.
+    pub fn line_column(&self, offset: usize) -> (usize, usize) {
+        self.lines.line_column(self.text, offset)
+    }
+}
+
+impl Iterator for Answering<'_> {
+    type Item = Answer;
+
+    fn next(&mut self) -> Option<Answer> {
+        let parsed = self.statements.next()?;
+        Some(self.engine.answer_parsed(&parsed, self.text, &self.lines))
+    }
+}
+
 /// The line of `text` holding byte `offset`, trimmed: what a failed statement "said".
 fn statement_text(text: &str, offset: usize) -> String {
     let offset = offset.min(text.len());
@@ -391,6 +432,7 @@ fn kind_of(statement: &Statement) -> AnswerKind {
             query::RecipeQuestion::SolidsForm { .. } => AnswerKind::Solids,
             query::RecipeQuestion::Saturation { .. } => AnswerKind::Saturation,
             query::RecipeQuestion::Describe { .. } => AnswerKind::Describe,
+            query::RecipeQuestion::Freezing { .. } => AnswerKind::Freezing,
         },
     }
 }
@@ -430,6 +472,33 @@ mod tests {
         assert_eq!((error.stage, error.code), ("parse", "unknown-statement"));
         assert_eq!((error.line, error.column), (1, 29));
         assert_eq!(&text[error.span.0..error.span.1], "solubilty");
+    }
+
+    #[test]
+    fn answering_one_at_a_time_gives_the_answers_of_the_prepared_script() {
+        let engine = Engine::open_embedded().unwrap();
+        let text = "let cold = 5 C\nsolubility of KNO3 at cold; solubilty of KCl\n\
+                    solubility of NaCl at 500 C\nlet cold = 10 C\nsolubility of KNO3 at cold";
+        let (mut streamed, mut whole) = (engine.session(), engine.session());
+        let mut answering = engine.answer_each(text, &mut streamed);
+        let mut one_at_a_time = Vec::new();
+        while let Some(answer) = answering.next() {
+            let position = answering.line_column(answer.span.0);
+            one_at_a_time.push((serde_json::to_string(&answer).unwrap(), position));
+        }
+        let prepared = engine.prepare(text, &mut whole);
+        let all_at_once: Vec<_> = prepared
+            .answers(&engine)
+            .map(|a| {
+                let position = prepared.line_column(a.span.0);
+                (serde_json::to_string(&a).unwrap(), position)
+            })
+            .collect();
+        assert_eq!(one_at_a_time.len(), 6);
+        assert_eq!(one_at_a_time, all_at_once);
+        // Both bound the names of the whole script in the session.
+        assert_eq!(streamed.names().collect::<Vec<_>>(), ["cold"]);
+        assert_eq!(whole.names().collect::<Vec<_>>(), ["cold"]);
     }
 
     #[test]

@@ -15,7 +15,7 @@ use crate::engine::common::{
 use crate::engine::error::EvalError;
 use crate::engine::gas;
 use crate::engine::snapshot::{BuiltCurve, Snapshot};
-use crate::model::{GasLaw, Provenance, Review, Solute, SoluteKind};
+use crate::model::{Provenance, Review, Solute, SoluteKind};
 use crate::number::round_significant;
 use crate::plot::spec::{
     Limiting, LoadingLine, PlotSpec, PointSet, Segment, Series, TransitionMark,
@@ -650,14 +650,9 @@ fn gases(
         None => {
             let mut range = (f64::INFINITY, f64::NEG_INFINITY);
             for (solute, name, law) in &chosen {
-                match law.law {
-                    GasLaw::MoleFractionFit {
-                        t_min_k, t_max_k, ..
-                    }
-                    | GasLaw::MolalityFit {
-                        t_min_k, t_max_k, ..
-                    } => range = (range.0.min(t_min_k), range.1.max(t_max_k)),
-                    GasLaw::VantHoff { .. } => {
+                match law.law.fit() {
+                    Some(fit) => range = (range.0.min(fit.t_min_k), range.1.max(fit.t_max_k)),
+                    None => {
                         return Err(EvalError::Unanswerable {
                             message: format!(
                                 "the Henry's-law record of {} states no temperature range: give one, such as `from 0 C to 40 C`",

@@ -181,7 +181,23 @@ pub fn file_faults(snap: &Snapshot, recipe: &Recipe) -> Vec<EvalError> {
 /// mixture's model.
 pub fn recipe(snap: &Snapshot, s: &RecipeStatement, answer: &mut Answer) -> Result<(), EvalError> {
     let composed = compose(snap, &s.recipe, &s.options, answer)?;
-    let model = model_for(snap, &composed.mixture);
+    if let RecipeQuestion::Freezing { at } = &s.question {
+        let asked = crate::engine::freeze_recipe::Asked {
+            recipe: &s.recipe,
+            at: at.kelvin(),
+            span: at.span,
+        };
+        crate::engine::freeze_recipe::freezing(snap, &composed.mixture, &s.options, asked, answer)?;
+        answer.caveat(CAUTION);
+        return Ok(());
+    }
+    let range = match &s.question {
+        RecipeQuestion::Require { temperatures, .. }
+        | RecipeQuestion::SolidsForm { temperatures } => Some(bounds(temperatures)),
+        _ => None,
+    };
+    let chosen = model_for(snap, &composed.mixture, range, s.options.extrapolate);
+    let model = chosen.model.as_ref();
     let mut ask = Ask {
         snap,
         mixture: &composed.mixture,
@@ -208,10 +224,15 @@ pub fn recipe(snap: &Snapshot, s: &RecipeStatement, answer: &mut Answer) -> Resu
         RecipeQuestion::SolidsForm { temperatures } => {
             solids_form(&mut ask, model, limits(temperatures, 0.0))?;
         }
+        // Answered above, before a model is chosen.
+        RecipeQuestion::Freezing { .. } => {}
         RecipeQuestion::Saturation { unit } => {
             let unit = unit.map_or(TemperatureUnit::Celsius, |u| u.unit);
             saturation(&mut ask, model, unit)?;
         }
+    }
+    if let Some(note) = chosen.note {
+        answer.caveat(note);
     }
     answer.caveat(model.caveat());
     answer.caveat(CAUTION);
@@ -409,9 +430,44 @@ fn forms_in(screening: &Screening, crossings: &[Crossing], at: Limits) -> String
     }
 }
 
+/// The first solid to appear on cooling from the top of the range: the highest of the
+/// temperatures below which a solid forms (ice included), or the top itself when a solid
+/// is there already. `None` when nothing forms in the range.
+fn first_on_cooling(rows: &[Row], top_c: f64) -> Option<Row> {
+    let mut first: Option<(f64, &Row)> = None;
+    for row in rows {
+        let Some(forms) = row.extra.get("forms").and_then(|f| f.as_str()) else {
+            continue;
+        };
+        let t = if forms == "over the whole range" {
+            Some(top_c)
+        } else {
+            forms
+                .split(" and ")
+                .filter_map(|part| part.strip_prefix("below ")?.strip_suffix(" C"))
+                .filter_map(|t| t.parse::<f64>().ok())
+                .reduce(f64::max)
+        };
+        if let Some(t) = t {
+            if first.is_none_or(|(best, _)| t > best) {
+                first = Some((t, row));
+            }
+        }
+    }
+    first.map(|(t, row)| Row {
+        solute: row.solute.clone(),
+        quantity: Some("first solid on cooling".into()),
+        phase: row.phase.clone(),
+        temperature_c: Some(t),
+        ..Row::default()
+    })
+}
+
 /// `which solids form in eyewash from -5 C to 25 C`: for each solute whether its solid
-/// appears in the range and below (or above) which temperature; ice below 0 °C.
+/// appears in the range and below (or above) which temperature; ice below 0 °C; and the
+/// first solid to appear on cooling.
 fn solids_form(ask: &mut Ask, model: &dyn SolidModel, at: Limits) -> Result<(), EvalError> {
+    let first_row = ask.answer.rows.len();
     if at.t1 < ICE_POINT {
         let row = ice_row(model, ask.mixture, at.t1, ask.answer);
         ask.answer.rows.push(row);
@@ -459,6 +515,12 @@ fn solids_form(ask: &mut Ask, model: &dyn SolidModel, at: Limits) -> Result<(), 
     ask.answer.caveat(
         "`holds` says the solid does not form; `temperature_c` is where each solute comes closest to saturation in the range",
     );
+    if let Some(row) = first_on_cooling(&ask.answer.rows[first_row..], celsius(at.t2)) {
+        ask.answer.rows.push(row);
+        ask.answer.caveat(
+            "once the first solid forms the liquid changes; `freezing of NAME at T` follows it below 0 C",
+        );
+    }
     Ok(())
 }
 

@@ -7,7 +7,7 @@ use crate::catalog::citation;
 use crate::engine::common::{celsius, cite_source, hazard, resolve};
 use crate::engine::error::EvalError;
 use crate::engine::snapshot::Snapshot;
-use crate::model::{GasLaw, Solute, SoluteKind};
+use crate::model::{FitQuantity, GasFit, GasLaw, Solute, SoluteKind};
 use crate::number::round_significant;
 use crate::query::{Describe, Filter, Let, List, SoluteClass, Sources, Value};
 use crate::science::formula::parse_formula;
@@ -105,30 +105,21 @@ pub fn describe(snap: &Snapshot, s: &Describe, answer: &mut Answer) -> Result<()
     for law in snap.catalog.gas_constants_of(&solute.id) {
         cite_source(snap, &law.source, answer);
         let form = match &law.law {
-            GasLaw::VantHoff {
-                convention,
-                value,
-                reference_temperature_k,
-                temperature_term_k,
-            } => format!(
-                "{convention} = {value} at {reference_temperature_k} K, d ln H/d(1/T) = {temperature_term_k} K"
+            GasLaw::VantHoff(h) => format!(
+                "{} = {} at {} K, d ln H/d(1/T) = {} K",
+                h.convention, h.value, h.reference_temperature_k, h.temperature_term_k
             ),
-            GasLaw::MoleFractionFit {
-                a,
-                b,
-                c,
-                d,
-                scale_k,
-                ..
-            } => format!("ln x = {a} + {b}/τ + {c} ln τ + {d} τ, τ = T/{scale_k} K"),
-            GasLaw::MolalityFit {
-                a,
-                b,
-                c,
-                d,
-                scale_k,
-                ..
-            } => format!("ln m = {a} + {b}/τ + {c} ln τ + {d} τ, τ = T/{scale_k} K"),
+            GasLaw::Fit(fit) => {
+                let q = match fit.quantity {
+                    FitQuantity::MoleFraction => "x",
+                    FitQuantity::Molality => "m",
+                };
+                let GasFit { a, b, c, d, .. } = fit;
+                format!(
+                    "ln {q} = {a} + {b}/τ + {c} ln τ + {d} τ, τ = T/{} K",
+                    fit.scale_k
+                )
+            }
         };
         answer.rows.push(Row {
             solute: Some(solute.name.clone()),

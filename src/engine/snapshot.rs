@@ -6,7 +6,7 @@ use std::collections::HashMap;
 
 use crate::catalog::Catalog;
 use crate::model::{Dataset, Provenance, Review};
-use crate::science::activity::ParameterSet;
+use crate::science::activity::{ParameterSet, System};
 use crate::science::curve::{Branch, Curve};
 
 /// A curve and the datasets it was built from (indices into `Catalog::datasets`).
@@ -38,6 +38,8 @@ pub struct Snapshot {
     names: Vec<String>,
     /// The activity model's parameter sets (`seed-data/models/`), compiled in.
     models: Vec<ParameterSet>,
+    /// The mixture model's systems (sets and mixing parameters fitted together), compiled in.
+    systems: Vec<System>,
 }
 
 /// Ranks datasets of one phase: reviewed before unreviewed, then measured or compiled data
@@ -138,12 +140,15 @@ impl Snapshot {
         // would leave the activity model without parameters, never stop the engine.
         let models =
             crate::store::models::parameter_sets(crate::seed_files::SEED_FILES).unwrap_or_default();
+        let systems = crate::store::models::mixture_systems(crate::seed_files::SEED_FILES)
+            .unwrap_or_default();
         Snapshot {
             catalog,
             curves,
             curve_index,
             names,
             models,
+            systems,
         }
     }
 
@@ -157,6 +162,11 @@ impl Snapshot {
             .collect();
         sets.sort_by(|a, b| a.t_min_k.total_cmp(&b.t_min_k));
         sets
+    }
+
+    /// The mixture model's systems, as the model files list them.
+    pub fn systems(&self) -> &[System] {
+        &self.systems
     }
 
     /// The curve of a solute, from all data or reviewed data only.

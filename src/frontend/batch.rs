@@ -268,13 +268,18 @@ pub fn run_arguments(
     format: Format,
     pictures: &Pictures,
 ) -> Outcome {
-    run_std(
+    let grouped = super::arguments::group(statements);
+    let outcome = run_std(
         db,
         recipes,
-        &[ScriptSource::Arguments(statements.to_vec())],
+        &[ScriptSource::Arguments(grouped.statements)],
         format,
         pictures,
-    )
+    );
+    if let (Some(hint), true) = (grouped.hint, outcome == Outcome::Unanswered) {
+        report(&mut io::stderr(), &format!("satline: {hint}"));
+    }
+    outcome
 }
 
 /// Runs scripts that are already read, in order, in one session. With `pictures.out`,
@@ -311,10 +316,10 @@ fn run_in_session<W: Write>(
     let mut outcome = Outcome::Success;
     let mut plots = 0;
     for script in scripts {
-        // Each answer is printed as soon as it is made and then dropped: memory does not
-        // grow with the number of statements.
-        let prepared = engine.prepare(&script.text, session);
-        for mut answer in prepared.answers(engine) {
+        // Each statement is parsed when its turn comes, answered, printed and dropped:
+        // memory does not grow with the number of statements.
+        let mut answering = engine.answer_each(&script.text, session);
+        while let Some(mut answer) = answering.next() {
             if let Some(spec) = answer.plot.as_deref() {
                 plots += 1;
                 match pictures.write(spec, plots) {
@@ -326,7 +331,7 @@ fn run_in_session<W: Write>(
                 }
             }
             let answer = &answer;
-            let position = Some(prepared.line_column(answer.span.0));
+            let position = Some(answering.line_column(answer.span.0));
             if let Some(problem) = judge(&script.name, position, answer) {
                 if answer.ok || errors == Errors::Reported {
                     report(err, &problem.message);

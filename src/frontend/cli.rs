@@ -24,6 +24,7 @@ use crate::store::sources::SourceFields;
     about,
     subcommand_precedence_over_arg = true,
     disable_help_subcommand = true,
+    allow_negative_numbers = true,
     after_long_help = LANGUAGE_GUIDE,
     after_help = LANGUAGE_GUIDE
 )]
@@ -56,7 +57,8 @@ pub struct Cli {
     pub command: Option<Command>,
 
     /// Statements to answer, e.g. "solubility of KNO3 at 20 C" (one per argument, or
-    /// several separated by `;`).
+    /// several separated by `;`). Words without quotes are joined into one statement:
+    /// `satline solubility of KNO3 at 20 C`.
     pub statements: Vec<String>,
 }
 

@@ -4,6 +4,7 @@
 //! `batch` runs scripts and decides the exit status; `repl` is the interactive session, with
 //! its `command`s (help, output format), `complete` (completion and hints) and `help` texts.
 
+pub mod arguments;
 pub mod batch;
 pub mod cli;
 pub mod command;

@@ -26,36 +26,15 @@ pub enum ThermoQuantity {
     ElectronAffinity,
 }
 
+words!(ThermoQuantity as "quantity" {
+    Formation = "formation",
+    Hydration = "hydration",
+    Radius = "radius",
+    Ionisation = "ionisation",
+    ElectronAffinity = "electron-affinity",
+});
+
 impl ThermoQuantity {
-    pub const NAMES: [&'static str; 5] = [
-        "formation",
-        "hydration",
-        "radius",
-        "ionisation",
-        "electron-affinity",
-    ];
-
-    pub fn as_str(self) -> &'static str {
-        match self {
-            ThermoQuantity::Formation => "formation",
-            ThermoQuantity::Hydration => "hydration",
-            ThermoQuantity::Radius => "radius",
-            ThermoQuantity::Ionisation => "ionisation",
-            ThermoQuantity::ElectronAffinity => "electron-affinity",
-        }
-    }
-
-    pub fn from_name(name: &str) -> Option<Self> {
-        Some(match name {
-            "formation" => ThermoQuantity::Formation,
-            "hydration" => ThermoQuantity::Hydration,
-            "radius" => ThermoQuantity::Radius,
-            "ionisation" => ThermoQuantity::Ionisation,
-            "electron-affinity" => ThermoQuantity::ElectronAffinity,
-            _ => return None,
-        })
-    }
-
     /// The one unit a value of this quantity is written in.
     pub fn unit(self) -> &'static str {
         match self {
@@ -79,28 +58,12 @@ pub enum ThermoState {
     Liquid,
 }
 
-impl ThermoState {
-    pub const NAMES: [&'static str; 4] = ["cr", "aq", "g", "l"];
-
-    pub fn as_str(self) -> &'static str {
-        match self {
-            ThermoState::Crystal => "cr",
-            ThermoState::Aqueous => "aq",
-            ThermoState::Gas => "g",
-            ThermoState::Liquid => "l",
-        }
-    }
-
-    pub fn from_name(name: &str) -> Option<Self> {
-        Some(match name {
-            "cr" => ThermoState::Crystal,
-            "aq" => ThermoState::Aqueous,
-            "g" => ThermoState::Gas,
-            "l" => ThermoState::Liquid,
-            _ => return None,
-        })
-    }
-}
+words!(ThermoState as "state" {
+    Crystal = "cr",
+    Aqueous = "aq",
+    Gas = "g",
+    Liquid = "l",
+});
 
 /// One tabulated thermochemical figure.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]

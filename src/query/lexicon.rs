@@ -5,11 +5,13 @@ use super::ast::ValueKind;
 use crate::science::units::{CompositionUnit, PressureUnit, TemperatureUnit};
 
 /// Words that begin a statement.
-pub const STATEMENT_WORDS: [&str; 15] = [
+pub const STATEMENT_WORDS: [&str; 17] = [
     "solubility",
     "which",
     "saturation",
     "ceiling",
+    "max",
+    "maximum",
     "heat",
     "dissolving",
     "dissolved",
@@ -24,8 +26,9 @@ pub const STATEMENT_WORDS: [&str; 15] = [
 ];
 
 /// Words that end a multi-word name: the name stops where one of these begins.
-pub const NAME_STOP: [&str; 15] = [
+pub const NAME_STOP: [&str; 16] = [
     "at",
+    "between",
     "from",
     "to",
     "in",

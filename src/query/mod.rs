@@ -27,7 +27,9 @@ pub mod recipe;
 pub use ast::*;
 pub use error::{ParseError, ParseErrorKind, line_column};
 pub use lines::LineIndex;
-pub use parse::{Env, parse_recipe_file, parse_script, parse_statement, parse_with};
+pub use parse::{
+    Env, Statements, parse_recipe_file, parse_script, parse_statement, parse_with, statements,
+};
 pub use recipe::{Ingredient, Recipe, RecipeQuestion, RecipeStatement};
 
 /// Every word of the language, sorted and each once (for completion and help).

@@ -84,6 +84,9 @@ pub enum RecipeQuestion {
     /// `describe eyewash [at 25 C]`: the composition in every basis, per litre at the
     /// temperature given (else the recipe's volume temperature).
     Describe { at: Option<Temperature> },
+    /// `freezing of eyewash at -20 C`: the ice and salts out of the recipe at that
+    /// temperature, and the liquid left.
+    Freezing { at: Temperature },
 }
 
 /// A statement about a recipe, named or written in place.
@@ -103,6 +106,7 @@ impl RecipeStatement {
             RecipeQuestion::SolidsForm { .. } => "solids",
             RecipeQuestion::Saturation { .. } => "saturation",
             RecipeQuestion::Describe { .. } => "describe",
+            RecipeQuestion::Freezing { .. } => "freezing",
         }
     }
 }

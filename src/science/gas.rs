@@ -9,7 +9,7 @@ use super::curve::Basis;
 use super::error::ScienceError;
 use super::heat::{GAS_CONSTANT, HeatSign, heat_from_slope};
 use super::units::{WATER_MOLAR_MASS, positive};
-use crate::model::GasLaw;
+use crate::model::{FitQuantity, GasFit, GasLaw};
 
 /// One standard atmosphere, Pa (exact by definition).
 pub const STANDARD_ATMOSPHERE: f64 = 101_325.0;
@@ -198,39 +198,12 @@ pub fn vant_hoff_hcp(
     Ok(h_ref * (temperature_term_k * (1.0 / t_k - 1.0 / t_ref)).exp())
 }
 
-/// Mole fraction of dissolved gas at the fit's reference partial pressure:
+/// The fitted quantity at the fit's reference partial pressure: for a mole-fraction fit
 /// ln x = a + b/τ + c ln τ + d τ, τ = T/scale_k (the form of the IUPAC Solubility Data
-/// Series fits; Clever & Battino). Returns (x, inside the fit's range). For a molality fit
-/// (`ln m = a + b/τ + c ln τ + d τ`, m in mol/kg of water) the fitted value is returned the
-/// same way; the law's form says which quantity it is.
+/// Series fits; Clever & Battino), for a molality fit the same in ln m. Returns (value,
+/// inside the fit's range); `None` for a van 't Hoff record.
 pub fn mole_fraction_fit(law: &GasLaw, t_k: f64) -> Option<(f64, bool)> {
-    match *law {
-        GasLaw::MoleFractionFit {
-            a,
-            b,
-            c,
-            d,
-            scale_k,
-            t_min_k,
-            t_max_k,
-            ..
-        }
-        | GasLaw::MolalityFit {
-            a,
-            b,
-            c,
-            d,
-            scale_k,
-            t_min_k,
-            t_max_k,
-            ..
-        } => {
-            let tau = t_k / scale_k;
-            let x = (a + b / tau + c * tau.ln() + d * tau).exp();
-            Some((x, t_k >= t_min_k && t_k <= t_max_k))
-        }
-        GasLaw::VantHoff { .. } => None,
-    }
+    law.fit().map(|fit| fit.value(t_k))
 }
 
 /// Dissolved gas in the units of the trade.
@@ -279,29 +252,24 @@ pub fn dissolved(
     let rho = water_density(t_k)?; // kg/m³
     // Moles of gas (n) per kg of water, and the basis.
     let (n_per_kg_water, basis) = match law {
-        GasLaw::VantHoff {
-            convention,
-            value,
-            reference_temperature_k,
-            temperature_term_k,
-        } => {
+        GasLaw::VantHoff(law) => {
             let hcp = vant_hoff_hcp(
-                convention,
-                *value,
-                *reference_temperature_k,
-                *temperature_term_k,
+                &law.convention,
+                law.value,
+                law.reference_temperature_k,
+                law.temperature_term_k,
                 t_k,
             )?;
             let c = hcp * partial_pressure_pa; // mol/m³ of solution
             // Water in 1 m³ of solution of density ρ: ρ − c·M/1000 kg.
             (c / (rho - c * m / 1000.0), Basis::Fitted)
         }
-        GasLaw::MoleFractionFit {
-            reference_pressure_pa,
-            ..
-        } => {
-            let p_ref = positive("reference pressure (Pa)", *reference_pressure_pa)?;
-            let (x_ref, inside) = mole_fraction_fit(law, t_k).unwrap_or((0.0, false));
+        GasLaw::Fit(fit) if fit.quantity == FitQuantity::Molality => {
+            return dissolved_molality_fit(fit, m, t_k, partial_pressure_pa);
+        }
+        GasLaw::Fit(fit) => {
+            let p_ref = positive("reference pressure (Pa)", fit.reference_pressure_pa)?;
+            let (x_ref, inside) = fit.value(t_k);
             let x = x_ref * partial_pressure_pa / p_ref;
             let per_kg = x / (1.0 - x) * 1000.0 / WATER_MOLAR_MASS;
             (
@@ -312,28 +280,6 @@ pub fn dissolved(
                     Basis::Extrapolated
                 },
             )
-        }
-        GasLaw::MolalityFit {
-            a,
-            b,
-            c,
-            d,
-            scale_k,
-            reference_pressure_pa,
-            t_min_k,
-            t_max_k,
-        } => {
-            let fit = MolalityFit {
-                a: *a,
-                b: *b,
-                c: *c,
-                d: *d,
-                scale_k: *scale_k,
-                reference_pressure_pa: *reference_pressure_pa,
-                t_min_k: *t_min_k,
-                t_max_k: *t_max_k,
-            };
-            return dissolved_molality_fit(&fit, m, t_k, partial_pressure_pa);
         }
     };
     Ok(amounts(n_per_kg_water, m, rho, basis))
@@ -358,42 +304,28 @@ fn amounts(n_per_kg_water: f64, m: f64, rho: f64, basis: Basis) -> Dissolved {
     }
 }
 
-/// A solubility fit in molality form, as some sources give it (e.g. R. F. Weiss, Marine
-/// Chemistry 2 (1974) 203–215, for CO2): ln K = a + b/τ + c ln τ + d τ, τ = T/scale_k, with
-/// K the moles of gas per kg of solution at a gas partial pressure of
-/// `reference_pressure_pa`; the seed form `molality-fit` ([`GasLaw::MolalityFit`]).
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub struct MolalityFit {
-    pub a: f64,
-    pub b: f64,
-    pub c: f64,
-    pub d: f64,
-    pub scale_k: f64,
-    pub reference_pressure_pa: f64,
-    pub t_min_k: f64,
-    pub t_max_k: f64,
-}
-
-impl MolalityFit {
-    /// K at `t_k`, mol per kg of solution at the reference pressure, and whether `t_k` is
+impl GasFit {
+    /// The fitted quantity at `t_k` (at the reference pressure), and whether `t_k` is
     /// inside the fit's range.
     pub fn value(&self, t_k: f64) -> (f64, bool) {
         let tau = t_k / self.scale_k;
-        let k = (self.a + self.b / tau + self.c * tau.ln() + self.d * tau).exp();
-        (k, t_k >= self.t_min_k && t_k <= self.t_max_k)
+        let q = (self.a + self.b / tau + self.c * tau.ln() + self.d * tau).exp();
+        (q, t_k >= self.t_min_k && t_k <= self.t_max_k)
     }
 
-    /// d ln K / d(1/T) at `t_k`, K: b·s − c·T − d·T²/s.
+    /// d ln q / d(1/T) at `t_k`, K: b·s − c·T − d·T²/s.
     pub fn slope_k(&self, t_k: f64) -> f64 {
         self.b * self.scale_k - self.c * t_k - self.d * t_k * t_k / self.scale_k
     }
 }
 
-/// [`dissolved`] for a [`MolalityFit`]: n = K(T)·p/p_ref mol per kg of solution (Henry's law),
+/// [`dissolved`] for a molality fit, as some sources give it (e.g. R. F. Weiss, Marine
+/// Chemistry 2 (1974) 203–215, for CO2; the seed form `molality-fit`): K(T) the moles of gas
+/// per kg of solution at the reference pressure, n = K(T)·p/p_ref (Henry's law),
 /// other units as in [`dissolved`]. Fugacity is taken equal to partial pressure (for CO2 at
 /// 1 atm about 0.5 % apart).
 pub fn dissolved_molality_fit(
-    fit: &MolalityFit,
+    fit: &GasFit,
     molar_mass: f64,
     t_k: f64,
     partial_pressure_pa: f64,
@@ -429,16 +361,9 @@ pub fn dissolved_molality_fit(
 /// for a mole-fraction fit, d ln x/d(1/T) = b·s − c·T − d·T²/s (s = scale_k).
 pub fn gas_heat_of_solution(law: &GasLaw, t_k: f64) -> Result<(f64, HeatSign), ScienceError> {
     let t_k = positive("temperature (K)", t_k)?;
-    let slope = match *law {
-        GasLaw::VantHoff {
-            temperature_term_k, ..
-        } => temperature_term_k,
-        GasLaw::MoleFractionFit {
-            b, c, d, scale_k, ..
-        }
-        | GasLaw::MolalityFit {
-            b, c, d, scale_k, ..
-        } => b * scale_k - c * t_k - d * t_k * t_k / scale_k,
+    let slope = match law {
+        GasLaw::VantHoff(law) => law.temperature_term_k,
+        GasLaw::Fit(fit) => fit.slope_k(t_k),
     };
     let dh = heat_from_slope(slope);
     Ok((dh, HeatSign::of(dh)))
@@ -518,6 +443,7 @@ pub fn partial_pressure_in_air(
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::model::VantHoffLaw;
 
     #[test]
     fn vapour_pressure_known_points() {
@@ -558,12 +484,12 @@ mod tests {
 
     #[test]
     fn vant_hoff_falls_with_temperature_for_positive_term() {
-        let law = GasLaw::VantHoff {
+        let law = GasLaw::VantHoff(VantHoffLaw {
             convention: "Hcp mol/(m3 Pa)".into(),
             value: 1.3e-5,
             reference_temperature_k: 298.15,
             temperature_term_k: 1500.0,
-        };
+        });
         let cold = dissolved(&law, 31.998, 278.15, 21_000.0).unwrap();
         let warm = dissolved(&law, 31.998, 308.15, 21_000.0).unwrap();
         assert!(cold.mg_per_l > warm.mg_per_l);
@@ -578,7 +504,8 @@ mod tests {
     #[test]
     fn molality_fit_is_henrys_law() {
         // Invented parameters: ln K = −4 at every T (a = −4), so K = e⁻⁴ mol/kg per atm.
-        let fit = MolalityFit {
+        let fit = GasFit {
+            quantity: FitQuantity::Molality,
             a: -4.0,
             b: 0.0,
             c: 0.0,

@@ -27,9 +27,15 @@ impl TemperatureUnit {
     /// needed: all are upper case in practice, but lower case is accepted).
     pub fn from_symbol(s: &str) -> Option<Self> {
         match s {
-            "C" | "c" | "°C" | "degC" => Some(Self::Celsius),
+            // `º` (the ordinal indicator) is often typed for `°`; `℃` and `℉` are the
+            // single characters of the two scales.
+            "C" | "c" | "°C" | "° C" | "ºC" | "º C" | "℃" | "degC" | "deg C" | "degrees C" => {
+                Some(Self::Celsius)
+            }
             "K" | "k" => Some(Self::Kelvin),
-            "F" | "f" | "°F" | "degF" => Some(Self::Fahrenheit),
+            "F" | "f" | "°F" | "° F" | "ºF" | "º F" | "℉" | "degF" | "deg F" | "degrees F" => {
+                Some(Self::Fahrenheit)
+            }
             _ => None,
         }
     }

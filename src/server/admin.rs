@@ -7,7 +7,7 @@ use std::path::PathBuf;
 use std::sync::Arc;
 
 use axum::body::Body;
-use axum::extract::{Query, State};
+use axum::extract::{FromRequest, Query, Request, State};
 use axum::http::{HeaderMap, StatusCode};
 use axum::response::{IntoResponse, Response};
 use serde::Deserialize;
@@ -110,13 +110,7 @@ where
     request_body(content = String, content_type = "text/plain", description = "one file: sources.toml or <solute-id>.toml in the seed format, or a .csv of points"),
     responses(
         (status = 200, description = "the import plan (written unless a dry run)", body = Object),
-        (status = 400, description = "a statement or parameter that cannot be read", body = super::reply::ErrorBody),
-        (status = 401, description = "no or a wrong bearer token", body = super::reply::ErrorBody),
-        (status = 403, description = "a read-only server (started without a token)", body = super::reply::ErrorBody),
-        (status = 409, description = "the embedded default database is read-only", body = super::reply::ErrorBody),
-        (status = 413, description = "a body or query over the limits", body = super::reply::ErrorBody),
-        (status = 422, description = "statements that parsed but could not be answered, or a refused write", body = super::reply::ErrorBody),
-        (status = 500, description = "a fault inside the server", body = super::reply::ErrorBody)
+        super::responses::ImportErrors
     ),
     security(("bearer" = [])))]
 pub(crate) async fn import(
@@ -191,17 +185,28 @@ pub(crate) async fn import(
     .await
 }
 
-fn json_body<T: serde::de::DeserializeOwned>(bytes: &[u8]) -> Result<T, ApiError> {
-    serde_json::from_slice(bytes).map_err(|e| {
-        ApiError::with_fields(
-            StatusCode::BAD_REQUEST,
-            ErrorFields::new(
-                "bad-json",
-                format!("the body is not the JSON expected: {e}"),
+/// The JSON body of a librarian's write, extracted once the token is checked and the body
+/// read within the limit; a request that fails either gets the error reply.
+pub(crate) struct Authorized<T>(T);
+
+impl<T: serde::de::DeserializeOwned> FromRequest<Shared> for Authorized<T> {
+    type Rejection = ApiError;
+
+    async fn from_request(request: Request, state: &Shared) -> Result<Self, ApiError> {
+        let (parts, body) = request.into_parts();
+        auth::authorize(state.token.as_ref(), &parts.headers)?;
+        let bytes = read_body(&parts.headers, body, state.limits.body_bytes).await?;
+        serde_json::from_slice(&bytes).map(Authorized).map_err(|e| {
+            ApiError::with_fields(
+                StatusCode::BAD_REQUEST,
+                ErrorFields::new(
+                    "bad-json",
+                    format!("the body is not the JSON expected: {e}"),
+                )
+                .at(e.line(), e.column()),
             )
-            .at(e.line(), e.column()),
-        )
-    })
+        })
+    }
 }
 
 /// `POST /v1/admin/review` with `{"dataset", "decision": "approve"|"reject", "note",
@@ -209,30 +214,13 @@ fn json_body<T: serde::de::DeserializeOwned>(bytes: &[u8]) -> Result<T, ApiError
 #[utoipa::path(post, path = "/v1/admin/review", tag = "librarian", request_body = ReviewBody,
     responses(
         (status = 200, description = "`{dataset, decision, actor}`; the engine is swapped", body = Object),
-        (status = 400, description = "a statement or parameter that cannot be read", body = super::reply::ErrorBody),
-        (status = 401, description = "no or a wrong bearer token", body = super::reply::ErrorBody),
-        (status = 403, description = "a read-only server (started without a token)", body = super::reply::ErrorBody),
-        (status = 409, description = "the embedded default database is read-only", body = super::reply::ErrorBody),
-        (status = 422, description = "statements that parsed but could not be answered, or a refused write", body = super::reply::ErrorBody),
-        (status = 500, description = "a fault inside the server", body = super::reply::ErrorBody)
+        super::responses::WriteErrors
     ),
     security(("bearer" = [])))]
 pub(crate) async fn review(
     State(state): State<Shared>,
-    headers: HeaderMap,
-    body: Body,
+    Authorized(request): Authorized<ReviewBody>,
 ) -> Response {
-    if let Err(e) = auth::authorize(state.token.as_ref(), &headers) {
-        return e.into_response();
-    }
-    let bytes = match read_body(&headers, body, state.limits.body_bytes).await {
-        Ok(bytes) => bytes,
-        Err(e) => return e.into_response(),
-    };
-    let request: ReviewBody = match json_body(&bytes) {
-        Ok(r) => r,
-        Err(e) => return e.into_response(),
-    };
     let decision = match request.decision.as_str() {
         "approve" => Decision::Approve,
         "reject" => Decision::Reject,
@@ -258,30 +246,13 @@ pub(crate) async fn review(
 #[utoipa::path(post, path = "/v1/admin/retire", tag = "librarian", request_body = RetireBody,
     responses(
         (status = 200, description = "`{dataset, retired, actor}`; the engine is swapped", body = Object),
-        (status = 400, description = "a statement or parameter that cannot be read", body = super::reply::ErrorBody),
-        (status = 401, description = "no or a wrong bearer token", body = super::reply::ErrorBody),
-        (status = 403, description = "a read-only server (started without a token)", body = super::reply::ErrorBody),
-        (status = 409, description = "the embedded default database is read-only", body = super::reply::ErrorBody),
-        (status = 422, description = "statements that parsed but could not be answered, or a refused write", body = super::reply::ErrorBody),
-        (status = 500, description = "a fault inside the server", body = super::reply::ErrorBody)
+        super::responses::WriteErrors
     ),
     security(("bearer" = [])))]
 pub(crate) async fn retire(
     State(state): State<Shared>,
-    headers: HeaderMap,
-    body: Body,
+    Authorized(request): Authorized<RetireBody>,
 ) -> Response {
-    if let Err(e) = auth::authorize(state.token.as_ref(), &headers) {
-        return e.into_response();
-    }
-    let bytes = match read_body(&headers, body, state.limits.body_bytes).await {
-        Ok(bytes) => bytes,
-        Err(e) => return e.into_response(),
-    };
-    let request: RetireBody = match json_body(&bytes) {
-        Ok(r) => r,
-        Err(e) => return e.into_response(),
-    };
     let change = if request.restore {
         Retirement::Restore
     } else {

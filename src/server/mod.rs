@@ -24,6 +24,7 @@ mod openapi;
 mod page;
 mod queue;
 mod reply;
+mod responses;
 mod routes;
 
 use std::io;

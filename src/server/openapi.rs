@@ -30,6 +30,7 @@ use super::{Shared, admin, page, queue, reply, routes};
         routes::reload, admin::import, admin::review, admin::retire,
         queue::queue, queue::history,
     ),
+    components(schemas(reply::ErrorBody)),
     modifiers(&Bearer),
     tags(
         (name = "statements", description = "the query language"),

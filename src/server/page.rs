@@ -107,13 +107,7 @@ fn statements(
     params(("q" = String, Query, description = "URL-encoded statements")),
     responses(
         (status = 200, description = "exactly what `POST /v1/query` answers for the same statements", body = Vec<crate::answer::Answer>),
-        (status = 400, description = "a statement or parameter that cannot be read", body = super::reply::ErrorBody),
-        (status = 404, description = "an unknown solute, source or route", body = super::reply::ErrorBody),
-        (status = 408, description = "not read and answered within the time limit", body = super::reply::ErrorBody),
-        (status = 413, description = "a body or query over the limits", body = super::reply::ErrorBody),
-        (status = 422, description = "statements that parsed but could not be answered, or a refused write", body = super::reply::ErrorBody),
-        (status = 500, description = "a fault inside the server", body = super::reply::ErrorBody),
-        (status = 503, description = "too many requests at once", body = super::reply::ErrorBody)
+        super::responses::QueryErrors
     ))]
 pub(super) async fn query(
     State(state): State<Shared>,
@@ -132,17 +126,7 @@ pub(super) async fn query(
 /// `POST /v1/plot` with the statement as its body, so a page can show it in an `<img>`.
 #[utoipa::path(get, path = "/v1/plot", tag = "statements",
     params(("q" = String, Query, description = "one URL-encoded `plot` statement"), super::routes::PlotParams),
-    responses(
-        (status = 200, description = "the picture `POST /v1/plot` draws", content(
-            (String = "image/svg+xml"),
-            (Vec<u8> = "image/png"),
-        )),
-        (status = 400, description = "a statement or parameter that cannot be read", body = super::reply::ErrorBody),
-        (status = 404, description = "an unknown solute, source or route", body = super::reply::ErrorBody),
-        (status = 413, description = "a body or query over the limits", body = super::reply::ErrorBody),
-        (status = 422, description = "statements that parsed but could not be answered, or a refused write", body = super::reply::ErrorBody),
-        (status = 500, description = "a fault inside the server", body = super::reply::ErrorBody)
-    ))]
+    responses(super::responses::Picture, super::responses::PlotErrors))]
 pub(super) async fn plot(
     state: State<Shared>,
     permit: Option<axum::Extension<super::limits::Permit>>,

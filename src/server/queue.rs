@@ -64,9 +64,7 @@ where
 #[utoipa::path(get, path = "/v1/admin/queue", tag = "librarian",
     responses(
         (status = 200, description = "`{count, records}`: what waits for review", body = Object),
-        (status = 401, description = "no or a wrong bearer token", body = super::reply::ErrorBody),
-        (status = 403, description = "a read-only server (started without a token)", body = super::reply::ErrorBody),
-        (status = 500, description = "a fault inside the server", body = super::reply::ErrorBody)
+        super::responses::GuardedErrors
     ),
     security(("bearer" = [])))]
 pub(super) async fn queue(State(state): State<Shared>, headers: HeaderMap) -> Response {
@@ -83,11 +81,7 @@ pub(super) async fn queue(State(state): State<Shared>, headers: HeaderMap) -> Re
     params(("solute" = String, Path, description = "a slug, name, formula or synonym")),
     responses(
         (status = 200, description = "`{solute, count, entries}`: every change, oldest first", body = Object),
-        (status = 400, description = "a statement or parameter that cannot be read", body = super::reply::ErrorBody),
-        (status = 401, description = "no or a wrong bearer token", body = super::reply::ErrorBody),
-        (status = 403, description = "a read-only server (started without a token)", body = super::reply::ErrorBody),
-        (status = 404, description = "an unknown solute, source or route", body = super::reply::ErrorBody),
-        (status = 500, description = "a fault inside the server", body = super::reply::ErrorBody)
+        super::responses::GuardedRecordErrors
     ),
     security(("bearer" = [])))]
 pub(super) async fn history(

@@ -281,13 +281,7 @@ fn internal(message: String) -> Evaluated {
     ), description = "statements, one a line or separated by `;`"),
     responses(
         (status = 200, description = "one answer per statement, in order (a failed one has `ok: false`)", body = Vec<Answer>),
-        (status = 400, description = "a statement or parameter that cannot be read", body = super::reply::ErrorBody),
-        (status = 404, description = "an unknown solute, source or route", body = super::reply::ErrorBody),
-        (status = 408, description = "not read and answered within the time limit", body = super::reply::ErrorBody),
-        (status = 413, description = "a body or query over the limits", body = super::reply::ErrorBody),
-        (status = 422, description = "statements that parsed but could not be answered, or a refused write", body = super::reply::ErrorBody),
-        (status = 500, description = "a fault inside the server", body = super::reply::ErrorBody),
-        (status = 503, description = "too many requests at once", body = super::reply::ErrorBody)
+        super::responses::QueryErrors
     ))]
 pub(super) async fn query(
     State(state): State<Shared>,
@@ -447,7 +441,7 @@ fn source_record(s: &Source) -> Value {
     ),
     responses(
         (status = 200, description = "`{count, solutes}`: each solute's record with its numbers of datasets and Henry's-law records", body = Object),
-        (status = 400, description = "a statement or parameter that cannot be read", body = super::reply::ErrorBody)
+        super::responses::ListingErrors
     ))]
 pub(super) async fn solutes(
     State(state): State<Shared>,
@@ -487,8 +481,7 @@ fn path_error(e: PathRejection) -> ApiError {
     params(("name" = String, Path, description = "a slug, name, formula or synonym")),
     responses(
         (status = 200, description = "`{solute, datasets, gas_constants, freezing, sources}`", body = Object),
-        (status = 400, description = "a statement or parameter that cannot be read", body = super::reply::ErrorBody),
-        (status = 404, description = "an unknown solute, source or route", body = super::reply::ErrorBody)
+        super::responses::RecordErrors
     ))]
 pub(super) async fn solute(
     State(state): State<Shared>,
@@ -545,8 +538,7 @@ pub(super) async fn sources(State(state): State<Shared>) -> Response {
     params(("key" = String, Path, description = "a source key")),
     responses(
         (status = 200, description = "`{source}` with its citation", body = Object),
-        (status = 400, description = "a statement or parameter that cannot be read", body = super::reply::ErrorBody),
-        (status = 404, description = "an unknown solute, source or route", body = super::reply::ErrorBody)
+        super::responses::RecordErrors
     ))]
 pub(super) async fn source(
     State(state): State<Shared>,
@@ -602,17 +594,7 @@ pub(super) struct PlotParams {
 /// [`super::limits::MAX_PICTURE_PIXELS`] pixels (the memory one drawing may use).
 #[utoipa::path(post, path = "/v1/plot", tag = "statements", params(PlotParams),
     request_body(content = String, content_type = "text/plain", description = "one `plot` statement (with `let` statements it uses)"),
-    responses(
-        (status = 200, description = "the picture", content(
-            (String = "image/svg+xml"),
-            (Vec<u8> = "image/png"),
-        )),
-        (status = 400, description = "a statement or parameter that cannot be read", body = super::reply::ErrorBody),
-        (status = 404, description = "an unknown solute, source or route", body = super::reply::ErrorBody),
-        (status = 413, description = "a body or query over the limits", body = super::reply::ErrorBody),
-        (status = 422, description = "statements that parsed but could not be answered, or a refused write", body = super::reply::ErrorBody),
-        (status = 500, description = "a fault inside the server", body = super::reply::ErrorBody)
-    ))]
+    responses(super::responses::Picture, super::responses::PlotErrors))]
 pub(super) async fn plot(
     State(state): State<Shared>,
     permit: Option<axum::Extension<Permit>>,
@@ -714,9 +696,7 @@ pub(super) async fn health() -> Response {
 #[utoipa::path(post, path = "/v1/admin/reload", tag = "librarian",
     responses(
         (status = 200, description = "`{reloaded, satline, schema_version, fingerprint, previous_fingerprint}`", body = Object),
-        (status = 401, description = "no or a wrong bearer token", body = super::reply::ErrorBody),
-        (status = 403, description = "a read-only server (started without a token)", body = super::reply::ErrorBody),
-        (status = 500, description = "a fault inside the server", body = super::reply::ErrorBody)
+        super::responses::GuardedErrors
     ),
     security(("bearer" = [])))]
 pub(super) async fn reload(State(state): State<Shared>, headers: HeaderMap) -> Response {

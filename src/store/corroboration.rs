@@ -14,7 +14,7 @@ use rusqlite::{Connection, params};
 use serde::{Deserialize, Serialize};
 
 use super::StoreError;
-use super::read::Contents;
+use super::read::{Contents, word};
 use super::seed::{SeedProblem, check_slug, optional, problem, syntax};
 use crate::model::{Check, CheckSubject, Review, Verdict};
 
@@ -245,13 +245,6 @@ pub(crate) fn replace_check(conn: &Connection, c: &Check) -> Result<(), StoreErr
     Ok(())
 }
 
-fn corrupt(what: String) -> StoreError {
-    StoreError::Corrupt {
-        location: "database".to_string(),
-        what,
-    }
-}
-
 /// Every stored check, by key.
 pub(crate) fn read_checks(conn: &Connection) -> Result<Vec<Check>, StoreError> {
     let mut stmt = conn.prepare_cached(
@@ -267,12 +260,7 @@ pub(crate) fn read_checks(conn: &Connection) -> Result<Vec<Check>, StoreError> {
         out.push(Check {
             key: r.get(0)?,
             solute: r.get(1)?,
-            subject_kind: match subject_kind.as_str() {
-                "dataset" => CheckSubject::Dataset,
-                "freezing" => CheckSubject::Freezing,
-                "henry" => CheckSubject::Henry,
-                other => return Err(corrupt(format!("check subject kind \"{other}\""))),
-            },
+            subject_kind: word(&subject_kind)?,
             subject: r.get(3)?,
             kind: r.get(4)?,
             reference: r.get(5)?,
@@ -284,12 +272,7 @@ pub(crate) fn read_checks(conn: &Connection) -> Result<Vec<Check>, StoreError> {
             unit: r.get(11)?,
             tolerance: r.get(12)?,
             tolerance_unit: r.get(13)?,
-            verdict: match verdict.as_str() {
-                "pass" => Verdict::Pass,
-                "fail" => Verdict::Fail,
-                "not-applicable" => Verdict::NotApplicable,
-                other => return Err(corrupt(format!("check verdict \"{other}\""))),
-            },
+            verdict: word(&verdict)?,
             explanation: r.get(15)?,
             tool: r.get(16)?,
         });

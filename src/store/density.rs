@@ -203,8 +203,8 @@ pub(crate) fn read(conn: &Connection) -> Result<Vec<DensityCoefficients>, StoreE
     let mut out = Vec::new();
     for row in rows {
         let (mut d, provenance, review) = row?;
-        d.provenance = super::read::provenance(&provenance)?;
-        d.review = super::read::review(&review)?;
+        d.provenance = super::read::word(&provenance)?;
+        d.review = super::read::word(&review)?;
         out.push(d);
     }
     Ok(out)

@@ -11,7 +11,7 @@ use std::path::Path;
 
 use super::StoreError;
 use super::read::Contents;
-use crate::model::{Dataset, GasConstant, GasLaw, Solute, Source};
+use crate::model::{Dataset, GasConstant, GasFit, GasLaw, Solute, Source};
 
 /// What an export writes.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -72,11 +72,7 @@ fn sources_toml(sources: &[Source]) -> String {
     for s in sources {
         let _ = writeln!(out, "\n[[source]]");
         let _ = writeln!(out, "key = {}", text(&s.key));
-        let _ = writeln!(
-            out,
-            "kind = {}",
-            text(super::write::source_kind_str(s.kind))
-        );
+        let _ = writeln!(out, "kind = {}", text(s.kind.as_str()));
         let _ = writeln!(out, "title = {}", text(&s.title));
         let _ = writeln!(out, "authors = {}", text(&s.authors));
         opt(&mut out, "publisher", &s.publisher);
@@ -135,6 +131,20 @@ fn dataset_toml(out: &mut String, d: &Dataset) {
     let _ = writeln!(out, "]");
 }
 
+/// A fit's terms by their seed names, in the seed format's order.
+fn fit_terms(fit: &GasFit) -> [(&'static str, f64); 8] {
+    [
+        ("a", fit.a),
+        ("b", fit.b),
+        ("c", fit.c),
+        ("d", fit.d),
+        ("scale_k", fit.scale_k),
+        ("reference_pressure_pa", fit.reference_pressure_pa),
+        ("t_min_k", fit.t_min_k),
+        ("t_max_k", fit.t_max_k),
+    ]
+}
+
 fn henry_toml(out: &mut String, g: &GasConstant) {
     let _ = writeln!(out, "\n[[henry]]");
     let _ = writeln!(out, "key = {}", text(local(&g.key)));
@@ -143,59 +153,21 @@ fn henry_toml(out: &mut String, g: &GasConstant) {
     let _ = writeln!(out, "review = {}", text(g.review.as_str()));
     opt(out, "note", &g.note);
     match &g.law {
-        GasLaw::VantHoff {
-            convention,
-            value,
-            reference_temperature_k,
-            temperature_term_k,
-        } => {
+        GasLaw::VantHoff(h) => {
             let _ = writeln!(out, "form = \"vant-hoff\"");
-            let _ = writeln!(out, "convention = {}", text(convention));
-            let _ = writeln!(out, "value = {}", number(*value));
+            let _ = writeln!(out, "convention = {}", text(&h.convention));
+            let _ = writeln!(out, "value = {}", number(h.value));
             let _ = writeln!(
                 out,
                 "reference_temperature_k = {}",
-                number(*reference_temperature_k)
+                number(h.reference_temperature_k)
             );
-            let _ = writeln!(out, "temperature_term_k = {}", number(*temperature_term_k));
+            let _ = writeln!(out, "temperature_term_k = {}", number(h.temperature_term_k));
         }
-        GasLaw::MoleFractionFit {
-            a,
-            b,
-            c,
-            d,
-            scale_k,
-            reference_pressure_pa,
-            t_min_k,
-            t_max_k,
-        }
-        | GasLaw::MolalityFit {
-            a,
-            b,
-            c,
-            d,
-            scale_k,
-            reference_pressure_pa,
-            t_min_k,
-            t_max_k,
-        } => {
-            let form = if matches!(g.law, GasLaw::MolalityFit { .. }) {
-                "molality-fit"
-            } else {
-                "mole-fraction-fit"
-            };
-            let _ = writeln!(out, "form = \"{form}\"");
-            for (name, v) in [
-                ("a", a),
-                ("b", b),
-                ("c", c),
-                ("d", d),
-                ("scale_k", scale_k),
-                ("reference_pressure_pa", reference_pressure_pa),
-                ("t_min_k", t_min_k),
-                ("t_max_k", t_max_k),
-            ] {
-                let _ = writeln!(out, "{name} = {}", number(*v));
+        GasLaw::Fit(fit) => {
+            let _ = writeln!(out, "form = \"{}\"", fit.quantity.as_str());
+            for (name, v) in fit_terms(fit) {
+                let _ = writeln!(out, "{name} = {}", number(v));
             }
         }
     }

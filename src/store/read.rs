@@ -8,8 +8,8 @@ use serde::Serialize;
 
 use super::StoreError;
 use crate::model::{
-    Dataset, DensityCoefficients, FreezingData, GasConstant, GasLaw, Phase, Point, Provenance,
-    Review, Solute, SoluteKind, Source, SourceKind,
+    Dataset, DensityCoefficients, FitQuantity, FreezingData, GasConstant, GasFit, GasLaw, Phase,
+    Point, Solute, Source, UnknownWord, VantHoffLaw,
 };
 
 /// A (composition, temperature) pair.
@@ -74,44 +74,10 @@ pub(super) fn corrupt(what: String) -> StoreError {
     }
 }
 
-fn source_kind(s: &str) -> Result<SourceKind, StoreError> {
-    Ok(match s {
-        "handbook" => SourceKind::Handbook,
-        "compilation" => SourceKind::Compilation,
-        "paper" => SourceKind::Paper,
-        "standard" => SourceKind::Standard,
-        "book" => SourceKind::Book,
-        "other" => SourceKind::Other,
-        _ => return Err(corrupt(format!("source kind \"{s}\""))),
-    })
-}
-
-fn solute_kind(s: &str) -> Result<SoluteKind, StoreError> {
-    Ok(match s {
-        "salt" => SoluteKind::Salt,
-        "molecular" => SoluteKind::Molecular,
-        "gas" => SoluteKind::Gas,
-        _ => return Err(corrupt(format!("solute kind \"{s}\""))),
-    })
-}
-
-pub(crate) fn provenance(s: &str) -> Result<Provenance, StoreError> {
-    Ok(match s {
-        "measured" => Provenance::Measured,
-        "compiled" => Provenance::Compiled,
-        "from-memory" => Provenance::FromMemory,
-        "derived" => Provenance::Derived,
-        _ => return Err(corrupt(format!("provenance \"{s}\""))),
-    })
-}
-
-pub(crate) fn review(s: &str) -> Result<Review, StoreError> {
-    Ok(match s {
-        "unreviewed" => Review::Unreviewed,
-        "reviewed" => Review::Reviewed,
-        "rejected" => Review::Rejected,
-        _ => return Err(corrupt(format!("review \"{s}\""))),
-    })
+/// A stored word of one of the model's enum ↔ text tables; another word means a damaged
+/// database.
+pub(crate) fn word<T: std::str::FromStr<Err = UnknownWord>>(s: &str) -> Result<T, StoreError> {
+    s.parse().map_err(|e: UnknownWord| corrupt(e.to_string()))
 }
 
 fn missing(key: &str, column: &str) -> StoreError {
@@ -175,7 +141,7 @@ fn read_inside(conn: &Connection) -> Result<Contents, StoreError> {
             row?;
         contents.sources.push(Source {
             key,
-            kind: source_kind(&kind)?,
+            kind: word(&kind)?,
             title,
             authors,
             publisher,
@@ -228,7 +194,7 @@ fn read_inside(conn: &Connection) -> Result<Contents, StoreError> {
             id,
             name,
             formula,
-            kind: solute_kind(&kind)?,
+            kind: word(&kind)?,
             molar_mass,
             cation,
             anion,
@@ -311,8 +277,8 @@ fn read_inside(conn: &Connection) -> Result<Contents, StoreError> {
             source,
             unit,
             temperature_unit: t_unit,
-            provenance: provenance(&prov)?,
-            review: review(&rev)?,
+            provenance: word(&prov)?,
+            review: word(&rev)?,
             retired,
             note,
             stable_range,
@@ -333,16 +299,17 @@ fn read_inside(conn: &Connection) -> Result<Contents, StoreError> {
             r.get::<_, Option<f64>>(i)?
                 .ok_or_else(|| missing(&key, name))
         };
-        let law = match form.as_str() {
-            "vant-hoff" => GasLaw::VantHoff {
+        let law = match (form.as_str(), FitQuantity::from_name(&form)) {
+            ("vant-hoff", _) => GasLaw::VantHoff(VantHoffLaw {
                 convention: r
                     .get::<_, Option<String>>(4)?
                     .ok_or_else(|| missing(&key, "convention"))?,
                 value: f(5, "value")?,
                 reference_temperature_k: f(6, "reference_temperature_k")?,
                 temperature_term_k: f(7, "temperature_term_k")?,
-            },
-            "molality-fit" => GasLaw::MolalityFit {
+            }),
+            (_, Some(quantity)) => GasLaw::Fit(GasFit {
+                quantity,
                 a: f(8, "a")?,
                 b: f(9, "b")?,
                 c: f(10, "c")?,
@@ -351,25 +318,15 @@ fn read_inside(conn: &Connection) -> Result<Contents, StoreError> {
                 reference_pressure_pa: f(13, "reference_pressure_pa")?,
                 t_min_k: f(14, "t_min_k")?,
                 t_max_k: f(15, "t_max_k")?,
-            },
-            "mole-fraction-fit" => GasLaw::MoleFractionFit {
-                a: f(8, "a")?,
-                b: f(9, "b")?,
-                c: f(10, "c")?,
-                d: f(11, "d")?,
-                scale_k: f(12, "scale_k")?,
-                reference_pressure_pa: f(13, "reference_pressure_pa")?,
-                t_min_k: f(14, "t_min_k")?,
-                t_max_k: f(15, "t_max_k")?,
-            },
-            other => return Err(corrupt(format!("gas constant form \"{other}\""))),
+            }),
+            (other, None) => return Err(corrupt(format!("gas constant form \"{other}\""))),
         };
         contents.gas_constants.push(GasConstant {
             solute: r.get(1)?,
             source: r.get(2)?,
             law,
-            provenance: provenance(&r.get::<_, String>(16)?)?,
-            review: review(&r.get::<_, String>(17)?)?,
+            provenance: word(&r.get::<_, String>(16)?)?,
+            review: word(&r.get::<_, String>(17)?)?,
             note: r.get(18)?,
             key,
         });
@@ -412,8 +369,8 @@ fn read_inside(conn: &Connection) -> Result<Contents, StoreError> {
                 source: r.get(2)?,
                 points: pairs.iter().map(|p| p.1).collect(),
                 eutectic: both(9, 10)?,
-                provenance: provenance(&r.get::<_, String>(5)?)?,
-                review: review(&r.get::<_, String>(6)?)?,
+                provenance: word(&r.get::<_, String>(5)?)?,
+                review: word(&r.get::<_, String>(6)?)?,
                 key,
             },
         });

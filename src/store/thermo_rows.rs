@@ -4,7 +4,7 @@
 use rusqlite::{Connection, Transaction, params};
 
 use super::StoreError;
-use super::read::{corrupt, provenance, review};
+use super::read::{corrupt, word};
 use crate::model::thermo::{
     HeatCapacityFit, ThermoQuantity, ThermoState, ThermoValue, Thermochemistry,
 };
@@ -119,8 +119,8 @@ pub(crate) fn read(conn: &Connection) -> Result<Thermochemistry, StoreError> {
             species,
             value,
             source,
-            provenance: provenance(&prov)?,
-            review: review(&rev)?,
+            provenance: word(&prov)?,
+            review: word(&rev)?,
             note,
         });
     }
@@ -162,8 +162,8 @@ pub(crate) fn read(conn: &Connection) -> Result<Thermochemistry, StoreError> {
             t_max_c,
             w_max,
             source,
-            provenance: provenance(&prov)?,
-            review: review(&rev)?,
+            provenance: word(&prov)?,
+            review: word(&rev)?,
             note,
         });
     }

@@ -6,18 +6,7 @@ use rusqlite::{Connection, params};
 
 use super::StoreError;
 use super::read::FreezingRecord;
-use crate::model::{Dataset, GasConstant, GasLaw, Solute, Source, SourceKind};
-
-pub(crate) fn source_kind_str(kind: SourceKind) -> &'static str {
-    match kind {
-        SourceKind::Handbook => "handbook",
-        SourceKind::Compilation => "compilation",
-        SourceKind::Paper => "paper",
-        SourceKind::Standard => "standard",
-        SourceKind::Book => "book",
-        SourceKind::Other => "other",
-    }
-}
+use crate::model::{Dataset, GasConstant, GasLaw, Solute, Source};
 
 /// Inserts a source, or replaces every field of the source with the same key.
 pub(crate) fn upsert_source(conn: &Connection, s: &Source) -> Result<(), StoreError> {
@@ -31,7 +20,7 @@ pub(crate) fn upsert_source(conn: &Connection, s: &Source) -> Result<(), StoreEr
     )?;
     stmt.execute(params![
         s.key,
-        source_kind_str(s.kind),
+        s.kind.as_str(),
         s.title,
         s.authors,
         s.publisher,
@@ -153,79 +142,31 @@ pub(crate) fn replace_gas_constant(conn: &Connection, g: &GasConstant) -> Result
                                     a, b, c, d, scale_k, reference_pressure_pa, t_min_k, t_max_k, provenance, review, note)
          VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9, ?10, ?11, ?12, ?13, ?14, ?15, ?16, ?17, ?18, ?19)",
     )?;
-    let none = None::<f64>;
-    match &g.law {
-        GasLaw::VantHoff {
-            convention,
-            value,
-            reference_temperature_k,
-            temperature_term_k,
-        } => insert_gas.execute(params![
-            g.key,
-            g.solute,
-            g.source,
-            "vant-hoff",
-            convention,
-            value,
-            reference_temperature_k,
-            temperature_term_k,
-            none,
-            none,
-            none,
-            none,
-            none,
-            none,
-            none,
-            none,
-            g.provenance.as_str(),
-            g.review.as_str(),
-            g.note
-        ])?,
-        GasLaw::MoleFractionFit {
-            a,
-            b,
-            c,
-            d,
-            scale_k,
-            reference_pressure_pa,
-            t_min_k,
-            t_max_k,
-        }
-        | GasLaw::MolalityFit {
-            a,
-            b,
-            c,
-            d,
-            scale_k,
-            reference_pressure_pa,
-            t_min_k,
-            t_max_k,
-        } => insert_gas.execute(params![
-            g.key,
-            g.solute,
-            g.source,
-            if matches!(g.law, GasLaw::MolalityFit { .. }) {
-                "molality-fit"
-            } else {
-                "mole-fraction-fit"
-            },
-            None::<String>,
-            none,
-            none,
-            none,
-            a,
-            b,
-            c,
-            d,
-            scale_k,
-            reference_pressure_pa,
-            t_min_k,
-            t_max_k,
-            g.provenance.as_str(),
-            g.review.as_str(),
-            g.note
-        ])?,
+    let (form, vant_hoff, fit) = match &g.law {
+        GasLaw::VantHoff(h) => ("vant-hoff", Some(h), None),
+        GasLaw::Fit(fit) => (fit.quantity.as_str(), None, Some(fit)),
     };
+    insert_gas.execute(params![
+        g.key,
+        g.solute,
+        g.source,
+        form,
+        vant_hoff.map(|h| &h.convention),
+        vant_hoff.map(|h| h.value),
+        vant_hoff.map(|h| h.reference_temperature_k),
+        vant_hoff.map(|h| h.temperature_term_k),
+        fit.map(|f| f.a),
+        fit.map(|f| f.b),
+        fit.map(|f| f.c),
+        fit.map(|f| f.d),
+        fit.map(|f| f.scale_k),
+        fit.map(|f| f.reference_pressure_pa),
+        fit.map(|f| f.t_min_k),
+        fit.map(|f| f.t_max_k),
+        g.provenance.as_str(),
+        g.review.as_str(),
+        g.note
+    ])?;
     Ok(())
 }
 

@@ -17,9 +17,17 @@ pub(super) fn ends_as_number(word: &str) -> bool {
     if !starts_number(word) {
         return false;
     }
-    // `2-propanol` and `1,2-ethanediol` are names; `20`, `20C` are not.
+    // `2-propanol` and `1,2-ethanediol` are names; `20`, `20C` and the range `2-8` (or
+    // `2-8C`) are not.
     match number_text(word) {
-        Ok((rest, _)) => !(rest.starts_with('-') || rest.starts_with(',')),
+        Ok((rest, _)) => match rest.strip_prefix(['-', '\u{2013}', '\u{2014}']) {
+            Some(high) if starts_number(high) => number_text(high).is_ok_and(|(unit, _)| {
+                unit.is_empty()
+                    || classify(unit).is_some_and(|u| u.kind() == ValueKind::Temperature)
+            }),
+            Some(_) => false,
+            None => !rest.starts_with(','),
+        },
         Err(_) => true,
     }
 }
@@ -163,6 +171,8 @@ pub(super) fn filters<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Vec<Filter>> {
 
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub(super) enum Clause {
+    /// `under` and a gas pressure (dissolved gases).
+    Under,
     InComposition,
     InTemperature,
     Margin,
@@ -175,6 +185,7 @@ pub(super) struct Tail {
     pub(super) composition: Option<UnitChoice<CompositionUnit>>,
     pub(super) temperature: Option<UnitChoice<TemperatureUnit>>,
     pub(super) margin: Option<Margin>,
+    pub(super) pressure: Option<GasPressure>,
     pub(super) options: Options,
 }
 
@@ -195,7 +206,35 @@ pub(super) fn tail<'a>(
     allowed: &[Clause],
     earlier: &[&'static str],
 ) -> R<'a, Tail> {
-    let mut out = Tail::default();
+    clauses(cx, i, allowed, earlier, Tail::default(), true)
+}
+
+/// Optional clauses standing before a statement's required part (`dissolved O2 in mg/L
+/// at 4 C`): read while the next word opens one of `allowed`; reading stops, without a
+/// fault, at any other word.
+pub(super) fn lead<'a>(cx: Cx<'a>, i: &'a str, allowed: &[Clause]) -> R<'a, Tail> {
+    clauses(cx, i, allowed, &[], Tail::default(), false)
+}
+
+/// The closing clauses after a [`lead`]: a clause given in both places is a duplicate.
+pub(super) fn tail_after<'a>(
+    cx: Cx<'a>,
+    i: &'a str,
+    allowed: &[Clause],
+    earlier: &[&'static str],
+    lead: Tail,
+) -> R<'a, Tail> {
+    clauses(cx, i, allowed, earlier, lead, true)
+}
+
+fn clauses<'a>(
+    cx: Cx<'a>,
+    i: &'a str,
+    allowed: &[Clause],
+    earlier: &[&'static str],
+    mut out: Tail,
+    to_the_end: bool,
+) -> R<'a, Tail> {
     let mut rest = i;
     loop {
         let t = skip(rest);
@@ -205,7 +244,14 @@ pub(super) fn tail<'a>(
         let (word, after) = next_word(t);
         let word = word.to_lowercase();
         let allows = |c: Clause| allowed.contains(&c);
-        if word == "in" && allows(Clause::InComposition) {
+        if word == "under" && allows(Clause::Under) {
+            if out.pressure.is_some() {
+                return Err(duplicate(cx, t, after, "under"));
+            }
+            let (r, p) = super::statement::gas_pressure(cx, after)?;
+            out.pressure = Some(p);
+            rest = r;
+        } else if word == "in" && allows(Clause::InComposition) {
             if out.composition.is_some() {
                 return Err(duplicate(cx, t, after, "in"));
             }
@@ -246,10 +292,13 @@ pub(super) fn tail<'a>(
             }
             out.options.reviewed_only = true;
             rest = r;
+        } else if !to_the_end {
+            return Ok((rest, out));
         } else {
             let mut words: Vec<&'static str> = earlier.to_vec();
             for clause in allowed {
                 words.push(match clause {
+                    Clause::Under => "under",
                     Clause::InComposition | Clause::InTemperature => "in",
                     Clause::Margin => "margin",
                     Clause::Extrapolate => "extrapolate",

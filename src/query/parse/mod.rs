@@ -103,21 +103,45 @@ pub fn parse_script(text: &str) -> Vec<Result<Located<Statement>, ParseError>> {
 /// Parses a script (or one REPL line) with an environment the caller keeps: each `let` that
 /// parses binds its name for the statements after it and for later calls.
 pub fn parse_with(text: &str, env: &mut Env) -> Vec<Result<Located<Statement>, ParseError>> {
-    let mut results = Vec::new();
-    for (start, end) in statement_spans(text) {
-        let result = parse_piece(text, start, end, env);
-        if let Ok(located) = &result {
-            env.apply(&located.node);
-        }
-        results.push(result);
+    statements(text, env).collect()
+}
+
+/// [`parse_with`] one statement at a time: each is parsed when the iterator is advanced (a
+/// `let` binds its name in `env` then), so a caller answering a long script holds one
+/// parsed statement at a time, never the whole script's.
+pub fn statements<'t, 'e>(text: &'t str, env: &'e mut Env) -> Statements<'t, 'e> {
+    Statements {
+        text,
+        spans: Spans::new(text),
+        env,
     }
-    results
+}
+
+/// The statements of one script, parsed as they are drawn (see [`statements`]).
+#[derive(Debug)]
+pub struct Statements<'t, 'e> {
+    text: &'t str,
+    spans: Spans<'t>,
+    env: &'e mut Env,
+}
+
+impl Iterator for Statements<'_, '_> {
+    type Item = Result<Located<Statement>, ParseError>;
+
+    fn next(&mut self) -> Option<Self::Item> {
+        let (start, end) = self.spans.next()?;
+        let result = parse_piece(self.text, start, end, self.env);
+        if let Ok(located) = &result {
+            self.env.apply(&located.node);
+        }
+        Some(result)
+    }
 }
 
 /// Parses text that must hold exactly one statement (a comment may follow it).
 pub fn parse_statement(text: &str, env: &mut Env) -> Result<Located<Statement>, ParseError> {
-    let spans = statement_spans(text);
-    let Some(&(start, end)) = spans.first() else {
+    let mut spans = Spans::new(text);
+    let Some((start, end)) = spans.next() else {
         return Err(ParseError::new(
             ParseErrorKind::Expected {
                 expected: "a statement".into(),
@@ -127,7 +151,7 @@ pub fn parse_statement(text: &str, env: &mut Env) -> Result<Located<Statement>, 
             Span::new(text.len(), text.len()),
         ));
     };
-    if let Some(&(second, second_end)) = spans.get(1) {
+    if let Some((second, second_end)) = spans.next() {
         return Err(ParseError::new(
             ParseErrorKind::Expected {
                 expected: "one statement only".into(),
@@ -144,25 +168,49 @@ pub fn parse_statement(text: &str, env: &mut Env) -> Result<Located<Statement>, 
     result
 }
 
-/// Byte ranges of the statements of `text`: split at newlines and `;`, a `#` comments out
-/// the rest of its line, blanks trimmed, empty pieces dropped.
-fn statement_spans(text: &str) -> Vec<(usize, usize)> {
-    let mut spans = Vec::new();
-    let mut line_start = 0;
-    for line in text.split_inclusive('\n') {
-        let code = &line[..line.find('#').unwrap_or(line.len())];
-        let mut part_start = line_start;
-        for part in code.split(';') {
-            let start = part_start + (part.len() - part.trim_start().len());
-            let end = part_start + part.trim_end().len();
-            if end > start {
-                spans.push((start, end));
-            }
-            part_start += part.len() + 1;
+/// Byte ranges of the statements of `text`, found as they are drawn: split at newlines and
+/// `;`, a `#` comments out the rest of its line, blanks trimmed, empty pieces dropped.
+#[derive(Debug)]
+struct Spans<'t> {
+    lines: std::str::SplitInclusive<'t, char>,
+    /// Where the next line starts.
+    line_start: usize,
+    /// The pieces of the current line not yet drawn, and where the next one starts.
+    parts: Option<(std::str::Split<'t, char>, usize)>,
+}
+
+impl<'t> Spans<'t> {
+    fn new(text: &'t str) -> Self {
+        Spans {
+            lines: text.split_inclusive('\n'),
+            line_start: 0,
+            parts: None,
         }
-        line_start += line.len();
     }
-    spans
+}
+
+impl Iterator for Spans<'_> {
+    type Item = (usize, usize);
+
+    fn next(&mut self) -> Option<(usize, usize)> {
+        loop {
+            if let Some((parts, part_start)) = &mut self.parts {
+                if let Some(part) = parts.next() {
+                    let start = *part_start + (part.len() - part.trim_start().len());
+                    let end = *part_start + part.trim_end().len();
+                    *part_start += part.len() + 1;
+                    if end > start {
+                        return Some((start, end));
+                    }
+                    continue;
+                }
+            }
+            let line = self.lines.next()?;
+            let code = &line[..line.find('#').unwrap_or(line.len())];
+            self.parts = Some((code.split(';'), self.line_start));
+            self.line_start += line.len();
+        }
+    }
 }
 
 fn parse_piece(
@@ -208,11 +256,36 @@ mod tests {
     #[test]
     fn statements_split_at_newlines_semicolons_and_comments() {
         let text = "describe NaCl ; describe KCl # ; not this\n\n  # only a comment\nsources";
-        let spans: Vec<&str> = statement_spans(text)
-            .into_iter()
-            .map(|(s, e)| &text[s..e])
-            .collect();
+        let spans: Vec<&str> = Spans::new(text).map(|(s, e)| &text[s..e]).collect();
         assert_eq!(spans, ["describe NaCl", "describe KCl", "sources"]);
+    }
+
+    #[test]
+    fn statements_are_parsed_and_bound_one_at_a_time_as_they_are_drawn() {
+        let text =
+            "let t = 20 C\r\nsolubility of KNO3 at t ; solubilty of KCl\n# note\nlet t = 30 C";
+        let mut env = Env::new();
+        let mut drawn = statements(text, &mut env);
+        assert!(drawn.next().is_some_and(|s| s.is_ok()));
+        // The first `let` is bound; the last one (30 C) is not parsed yet.
+        let bound = |env: &Env| match env.get("t") {
+            Some(Value::Temperature(t)) => Some(t.celsius()),
+            _ => None,
+        };
+        assert_eq!(bound(drawn.env), Some(20.0));
+        let second = drawn.next();
+        assert!(matches!(&second, Some(Ok(s)) if matches!(s.node, Statement::Solubility(_))));
+        assert!(drawn.next().is_some_and(|s| s.is_err()));
+        assert!(drawn.next().is_some_and(|s| s.is_ok()));
+        assert!(drawn.next().is_none());
+        assert_eq!(bound(&env), Some(30.0));
+        // The same statements, spans and faults as parsing the whole script at once.
+        let mut fresh = Env::new();
+        assert_eq!(
+            statements(text, &mut fresh).collect::<Vec<_>>(),
+            parse_script(text)
+        );
+        assert_eq!(fresh, env);
     }
 
     #[test]

@@ -11,7 +11,7 @@ use nom::{
 
 use super::super::ast::*;
 use super::super::error::ParseErrorKind;
-use super::super::lexicon::{is_keyword, nearest, unit_symbols};
+use super::super::lexicon::{is_keyword, nearest, one_of, unit_symbols};
 use super::plumbing::*;
 use crate::science::units::{CompositionUnit, PressureUnit, TemperatureUnit, ambiguous_symbol};
 
@@ -479,7 +479,22 @@ fn unit_of_kind<'a, U>(
     }
 }
 
+/// A composition unit after `in` or `to`. A bare `ppm` asked of an answer is read as parts
+/// per million by mass (`ppm w/w`, mg per kg of solution): the answer names its unit, so
+/// nothing is left to guess (an amount written in bare `ppm` is still refused).
 pub(super) fn composition_unit<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, UnitChoice<CompositionUnit>> {
+    let t = skip(i);
+    let (word, after) = next_word(t);
+    if word.eq_ignore_ascii_case("ppm") && unit_at(t).is_none() {
+        let unit = CompositionUnit::MilligramsPerKilogram;
+        return Ok((
+            after,
+            UnitChoice {
+                unit,
+                span: cx.span(t, after),
+            },
+        ));
+    }
     unit_of_kind(cx, i, ValueKind::Loading, |u| match u {
         AnyUnit::Composition(unit) => Some(unit),
         _ => None,
@@ -496,13 +511,110 @@ pub(super) fn temperature_unit<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, UnitChoice<T
 // ---------------------------------------------------------------------------------------
 // temperatures
 
-/// `from T1 to T2`, `from` included.
+/// `from T1 to T2` or `between T1 and T2`, the opening word included. The unit may be
+/// written once, after the second number (`from 2 to 8 C`).
 pub(super) fn range_from<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, TemperatureRange> {
     let begin = skip(i);
-    let (rest, _) = expect(cx, begin, &["from"])?;
-    let (rest, low) = committed_temperature(cx, rest)?;
-    let (rest, _) = expect(cx, rest, &["to"])?;
+    let (rest, opener) = expect(cx, begin, &["from", "between"])?;
+    let joiners: &[&'static str] = if opener.eq_ignore_ascii_case("between") {
+        &["and"]
+    } else {
+        &["to"]
+    };
+    range_body(cx, begin, rest, joiners)
+}
+
+/// The words (and `-`) that may join the two ends of a range with no opening word.
+const BARE_JOINERS: [&str; 2] = ["to", "-"];
+
+/// A range with no opening word, where a number begins: `2-8 C`, `2–8 °C`, `2 to 8 C`,
+/// `2 C to 8 C`. `None` when no such range stands at `i` (a lone temperature, say).
+pub(super) fn bare_range<'a>(cx: Cx<'a>, i: &'a str) -> Option<R<'a, TemperatureRange>> {
+    let t = skip(i);
+    if !starts_number(t) {
+        return None;
+    }
+    let (after, _) = number_text(t).ok()?;
+    let after_low = match unit_at(after) {
+        None => after,
+        Some(m) if matches!(m.unit, AnyUnit::Temperature(_)) => &after[m.used..],
+        Some(_) => return None,
+    };
+    joined(after_low, &BARE_JOINERS)?;
+    Some(range_body(cx, t, t, &BARE_JOINERS))
+}
+
+/// After the first end of a range: what follows the joining word (`to`, `and`) or dash, if
+/// one stands here. A dash joins when it touches the number before it (`2-8`) or stands
+/// alone between blanks (`2 - 8`), so `2 -8` is not read as a range.
+fn joined<'a>(i: &'a str, joiners: &[&'static str]) -> Option<&'a str> {
+    for word in joiners {
+        if *word == "-" {
+            let t = skip(i);
+            let touching = t.len() == i.len();
+            if let Some(rest) = t.strip_prefix(['-', '\u{2013}', '\u{2014}']) {
+                let spaced = rest.starts_with(char::is_whitespace);
+                if (touching || spaced) && starts_number(skip(rest)) {
+                    return Some(rest);
+                }
+            }
+        } else if let Some(rest) = has_keyword(i, word) {
+            return Some(rest);
+        }
+    }
+    None
+}
+
+/// The ends of a range after its opening word (if any): `T1 joiner T2`, where `T1` may be a
+/// bare number that takes the unit of `T2`.
+fn range_body<'a>(
+    cx: Cx<'a>,
+    begin: &'a str,
+    i: &'a str,
+    joiners: &[&'static str],
+) -> R<'a, TemperatureRange> {
+    let t = skip(i);
+    let bare_low = starts_number(t)
+        .then(|| number_text(t).ok())
+        .flatten()
+        .filter(|(after, _)| unit_at(after).is_none() && joined(after, joiners).is_some());
+    // The first end: a temperature, or a bare number waiting for the second end's unit.
+    let (rest, low) = match bare_low {
+        Some((after, number)) => (after, Err((number, cx.span(t, after)))),
+        None => {
+            let (r, low) = committed_temperature(cx, t)?;
+            (r, Ok(low))
+        }
+    };
+    let Some(rest) = joined(rest, joiners) else {
+        return Err(expected_here(cx, rest, one_of(joiners), joiners));
+    };
     let (rest, high) = committed_temperature(cx, rest)?;
+    let low = match low {
+        Ok(low) => low,
+        Err((number, span)) => {
+            let Some(value) = number
+                .replace('\u{2212}', "-")
+                .parse::<f64>()
+                .ok()
+                .filter(|v| v.is_finite())
+            else {
+                return Err(failure(
+                    ParseErrorKind::InvalidNumber {
+                        found: shorten(number),
+                    },
+                    span,
+                ));
+            };
+            let q = Quantity {
+                value,
+                unit: AnyUnit::Temperature(high.unit),
+                span,
+                text: shorten(&format!("{number} {}", high.unit.symbol())),
+            };
+            checked_temperature(&q, high.unit)?
+        }
+    };
     let span = cx.span(begin, rest);
     if low.kelvin() > high.kelvin() {
         return Err(failure(
@@ -530,6 +642,10 @@ pub(super) fn point_or_range<'a>(
     expected: ValueKind,
 ) -> R<'a, Temperatures> {
     let t = skip(i);
+    if let Some(range) = bare_range(cx, t) {
+        let (rest, range) = range?;
+        return Ok((rest, Temperatures::Range(range)));
+    }
     if starts_number(t) {
         let (rest, temperature) = temperature(cx, t)?;
         return Ok((rest, Temperatures::At(temperature)));
@@ -541,11 +657,16 @@ pub(super) fn point_or_range<'a>(
     }
 }
 
-/// `at T`, `from T1 to T2`, `over NAME` (or `over from T1 to T2`).
+/// `at T`, `from T1 to T2`, `between T1 and T2`, `over NAME` (or `over from T1 to T2`), or
+/// a range with no opening word (`2-8 C`).
 pub(super) fn temperatures<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Temperatures> {
     const WHAT: &str = "a temperature or a range, as in `at 5 C`, `from 2 C to 8 C` or `over cold`";
     let t = skip(i);
-    if has_keyword(t, "from").is_some() {
+    if let Some(range) = bare_range(cx, t) {
+        let (rest, range) = range?;
+        return Ok((rest, Temperatures::Range(range)));
+    }
+    if has_keyword(t, "from").is_some() || has_keyword(t, "between").is_some() {
         let (rest, range) = range_from(cx, t)?;
         return Ok((rest, Temperatures::Range(range)));
     }
@@ -556,7 +677,7 @@ pub(super) fn temperatures<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Temperatures> {
         .parse(rest);
     }
     if let Some(rest) = has_keyword(t, "over") {
-        if has_keyword(rest, "from").is_some() {
+        if has_keyword(rest, "from").is_some() || has_keyword(rest, "between").is_some() {
             let (rest, range) = range_from(cx, rest)?;
             return Ok((rest, Temperatures::Range(range)));
         }

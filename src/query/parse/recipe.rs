@@ -210,6 +210,17 @@ pub(super) fn saturation<'a>(cx: Cx<'a>, recipe: Recipe, i: &'a str) -> R<'a, St
     ))
 }
 
+/// `freezing of RECIPE at -20 C [extrapolate]`, after the recipe.
+pub(super) fn freezing<'a>(cx: Cx<'a>, recipe: Recipe, i: &'a str) -> R<'a, Statement> {
+    let (i, _) = expect(cx, i, &["at"])?;
+    let (i, at) = committed_temperature(cx, i)?;
+    let (i, tail) = tail(cx, i, &DATA, &[])?;
+    Ok((
+        i,
+        asked(recipe, RecipeQuestion::Freezing { at }, tail.options),
+    ))
+}
+
 /// An optional `at T`: the temperature, or nothing read.
 fn optional_at<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Option<Temperature>> {
     let Some(after) = has_keyword(i, "at") else {

@@ -22,6 +22,7 @@ pub(super) fn statement<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
         "which" => screen(cx, after),
         "saturation" => saturation(cx, after),
         "ceiling" => ceiling(cx, after),
+        "max" | "maximum" => maximum(cx, after),
         "heat" => heat_of_solution(cx, after),
         "dissolving" => super::dissolving::dissolving(cx, after),
         "dissolved" => dissolved(cx, after),
@@ -50,9 +51,11 @@ pub(super) fn statement<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
 pub(super) fn solubility<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     let (i, _) = expect(cx, i, &["of"])?;
     let (i, solute) = solute(cx, i, &["at"])?;
+    const CLAUSES: [Clause; 3] = [Clause::InComposition, DATA[0], DATA[1]];
+    let (i, lead) = lead(cx, i, &CLAUSES)?;
     let (i, _) = expect(cx, i, &["at"])?;
     let (i, temperature) = committed_temperature(cx, i)?;
-    let (i, tail) = tail(cx, i, &[Clause::InComposition, DATA[0], DATA[1]], &[])?;
+    let (i, tail) = tail_after(cx, i, &CLAUSES, &[], lead)?;
     Ok((
         i,
         Statement::Solubility(Solubility {
@@ -64,13 +67,23 @@ pub(super) fn solubility<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     ))
 }
 
-pub(super) fn stays_dissolved_at<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, (Loading, Temperatures)> {
+/// The clauses a screening or a `require` may close with, before or after its temperatures.
+const SCREEN_CLAUSES: [Clause; 3] = [Clause::Margin, DATA[0], DATA[1]];
+
+/// `stay(s) dissolved at LOADING TEMPERATURES`, with the closing clauses (which may also
+/// stand between the loading and the temperatures).
+pub(super) fn stays_dissolved_at<'a>(
+    cx: Cx<'a>,
+    i: &'a str,
+) -> R<'a, (Loading, Temperatures, Tail)> {
     let (i, _) = expect(cx, i, &["stay", "stays"])?;
     let (i, _) = expect(cx, i, &["dissolved"])?;
     let (i, _) = expect(cx, i, &["at"])?;
     let (i, loading) = committed_loading(cx, i)?;
+    let (i, lead) = lead(cx, i, &SCREEN_CLAUSES)?;
     let (i, temperatures) = temperatures(cx, i)?;
-    Ok((i, (loading, temperatures)))
+    let (i, tail) = tail_after(cx, i, &SCREEN_CLAUSES, &[], lead)?;
+    Ok((i, (loading, temperatures, tail)))
 }
 
 pub(super) fn committed_loading<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Loading> {
@@ -80,8 +93,7 @@ pub(super) fn committed_loading<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Loading> {
 pub(super) fn screen<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     let (i, class) = class(cx, i)?;
     let (i, filters) = filters(cx, i)?;
-    let (i, (loading, temperatures)) = stays_dissolved_at(cx, i)?;
-    let (i, tail) = tail(cx, i, &[Clause::Margin, DATA[0], DATA[1]], &[])?;
+    let (i, (loading, temperatures, tail)) = stays_dissolved_at(cx, i)?;
     Ok((
         i,
         Statement::Screen(Screen {
@@ -100,8 +112,7 @@ pub(super) fn require<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
         return recipe::require(cx, r, rest);
     }
     let (i, solute) = solute(cx, i, &["stays", "stay"])?;
-    let (i, (loading, temperatures)) = stays_dissolved_at(cx, i)?;
-    let (i, tail) = tail(cx, i, &[Clause::Margin, DATA[0], DATA[1]], &[])?;
+    let (i, (loading, temperatures, tail)) = stays_dissolved_at(cx, i)?;
     Ok((
         i,
         Statement::Require(Require {
@@ -121,9 +132,11 @@ pub(super) fn saturation<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
         return recipe::saturation(cx, r, rest);
     }
     let (i, solute) = solute(cx, i, &["at"])?;
+    const CLAUSES: [Clause; 3] = [Clause::InTemperature, DATA[0], DATA[1]];
+    let (i, lead) = lead(cx, i, &CLAUSES)?;
     let (i, _) = expect(cx, i, &["at"])?;
     let (i, loading) = committed_loading(cx, i)?;
-    let (i, tail) = tail(cx, i, &[Clause::InTemperature, DATA[0], DATA[1]], &[])?;
+    let (i, tail) = tail_after(cx, i, &CLAUSES, &[], lead)?;
     Ok((
         i,
         Statement::Saturation(Saturation {
@@ -138,13 +151,10 @@ pub(super) fn saturation<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
 pub(super) fn ceiling<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     let (i, _) = expect(cx, i, &["of"])?;
     let (i, solute) = solute(cx, i, &["at", "from", "over"])?;
+    const CLAUSES: [Clause; 4] = [Clause::Margin, Clause::InComposition, DATA[0], DATA[1]];
+    let (i, lead) = lead(cx, i, &CLAUSES)?;
     let (i, temperatures) = temperatures(cx, i)?;
-    let (i, tail) = tail(
-        cx,
-        i,
-        &[Clause::Margin, Clause::InComposition, DATA[0], DATA[1]],
-        &[],
-    )?;
+    let (i, tail) = tail_after(cx, i, &CLAUSES, &[], lead)?;
     Ok((
         i,
         Statement::Ceiling(Ceiling {
@@ -157,14 +167,40 @@ pub(super) fn ceiling<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     ))
 }
 
+/// `max of KCl from 2 C to 8 C`, `maximum loading of ...`, `max safe loading of ...`: the
+/// same statement as `ceiling of`. `max solubility` is refused with a hint: over a range
+/// the largest solubility is not the largest loading that stays dissolved.
+pub(super) fn maximum<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
+    let t = skip(i);
+    let (next, after) = next_word(t);
+    if next.eq_ignore_ascii_case("solubility") {
+        return Err(failure(
+            ParseErrorKind::Expected {
+                expected: "`loading of` (the largest loading that stays dissolved over the \
+                           range, the same as `ceiling of`)"
+                    .into(),
+                found: Some(shorten(next)),
+                suggestion: Some("loading".into()),
+            },
+            cx.span(t, after),
+        ));
+    }
+    let i = has_keyword(i, "safe").unwrap_or(i);
+    let i = has_keyword(i, "loading")
+        .or_else(|| has_keyword(i, "concentration"))
+        .unwrap_or(i);
+    ceiling(cx, i)
+}
+
 pub(super) fn heat_of_solution<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     let (i, _) = expect(cx, i, &["of"])?;
     let (i, _) = expect(cx, i, &["solution"])?;
     let (i, _) = expect(cx, i, &["of"])?;
     let (i, solute) = solute(cx, i, &["at"])?;
+    let (i, lead) = lead(cx, i, &DATA)?;
     let (i, _) = expect(cx, i, &["at"])?;
     let (i, temperature) = committed_temperature(cx, i)?;
-    let (i, tail) = tail(cx, i, &DATA, &[])?;
+    let (i, tail) = tail_after(cx, i, &DATA, &[], lead)?;
     Ok((
         i,
         Statement::HeatOfSolution(HeatOfSolution {
@@ -198,7 +234,10 @@ pub(super) fn gas_pressure<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, GasPressure> {
         return Ok((rest, GasPressure::Partial(p)));
     }
     let (rest, mixture) = cut(context(MIXTURE, |x| name(cx, x, &["at"]))).parse(t)?;
-    let (rest, total) = match has_keyword(rest, "at") {
+    // `air at 2 bar` is the mixture's total pressure; `air at 4 C` leaves the `at` and its
+    // temperature to the statement.
+    let at_pressure = has_keyword(rest, "at").filter(|after| names_pressure(cx, after));
+    let (rest, total) = match at_pressure {
         Some(after) => {
             let (r, p) =
                 cut(context(ValueKind::Pressure.example(), |x| pressure(cx, x))).parse(after)?;
@@ -209,25 +248,33 @@ pub(super) fn gas_pressure<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, GasPressure> {
     Ok((rest, GasPressure::Mixture { mixture, total }))
 }
 
+/// True when a pressure (a number with a pressure unit, or a name bound to one) stands at
+/// `i`.
+fn names_pressure(cx: Cx, i: &str) -> bool {
+    let t = skip(i);
+    if starts_number(t) {
+        return number_text(t).is_ok_and(|(after, _)| {
+            unit_at(after).is_some_and(|m| matches!(m.unit, AnyUnit::Pressure(_)))
+        });
+    }
+    let (word, _) = next_word(t);
+    matches!(cx.env.get(word), Some(Value::Pressure(_)))
+}
+
+/// `dissolved GAS at T`, with `under`, `in` and the data flags before or after `at T`.
 pub(super) fn dissolved<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
+    const CLAUSES: [Clause; 4] = [Clause::Under, Clause::InComposition, DATA[0], DATA[1]];
     let (i, gas) = cut(context("a gas such as `O2`", |x| name(cx, x, &["at"]))).parse(i)?;
+    let (i, lead) = lead(cx, i, &CLAUSES)?;
     let (i, _) = expect(cx, i, &["at"])?;
     let (i, temperature) = committed_temperature(cx, i)?;
-    let (i, pressure) = match has_keyword(i, "under") {
-        Some(after) => {
-            let (r, p) = gas_pressure(cx, after)?;
-            (r, Some(p))
-        }
-        None => (i, None),
-    };
-    let earlier: &[&'static str] = if pressure.is_none() { &["under"] } else { &[] };
-    let (i, tail) = tail(cx, i, &[Clause::InComposition, DATA[0], DATA[1]], earlier)?;
+    let (i, tail) = tail_after(cx, i, &CLAUSES, &[], lead)?;
     Ok((
         i,
         Statement::DissolvedGas(DissolvedGas {
             gas,
             temperature,
-            pressure,
+            pressure: tail.pressure,
             unit: tail.composition,
             options: tail.options,
         }),
@@ -235,8 +282,14 @@ pub(super) fn dissolved<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
 }
 
 pub(super) fn freezing<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
+    // `freezing point of ...` reads the same as `freezing of ...`.
+    let i = has_keyword(i, "point").unwrap_or(i);
     let (i, _) = expect(cx, i, &["of"])?;
+    if let (rest, Some(r)) = recipe::subject(cx, i)? {
+        return recipe::freezing(cx, r, rest);
+    }
     let (i, solute) = solute(cx, i, &["at"])?;
+    let (i, lead) = lead(cx, i, &[Clause::InTemperature, DATA[0], DATA[1]])?;
     let (i, _) = expect(cx, i, &["at"])?;
     let (i, loading) = committed_loading(cx, i)?;
     let (i, temperature) = match has_keyword(i, "at") {
@@ -247,7 +300,8 @@ pub(super) fn freezing<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
         None => (i, None),
     };
     let earlier: &[&'static str] = if temperature.is_none() { &["at"] } else { &[] };
-    let (i, tail) = tail(cx, i, &[Clause::InTemperature, DATA[0], DATA[1]], earlier)?;
+    let clauses = [Clause::InTemperature, DATA[0], DATA[1]];
+    let (i, tail) = tail_after(cx, i, &clauses, earlier, lead)?;
     Ok((
         i,
         Statement::Freezing(Freezing {
@@ -405,7 +459,11 @@ pub(super) fn binding<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
 
 pub(super) fn let_value<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Value> {
     let t = skip(i);
-    if has_keyword(t, "from").is_some() {
+    if let Some(range) = bare_range(cx, t) {
+        let (rest, range) = range?;
+        return Ok((rest, Value::Range(range)));
+    }
+    if has_keyword(t, "from").is_some() || has_keyword(t, "between").is_some() {
         let (rest, range) = range_from(cx, t)?;
         return Ok((rest, Value::Range(range)));
     }
@@ -509,11 +567,14 @@ pub(super) fn solute_list<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Vec<Name>> {
 pub(super) fn plot<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     let (i, solutes) = solute_list(cx, i)?;
     let t = skip(i);
-    let (mut rest, range) = if has_keyword(t, "from").is_some() {
+    let (mut rest, range) = if let Some(range) = bare_range(cx, t) {
+        let (r, range) = range?;
+        (r, Some(range))
+    } else if has_keyword(t, "from").is_some() || has_keyword(t, "between").is_some() {
         let (r, range) = range_from(cx, t)?;
         (r, Some(range))
     } else if let Some(after) = has_keyword(t, "over") {
-        if has_keyword(after, "from").is_some() {
+        if has_keyword(after, "from").is_some() || has_keyword(after, "between").is_some() {
             let (r, range) = range_from(cx, after)?;
             (r, Some(range))
         } else {
@@ -573,9 +634,10 @@ pub(super) fn plot<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
                 let (r, _) = expect(cx, after, &["loading", "ice"])?;
                 let (r, amount) = committed_loading(cx, r)?;
                 let at = skip(r);
-                let (r, temperatures) = if ["at", "from", "over"]
+                let (r, temperatures) = if ["at", "from", "between", "over"]
                     .iter()
                     .any(|w| has_keyword(at, w).is_some())
+                    || bare_range(cx, at).is_some()
                 {
                     let (r, temps) = temperatures(cx, at)?;
                     (r, Some(temps))

@@ -3,12 +3,14 @@
 //! dependence ([`pitzer`]), and the ice–water equilibrium that turns a water activity into
 //! a freezing point ([`ice`]); Pitzer's equations for mixtures of electrolytes, with mixing
 //! parameters θ and ψ and the unsymmetrical terms ([`mixture`], ions by symbol in
-//! [`ions`]), and a salt's saturation in a mixture from its own solubility ([`saturation`]). Parameter sets are data ([`ParameterSet`], [`MixingSet`], [`SystemSpec`]),
+//! [`ions`]), and a salt's saturation in a mixture from its own solubility ([`saturation`]), and the
+//! freeze concentration of a mixture at one temperature ([`freeze`]). Parameter sets are data ([`ParameterSet`], [`MixingSet`], [`SystemSpec`]),
 //! read from `seed-data/models/`; this module only computes.
 //!
 //! Units: temperatures in K, molality in mol/kg water.
 
 pub mod debye_huckel;
+pub mod freeze;
 pub mod ice;
 pub mod ions;
 pub mod mixture;

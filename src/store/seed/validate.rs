@@ -8,7 +8,8 @@ use super::super::read::{Contents, FreezingRecord, Pair};
 use super::format::*;
 use super::*;
 use crate::model::{
-    Dataset, FreezingData, GasConstant, GasLaw, Phase, Point, Solute, SoluteKind, Source,
+    Dataset, FitQuantity, FreezingData, GasConstant, GasFit, GasLaw, Phase, Point, Solute,
+    SoluteKind, Source, VantHoffLaw,
 };
 use crate::science::formula::{parse_formula, water_molar_mass};
 use crate::science::units::{CompositionUnit, TemperatureUnit};
@@ -787,16 +788,16 @@ pub(super) fn parse_henry(
                 .reference_temperature_k
                 .ok_or_else(|| missing("reference_temperature_k"))?;
             check_t(reference_temperature_k)?;
-            GasLaw::VantHoff {
+            GasLaw::VantHoff(VantHoffLaw {
                 convention,
                 value,
                 reference_temperature_k,
                 temperature_term_k: h
                     .temperature_term_k
                     .ok_or_else(|| missing("temperature_term_k"))?,
-            }
+            })
         }
-        "mole-fraction-fit" | "molality-fit" => {
+        form if FitQuantity::from_name(form).is_some() => {
             let t_min_k = h.t_min_k.ok_or_else(|| missing("t_min_k"))?;
             let t_max_k = h.t_max_k.ok_or_else(|| missing("t_max_k"))?;
             check_t(t_min_k)?;
@@ -824,29 +825,17 @@ pub(super) fn parse_henry(
                 h.reference_pressure_pa
                     .ok_or_else(|| missing("reference_pressure_pa"))?,
             )?;
-            if h.form == "molality-fit" {
-                GasLaw::MolalityFit {
-                    a,
-                    b,
-                    c,
-                    d,
-                    scale_k,
-                    reference_pressure_pa,
-                    t_min_k,
-                    t_max_k,
-                }
-            } else {
-                GasLaw::MoleFractionFit {
-                    a,
-                    b,
-                    c,
-                    d,
-                    scale_k,
-                    reference_pressure_pa,
-                    t_min_k,
-                    t_max_k,
-                }
-            }
+            GasLaw::Fit(GasFit {
+                quantity: FitQuantity::from_name(form).unwrap_or_default(),
+                a,
+                b,
+                c,
+                d,
+                scale_k,
+                reference_pressure_pa,
+                t_min_k,
+                t_max_k,
+            })
         }
         other => {
             return Err(problem(

@@ -1,0 +1,299 @@
+//! `freezing of RECIPE at -20 C`: the freeze-concentration path of a recipe of salts. Ice
+//! takes water out of the liquid until the liquid's water activity matches ice's; a salt
+//! crystallises when its saturation index reaches 0 (Pitzer's equations for the liquid,
+//! each salt's solubility product from its own pure-water curve). The answer gives the ice
+//! line, the ice and salts out at the temperature, the liquid left and its ions, and the
+//! first salt to crystallise from the concentrating liquid.
+
+use std::collections::BTreeMap;
+
+use serde_json::json;
+
+use crate::answer::{Answer, Basis, Row};
+use crate::engine::common::{celsius, value};
+use crate::engine::error::EvalError;
+use crate::engine::mixture::{Ask, Mixture, SolidModel};
+use crate::engine::pitzer_solids::{PitzerSolids, choose, ice_line_of};
+use crate::engine::snapshot::Snapshot;
+use crate::number::round_significant;
+use crate::query::{Options, Recipe, Span};
+use crate::science::activity::freeze::{Candidate, Frozen, freeze};
+use crate::science::activity::ice::ln_water_activity_of_ice;
+use crate::science::formula::molar_mass;
+use crate::science::freezing::ICE_POINT;
+
+/// What was asked: of which recipe, at which temperature (K), written where.
+pub struct Asked<'r> {
+    pub recipe: &'r Recipe,
+    pub at: f64,
+    pub span: Span,
+}
+
+fn refuse(message: String, span: Span) -> EvalError {
+    EvalError::Unanswerable { message, span }
+}
+
+/// A salt that may crystallise at a temperature: its solute's index, its solubility
+/// product and the phase its curve names there.
+struct Salt {
+    index: usize,
+    candidate: Candidate,
+    phase: String,
+}
+
+/// Solutes whose solid cannot be said at a temperature, by index, with the reason.
+type Skipped = Vec<(usize, String)>;
+
+/// The salts that may crystallise at `t_k`, and the solutes that cannot be said there.
+fn candidates(
+    model: &PitzerSolids,
+    ask: &Ask,
+    t_k: f64,
+) -> Result<(Vec<Salt>, Skipped), EvalError> {
+    let c = model
+        .coefficients(t_k)
+        .map_err(|m| refuse(m, Span::default()))?;
+    let mut salts = Vec::new();
+    let mut skipped = Vec::new();
+    for index in 0..ask.mixture.solutes.len() {
+        match model.product(ask, index, t_k, &c) {
+            Ok(p) => salts.push(Salt {
+                index,
+                candidate: Candidate {
+                    solid: p.solid,
+                    ln_k: p.ln_k,
+                },
+                phase: p.phase,
+            }),
+            Err(e) => skipped.push((index, e.to_string())),
+        }
+    }
+    Ok((salts, skipped))
+}
+
+/// The freeze-concentration equilibrium at `t_k` with the salts that may crystallise there
+/// (`None` when it cannot be settled, e.g. below the eutectic).
+fn state_at(
+    model: &PitzerSolids,
+    ask: &Ask,
+    t_k: f64,
+) -> Result<Option<(Frozen, Vec<Salt>)>, EvalError> {
+    let c = model
+        .coefficients(t_k)
+        .map_err(|m| refuse(m, Span::default()))?;
+    let (salts, _) = candidates(model, ask, t_k)?;
+    let cands: Vec<Candidate> = salts.iter().map(|s| s.candidate).collect();
+    Ok(
+        freeze(&c, &model.ions, ln_water_activity_of_ice(t_k), &cands)
+            .ok()
+            .map(|f| (f, salts)),
+    )
+}
+
+/// The salt crystallised most in `state`, as its solute's index and phase.
+fn most(state: &(Frozen, Vec<Salt>)) -> Option<(usize, String)> {
+    let (f, salts) = state;
+    f.crystallised
+        .iter()
+        .zip(salts)
+        .filter(|(p, _)| **p > 0.0)
+        .max_by(|a, b| a.0.total_cmp(b.0))
+        .map(|(_, s)| (s.index, s.phase.clone()))
+}
+
+/// Where something first comes out on cooling from 0 °C to `bottom` (K), along the
+/// freeze-concentration path: ice (`true`) or a salt (`false`).
+fn first_out(
+    model: &PitzerSolids,
+    ask: &Ask,
+    bottom: f64,
+    ice: bool,
+) -> Result<Option<f64>, EvalError> {
+    let out = |t: f64| -> Result<bool, EvalError> {
+        Ok(state_at(model, ask, t)?.is_some_and(|s| {
+            if ice {
+                s.0.ice_kg > 0.0
+            } else {
+                most(&s).is_some()
+            }
+        }))
+    };
+    let top = ICE_POINT;
+    if out(top)? {
+        return Ok(Some(top));
+    }
+    let n = (((top - bottom) / 0.5).ceil() as usize).max(1);
+    let mut above = top;
+    for k in 1..=n {
+        let t = top - (top - bottom) * k as f64 / n as f64;
+        if out(t)? {
+            let (mut lo, mut hi) = (t, above);
+            while hi - lo > 1e-3 {
+                let mid = 0.5 * (lo + hi);
+                if out(mid)? {
+                    lo = mid;
+                } else {
+                    hi = mid;
+                }
+            }
+            return Ok(Some(0.5 * (lo + hi)));
+        }
+        above = t;
+    }
+    Ok(None)
+}
+
+/// Answers `freezing of RECIPE at T`.
+pub fn freezing(
+    snap: &Snapshot,
+    mixture: &Mixture,
+    options: &Options,
+    asked: Asked,
+    answer: &mut Answer,
+) -> Result<(), EvalError> {
+    let (t, span, title) = (asked.at, asked.span, asked.recipe.title());
+    if t >= ICE_POINT {
+        return Err(refuse(
+            format!(
+                "no ice forms at or above 0 C; ask `which solids form in NAME from T1 to T2` for {title} above freezing"
+            ),
+            span,
+        ));
+    }
+    let model = choose(snap, mixture, Some((t, ICE_POINT)), options.extrapolate).map_err(|note| {
+        refuse(
+            format!(
+                "the freezing of {title} is worked out with Pitzer's equations for all its salts together, and here they cannot be used: {}",
+                note.unwrap_or_else(|| "none of its solutes is a salt a parameter system holds".into())
+            ),
+            span,
+        )
+    })?;
+    let mut ask = Ask {
+        snap,
+        mixture,
+        options,
+        answer,
+    };
+    // The ice line of the recipe as made (before any salt comes out), and where ice and the
+    // first salt appear along the path.
+    let ice_line = ice_line_of(&model, &model.ions).map_err(|m| refuse(m, span))?;
+    let ice_from = first_out(&model, &ask, t, true)?;
+    let c = model.coefficients(t).map_err(|m| refuse(m, span))?;
+    let (salts, skipped) = candidates(&model, &ask, t)?;
+    let cands: Vec<Candidate> = salts.iter().map(|s| s.candidate).collect();
+    let frozen = freeze(&c, &model.ions, ln_water_activity_of_ice(t), &cands)
+        .map_err(|e| refuse(format!("{title} at {} C: {e}", celsius(t)), span))?;
+    let first = first_out(&model, &ask, t, false)?;
+    let first_which = match first {
+        Some(t_first) => state_at(&model, &ask, (t_first - 1e-3).max(t))?
+            .as_ref()
+            .and_then(most),
+        None => None,
+    };
+    for index in 0..mixture.solutes.len() {
+        model.cite(&mut ask, index)?;
+    }
+    // Per kg of the recipe's water at the start the recipe weighs 1/water kg.
+    let recipe_kg = 1.0 / mixture.water();
+    let percent = |kg: f64| value(100.0 * kg / recipe_kg);
+    let answer = &mut *ask.answer;
+    answer.rows.push(Row {
+        solute: Some("ice".into()),
+        quantity: Some("ice".into()),
+        value: Some(percent(frozen.ice_kg)),
+        unit: Some("% of the recipe's mass".into()),
+        basis: Some(Basis::Computed),
+        phase: Some("ice".into()),
+        temperature_c: Some(celsius(t)),
+        extra: BTreeMap::from([
+            ("ice_line_c".to_string(), json!(celsius(ice_line))),
+            ("ice_from_c".to_string(), json!(ice_from.map(celsius))),
+            (
+                "water_frozen_pct".to_string(),
+                json!(value(100.0 * frozen.ice_kg)),
+            ),
+        ]),
+        ..Row::default()
+    });
+    for (index, (solute, _)) in mixture.solutes.iter().enumerate() {
+        let mut row = Row {
+            solute: Some(solute.name.clone()),
+            quantity: Some("crystallised".into()),
+            ..Row::default()
+        };
+        if let Some((_, why)) = skipped.iter().find(|(i, _)| *i == index) {
+            row.extra = BTreeMap::from([("reason".to_string(), json!(why))]);
+        } else if let Some((k, salt)) = salts.iter().enumerate().find(|(_, s)| s.index == index) {
+            let mol = frozen.crystallised.get(k).copied().unwrap_or(0.0);
+            row.value = Some(percent(mol * solute.molar_mass / 1000.0));
+            row.unit = Some("% of the recipe's mass".into());
+            row.basis = Some(Basis::Computed);
+            row.phase = Some(salt.phase.clone());
+            row.temperature_c = Some(celsius(t));
+        }
+        answer.rows.push(row);
+    }
+    let mut liquid_kg = frozen.water_kg;
+    for (i, (symbol, z)) in model.system.ions.iter().enumerate() {
+        if model.ions.get(i).copied().unwrap_or(0.0) == 0.0 {
+            continue;
+        }
+        let m = frozen.liquid.get(i).copied().unwrap_or(0.0);
+        liquid_kg += m * frozen.water_kg * molar_mass(symbol).unwrap_or(0.0) / 1000.0;
+        let sign = if *z > 0 { "+" } else { "-" };
+        let charge = if z.abs() > 1 {
+            format!("{}{sign}", z.abs())
+        } else {
+            sign.to_string()
+        };
+        answer.rows.push(Row {
+            solute: Some(format!("{symbol}{charge}")),
+            quantity: Some("in the liquid".into()),
+            value: Some(value(m)),
+            unit: Some("mol/kg".into()),
+            basis: Some(Basis::Computed),
+            temperature_c: Some(celsius(t)),
+            ..Row::default()
+        });
+    }
+    answer.rows.push(Row {
+        solute: Some(title.clone()),
+        quantity: Some("liquid".into()),
+        value: Some(percent(liquid_kg)),
+        unit: Some("% of the recipe's mass".into()),
+        basis: Some(Basis::Computed),
+        temperature_c: Some(celsius(t)),
+        extra: BTreeMap::from([(
+            "water_activity".to_string(),
+            json!(round_significant(frozen.ln_water.exp(), 5)),
+        )]),
+        ..Row::default()
+    });
+    match (first, first_which) {
+        (Some(t_first), Some((index, phase))) => answer.rows.push(Row {
+            solute: mixture.solutes.get(index).map(|(s, _)| s.name.clone()),
+            quantity: Some("first salt on cooling".into()),
+            phase: Some(phase),
+            temperature_c: Some(celsius(t_first)),
+            basis: Some(Basis::Computed),
+            ..Row::default()
+        }),
+        _ => answer.caveat(format!(
+            "no salt {}crystallises from the recipe between 0 C and {} C",
+            if skipped.is_empty() {
+                ""
+            } else {
+                "of those evaluated "
+            },
+            celsius(t)
+        )),
+    }
+    answer.caveat(format!(
+        "`ice_line_c`: where the recipe as made starts to freeze ({} C); `ice_from_c`: where ice appears on the path, after any salt that comes out first. Below it ice takes water out of the liquid until the liquid's water activity matches ice's; a salt crystallises when its saturation index reaches 0",
+        celsius(ice_line)
+    ));
+    answer.caveat(model.caveat());
+    answer.caveat("amounts per anhydrous salt; equilibrium assumed (a real freezer can supercool, or trap brine in the ice)");
+    Ok(())
+}

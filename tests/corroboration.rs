@@ -344,7 +344,10 @@ fn water_activity_checks_hold_when_recomputed() {
         let solute = catalog.solute(&table.solute).unwrap();
         let set = sets
             .iter()
-            .find(|s| s.key.starts_with("spencer-moller-weare-1990") && s.key.ends_with(&solute.formula.to_lowercase()))
+            .find(|s| {
+                s.key.starts_with("spencer-moller-weare-1990")
+                    && s.key.ends_with(&solute.formula.to_lowercase())
+            })
             .unwrap_or_else(|| panic!("{}: no SMW 1990 set in the reference", check.key));
         let molality = 1000.0 * w / (solute.molar_mass * (1.0 - w));
         let ours = satline::science::activity::ice::freezing_point(set, molality).unwrap();
@@ -378,7 +381,11 @@ fn density_range_checks_hold_when_recomputed() {
             check.key
         );
         let (w, _) = Branch::from_dataset(d).unwrap().value_unchecked(t_k);
-        assert!(close(w, check.satline_figure.unwrap()), "{}: {w}", check.key);
+        assert!(
+            close(w, check.satline_figure.unwrap()),
+            "{}: {w}",
+            check.key
+        );
         let over_pct = (density.w_max - w) / w * 100.0;
         match check.verdict {
             Verdict::Pass => assert!(over_pct <= check.tolerance.unwrap(), "{}", check.key),

@@ -21,12 +21,6 @@ fn systems() -> Vec<System> {
 /// printed worst case shows how close).
 const TOLERANCE: f64 = 0.001;
 
-/// Source: pytzer 0.6.0 (`pytzer.model.log_activity_coefficients`, `osmotic_coefficient`,
-/// `activity_water`), a Library of `Aosm_CRP94`, `unsymmetrical.Harvie` and
-/// - the `*_HMW84` functions (Harvie, Møller & Weare 1984) at 25 °C, system
-///   `harvie-moller-weare-1984`;
-/// - `bC_Na_Cl_M88`, `bC_K_Cl_GM89`, `theta_K_Na_GM89`, `psi_K_Na_Cl_GM89` (Møller 1988,
-///   Greenberg & Møller 1989) at 0, 25 and 50 °C, system `greenberg-moller-1989-na-k-cl`.
 /// The committed fixture below 0 °C, compiled in (`fixtures_mixtures_subzero.py`).
 const SUBZERO: &str = include_str!("reference/mixtures_subzero_pytzer.json");
 
@@ -93,6 +87,12 @@ fn check(fixture: &str) -> (usize, f64, std::collections::BTreeSet<(String, i64)
     (checked, worst, seen)
 }
 
+/// Source: pytzer 0.6.0 (`pytzer.model.log_activity_coefficients`, `osmotic_coefficient`,
+/// `activity_water`), a Library of `Aosm_CRP94`, `unsymmetrical.Harvie` and
+/// - the `*_HMW84` functions (Harvie, Møller & Weare 1984) at 25 °C, system
+///   `harvie-moller-weare-1984`;
+/// - `bC_Na_Cl_M88`, `bC_K_Cl_GM89`, `theta_K_Na_GM89`, `psi_K_Na_Cl_GM89` (Møller 1988,
+///   Greenberg & Møller 1989) at 0, 25 and 50 °C, system `greenberg-moller-1989-na-k-cl`.
 #[test]
 fn mixtures_match_pytzer() {
     let (checked, worst, seen) = check(FIXTURE);

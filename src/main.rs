@@ -82,9 +82,10 @@ fn main() -> ExitCode {
                 &sources,
                 cli.format,
                 &pictures,
+                &cli.layout,
             ))
         }
-        Some(Command::Repl) => exit(frontend::repl::run(db)),
+        Some(Command::Repl) => exit(frontend::repl::run(db, &cli.layout)),
         Some(Command::Help { topic }) => exit(frontend::help_command::run(
             &topic,
             &mut io::stdout().lock(),
@@ -104,7 +105,8 @@ fn main() -> ExitCode {
             &cli.statements,
             cli.format,
             &pictures,
+            &cli.layout,
         )),
-        None => exit(frontend::run_default(db, &cli.recipes)),
+        None => exit(frontend::run_default(db, &cli.recipes, &cli.layout)),
     }
 }

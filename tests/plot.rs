@@ -46,7 +46,7 @@ fn svg_holds_a_series_per_solute_and_phase_axis_labels_and_legend() {
     assert_eq!(doc.root_element().attribute("width"), Some("800"));
     let texts = texts(&doc);
     for wanted in [
-        "temperature (C)",
+        "temperature (°C)",
         "solubility (g/100g water, anhydrous solute)",
         "potassium nitrate: solid KNO3",
         "potassium chloride: solid KCl",
@@ -312,5 +312,5 @@ fn the_text_sketch_comes_with_the_table() {
         stdout.contains("* potassium nitrate: solid KNO3"),
         "{stdout}"
     );
-    assert!(stdout.contains("temperature (C)"), "{stdout}");
+    assert!(stdout.contains("temperature (°C)"), "{stdout}");
 }

@@ -120,7 +120,8 @@ fn check(text: &str) {
                 assert!(span.start <= span.end && span.end <= text.len(), "{span:?}");
                 assert!(text.is_char_boundary(span.start) && text.is_char_boundary(span.end));
                 let shown = error.render(text, "prop.satq");
-                assert!(shown.starts_with("error: "));
+                assert!(shown.starts_with("» "), "{shown}");
+                assert!(shown.contains("prop.satq, line "), "{shown}");
                 let _ = error.line_column(text);
             }
         }

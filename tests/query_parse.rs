@@ -841,9 +841,10 @@ fn caret_on_line_three_after_multi_byte_characters() {
     let (line, column) = e.line_column(text);
     assert_eq!((line, column), (3, 31));
     let shown = e.render(text, "script.satq");
-    let expected = "error: expected a temperature such as `5 C`, found `5 g/L`, which is a loading\n \
-                    --> script.satq:3:31\n  |\n\
-                    3 | solubility of Na2SO4·10H2O at 5 g/L\n  |                               ^^^^^\n";
+    let expected = "» solubility of Na2SO4·10H2O at 5 g/L\n\
+                    \x20                               ‾‾‾‾‾ script.satq, line 3, column 31\n  \
+                    not read: expected a temperature such as `5 C`, found `5 g/L`, which is a \
+                    loading\n";
     assert_eq!(shown, expected);
 }
 
@@ -851,9 +852,9 @@ fn caret_on_line_three_after_multi_byte_characters() {
 fn caret_at_the_end_of_a_line_for_a_missing_value() {
     let text = "describe NaCl\nsolubility of KNO3 at\n";
     let shown = fault(text).render(text, "x");
-    assert!(shown.contains("x:2:22"), "{shown}");
+    assert!(shown.contains("x, line 2, column 22"), "{shown}");
     assert!(
-        shown.ends_with("2 | solubility of KNO3 at\n  |                      ^\n"),
+        shown.starts_with("» solubility of KNO3 at\n                       ‾ x, line 2"),
         "{shown}"
     );
 }

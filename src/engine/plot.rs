@@ -9,19 +9,18 @@ use super::phase_plot::lowest_ice_temperature;
 use crate::answer::{Answer, Basis, Row};
 use crate::engine::CAUTION;
 use crate::engine::common::{
-    celsius, cite_curve, cite_source, context, curve_error, curve_of, hazard,
+    celsius, cite_curve, cite_dataset, context, curve_error, curve_of, hazard,
     loading_mass_fraction, phase_caveat, resolve, value,
 };
 use crate::engine::error::EvalError;
 use crate::engine::gas;
 use crate::engine::snapshot::{BuiltCurve, Snapshot};
-use crate::model::{Provenance, Review, Solute, SoluteKind};
+use crate::model::{Review, Solute, SoluteKind};
 use crate::number::round_significant;
 use crate::plot::spec::{
     Limiting, LoadingLine, PlotSpec, PointSet, Segment, Series, TransitionMark,
 };
 use crate::query::{GasPressure, Name, Plot, Span};
-use crate::science::curve::Basis as CurveBasis;
 use crate::science::gas::dissolved as dissolved_gas;
 use crate::science::solve::stays_dissolved_with;
 use crate::science::units::{self, CompositionUnit};
@@ -30,7 +29,7 @@ use crate::science::units::{self, CompositionUnit};
 const SAMPLES: usize = 240;
 
 /// The x axis label of every picture.
-const X_LABEL: &str = "temperature (C)";
+const X_LABEL: &str = "temperature (°C)";
 
 fn to_celsius(t_k: f64) -> f64 {
     t_k - 273.15
@@ -278,7 +277,7 @@ fn solids(
                 }
                 Err(e) => return Err(curve_error(e, solute, name.span)),
             };
-            let extrapolated = evaluation.basis == CurveBasis::Extrapolated;
+            let extrapolated = evaluation.basis == Basis::Extrapolated;
             let point = (
                 to_celsius(t),
                 plotted(evaluation.mass_fraction, unit, solute, unit_span)?,
@@ -465,13 +464,7 @@ fn solids(
                 .iter()
                 .find(|(p, _)| *p == dataset.phase.formula)
                 .map_or_else(|| colours.first().map_or(0, |c| c.1), |c| c.1);
-            cite_source(snap, &dataset.source, answer);
-            if dataset.provenance == Provenance::FromMemory {
-                answer.caveat(format!(
-                    "{}: data typed from memory of the cited table, not yet checked against it (from-memory)",
-                    solute.name
-                ));
-            }
+            cite_dataset(snap, dataset, solute, answer);
             point_sets.push(PointSet {
                 source: format!("data: {}", dataset.source),
                 colour,
@@ -562,7 +555,7 @@ fn solids(
                     quantity: Some("solubility at the limiting temperature".into()),
                     value: Some(value(limit_y)),
                     unit: Some(unit.symbol().into()),
-                    basis: Some(Basis::from(screening.basis)),
+                    basis: Some(screening.basis),
                     phase: Some(screening.phase.clone()),
                     temperature_c: Some(celsius(screening.limiting_t_k)),
                     holds: Some(screening.holds),
@@ -709,7 +702,7 @@ fn gases(
                 }
                 continue;
             };
-            let extrapolated = amount.basis == CurveBasis::Extrapolated;
+            let extrapolated = amount.basis == Basis::Extrapolated;
             if extrapolated && !s.options.extrapolate {
                 if let Some(g) = current.take().filter(|g| g.points.len() > 1) {
                     segments.push(g);

@@ -11,8 +11,10 @@ use std::path::{Path, PathBuf};
 
 use crate::answer::Answer;
 use crate::engine::Engine;
+use crate::frontend::cli::LayoutArgs;
 use crate::frontend::picture::Pictures;
 use crate::frontend::{Outcome, database_name, open_engine};
+use crate::output::table::{Layout, TableWriter};
 use crate::output::{Format, Printer};
 
 /// How standard input is named in messages.
@@ -139,13 +141,30 @@ pub fn run(
         format,
         pictures,
         (stdin, out, err),
-        false,
+        Showing::PIPE,
     )
 }
 
-/// [`run`]; with `errors_in_place`, a statement that could not be parsed or answered is not
-/// also reported on the error stream, because the answers (a table on a terminal) show it
-/// in place with its position: on a terminal an error appears once.
+/// How a run shows its answers: the tables' layout, and whether a statement's error is
+/// shown in place only (on a terminal, where the table shows it with its position).
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct Showing {
+    pub layout: Layout,
+    pub errors_in_place: bool,
+}
+
+impl Showing {
+    /// To a pipe or a file: the full text, and every error also on the error stream.
+    pub const PIPE: Showing = Showing {
+        layout: Layout::FULL,
+        errors_in_place: false,
+    };
+}
+
+/// [`run`], showing answers as `showing` says; with `errors_in_place`, a statement that
+/// could not be parsed or answered is not also reported on the error stream, because the
+/// answers (a table on a terminal) show it in place with its position: on a terminal an
+/// error appears once.
 pub fn run_showing(
     db: Option<&Path>,
     recipes: &[PathBuf],
@@ -153,7 +172,7 @@ pub fn run_showing(
     format: Format,
     pictures: &Pictures,
     (stdin, out, err): (&mut impl Read, &mut impl Write, &mut impl Write),
-    errors_in_place: bool,
+    showing: Showing,
 ) -> Outcome {
     let recipe_sources: Vec<ScriptSource> =
         recipes.iter().cloned().map(ScriptSource::File).collect();
@@ -193,8 +212,8 @@ pub fn run_showing(
     if bad_recipes {
         return Outcome::Unanswered;
     }
-    let printer = Printer::new(out, format);
-    let errors = if errors_in_place {
+    let printer = Printer::new(out, format).with_table(TableWriter::new(showing.layout));
+    let errors = if showing.errors_in_place {
         Errors::InPlace
     } else {
         Errors::Reported
@@ -223,6 +242,7 @@ pub fn run_std(
     sources: &[ScriptSource],
     format: Format,
     pictures: &Pictures,
+    layout: &LayoutArgs,
 ) -> Outcome {
     let stdin = io::stdin();
     let stdout = io::stdout();
@@ -240,21 +260,26 @@ pub fn run_std(
             format,
             pictures,
             (&mut stdin, &mut stdout.lock(), &mut stderr),
-            format == Format::Table,
+            Showing {
+                layout: super::screen::layout(layout.width, layout.full),
+                errors_in_place: format == Format::Table,
+            },
         )
     } else {
         // A program is reading: answers are many small writes, and a buffer keeps a long
         // script from costing a system call per line. It is flushed before returning.
         let mut out = io::BufWriter::new(stdout.lock());
-        run(
+        run_showing(
             db,
             recipes,
             sources,
             format,
             pictures,
-            &mut stdin,
-            &mut out,
-            &mut stderr,
+            (&mut stdin, &mut out, &mut stderr),
+            Showing {
+                layout: super::screen::layout(layout.width, layout.full),
+                errors_in_place: false,
+            },
         )
     }
 }
@@ -267,6 +292,7 @@ pub fn run_arguments(
     statements: &[String],
     format: Format,
     pictures: &Pictures,
+    layout: &LayoutArgs,
 ) -> Outcome {
     let grouped = super::arguments::group(statements);
     let outcome = run_std(
@@ -275,6 +301,7 @@ pub fn run_arguments(
         &[ScriptSource::Arguments(grouped.statements)],
         format,
         pictures,
+        layout,
     );
     if let (Some(hint), true) = (grouped.hint, outcome == Outcome::Unanswered) {
         report(&mut io::stderr(), &format!("satline: {hint}"));

@@ -53,6 +53,9 @@ pub struct Cli {
     #[command(flatten)]
     pub picture: PictureArgs,
 
+    #[command(flatten)]
+    pub layout: LayoutArgs,
+
     #[command(subcommand)]
     pub command: Option<Command>,
 
@@ -66,6 +69,20 @@ pub struct Cli {
 pub const LANGUAGE_GUIDE: &str = "The statements: `satline help` lists the topics of the query language,\n\
 `satline help TOPIC` shows one (`satline help require`); the whole language\n\
 guide is grammar/README.md in satline's source.\n";
+
+/// How tables are laid out for people (statements, `run` and the session).
+#[derive(Debug, Clone, Default, clap::Args)]
+pub struct LayoutArgs {
+    /// Fit tables to COLUMNS columns [default: the terminal's width; to a pipe or a file,
+    /// as wide as the rows need].
+    #[arg(long, global = true, value_name = "COLUMNS")]
+    pub width: Option<usize>,
+
+    /// Keep every column, and write every note and the full citations on every answer
+    /// (what a pipe or a file gets anyway).
+    #[arg(long, global = true)]
+    pub full: bool,
+}
 
 /// Where the pictures of `plot` statements go (for statements and `run`).
 #[derive(Debug, Clone, clap::Args)]

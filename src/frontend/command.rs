@@ -1,12 +1,12 @@
 //! Session commands of the interactive session: lines that talk to the session rather than
-//! ask the reference (`help`, `output json`, `save curve.svg`, `forget`, `quit`). They are parsed here into an
+//! ask the reference (`help`, `output json`, `save curve.svg`, `forget`, `clear`, `quit`). They are parsed here into an
 //! enum with its own error type; every other line is a statement for the engine.
 
 use crate::frontend::help::{self, Topic};
 use crate::output::Format;
 
 /// The words that start a session command. None of them starts a statement.
-pub const COMMAND_WORDS: [&str; 6] = ["help", "output", "save", "forget", "quit", "exit"];
+pub const COMMAND_WORDS: [&str; 7] = ["help", "output", "save", "forget", "clear", "quit", "exit"];
 
 /// A session command.
 #[derive(Debug, Clone, PartialEq, Eq)]
@@ -19,6 +19,8 @@ pub enum SessionCommand {
     Save(String),
     /// `forget`: unbinds every name bound with `let`.
     Forget,
+    /// `clear`: clears the screen (as Ctrl-L does).
+    Clear,
     /// `quit` or `exit`: leaves the session.
     Leave,
 }
@@ -96,6 +98,7 @@ pub fn parse(line: &str) -> Option<Result<SessionCommand, CommandError>> {
             }
         }
         "forget" => no_more("forget", SessionCommand::Forget),
+        "clear" => no_more("clear", SessionCommand::Clear),
         "quit" => no_more("quit", SessionCommand::Leave),
         "exit" => no_more("exit", SessionCommand::Leave),
         _ => return None,
@@ -106,6 +109,13 @@ pub fn parse(line: &str) -> Option<Result<SessionCommand, CommandError>> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn clear_is_a_command_of_its_own() {
+        assert_eq!(parse("clear"), Some(Ok(SessionCommand::Clear)));
+        assert_eq!(parse(" CLEAR "), Some(Ok(SessionCommand::Clear)));
+        assert!(matches!(parse("clear all"), Some(Err(_))));
+    }
 
     #[test]
     fn statements_are_not_commands() {

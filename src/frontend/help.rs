@@ -211,12 +211,13 @@ pub const TOPICS: &[Topic] = &[
     Topic {
         name: "session",
         aliases: &[
-            "commands", "settings", "output", "format", "keys", "forget", "quit",
+            "commands", "settings", "output", "format", "keys", "forget", "quit", "clear",
         ],
         summary: "commands and keys of this session",
         body: "help [TOPIC]       this help, or one topic\n\
                output [FORMAT]    show answers as table, json or csv (alone: the current one)\n\
                forget             unbind every name bound with let\n\
+               clear              clear the screen (so does Ctrl-L)\n\
                quit, exit         leave (so does Ctrl-D on an empty line)\n\
                A line ending in \\ continues on the next line. Tab completes keywords, units \
                and solute names; Ctrl-C drops the line being typed; the arrow keys walk \

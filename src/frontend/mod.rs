@@ -15,6 +15,7 @@ pub mod librarian;
 pub mod picture;
 pub mod progress;
 pub mod repl;
+pub mod screen;
 
 use std::io::IsTerminal;
 use std::path::Path;
@@ -54,9 +55,13 @@ impl Outcome {
 
 /// `satline` with no subcommand: the interactive session when standard input is a terminal,
 /// otherwise a batch run of standard input (as `satline run -`, table output).
-pub fn run_default(db: Option<&Path>, recipes: &[std::path::PathBuf]) -> Outcome {
+pub fn run_default(
+    db: Option<&Path>,
+    recipes: &[std::path::PathBuf],
+    layout: &cli::LayoutArgs,
+) -> Outcome {
     if std::io::stdin().is_terminal() {
-        repl::run(db)
+        repl::run(db, layout)
     } else {
         batch::run_std(
             db,
@@ -64,6 +69,7 @@ pub fn run_default(db: Option<&Path>, recipes: &[std::path::PathBuf]) -> Outcome
             &[batch::ScriptSource::Stdin],
             crate::output::Format::Table,
             &picture::Pictures::default(),
+            layout,
         )
     }
 }

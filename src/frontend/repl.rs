@@ -9,16 +9,18 @@
 use std::io::{self, IsTerminal, Write};
 use std::path::{Path, PathBuf};
 
-use rustyline::Editor;
 use rustyline::config::{CompletionType, Config};
 use rustyline::error::ReadlineError;
 use rustyline::history::DefaultHistory;
+use rustyline::{Cmd, Editor, EventHandler, KeyEvent};
 
 use crate::engine::{Engine, Session};
+use crate::frontend::cli::LayoutArgs;
 use crate::frontend::command::{self, SessionCommand};
 use crate::frontend::complete::{SessionHelper, Vocabulary};
 use crate::frontend::picture::{Pictures, write_picture};
 use crate::frontend::{Outcome, database_name, help, open_engine};
+use crate::output::table::{Layout, TableWriter};
 use crate::output::{Format, Printer};
 use crate::plot::{self, PlotSpec};
 
@@ -45,6 +47,8 @@ pub struct Repl<'e> {
     format: Format,
     /// What the last `plot` drew, for `save FILE`.
     last_plot: Option<PlotSpec>,
+    /// How tables are laid out, and the notes shown so far.
+    table: TableWriter,
 }
 
 impl<'e> Repl<'e> {
@@ -54,6 +58,14 @@ impl<'e> Repl<'e> {
             session: engine.session(),
             format: Format::Table,
             last_plot: None,
+            table: TableWriter::default(),
+        }
+    }
+
+    /// Lays tables out with `layout` from now on (the notes shown so far are remembered).
+    pub fn set_layout(&mut self, layout: Layout) {
+        if layout != self.table.layout() {
+            self.table = self.table.relaid(layout);
         }
     }
 
@@ -76,7 +88,8 @@ impl<'e> Repl<'e> {
             }
             None => {
                 let answers = self.engine.run_text(input, &mut self.session);
-                let mut printer = Printer::new(&mut *out, self.format);
+                let table = std::mem::take(&mut self.table);
+                let mut printer = Printer::new(&mut *out, self.format).with_table(table);
                 for answer in &answers {
                     printer.print(answer, input)?;
                     if let Some(spec) = &answer.plot {
@@ -84,6 +97,7 @@ impl<'e> Repl<'e> {
                     }
                 }
                 printer.flush()?;
+                self.table = printer.table().clone();
                 Ok(Flow::Continue)
             }
         }
@@ -108,6 +122,7 @@ impl<'e> Repl<'e> {
                 self.session = self.engine.session();
                 writeln!(out, "forgot every name bound with let")?;
             }
+            SessionCommand::Clear => super::screen::clear(out)?,
             SessionCommand::Leave => return Ok(Flow::Leave),
         }
         Ok(Flow::Continue)
@@ -233,7 +248,7 @@ fn open_history(editor: &mut Editor<SessionHelper, DefaultHistory>) -> Option<Pa
 }
 
 /// The interactive session on the process's terminal.
-pub fn run(db: Option<&Path>) -> Outcome {
+pub fn run(db: Option<&Path>, layout: &LayoutArgs) -> Outcome {
     let engine = match open_engine(db) {
         Ok(engine) => engine,
         Err(e) => {
@@ -264,6 +279,9 @@ pub fn run(db: Option<&Path>) -> Outcome {
     };
     let vocabulary = Vocabulary::new(engine.solute_names());
     editor.set_helper(Some(SessionHelper::new(vocabulary, colour_allowed())));
+    // Ctrl-L clears the screen and redraws the line being typed (bound here, whatever the
+    // editor's defaults and mode are).
+    editor.bind_sequence(KeyEvent::ctrl('L'), EventHandler::Simple(Cmd::ClearScreen));
     let history = open_history(&mut editor);
 
     let stdout = io::stdout();
@@ -295,6 +313,8 @@ pub fn run(db: Option<&Path>) -> Outcome {
             continue;
         };
         remember(&mut editor, history.as_deref(), &input);
+        // The terminal may have been resized since the last answer.
+        repl.set_layout(super::screen::layout(layout.width, layout.full));
         match repl.handle(&input, &mut out) {
             Ok(Flow::Continue) => {}
             Ok(Flow::Leave) => break,
@@ -418,7 +438,8 @@ mod tests {
         handle(&mut repl, "forget");
         let (flow, text) = handle(&mut repl, require);
         assert_eq!(flow, Flow::Continue);
-        assert!(text.contains("error at line 1"), "{text}");
+        assert!(text.contains("line 1, column 52"), "{text}");
+        assert!(text.contains("not read: "), "{text}");
     }
 
     #[test]

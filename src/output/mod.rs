@@ -2,7 +2,9 @@
 //! All three read the same `Answer`; none computes anything.
 
 pub mod csv;
+pub mod headings;
 pub mod json;
+pub mod notes;
 pub mod table;
 
 use std::io::{self, Write};
@@ -45,6 +47,7 @@ pub struct Printer<W: Write> {
     out: W,
     format: Format,
     wrote_header: bool,
+    table: table::TableWriter,
 }
 
 impl<W: Write> Printer<W> {
@@ -53,13 +56,25 @@ impl<W: Write> Printer<W> {
             out,
             format,
             wrote_header: false,
+            table: table::TableWriter::default(),
         }
+    }
+
+    /// The same printer, laying tables out (and remembering the notes shown) with `table`.
+    pub fn with_table(mut self, table: table::TableWriter) -> Self {
+        self.table = table;
+        self
+    }
+
+    /// The table writer, with what it remembers of the notes shown, for the next printer.
+    pub fn table(&self) -> &table::TableWriter {
+        &self.table
     }
 
     /// Writes one answer; `script` is the text the answer's error spans point into.
     pub fn print(&mut self, answer: &Answer, script: &str) -> io::Result<()> {
         match self.format {
-            Format::Table => table::write_answer(&mut self.out, answer, script),
+            Format::Table => self.table.write(&mut self.out, answer, script),
             Format::Json => json::write_answer(&mut self.out, answer),
             Format::Csv => {
                 if !self.wrote_header {

@@ -453,7 +453,7 @@ mod tests {
     fn tiny() -> PlotSpec {
         PlotSpec {
             title: "invented demo".into(),
-            x_label: "temperature (C)".into(),
+            x_label: "temperature (°C)".into(),
             y_label: "value".into(),
             x_range: (0.0, 10.0),
             series: vec![Series {

@@ -151,9 +151,16 @@ pub fn sketch(spec: &PlotSpec) -> String {
     let right = label(x1);
     let gap = COLUMNS.saturating_sub(left.len() + right.len());
     out.push_str(&format!(
-        "  {}  {left}{}{right}  {}\n",
+        "  {}  {left}{}{right}\n",
         " ".repeat(width),
         " ".repeat(gap),
+    ));
+    // The axis's label on a line of its own, centred under the axis.
+    let label_pad = COLUMNS.saturating_sub(spec.x_label.chars().count()) / 2;
+    out.push_str(&format!(
+        "  {}  {}{}\n",
+        " ".repeat(width),
+        " ".repeat(label_pad),
         spec.x_label
     ));
     for (index, series) in spec.series.iter().enumerate() {
@@ -171,7 +178,7 @@ pub fn sketch(spec: &PlotSpec) -> String {
     }
     if let Some(loading) = &spec.loading {
         out.push_str(&format!(
-            "  = {} from {} C to {} C\n",
+            "  = {} from {} °C to {} °C\n",
             loading.label,
             label(loading.storage.0),
             label(loading.storage.1)
@@ -192,7 +199,7 @@ mod tests {
     fn a_rising_line_climbs_to_the_right() {
         let spec = PlotSpec {
             title: "t".into(),
-            x_label: "temperature (C)".into(),
+            x_label: "temperature (°C)".into(),
             y_label: "v".into(),
             x_range: (0.0, 100.0),
             series: vec![Series {
@@ -216,6 +223,6 @@ mod tests {
         let bottom = lines[2 + ROWS - 1];
         assert!(bottom.contains("|*"), "{text}");
         assert!(text.contains("* invented"), "{text}");
-        assert!(text.contains("temperature (C)"), "{text}");
+        assert!(text.contains("temperature (°C)"), "{text}");
     }
 }

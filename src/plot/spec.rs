@@ -79,7 +79,7 @@ pub struct LoadingLine {
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct PlotSpec {
     pub title: String,
-    /// E.g. `temperature (C)`.
+    /// E.g. `temperature (°C)`.
     pub x_label: String,
     /// E.g. `solubility (g/100g water, anhydrous)`.
     pub y_label: String,

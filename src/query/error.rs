@@ -221,8 +221,8 @@ impl ParseError {
         line_column(source, self.span.start)
     }
 
-    /// The fault drawn for a terminal: message, `file:line:column`, the line, and carets
-    /// under the faulty text.
+    /// The fault drawn for people (`super::fault`): the line, marks under the faulty text
+    /// with `file, line L, column C` beside them, and the message.
     pub fn render(&self, source: &str, file_name: &str) -> String {
         let start = floor_boundary(source, self.span.start);
         let (line, column) = line_column(source, start);
@@ -232,18 +232,20 @@ impl ParseError {
             .map_or(source.len(), |i| start + i);
         let line_text = source[line_start..line_end].trim_end_matches('\r');
         let end = floor_boundary(source, self.span.end.clamp(start, line_end));
-        // Pad with the line's own tabs so the caret lines up however tabs are shown.
-        let pad: String = source[line_start..start]
-            .chars()
-            .map(|c| if c == '\t' { '\t' } else { ' ' })
-            .collect();
-        let width = source[start..end].chars().count().max(1);
-        let number = line.to_string();
-        let gutter = " ".repeat(number.len());
-        format!(
-            "error: {message}\n{gutter}--> {file_name}:{line}:{column}\n{gutter} |\n{number} | {line_text}\n{gutter} | {pad}{carets}\n",
-            message = self.kind,
-            carets = "^".repeat(width),
+        let place = format!("{file_name}, line {line}, column {column}");
+        let message = self.kind.to_string();
+        super::fault::draw(
+            &super::fault::Fault {
+                statement: line_text,
+                at: (
+                    (start - line_start).min(line_text.len()),
+                    (end - line_start).min(line_text.len()),
+                ),
+                place: &place,
+                stage: "parse",
+                message: &message,
+            },
+            None,
         )
     }
 }
@@ -297,7 +299,7 @@ mod tests {
     }
 
     #[test]
-    fn render_draws_carets_under_the_span() {
+    fn render_draws_marks_under_the_span() {
         let error = ParseError::new(
             ParseErrorKind::InvalidNumber {
                 found: "1e999".into(),
@@ -305,7 +307,10 @@ mod tests {
             Span::new(3, 8),
         );
         let shown = error.render("at 1e999 C", "x.satq");
-        assert!(shown.contains("x.satq:1:4"), "{shown}");
-        assert!(shown.contains("1 | at 1e999 C\n  |    ^^^^^\n"), "{shown}");
+        assert!(shown.contains("x.satq, line 1, column 4"), "{shown}");
+        assert!(
+            shown.contains("» at 1e999 C\n     ‾‾‾‾‾ x.satq, line 1, column 4\n"),
+            "{shown}"
+        );
     }
 }

@@ -18,6 +18,7 @@
 
 pub mod ast;
 pub mod error;
+pub mod fault;
 pub mod invisible;
 pub mod lexicon;
 pub mod lines;

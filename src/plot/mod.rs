@@ -18,6 +18,7 @@ pub mod palette;
 pub mod render;
 pub mod sketch;
 pub mod spec;
+pub mod text;
 
 pub use error::PlotError;
 pub use render::{DEFAULT_SIZE, Format, render};

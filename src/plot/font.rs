@@ -13,7 +13,7 @@ use super::error::PlotError;
 pub const FAMILY: &str = "DejaVu Sans";
 
 /// DejaVu Sans 2.37 (Bitstream Vera licence, redistribution permitted).
-static DEJAVU_SANS: &[u8] = include_bytes!("../../assets/fonts/DejaVuSans.ttf");
+pub(super) static DEJAVU_SANS: &[u8] = include_bytes!("../../assets/fonts/DejaVuSans.ttf");
 
 static REGISTERED: OnceLock<bool> = OnceLock::new();
 

@@ -14,6 +14,7 @@
 
 pub mod error;
 pub mod font;
+pub mod glyphs;
 pub mod palette;
 pub mod render;
 pub mod sketch;

@@ -105,7 +105,8 @@ pub fn png(spec: &PlotSpec, width: u32, height: u32) -> Result<Vec<u8>, PlotErro
     font::register()?;
     let mut pixels = vec![0u8; width as usize * height as usize * 3];
     {
-        let root = BitMapBackend::with_buffer(&mut pixels, (width, height)).into_drawing_area();
+        let backend = BitMapBackend::with_buffer(&mut pixels, (width, height));
+        let root = super::glyphs::TrueText(backend).into_drawing_area();
         draw(&root, spec).map_err(PlotError::Draw)?;
         root.present().map_err(|e| PlotError::Draw(e.to_string()))?;
     }

@@ -32,6 +32,10 @@ const SCREEN_RANGE: &str =
 #[path = "support/floors.rs"]
 mod floors;
 
+#[path = "support/estimates.rs"]
+mod estimates;
+use estimates::mean_ns;
+
 /// SplitMix64 (Steele, Lea & Flood, OOPSLA 2014): a small deterministic generator, so every
 /// run of the benchmark sees the same invented catalog.
 struct SplitMix64(u64);
@@ -211,18 +215,6 @@ fn floors(c: &mut Criterion) {
 }
 
 criterion_group!(benches, floors, seed, invented);
-
-/// A measurement's mean, ns, from criterion's estimates of this run.
-fn mean_ns(id: &str) -> Option<f64> {
-    let dir = std::env::var_os("CARGO_TARGET_DIR").map_or_else(
-        || std::path::PathBuf::from("target"),
-        std::path::PathBuf::from,
-    );
-    let path = dir.join("criterion").join(id).join("new/estimates.json");
-    let text = std::fs::read_to_string(path).ok()?;
-    let v: serde_json::Value = serde_json::from_str(&text).ok()?;
-    v["mean"]["point_estimate"].as_f64()
-}
 
 /// Prints each target with the ratio or figure this run measured.
 fn report() {

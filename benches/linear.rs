@@ -11,6 +11,10 @@
 //!   Target: 40,000 under 10 times 4,000. Yardstick `batch_floor`: the same scripts parsed
 //!   only, one statement at a time as batch mode does.
 //!
+//!   `batch_statements/40000_as_ten_scripts` runs the same 40,000 as ten scripts of 4,000,
+//!   linear by construction: one long script should cost no more. The ratios are printed
+//!   after the run.
+//!
 //! Run with `cargo bench --bench linear` (a few minutes: the 1,000,000-row import runs 10
 //! times), or one group, e.g. `cargo bench --bench linear -- import_rows/1000000`.
 //!
@@ -20,7 +24,7 @@ use std::hint::black_box;
 use std::path::Path;
 use std::time::Duration;
 
-use criterion::{BatchSize, BenchmarkId, Criterion, SamplingMode, criterion_group, criterion_main};
+use criterion::{BatchSize, BenchmarkId, Criterion, SamplingMode, criterion_group};
 use satline::engine::Engine;
 use satline::frontend::batch::{Script, run_scripts};
 use satline::frontend::picture::Pictures;
@@ -167,9 +171,16 @@ fn batch(c: &mut Criterion) {
     };
     let mut g = c.benchmark_group("batch_statements");
     g.sample_size(10);
-    for n in [4_000, 40_000] {
-        let script = [lookups(n)];
-        g.bench_with_input(BenchmarkId::from_parameter(n), &script, |b, script| {
+    // Ten scripts of 4,000 in one run: the same 40,000 statements, linear in 4,000 by
+    // construction, so one long script can be compared with the ideal in the same run.
+    let ten: Vec<Script> = (0..10).map(|_| lookups(4_000)).collect();
+    let runs = [
+        ("4000", vec![lookups(4_000)]),
+        ("40000", vec![lookups(40_000)]),
+        ("40000_as_ten_scripts", ten),
+    ];
+    for (id, script) in &runs {
+        g.bench_with_input(BenchmarkId::from_parameter(id), script, |b, script| {
             b.iter(|| {
                 let (mut out, mut err) = (std::io::sink(), std::io::sink());
                 run_scripts(
@@ -199,4 +210,40 @@ fn batch(c: &mut Criterion) {
 }
 
 criterion_group!(benches, batch, import);
-criterion_main!(benches);
+
+#[path = "support/estimates.rs"]
+mod estimates;
+
+/// Prints the batch target with the ratios this run measured.
+fn report() {
+    let ms = |id: &str| estimates::mean_ns(id).map(|ns| ns / 1e6);
+    let (Some(small), Some(large)) = (ms("batch_statements/4000"), ms("batch_statements/40000"))
+    else {
+        return;
+    };
+    println!("\ntargets (this run):");
+    println!(
+        "  40,000 statements in batch: {large:.1} ms / 4,000: {small:.1} ms = {:.2}x (target under 10x): {}",
+        large / small,
+        if large / small < 10.0 {
+            "met"
+        } else {
+            "NOT met"
+        }
+    );
+    if let Some(ten) = ms("batch_statements/40000_as_ten_scripts") {
+        println!(
+            "  the same 40,000 as ten scripts of 4,000: {ten:.1} ms = {:.2}x of 4,000 (linear by construction)",
+            ten / small
+        );
+    }
+    if let (Some(f1), Some(f2)) = (ms("batch_floor/4000"), ms("batch_floor/40000")) {
+        println!("  parsing only: {f2:.1} ms / {f1:.1} ms = {:.2}x", f2 / f1);
+    }
+}
+
+fn main() {
+    benches();
+    Criterion::default().configure_from_args().final_summary();
+    report();
+}

@@ -59,33 +59,7 @@ impl AnswerKind {
     }
 }
 
-/// How a number was obtained from the data.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, utoipa::ToSchema)]
-#[serde(rename_all = "kebab-case")]
-pub enum Basis {
-    /// A value printed in the source.
-    Tabulated,
-    /// Between printed values, by monotone cubic interpolation.
-    Interpolated,
-    /// From a fitted equation inside its valid range.
-    Fitted,
-    /// Outside the range of the data; asked for explicitly.
-    Extrapolated,
-    /// Computed from other answers (conversions, inversions).
-    Computed,
-}
-
-impl Basis {
-    pub fn as_str(self) -> &'static str {
-        match self {
-            Basis::Tabulated => "tabulated",
-            Basis::Interpolated => "interpolated",
-            Basis::Fitted => "fitted",
-            Basis::Extrapolated => "extrapolated",
-            Basis::Computed => "computed",
-        }
-    }
-}
+pub use crate::science::curve::Basis;
 
 /// One row of an answer. Fields that do not apply to a kind of answer are absent from JSON.
 #[derive(Debug, Clone, Default, PartialEq, Serialize, utoipa::ToSchema)]

@@ -177,13 +177,7 @@ pub fn save_source(
     let actor = audit::actor(actor);
     named(
         path,
-        Store::open(path).and_then(|mut store| {
-            if adding {
-                store.add_source(key, fields, &actor)
-            } else {
-                store.edit_source(key, fields, &actor)
-            }
-        }),
+        Store::open(path).and_then(|mut store| store.save_source(key, fields, adding, &actor)),
     )
 }
 

@@ -303,17 +303,9 @@ pub fn write_description(d: &Description<'_>, out: &mut dyn Write) -> io::Result
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::store::Store;
+    use crate::store::demo;
 
     // Invented demo data: not reference values.
-    const SOURCES: &str = r#"
-[[source]]
-key = "demo"
-kind = "other"
-title = "Invented demo data"
-authors = "Nobody, N."
-year = 2026
-"#;
     const SOLUTE: &str = r#"
 id = "demo-salt"
 name = "demo salt"
@@ -334,14 +326,7 @@ points = [[-5, 10.5, 0.1], [10, 12]]
 "#;
 
     fn catalog() -> Catalog {
-        let mut store = Store::open_in_memory().unwrap();
-        store
-            .load_seed(&[
-                ("sources.toml", SOURCES),
-                ("solutes/demo-salt.toml", SOLUTE),
-            ])
-            .unwrap();
-        Catalog::from_store(&store).unwrap()
+        Catalog::from_store(&demo::store(&[("solutes/demo-salt.toml", SOLUTE)])).unwrap()
     }
 
     #[test]

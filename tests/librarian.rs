@@ -612,12 +612,13 @@ fn each_librarian_error_is_triggered_by_its_documented_input() {
     assert!(err.is_bad_input());
     // UnknownSourceKey: `satline source edit crc-98 --year 2017`.
     let err = store
-        .edit_source(
+        .save_source(
             "crc-98",
             &satline::store::sources::SourceFields {
                 year: Some(2017),
                 ..Default::default()
             },
+            false,
             "t",
         )
         .unwrap_err();

@@ -6,26 +6,14 @@ use crate::catalog::citation;
 use crate::engine::error::EvalError;
 use crate::engine::per_litre::{self, Volume};
 use crate::engine::snapshot::{BuiltCurve, Snapshot};
-use crate::model::{Provenance, Review, Solute, SoluteKind};
+use crate::model::{Dataset, Provenance, Review, Solute, SoluteKind};
 use crate::number::round_significant;
 use crate::query::{Loading, Name, Options, Span, Temperatures};
 use crate::science::ScienceError;
-use crate::science::curve::Basis as CurveBasis;
 use crate::science::units::{self, CompositionUnit, Context};
 
 /// Significant figures of compositions in answers: the seed tables print three or four.
 pub const VALUE_DIGITS: usize = 4;
-
-impl From<CurveBasis> for Basis {
-    fn from(basis: CurveBasis) -> Self {
-        match basis {
-            CurveBasis::Tabulated => Basis::Tabulated,
-            CurveBasis::Interpolated => Basis::Interpolated,
-            CurveBasis::Fitted => Basis::Fitted,
-            CurveBasis::Extrapolated => Basis::Extrapolated,
-        }
-    }
-}
 
 /// Kelvin to °C, rounded to 0.01 K (the precision of the inversions).
 pub fn celsius(t_k: f64) -> f64 {
@@ -103,18 +91,44 @@ pub fn curve_of<'a>(
         })
 }
 
+/// Cites a record's source and, when it was typed from memory, says so: `typed` names the
+/// record and what it was typed from (`freezing data typed from memory of the cited table`).
+pub fn cite_typed(
+    snap: &Snapshot,
+    source: &str,
+    provenance: Provenance,
+    typed: &str,
+    solute: &Solute,
+    answer: &mut Answer,
+) {
+    cite_source(snap, source, answer);
+    if provenance == Provenance::FromMemory {
+        answer.caveat(format!(
+            "{}: {typed}, not yet checked against it (from-memory)",
+            solute.name
+        ));
+    }
+}
+
+/// Cites a dataset's source and says when it was typed from memory.
+pub fn cite_dataset(snap: &Snapshot, dataset: &Dataset, solute: &Solute, answer: &mut Answer) {
+    let typed = "data typed from memory of the cited table";
+    cite_typed(
+        snap,
+        &dataset.source,
+        dataset.provenance,
+        typed,
+        solute,
+        answer,
+    );
+}
+
 /// Adds the sources, provenance caveats and hazard note of the datasets behind a curve.
 pub fn cite_curve(snap: &Snapshot, built: &BuiltCurve, solute: &Solute, answer: &mut Answer) {
     let datasets = snap.catalog.datasets();
     for &i in &built.datasets {
         let dataset = &datasets[i];
-        cite_source(snap, &dataset.source, answer);
-        if dataset.provenance == Provenance::FromMemory {
-            answer.caveat(format!(
-                "{}: data typed from memory of the cited table, not yet checked against it (from-memory)",
-                solute.name
-            ));
-        }
+        cite_dataset(snap, dataset, solute, answer);
         if dataset.review == Review::Unreviewed {
             answer.caveat(format!("{}: rests on unreviewed data", solute.name));
         }

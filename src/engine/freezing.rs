@@ -6,11 +6,11 @@ use serde_json::json;
 use crate::answer::{Answer, Basis, Row};
 use crate::engine::CAUTION;
 use crate::engine::common::{
-    celsius, cite_curve, cite_source, curve_error, hazard, in_unit, resolve, value,
+    celsius, cite_curve, cite_source, cite_typed, curve_error, hazard, in_unit, resolve, value,
 };
 use crate::engine::error::EvalError;
 use crate::engine::snapshot::Snapshot;
-use crate::model::{Provenance, Solute, SoluteKind};
+use crate::model::{Solute, SoluteKind};
 use crate::query::Freezing;
 use crate::science::activity::ParameterSet;
 use crate::science::freezing::{FirstSolid, IceBasis, IcePoint, System, first_solid_on_cooling};
@@ -75,13 +75,8 @@ pub fn ice_caveats(
                 );
             }
             if let Some(d) = system.data {
-                cite_source(snap, &d.source, answer);
-                if d.provenance == Provenance::FromMemory {
-                    answer.caveat(format!(
-                        "{}: freezing data typed from memory of the cited table, not yet checked against it (from-memory)",
-                        solute.name
-                    ));
-                }
+                let typed = "freezing data typed from memory of the cited table";
+                cite_typed(snap, &d.source, d.provenance, typed, solute, answer);
             }
         }
     }

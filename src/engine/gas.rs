@@ -6,15 +6,14 @@ use serde_json::json;
 use crate::answer::{Answer, Basis, Row};
 use crate::engine::CAUTION;
 use crate::engine::common::{
-    basis_caveat, celsius, celsius_text, cite_source, hazard, resolve, value,
+    basis_caveat, celsius, celsius_text, cite_typed, hazard, resolve, value,
 };
 use crate::engine::error::EvalError;
 use crate::engine::snapshot::Snapshot;
-use crate::model::{GasConstant, GasFit, GasLaw, Provenance, Review, Solute, SoluteKind};
+use crate::model::{GasConstant, GasFit, GasLaw, Review, Solute, SoluteKind};
 use crate::number::round_significant;
 use crate::query::{DissolvedGas, GasPressure, HeatOfSolution, Options, Span};
 use crate::science::bounds;
-use crate::science::curve::Basis as CurveBasis;
 use crate::science::gas::{self as science_gas, Dissolved, STANDARD_ATMOSPHERE};
 use crate::science::units::CompositionUnit;
 
@@ -73,7 +72,7 @@ fn evaluate<'a>(
     let mut last_error = None;
     for law in laws {
         match science_gas::dissolved(&law.law, solute.molar_mass, t_k, partial_pa) {
-            Ok(d) if d.basis != CurveBasis::Extrapolated => return Ok((d, law)),
+            Ok(d) if d.basis != Basis::Extrapolated => return Ok((d, law)),
             Ok(d) => {
                 if outside.is_none() {
                     outside = Some((d, *law));
@@ -133,13 +132,8 @@ fn evaluate<'a>(
 }
 
 pub(crate) fn cite_law(snap: &Snapshot, law: &GasConstant, solute: &Solute, answer: &mut Answer) {
-    cite_source(snap, &law.source, answer);
-    if law.provenance == Provenance::FromMemory {
-        answer.caveat(format!(
-            "{}: Henry's-law data typed from memory of the cited source, not yet checked against it (from-memory)",
-            solute.name
-        ));
-    }
+    let typed = "Henry's-law data typed from memory of the cited source";
+    cite_typed(snap, &law.source, law.provenance, typed, solute, answer);
     if law.review == Review::Unreviewed {
         answer.caveat(format!("{}: rests on unreviewed data", solute.name));
     }
@@ -288,7 +282,7 @@ pub fn dissolved(snap: &Snapshot, s: &DissolvedGas, answer: &mut Answer) -> Resu
         .map_or(CompositionUnit::MilligramsPerLitre, |u| u.unit);
     let span = s.unit.map_or(s.temperature.span, |u| u.span);
     let number = amount_in(unit, &amount, span)?;
-    let basis = Basis::from(amount.basis);
+    let basis = amount.basis;
     answer.rows.push(Row {
         solute: Some(solute.name.clone()),
         quantity: Some("dissolved at saturation".into()),

@@ -9,7 +9,7 @@ use super::phase_plot::lowest_ice_temperature;
 use crate::answer::{Answer, Basis, Row};
 use crate::engine::CAUTION;
 use crate::engine::common::{
-    celsius, cite_curve, cite_source, context, curve_error, curve_of, hazard,
+    celsius, cite_curve, cite_dataset, context, curve_error, curve_of, hazard,
     loading_mass_fraction, phase_caveat, resolve, value,
 };
 use crate::engine::error::EvalError;
@@ -21,7 +21,6 @@ use crate::plot::spec::{
     Limiting, LoadingLine, PlotSpec, PointSet, Segment, Series, TransitionMark,
 };
 use crate::query::{GasPressure, Name, Plot, Span};
-use crate::science::curve::Basis as CurveBasis;
 use crate::science::gas::dissolved as dissolved_gas;
 use crate::science::solve::stays_dissolved_with;
 use crate::science::units::{self, CompositionUnit};
@@ -280,7 +279,7 @@ fn solids(
                 }
                 Err(e) => return Err(curve_error(e, solute, name.span)),
             };
-            let extrapolated = evaluation.basis == CurveBasis::Extrapolated;
+            let extrapolated = evaluation.basis == Basis::Extrapolated;
             let point = (
                 to_celsius(t),
                 plotted(evaluation.mass_fraction, unit, solute, unit_span)?,
@@ -467,14 +466,8 @@ fn solids(
                 .iter()
                 .find(|(p, _)| *p == dataset.phase.formula)
                 .map_or_else(|| colours.first().map_or(0, |c| c.1), |c| c.1);
-            cite_source(snap, &dataset.source, answer);
+            cite_dataset(snap, dataset, solute, answer);
             data_state.note(&solute.name, dataset.provenance, dataset.review);
-            if dataset.provenance == Provenance::FromMemory {
-                answer.caveat(format!(
-                    "{}: data typed from memory of the cited table, not yet checked against it (from-memory)",
-                    solute.name
-                ));
-            }
             let short = snap.catalog.source(&dataset.source).map_or_else(
                 || dataset.source.clone(),
                 |src| crate::citation::short_citation(&crate::catalog::citation(src)),
@@ -569,7 +562,7 @@ fn solids(
                     quantity: Some("solubility at the limiting temperature".into()),
                     value: Some(value(limit_y)),
                     unit: Some(unit.symbol().into()),
-                    basis: Some(Basis::from(screening.basis)),
+                    basis: Some(screening.basis),
                     phase: Some(screening.phase.clone()),
                     temperature_c: Some(celsius(screening.limiting_t_k)),
                     holds: Some(screening.holds),
@@ -789,7 +782,7 @@ fn gases(
                 }
                 continue;
             };
-            let extrapolated = amount.basis == CurveBasis::Extrapolated;
+            let extrapolated = amount.basis == Basis::Extrapolated;
             if extrapolated && !s.options.extrapolate {
                 if let Some(g) = current.take().filter(|g| g.points.len() > 1) {
                     segments.push(g);

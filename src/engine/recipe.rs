@@ -338,7 +338,7 @@ fn require(
         ask.answer.rows.push(Row {
             value: Some(value(r * 100.0)),
             unit: Some(CompositionUnit::GramsPer100gWater.symbol().into()),
-            basis: Some(Basis::from(screening.basis)),
+            basis: Some(screening.basis),
             temperature_c: Some(celsius(screening.limiting_t_k)),
             holds: Some(screening.holds),
             headroom_pct: headroom(&screening),
@@ -495,7 +495,7 @@ fn solids_form(ask: &mut Ask, model: &dyn SolidModel, at: Limits) -> Result<(), 
         phase_caveat(&screening.phase, ask.answer);
         ask.answer.rows.push(Row {
             temperature_c: Some(celsius(screening.limiting_t_k)),
-            basis: Some(Basis::from(screening.basis)),
+            basis: Some(screening.basis),
             holds: Some(screening.holds),
             headroom_pct: headroom(&screening),
             extra: BTreeMap::from([

@@ -40,7 +40,7 @@ pub fn lookup(snap: &Snapshot, s: &Solubility, answer: &mut Answer) -> Result<()
         .unit
         .map_or(CompositionUnit::GramsPer100gWater, |u| u.unit);
     let span = s.unit.map_or(s.temperature.span, |u| u.span);
-    let basis = Basis::from(evaluation.basis);
+    let basis = evaluation.basis;
     let amount = in_unit(
         snap,
         evaluation.mass_fraction,
@@ -323,7 +323,7 @@ fn screening_row(r: Ranked, unit: &'static str) -> Row {
         quantity: Some("solubility at the limiting temperature".into()),
         value: saturated,
         unit: saturated.map(|_| unit.into()),
-        basis: Some(Basis::from(screening.basis)),
+        basis: Some(screening.basis),
         temperature_c: Some(celsius(screening.limiting_t_k)),
         holds: Some(screening.holds),
         headroom_pct: finite_headroom(screening.headroom_pct),
@@ -376,7 +376,7 @@ pub fn require(snap: &Snapshot, s: &Require, answer: &mut Answer) -> Result<(), 
         quantity: Some("solubility at the limiting temperature".into()),
         value: Some(saturated),
         unit: Some(s.loading.unit.symbol().into()),
-        basis: Some(Basis::from(screening.basis)),
+        basis: Some(screening.basis),
         phase: Some(screening.phase.clone()),
         temperature_c: Some(celsius(screening.limiting_t_k)),
         holds: Some(screening.holds),
@@ -491,7 +491,7 @@ pub fn saturation(snap: &Snapshot, s: &Saturation, answer: &mut Answer) -> Resul
             ..Row::default()
         });
         phase_caveat(&crossing.phase, answer);
-        if crossing.basis == crate::science::curve::Basis::Extrapolated {
+        if crossing.basis == Basis::Extrapolated {
             if s.options.extrapolate {
                 basis_caveat(Basis::Extrapolated, answer);
             } else {
@@ -580,7 +580,7 @@ pub fn apparent_heat(
         s.options.extrapolate,
     )
     .map_err(|e| curve_error(e, solute, s.temperature.span))?;
-    let basis = Basis::from(heat.basis);
+    let basis = heat.basis;
     answer.rows.push(Row {
         solute: Some(solute.name.clone()),
         quantity: Some("apparent heat of solution".into()),

@@ -5,27 +5,32 @@
 
 use super::error::ScienceError;
 
-/// How a value was obtained.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+/// How a value was obtained from the data (the `basis` of every answer's row).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, serde::Serialize, utoipa::ToSchema)]
+#[serde(rename_all = "kebab-case")]
 pub enum Basis {
-    /// At a tabulated point.
+    /// A value printed in the source.
     Tabulated,
-    /// Between tabulated points, by monotone cubic interpolation.
+    /// Between printed values, by monotone cubic interpolation.
     Interpolated,
-    /// From a least-squares fit inside its range.
+    /// From a fitted equation inside its valid range.
     Fitted,
-    /// Outside the data (asked for explicitly).
+    /// Outside the range of the data; asked for explicitly.
     Extrapolated,
+    /// Computed from other answers (conversions, inversions).
+    Computed,
 }
 
 impl Basis {
-    /// The word used in answers: `tabulated`, `interpolated`, `fitted`, `extrapolated`.
+    /// The word used in answers: `tabulated`, `interpolated`, `fitted`, `extrapolated`,
+    /// `computed`.
     pub fn as_str(self) -> &'static str {
         match self {
             Basis::Tabulated => "tabulated",
             Basis::Interpolated => "interpolated",
             Basis::Fitted => "fitted",
             Basis::Extrapolated => "extrapolated",
+            Basis::Computed => "computed",
         }
     }
 }

@@ -232,7 +232,9 @@ pub struct Dissolved {
 ///
 /// Henry's law: the dissolved amount is proportional to the gas's partial pressure
 /// (dilute, ideal). For a van 't Hoff record, c = Hcp(T)·p ([`vant_hoff_hcp`]); for a
-/// mole-fraction fit, x = x_fit(T)·p/p_ref ([`mole_fraction_fit`]). Per-volume and per-mass
+/// mole-fraction fit, x = x_fit(T)·p/p_ref ([`mole_fraction_fit`]); for a molality fit, as
+/// some sources give it (e.g. R. F. Weiss, Marine Chemistry 2 (1974) 203–215, for CO2),
+/// n = K(T)·p/p_ref moles of gas per kg of solution. Per-volume and per-mass
 /// amounts are related through the pure-water density ([`water_density`], Kell 1975): the
 /// solution is taken to be as dense as water (dilute). Molar mass in g/mol.
 pub fn dissolved(
@@ -264,22 +266,23 @@ pub fn dissolved(
             // Water in 1 m³ of solution of density ρ: ρ − c·M/1000 kg.
             (c / (rho - c * m / 1000.0), Basis::Fitted)
         }
-        GasLaw::Fit(fit) if fit.quantity == FitQuantity::Molality => {
-            return dissolved_molality_fit(fit, m, t_k, partial_pressure_pa);
-        }
         GasLaw::Fit(fit) => {
             let p_ref = positive("reference pressure (Pa)", fit.reference_pressure_pa)?;
-            let (x_ref, inside) = fit.value(t_k);
-            let x = x_ref * partial_pressure_pa / p_ref;
-            let per_kg = x / (1.0 - x) * 1000.0 / WATER_MOLAR_MASS;
-            (
-                per_kg,
-                if inside {
-                    Basis::Fitted
-                } else {
-                    Basis::Extrapolated
-                },
-            )
+            let (q_ref, inside) = fit.value(t_k);
+            let q = q_ref * partial_pressure_pa / p_ref;
+            let per_kg = match fit.quantity {
+                // x mole fraction: n/(n + 1000/M_w) = x.
+                FitQuantity::MoleFraction => q / (1.0 - q) * 1000.0 / WATER_MOLAR_MASS,
+                // q mol per kg of solution, whose kg holds q·M/1000 kg of gas. Fugacity is
+                // taken equal to partial pressure (for CO2 at 1 atm about 0.5 % apart).
+                FitQuantity::Molality => q / (1.0 - q * m / 1000.0),
+            };
+            let basis = if inside {
+                Basis::Fitted
+            } else {
+                Basis::Extrapolated
+            };
+            (per_kg, basis)
         }
     };
     Ok(amounts(n_per_kg_water, m, rho, basis))
@@ -317,43 +320,6 @@ impl GasFit {
     pub fn slope_k(&self, t_k: f64) -> f64 {
         self.b * self.scale_k - self.c * t_k - self.d * t_k * t_k / self.scale_k
     }
-}
-
-/// [`dissolved`] for a molality fit, as some sources give it (e.g. R. F. Weiss, Marine
-/// Chemistry 2 (1974) 203–215, for CO2; the seed form `molality-fit`): K(T) the moles of gas
-/// per kg of solution at the reference pressure, n = K(T)·p/p_ref (Henry's law),
-/// other units as in [`dissolved`]. Fugacity is taken equal to partial pressure (for CO2 at
-/// 1 atm about 0.5 % apart).
-pub fn dissolved_molality_fit(
-    fit: &GasFit,
-    molar_mass: f64,
-    t_k: f64,
-    partial_pressure_pa: f64,
-) -> Result<Dissolved, ScienceError> {
-    let m = positive("molar mass (g/mol)", molar_mass)?;
-    let t_k = positive("temperature (K)", t_k)?;
-    if !(partial_pressure_pa.is_finite() && partial_pressure_pa >= 0.0) {
-        return Err(ScienceError::NotPositive {
-            what: "partial pressure (Pa)",
-            value: partial_pressure_pa,
-        });
-    }
-    let p_ref = positive("reference pressure (Pa)", fit.reference_pressure_pa)?;
-    let rho = water_density(t_k)?;
-    let (k, inside) = fit.value(t_k);
-    let n_per_kg_solution = k * partial_pressure_pa / p_ref;
-    // Per kg of water: the solution's kg holds n·M/1000 kg of gas.
-    let n_per_kg_water = n_per_kg_solution / (1.0 - n_per_kg_solution * m / 1000.0);
-    Ok(amounts(
-        n_per_kg_water,
-        m,
-        rho,
-        if inside {
-            Basis::Fitted
-        } else {
-            Basis::Extrapolated
-        },
-    ))
 }
 
 /// Apparent enthalpy of solution of a gas at `t_k`, kJ/mol, with its sign word:
@@ -515,14 +481,13 @@ mod tests {
             t_min_k: 273.15,
             t_max_k: 313.15,
         };
-        let d = dissolved_molality_fit(&fit, 44.0, 293.15, 50_662.5).unwrap();
+        let law = GasLaw::Fit(fit);
+        let d = dissolved(&law, 44.0, 293.15, 50_662.5).unwrap();
         let n = (-4.0f64).exp() * 0.5;
         assert!((d.mg_per_kg - n * 44.0 * 1000.0).abs() < 1e-9);
         assert_eq!(d.basis, Basis::Fitted);
         assert_eq!(
-            dissolved_molality_fit(&fit, 44.0, 330.0, 1e5)
-                .unwrap()
-                .basis,
+            dissolved(&law, 44.0, 330.0, 1e5).unwrap().basis,
             Basis::Extrapolated
         );
     }

@@ -538,8 +538,9 @@ mod tests {
         assert!(!covers(&[], COVERAGE_RANGE_K));
     }
 
+    use crate::store::demo::SOURCES;
+
     // Invented demo seed, not reference data.
-    const SOURCES: &str = "[[source]]\nkey = \"demo\"\nkind = \"other\"\ntitle = \"Invented\"\nauthors = \"nobody\"\n";
     const SOLUTE: &str = "id = \"demo-salt\"\nname = \"demo salt\"\nformula = \"KCl\"\nkind = \"salt\"\nions = 2\n\n[[dataset]]\nkey = \"d\"\nsource = \"demo\"\nphase = \"KCl\"\nphase_name = \"anhydrous\"\nunit = \"%w/w\"\ntemperature_unit = \"C\"\nprovenance = \"derived\"\nreview = \"unreviewed\"\npoints = [[0, 20.0], [20, 25.0]]\n";
 
     fn check(fields: &str) -> Result<Contents, StoreError> {

@@ -109,8 +109,7 @@ pub(crate) fn temp_path_beside(path: &Path) -> Result<PathBuf, StoreError> {
 mod tests {
     use super::*;
 
-    // Invented demo data: not reference values.
-    const SOURCES: &str = "[[source]]\nkey = \"demo\"\nkind = \"other\"\ntitle = \"Invented\"\nauthors = \"nobody\"\n";
+    use crate::store::demo::SOURCES;
 
     #[test]
     fn builds_once_and_rebuilds_when_the_seed_changes() {

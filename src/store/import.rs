@@ -35,7 +35,8 @@ use serde::Serialize;
 use super::findings::{self, Finding};
 use super::read::{Contents, FreezingRecord};
 use super::{Store, StoreError, audit, lock, seed, write};
-use crate::model::{Check, Dataset, GasConstant, Review, Solute, Source};
+use crate::model::thermo::{HeatCapacityFit, ThermoValue};
+use crate::model::{Check, Dataset, DensityCoefficients, GasConstant, Review, Solute, Source};
 use crate::science::units::CompositionUnit;
 
 /// One file to import, read into memory: its path as given (for messages) and its text.
@@ -101,13 +102,13 @@ impl ChangeKind {
 }
 
 #[derive(Debug, Clone)]
-enum Record {
+pub(super) enum Record {
     Source(Source),
     Solute(Solute),
     Dataset(Dataset),
     Gas(GasConstant),
     Freezing(FreezingRecord),
-    Density(crate::model::DensityCoefficients),
+    Density(DensityCoefficients),
     Check(Check),
     Thermo(super::thermo_import::ThermoRecord),
 }
@@ -484,6 +485,41 @@ fn check_sane(
     Ok(())
 }
 
+/// What writing dataset `d` does to the stored one: a retired mark or review state counts
+/// only when the import keeps the states written in its files.
+fn dataset_change(d: &Dataset, before: Option<&Dataset>, keep_state: bool) -> ChangeKind {
+    match before {
+        None => ChangeKind::Added,
+        Some(b) if !same_data(d, b) => ChangeKind::Changed,
+        Some(b) if !keep_state || (b.review == d.review && b.retired == d.retired) => {
+            ChangeKind::Unchanged
+        }
+        Some(b) if d.retired && !b.retired => ChangeKind::Retired,
+        Some(_) => ChangeKind::Changed,
+    }
+}
+
+fn dataset_kept(d: &Dataset, before: Option<&Dataset>) -> ChangeKind {
+    dataset_change(d, before, true)
+}
+
+fn dataset_fresh(d: &Dataset, before: Option<&Dataset>) -> ChangeKind {
+    dataset_change(d, before, false)
+}
+
+/// Unchanged when equal, or with the same fitted coefficients from the same source over the
+/// same range (review state and notes aside).
+fn density_fresh(d: &DensityCoefficients, before: Option<&DensityCoefficients>) -> ChangeKind {
+    kind_of(before.map(|b| {
+        d == b
+            || (d.c == b.c
+                && d.source == b.source
+                && d.t_min_c == b.t_min_c
+                && d.t_max_c == b.t_max_c
+                && d.w_max == b.w_max)
+    }))
+}
+
 /// Equal apart from the review state and retired mark.
 fn same_data(a: &Dataset, b: &Dataset) -> bool {
     let mut a = a.clone();
@@ -496,185 +532,216 @@ fn json<T: Serialize>(v: &T) -> serde_json::Value {
     serde_json::to_value(v).unwrap_or(serde_json::Value::Null)
 }
 
-fn compare(incoming: &Contents, existing: &Contents, options: &ImportOptions) -> ImportPlan {
-    let mut plan = ImportPlan::default();
-    let kind_of = |before_same: Option<bool>| match before_same {
+/// Added (no stored record), unchanged or changed, from whether the stored record is the same.
+fn kind_of(same: Option<bool>) -> ChangeKind {
+    match same {
         None => ChangeKind::Added,
         Some(true) => ChangeKind::Unchanged,
         Some(false) => ChangeKind::Changed,
-    };
+    }
+}
 
-    let old_sources: HashMap<&str, &Source> = existing
-        .sources
-        .iter()
-        .map(|s| (s.key.as_str(), s))
-        .collect();
-    for s in &incoming.sources {
-        let before = old_sources.get(s.key.as_str()).copied();
+/// One kind of record of an import: how a record is found among the stored ones, how it
+/// is named in the plan and the audit history, and what the import does with it.
+pub(super) struct RecordKind<T> {
+    /// The stored identity: the record of the same key is the one replaced.
+    pub key: fn(&T) -> String,
+    /// `(entity, summary)`: `dataset:<key>` and a few words on the record.
+    pub describe: fn(&T) -> (String, String),
+    /// What writing the record does to the stored one (`None` when there is none).
+    pub kind: fn(&T, Option<&T>) -> ChangeKind,
+    pub record: fn(T) -> Record,
+}
+
+/// Adds a planned change for each incoming record of one kind.
+pub(super) fn plan_records<T: Serialize + Clone>(
+    plan: &mut ImportPlan,
+    incoming: &[T],
+    existing: &[T],
+    how: RecordKind<T>,
+) {
+    let stored: HashMap<String, &T> = existing.iter().map(|b| ((how.key)(b), b)).collect();
+    for r in incoming {
+        let before = stored.get(&(how.key)(r)).copied();
+        let (entity, summary) = (how.describe)(r);
         plan.changes.push(Change {
-            kind: kind_of(before.map(|b| b == s)),
-            entity: format!("source:{}", s.key),
-            summary: s.title.clone(),
+            kind: (how.kind)(r, before),
+            entity,
+            summary,
             before: before.map(json),
-            after: json(s),
-            record: Record::Source(s.clone()),
+            after: json(r),
+            record: (how.record)(r.clone()),
         });
     }
-    let old_solutes: HashMap<&str, &Solute> = existing
-        .solutes
-        .iter()
-        .map(|s| (s.id.as_str(), s))
-        .collect();
-    for s in &incoming.solutes {
-        let before = old_solutes.get(s.id.as_str()).copied();
-        plan.changes.push(Change {
-            kind: kind_of(before.map(|b| b == s)),
-            entity: format!("solute:{}", s.id),
-            summary: format!("{} ({}, {})", s.name, s.formula, s.kind.as_str()),
-            before: before.map(json),
-            after: json(s),
-            record: Record::Solute(s.clone()),
-        });
+}
+
+/// Unchanged when equal.
+fn equal<T: PartialEq>(r: &T, before: Option<&T>) -> ChangeKind {
+    kind_of(before.map(|b| b == r))
+}
+
+/// A record with a review state of its own, which an import may leave aside.
+pub(super) trait Reviewed: Clone + PartialEq {
+    fn review_mut(&mut self) -> &mut Review;
+
+    /// The record with another review state.
+    fn with_review(&self, review: Review) -> Self {
+        let mut copy = self.clone();
+        *copy.review_mut() = review;
+        copy
     }
-    let old_datasets: HashMap<&str, &Dataset> = existing
-        .datasets
-        .iter()
-        .map(|d| (d.key.as_str(), d))
-        .collect();
-    for d in &incoming.datasets {
-        let before = old_datasets.get(d.key.as_str()).copied();
-        let kind = match before {
-            None => ChangeKind::Added,
-            Some(b) if !same_data(d, b) => ChangeKind::Changed,
-            Some(b) if !options.keep_state || (b.review == d.review && b.retired == d.retired) => {
-                ChangeKind::Unchanged
+}
+
+macro_rules! reviewed {
+    ($($record:ty),+) => {$(
+        impl Reviewed for $record {
+            fn review_mut(&mut self) -> &mut Review {
+                &mut self.review
             }
-            Some(b) if d.retired && !b.retired => ChangeKind::Retired,
-            Some(_) => ChangeKind::Changed,
-        };
-        plan.changes.push(Change {
-            kind,
-            entity: format!("dataset:{}", d.key),
-            summary: format!(
-                "{} points, {}, source {}{}",
-                d.points.len(),
-                d.review.as_str(),
-                d.source,
-                if d.retired { ", retired" } else { "" }
-            ),
-            before: before.map(json),
-            after: json(d),
-            record: Record::Dataset(d.clone()),
-        });
+        }
+    )+};
+}
+
+reviewed!(GasConstant, ThermoValue, HeatCapacityFit);
+
+impl Reviewed for FreezingRecord {
+    fn review_mut(&mut self) -> &mut Review {
+        &mut self.data.review
     }
-    let old_gas: HashMap<&str, &GasConstant> = existing
-        .gas_constants
-        .iter()
-        .map(|g| (g.key.as_str(), g))
-        .collect();
-    for g in &incoming.gas_constants {
-        let before = old_gas.get(g.key.as_str()).copied();
-        let same = before.map(|b| {
-            let mut g = g.clone();
-            if !options.keep_state {
-                g.review = b.review;
-            }
-            &g == b
-        });
-        plan.changes.push(Change {
-            kind: kind_of(same),
-            entity: format!("henry:{}", g.key),
-            summary: format!("Henry's-law record, {}", g.review.as_str()),
-            before: before.map(json),
-            after: json(g),
-            record: Record::Gas(g.clone()),
-        });
-    }
-    let old_freezing: HashMap<&str, &FreezingRecord> = existing
-        .freezing
-        .iter()
-        .map(|f| (f.data.key.as_str(), f))
-        .collect();
-    for f in &incoming.freezing {
-        let before = old_freezing.get(f.data.key.as_str()).copied();
-        let same = before.map(|b| {
-            let mut f = f.clone();
-            if !options.keep_state {
-                f.data.review = b.data.review;
-            }
-            &f == b
-        });
-        plan.changes.push(Change {
-            kind: kind_of(same),
-            entity: format!("freezing:{}", f.data.key),
-            summary: format!("{} freezing points", f.points_reported.len()),
-            before: before.map(json),
-            after: json(f),
-            record: Record::Freezing(f.clone()),
-        });
-    }
+}
+
+/// Unchanged when equal apart from the review state.
+fn review_aside<T: Reviewed>(r: &T, before: Option<&T>) -> ChangeKind {
+    let aside = |r: &T| r.with_review(Review::Unreviewed);
+    kind_of(before.map(|b| r == b || aside(r) == aside(b)))
+}
+
+/// How a record with a review state compares: with `keep_state` the state written in the
+/// file is a difference; without it, an incoming record's review state is not.
+pub(super) fn state_aside<T: Reviewed>(keep_state: bool) -> fn(&T, Option<&T>) -> ChangeKind {
+    if keep_state { equal } else { review_aside }
+}
+
+fn compare(incoming: &Contents, existing: &Contents, options: &ImportOptions) -> ImportPlan {
+    let mut plan = ImportPlan::default();
+    let keep = options.keep_state;
+    plan_records(
+        &mut plan,
+        &incoming.sources,
+        &existing.sources,
+        RecordKind {
+            key: |s: &Source| s.key.clone(),
+            describe: |s| (format!("source:{}", s.key), s.title.clone()),
+            kind: equal,
+            record: Record::Source,
+        },
+    );
+    plan_records(
+        &mut plan,
+        &incoming.solutes,
+        &existing.solutes,
+        RecordKind {
+            key: |s: &Solute| s.id.clone(),
+            describe: |s| {
+                let summary = format!("{} ({}, {})", s.name, s.formula, s.kind.as_str());
+                (format!("solute:{}", s.id), summary)
+            },
+            kind: equal,
+            record: Record::Solute,
+        },
+    );
+    plan_records(
+        &mut plan,
+        &incoming.datasets,
+        &existing.datasets,
+        RecordKind {
+            key: |d: &Dataset| d.key.clone(),
+            describe: |d| {
+                let summary = format!(
+                    "{} points, {}, source {}{}",
+                    d.points.len(),
+                    d.review.as_str(),
+                    d.source,
+                    if d.retired { ", retired" } else { "" }
+                );
+                (format!("dataset:{}", d.key), summary)
+            },
+            kind: if keep { dataset_kept } else { dataset_fresh },
+            record: Record::Dataset,
+        },
+    );
+    plan_records(
+        &mut plan,
+        &incoming.gas_constants,
+        &existing.gas_constants,
+        RecordKind {
+            key: |g: &GasConstant| g.key.clone(),
+            describe: |g| {
+                let summary = format!("Henry's-law record, {}", g.review.as_str());
+                (format!("henry:{}", g.key), summary)
+            },
+            kind: state_aside(keep),
+            record: Record::Gas,
+        },
+    );
+    plan_records(
+        &mut plan,
+        &incoming.freezing,
+        &existing.freezing,
+        RecordKind {
+            key: |f: &FreezingRecord| f.data.key.clone(),
+            describe: |f| {
+                let summary = format!("{} freezing points", f.points_reported.len());
+                (format!("freezing:{}", f.data.key), summary)
+            },
+            kind: state_aside(keep),
+            record: Record::Freezing,
+        },
+    );
     // Density coefficients: one set per solute, compared whole (review aside unless kept).
-    for d in &incoming.densities {
-        let before = existing.densities.iter().find(|b| b.solute == d.solute);
-        let same = before.map(|b| {
-            d == b
-                || (!options.keep_state
-                    && d.c == b.c
-                    && d.source == b.source
-                    && d.t_min_c == b.t_min_c
-                    && d.t_max_c == b.t_max_c
-                    && d.w_max == b.w_max)
-        });
-        plan.changes.push(Change {
-            kind: kind_of(same),
-            entity: format!("density:{}", d.solute),
-            summary: format!(
-                "density coefficients, {}, source {}",
-                d.review.as_str(),
-                d.source
-            ),
-            before: before.map(json),
-            after: json(d),
-            record: Record::Density(d.clone()),
-        });
-    }
-
-    for p in super::thermo_import::plan(
+    plan_records(
+        &mut plan,
+        &incoming.densities,
+        &existing.densities,
+        RecordKind {
+            key: |d: &DensityCoefficients| d.solute.clone(),
+            describe: |d| {
+                let summary = format!(
+                    "density coefficients, {}, source {}",
+                    d.review.as_str(),
+                    d.source
+                );
+                (format!("density:{}", d.solute), summary)
+            },
+            kind: if keep { equal } else { density_fresh },
+            record: Record::Density,
+        },
+    );
+    super::thermo_import::plan(
+        &mut plan,
         &incoming.thermochemistry,
         &existing.thermochemistry,
         options.keep_state,
-    ) {
-        plan.changes.push(Change {
-            kind: kind_of(p.same),
-            entity: p.entity,
-            summary: p.summary,
-            before: p.before,
-            after: p.after,
-            record: Record::Thermo(p.record),
-        });
-    }
-
-    let old_checks: HashMap<&str, &Check> = existing
-        .checks
-        .iter()
-        .map(|c| (c.key.as_str(), c))
-        .collect();
-    for c in &incoming.checks {
-        let before = old_checks.get(c.key.as_str()).copied();
-        plan.changes.push(Change {
-            kind: kind_of(before.map(|b| b == c)),
-            entity: format!("check:{}", c.key),
-            summary: format!(
-                "{} check against {}: {}",
-                c.kind,
-                c.reference,
-                c.verdict.as_str()
-            ),
-            before: before.map(json),
-            after: json(c),
-            record: Record::Check(c.clone()),
-        });
-    }
+    );
+    plan_records(
+        &mut plan,
+        &incoming.checks,
+        &existing.checks,
+        RecordKind {
+            key: |c: &Check| c.key.clone(),
+            describe: |c| {
+                let summary = format!(
+                    "{} check against {}: {}",
+                    c.kind,
+                    c.reference,
+                    c.verdict.as_str()
+                );
+                (format!("check:{}", c.key), summary)
+            },
+            kind: equal,
+            record: Record::Check,
+        },
+    );
 
     // Findings, for the datasets that would be written.
     let solutes: HashMap<&str, &Solute> = existing

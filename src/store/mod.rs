@@ -8,6 +8,8 @@ pub mod audit;
 pub mod check;
 pub mod corroboration;
 pub mod default_db;
+#[cfg(test)]
+pub(crate) mod demo;
 pub mod density;
 mod error;
 pub mod export;
@@ -43,6 +45,20 @@ pub use import::{ImportFile, ImportOptions, ImportPlan, ImportSummary};
 /// How long a connection waits for another process's lock before giving up.
 pub(crate) const BUSY_TIMEOUT: Duration = Duration::from_secs(5);
 
+/// Opens the database file at `path`, which must exist, with `mode` (read-write or
+/// read-only).
+fn open_existing(path: &Path, mode: OpenFlags) -> Result<Connection, StoreError> {
+    if !path.is_file() {
+        return Err(StoreError::NotFound {
+            path: path.to_path_buf(),
+        });
+    }
+    Ok(Connection::open_with_flags(
+        path,
+        mode | OpenFlags::SQLITE_OPEN_NO_MUTEX,
+    )?)
+}
+
 /// One open satline database.
 #[derive(Debug)]
 pub struct Store {
@@ -57,15 +73,7 @@ impl Store {
     /// The file must exist (`satline init --db PATH` creates one); a database written by a
     /// newer satline is refused with [`StoreError::SchemaTooNew`].
     pub fn open(path: &Path) -> Result<Store, StoreError> {
-        if !path.is_file() {
-            return Err(StoreError::NotFound {
-                path: path.to_path_buf(),
-            });
-        }
-        let conn = Connection::open_with_flags(
-            path,
-            OpenFlags::SQLITE_OPEN_READ_WRITE | OpenFlags::SQLITE_OPEN_NO_MUTEX,
-        )?;
+        let conn = open_existing(path, OpenFlags::SQLITE_OPEN_READ_WRITE)?;
         let mut store = Store::configure(conn, path.display().to_string(), true)?;
         store.migrate()?;
         Ok(store)
@@ -76,15 +84,7 @@ impl Store {
     /// Used for the embedded default database, which is replaced (never edited) when it is
     /// stale; its schema version is checked by the caller.
     pub fn open_read_only(path: &Path) -> Result<Store, StoreError> {
-        if !path.is_file() {
-            return Err(StoreError::NotFound {
-                path: path.to_path_buf(),
-            });
-        }
-        let conn = Connection::open_with_flags(
-            path,
-            OpenFlags::SQLITE_OPEN_READ_ONLY | OpenFlags::SQLITE_OPEN_NO_MUTEX,
-        )?;
+        let conn = open_existing(path, OpenFlags::SQLITE_OPEN_READ_ONLY)?;
         let store = Store::configure(conn, path.display().to_string(), false)?;
         store.refuse_newer()?;
         Ok(store)

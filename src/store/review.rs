@@ -233,19 +233,13 @@ impl Store {
 mod tests {
     use super::*;
 
+    use crate::store::demo::{self, SOURCES};
+
     // Invented demo data, not reference values.
-    const SOURCES: &str = "[[source]]\nkey = \"demo\"\nkind = \"other\"\ntitle = \"Invented\"\nauthors = \"nobody\"\n";
     const SOLUTE: &str = "id = \"demo-salt\"\nname = \"demo salt\"\nformula = \"KCl\"\nkind = \"salt\"\nions = 2\n[[dataset]]\nkey = \"d\"\nsource = \"demo\"\nphase = \"KCl\"\nphase_name = \"anhydrous\"\nunit = \"%w/w\"\ntemperature_unit = \"C\"\nprovenance = \"derived\"\nreview = \"unreviewed\"\npoints = [[0, 10.0], [20, 12.0]]\n";
 
     fn store() -> Store {
-        let mut store = Store::open_in_memory().unwrap();
-        store
-            .load_seed(&[
-                ("sources.toml", SOURCES),
-                ("solutes/demo-salt.toml", SOLUTE),
-            ])
-            .unwrap();
-        store
+        demo::store(&[("solutes/demo-salt.toml", SOLUTE)])
     }
 
     // Invented demo coefficients, not reference values.

@@ -15,34 +15,25 @@ pub struct Migration {
     pub sql: &'static str,
 }
 
-/// Every migration, in order. To add one: write `schema/NNNN_what.sql` and add it here;
-/// never edit a migration that has been released.
+/// A migration by its version and file name: the SQL of `schema/<name>.sql`.
+macro_rules! migration {
+    ($version:literal, $name:literal) => {
+        Migration {
+            version: $version,
+            name: $name,
+            sql: include_str!(concat!("../../schema/", $name, ".sql")),
+        }
+    };
+}
+
+/// Every migration, in order. To add one: write `schema/NNNN_what.sql` and add
+/// `migration!(N, "NNNN_what")` here; never edit a migration that has been released.
 pub const MIGRATIONS: &[Migration] = &[
-    Migration {
-        version: 1,
-        name: "0001_reference_tables",
-        sql: include_str!("../../schema/0001_reference_tables.sql"),
-    },
-    Migration {
-        version: 2,
-        name: "0002_metadata_and_indexes",
-        sql: include_str!("../../schema/0002_metadata_and_indexes.sql"),
-    },
-    Migration {
-        version: 3,
-        name: "0003_density_coefficients",
-        sql: include_str!("../../schema/0003_density_coefficients.sql"),
-    },
-    Migration {
-        version: 4,
-        name: "0004_corroboration_checks",
-        sql: include_str!("../../schema/0004_corroboration_checks.sql"),
-    },
-    Migration {
-        version: 5,
-        name: "0005_thermochemistry",
-        sql: include_str!("../../schema/0005_thermochemistry.sql"),
-    },
+    migration!(1, "0001_reference_tables"),
+    migration!(2, "0002_metadata_and_indexes"),
+    migration!(3, "0003_density_coefficients"),
+    migration!(4, "0004_corroboration_checks"),
+    migration!(5, "0005_thermochemistry"),
 ];
 
 /// The schema version this binary writes and reads.

@@ -82,94 +82,81 @@ impl Store {
         })
     }
 
-    /// Adds a source; `kind`, `title` and `authors` are needed, the key must be new.
-    pub fn add_source(
+    /// Adds a source (`adding`: the key must be new, and `kind`, `title` and `authors` are
+    /// needed) or changes the given fields of a stored one. One transaction with its audit
+    /// row, the record before and after.
+    pub fn save_source(
         &mut self,
         key: &str,
         fields: &SourceFields,
+        adding: bool,
         actor: &str,
     ) -> Result<Source, StoreError> {
         // The write lock first: the checks below read the state this write replaces.
         let tx = lock::begin_write(&self.conn, &self.location)?;
-        if !valid_key(key) {
+        if adding && !valid_key(key) {
             return Err(bad(
                 key,
                 "not a valid key: use lower-case letters, digits and '-'",
             ));
         }
-        if self.source(key)?.is_some() {
-            return Err(StoreError::NoChange {
-                what: format!(
-                    "source \"{key}\" exists already; change it with `satline source edit {key}`"
-                ),
-            });
-        }
-        let mut s = Source {
-            key: key.to_string(),
-            kind: fields
-                .kind
-                .ok_or_else(|| bad(key, "a source needs --kind"))?,
-            title: String::new(),
-            authors: String::new(),
-            publisher: None,
-            edition: None,
-            year: None,
-            locator: None,
-            doi: None,
-            isbn: None,
-            url: None,
-            note: None,
+        let before = self.source(key)?;
+        let mut s = match (adding, &before) {
+            (true, Some(_)) => {
+                return Err(StoreError::NoChange {
+                    what: format!(
+                        "source \"{key}\" exists already; change it with `satline source edit {key}`"
+                    ),
+                });
+            }
+            (false, None) => {
+                return Err(StoreError::UnknownSourceKey {
+                    key: key.to_string(),
+                });
+            }
+            (false, Some(before)) => before.clone(),
+            (true, None) => Source {
+                key: key.to_string(),
+                kind: fields
+                    .kind
+                    .ok_or_else(|| bad(key, "a source needs --kind"))?,
+                title: String::new(),
+                authors: String::new(),
+                publisher: None,
+                edition: None,
+                year: None,
+                locator: None,
+                doi: None,
+                isbn: None,
+                url: None,
+                note: None,
+            },
         };
         fields.apply(&mut s);
         if s.title.is_empty() || s.authors.is_empty() {
-            return Err(bad(key, "a source needs --title and --authors"));
+            return Err(bad(
+                key,
+                if adding {
+                    "a source needs --title and --authors"
+                } else {
+                    "a source's title and authors cannot be empty"
+                },
+            ));
         }
-        write::upsert_source(&tx, &s)?;
-        let after = serde_json::to_value(&s).unwrap_or_default();
-        audit::record(
-            &tx,
-            actor,
-            "add",
-            &format!("source:{key}"),
-            None,
-            Some(&after),
-        )?;
-        lock::commit(tx, &self.location)?;
-        Ok(s)
-    }
-
-    /// Changes the given fields of a source.
-    pub fn edit_source(
-        &mut self,
-        key: &str,
-        fields: &SourceFields,
-        actor: &str,
-    ) -> Result<Source, StoreError> {
-        // The write lock first: the checks below read the state this write replaces.
-        let tx = lock::begin_write(&self.conn, &self.location)?;
-        let before = self
-            .source(key)?
-            .ok_or_else(|| StoreError::UnknownSourceKey {
-                key: key.to_string(),
-            })?;
-        let mut s = before.clone();
-        fields.apply(&mut s);
-        if s.title.is_empty() || s.authors.is_empty() {
-            return Err(bad(key, "a source's title and authors cannot be empty"));
-        }
-        if s == before {
+        if before.as_ref() == Some(&s) {
             return Err(StoreError::NoChange {
                 what: format!("source \"{key}\" already reads so; nothing changed"),
             });
         }
         write::upsert_source(&tx, &s)?;
+        let json = |s: &Source| serde_json::to_value(s).unwrap_or_default();
         audit::record(
             &tx,
             actor,
-            "change",
+            if adding { "add" } else { "change" },
             &format!("source:{key}"),
-            Some(&serde_json::to_value(&before).unwrap_or_default()),
-            Some(&serde_json::to_value(&s).unwrap_or_default()),
+            before.as_ref().map(json).as_ref(),
+            Some(&json(&s)),
         )?;
         lock::commit(tx, &self.location)?;
         Ok(s)
@@ -189,25 +176,26 @@ mod tests {
             authors: Some("nobody".into()),
             ..SourceFields::default()
         };
-        store.add_source("demo", &fields, "t").unwrap();
+        store.save_source("demo", &fields, true, "t").unwrap();
         assert!(matches!(
-            store.add_source("demo", &fields, "t"),
+            store.save_source("demo", &fields, true, "t"),
             Err(StoreError::NoChange { .. })
         ));
         let edited = store
-            .edit_source(
+            .save_source(
                 "demo",
                 &SourceFields {
                     year: Some(2020),
                     ..SourceFields::default()
                 },
+                false,
                 "t",
             )
             .unwrap();
         assert_eq!(edited.year, Some(2020));
         assert_eq!(store.audit_len().unwrap(), 2);
         assert!(matches!(
-            store.edit_source("nope", &SourceFields::default(), "t"),
+            store.save_source("nope", &SourceFields::default(), false, "t"),
             Err(StoreError::UnknownSourceKey { .. })
         ));
     }

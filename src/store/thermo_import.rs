@@ -7,6 +7,7 @@
 use rusqlite::{Connection, params};
 
 use super::StoreError;
+use super::import::{ImportPlan, Record, RecordKind, Reviewed, plan_records, state_aside};
 use crate::model::Review;
 use crate::model::thermo::{HeatCapacityFit, ThermoState, ThermoValue, Thermochemistry};
 
@@ -24,53 +25,6 @@ pub(crate) enum ThermoRecord {
     HeatCapacity(HeatCapacityFit),
 }
 
-/// A planned change of one record: `same` is `None` for a new record, else whether it equals
-/// the stored one (review aside unless the import keeps states).
-pub(crate) struct Planned {
-    pub same: Option<bool>,
-    pub entity: String,
-    pub summary: String,
-    pub before: Option<serde_json::Value>,
-    pub after: serde_json::Value,
-    pub record: ThermoRecord,
-}
-
-/// A record with another review state, for comparing what the figures say.
-trait WithReview: Clone {
-    fn with_review(&self, review: Review) -> Self;
-}
-
-impl WithReview for ThermoValue {
-    fn with_review(&self, review: Review) -> Self {
-        ThermoValue {
-            review,
-            ..self.clone()
-        }
-    }
-}
-
-impl WithReview for HeatCapacityFit {
-    fn with_review(&self, review: Review) -> Self {
-        HeatCapacityFit {
-            review,
-            ..self.clone()
-        }
-    }
-}
-
-fn json<T: serde::Serialize>(v: &T) -> serde_json::Value {
-    serde_json::to_value(v).unwrap_or(serde_json::Value::Null)
-}
-
-/// The stored identity of a value (the table's unique key).
-fn same_key(a: &ThermoValue, b: &ThermoValue) -> bool {
-    a.quantity == b.quantity
-        && a.state == b.state
-        && a.stage == b.stage
-        && a.species == b.species
-        && a.source == b.source
-}
-
 fn value_entity(v: &ThermoValue) -> String {
     format!(
         "thermo:{}/{}/{}/{}/{}",
@@ -82,57 +36,71 @@ fn value_entity(v: &ThermoValue) -> String {
     )
 }
 
-/// The changes `incoming` makes to `existing`. Without `keep_state` every incoming record
-/// arrives unreviewed and a stored record's review is not counted as a difference.
+/// Adds the changes `incoming` makes to `existing` to `plan`. Without `keep_state` every
+/// incoming record arrives unreviewed and a stored record's review is not counted as a
+/// difference. A value's identity is its entity (quantity, state, stage, species, source:
+/// the table's unique key).
 pub(crate) fn plan(
+    plan: &mut ImportPlan,
     incoming: &Thermochemistry,
     existing: &Thermochemistry,
     keep_state: bool,
-) -> Vec<Planned> {
-    let mut out = Vec::new();
-    for v in &incoming.values {
-        let mut v = v.clone();
-        if !keep_state {
-            v.review = Review::Unreviewed;
+) {
+    let arriving = |review: Review| {
+        if keep_state {
+            review
+        } else {
+            Review::Unreviewed
         }
-        let before = existing.values.iter().find(|b| same_key(b, &v));
-        let same = before.map(|b| v == *b || (!keep_state && v.with_review(b.review) == *b));
-        out.push(Planned {
-            same,
-            entity: value_entity(&v),
-            summary: format!(
-                "{} {} {}, {}",
-                v.value,
-                v.quantity.unit(),
-                v.species,
-                v.review.as_str()
-            ),
-            before: before.map(json),
-            after: json(&v),
-            record: ThermoRecord::Value(v),
-        });
-    }
-    for h in &incoming.heat_capacity {
-        let mut h = h.clone();
-        if !keep_state {
-            h.review = Review::Unreviewed;
-        }
-        let before = existing.heat_capacity.iter().find(|b| b.solute == h.solute);
-        let same = before.map(|b| h == *b || (!keep_state && h.with_review(b.review) == *b));
-        out.push(Planned {
-            same,
-            entity: format!("heat-capacity:{}", h.solute),
-            summary: format!(
-                "Laliberté heat-capacity coefficients, {}, source {}",
-                h.review.as_str(),
-                h.source
-            ),
-            before: before.map(json),
-            after: json(&h),
-            record: ThermoRecord::HeatCapacity(h),
-        });
-    }
-    out
+    };
+    let values: Vec<ThermoValue> = incoming
+        .values
+        .iter()
+        .map(|v| v.with_review(arriving(v.review)))
+        .collect();
+    plan_records(
+        plan,
+        &values,
+        &existing.values,
+        RecordKind {
+            key: value_entity,
+            describe: |v| {
+                let summary = format!(
+                    "{} {} {}, {}",
+                    v.value,
+                    v.quantity.unit(),
+                    v.species,
+                    v.review.as_str()
+                );
+                (value_entity(v), summary)
+            },
+            kind: state_aside(keep_state),
+            record: |v| Record::Thermo(ThermoRecord::Value(v)),
+        },
+    );
+    let sets: Vec<HeatCapacityFit> = incoming
+        .heat_capacity
+        .iter()
+        .map(|h| h.with_review(arriving(h.review)))
+        .collect();
+    plan_records(
+        plan,
+        &sets,
+        &existing.heat_capacity,
+        RecordKind {
+            key: |h: &HeatCapacityFit| h.solute.clone(),
+            describe: |h| {
+                let summary = format!(
+                    "Laliberté heat-capacity coefficients, {}, source {}",
+                    h.review.as_str(),
+                    h.source
+                );
+                (format!("heat-capacity:{}", h.solute), summary)
+            },
+            kind: state_aside(keep_state),
+            record: |h| Record::Thermo(ThermoRecord::HeatCapacity(h)),
+        },
+    );
 }
 
 /// Writes one record: the stored one of the same identity is updated in place, else the

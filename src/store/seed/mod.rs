@@ -160,14 +160,9 @@ mod tests {
     use crate::science::formula::water_molar_mass;
     use crate::store::{Contents, StoreError};
 
+    use crate::store::demo::SOURCES;
+
     // Invented demo data for unit tests: not reference values.
-    const SOURCES: &str = r#"
-[[source]]
-key = "demo"
-kind = "other"
-title = "Invented demo data"
-authors = "nobody"
-"#;
 
     fn solute(points: &str) -> String {
         format!(

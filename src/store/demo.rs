@@ -1,0 +1,16 @@
+//! Invented demo records for the unit tests, in the seed format: not reference values. One
+//! source (`demo`) that every demo record cites, and a store loaded with it.
+
+use super::Store;
+
+/// The invented source `demo`.
+pub(crate) const SOURCES: &str = "[[source]]\nkey = \"demo\"\nkind = \"other\"\ntitle = \"Invented demo data\"\nauthors = \"Nobody, N.\"\nyear = 2026\n";
+
+/// An in-memory store loaded with [`SOURCES`] and `files` (seed paths and texts).
+pub(crate) fn store(files: &[(&str, &str)]) -> Store {
+    let mut all = vec![("sources.toml", SOURCES)];
+    all.extend_from_slice(files);
+    let mut store = Store::open_in_memory().expect("an in-memory store opens");
+    store.load_seed(&all).expect("the demo seed loads");
+    store
+}

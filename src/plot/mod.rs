@@ -14,10 +14,12 @@
 
 pub mod error;
 pub mod font;
+pub mod glyphs;
 pub mod palette;
 pub mod render;
 pub mod sketch;
 pub mod spec;
+pub mod text;
 
 pub use error::PlotError;
 pub use render::{DEFAULT_SIZE, Format, render};

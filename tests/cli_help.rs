@@ -33,3 +33,24 @@ fn help_flag_names_the_language_guide() {
         assert!(text.contains("grammar/README.md"), "{text}");
     }
 }
+
+#[test]
+fn every_command_has_a_description_and_an_example() {
+    let commands = [
+        "run", "repl", "init", "import", "review", "history", "retire", "restore", "export",
+        "check", "source", "describe", "solutes", "help", "serve",
+    ];
+    for command in commands {
+        let out = satline().args([command, "--help"]).assert().success();
+        let text = String::from_utf8(out.get_output().stdout.clone()).unwrap();
+        let first = text.lines().next().unwrap_or("");
+        assert!(
+            first.len() > 10,
+            "`{command} --help` has no description: {text}"
+        );
+        assert!(
+            text.contains(&format!("Example: satline {command}")),
+            "`{command} --help` has no example: {text}"
+        );
+    }
+}

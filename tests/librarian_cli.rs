@@ -147,9 +147,17 @@ fn the_readme_walkthrough_works_as_written() {
         "{first_query}"
     );
     let history = find("satline history", 0);
-    for action in ["alice  add  dataset:", "bob  approve  dataset:"] {
-        assert!(history.contains(action), "{history}");
+    // One row per change: actor, action and record in their columns, numbers rounded.
+    for (actor, action) in [("carol", "add"), ("alice", "add"), ("bob", "approve")] {
+        assert!(
+            history
+                .lines()
+                .any(|l| l.contains(&format!("│ {actor} ")) && l.contains(&format!("│ {action} "))),
+            "{history}"
+        );
     }
+    assert!(!history.contains("unknown"), "{history}");
+    assert!(!history.contains("0.16317991631799164"), "{history}");
     let restored = find("satline --db lib.db", 2);
     assert!(restored.contains("53"), "{restored}");
     assert!(!restored.contains("unreviewed"), "{restored}");

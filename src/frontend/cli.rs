@@ -104,6 +104,7 @@ pub enum Command {
     /// Exit codes: 0 every statement answered and every require held; 1 a require did not
     /// hold; 2 a statement could not be parsed or answered (or the command line was wrong);
     /// 3 the database or a file could not be read.
+    #[command(after_help = "Example: satline run checks.satq --format json")]
     Run {
         /// Script files, run in order; `-` for standard input.
         #[arg(required = true, value_name = "FILE")]
@@ -112,9 +113,11 @@ pub enum Command {
         picture: PictureArgs,
     },
     /// Start the interactive session (also what `satline` alone does on a terminal).
+    #[command(after_help = "Example: satline repl")]
     Repl,
     /// Write a fresh database file from the embedded seed data, or an empty one with
     /// --empty (needs --db PATH).
+    #[command(after_help = "Example: satline init --empty --db lib.db")]
     Init {
         /// Replace the file if it exists.
         #[arg(long)]
@@ -130,6 +133,9 @@ pub enum Command {
     /// CSV columns: solute, formula, phase, temperature, temperature_unit, value, unit,
     /// source, and optionally uncertainty, name, kind, ions, phase_name, dataset,
     /// provenance, review, retired, note. Imported datasets are unreviewed.
+    #[command(
+        after_help = "Example: satline import data.csv --dry-run --db lib.db; satline import lib-export --keep-state --db lib.db"
+    )]
     Import {
         /// Files to import: sources.toml, <solute-id>.toml, *.csv.
         #[arg(required = true, value_name = "FILE")]
@@ -148,17 +154,24 @@ pub enum Command {
     },
     /// List what awaits review, or approve or reject a dataset (or Henry's-law record,
     /// freezing table or `SOLUTE/density` coefficients) with a note.
+    #[command(
+        after_help = "Example: satline review approve SOLUTE/SOURCE --note \"checked against the table\" --actor bob --db lib.db"
+    )]
     Review {
         #[command(subcommand)]
         action: Option<ReviewAction>,
     },
     /// Every change to a solute, its datasets and their sources: time, actor, action,
     /// before and after.
+    #[command(after_help = "Example: satline history \"potassium nitrate\" --db lib.db")]
     History {
         /// Id, name, formula or synonym, e.g. KNO3.
         solute: String,
     },
     /// Hide a dataset from queries; it is kept and shown in history (needs --db PATH).
+    #[command(
+        after_help = "Example: satline retire SOLUTE/SOURCE --note \"superseded\" --actor bob --db lib.db"
+    )]
     Retire {
         /// Dataset key, <solute id>/<dataset key>.
         dataset: String,
@@ -168,6 +181,7 @@ pub enum Command {
         who: Who,
     },
     /// Bring a retired dataset back (needs --db PATH).
+    #[command(after_help = "Example: satline restore SOLUTE/SOURCE --actor bob --db lib.db")]
     Restore {
         dataset: String,
         #[arg(long, value_name = "TEXT")]
@@ -176,6 +190,7 @@ pub enum Command {
         who: Who,
     },
     /// Write the whole reference as TOML (seed format, a directory), CSV or JSON.
+    #[command(after_help = "Example: satline export --to toml --out lib-export --db lib.db")]
     Export {
         #[arg(long, value_name = "FORMAT", value_parser = clap::builder::PossibleValuesParser::new(ExportFormat::NAMES))]
         to: String,
@@ -187,25 +202,32 @@ pub enum Command {
         force: bool,
     },
     /// An integrity report; exit 1 when a problem is found, 3 when the database cannot be read.
+    #[command(after_help = "Example: satline check --db lib.db")]
     Check {
         /// Report a conflict between sources beyond this many percent.
         #[arg(long, value_name = "PERCENT", default_value_t = 5.0)]
         tolerance: f64,
     },
     /// Add or edit bibliographic records (needs --db PATH).
+    #[command(
+        after_help = "Example: satline source add my-table --kind other --title \"...\" --authors \"...\" --year 2026 --actor carol --db lib.db"
+    )]
     Source {
         #[command(subcommand)]
         action: Box<SourceAction>,
     },
     /// Show a solute's record, datasets, points and the full citations of their sources.
+    #[command(after_help = "Example: satline describe KNO3")]
     Describe {
         /// Slug, name, formula or synonym, e.g. KNO3.
         solute: String,
     },
     /// List the solutes.
+    #[command(after_help = "Example: satline solutes")]
     Solutes,
     /// Help on a statement of the query language or on a command: `satline help` lists
     /// both, `satline help require` or `satline help import` shows one.
+    #[command(after_help = "Example: satline help require")]
     Help {
         /// A topic of the language (`solubility`, `require`, `units` …) or a command name.
         #[arg(value_name = "TOPIC")]
@@ -213,6 +235,7 @@ pub enum Command {
     },
     /// Serve the query language and the catalog as HTTP JSON under /v1 (loopback by
     /// default; read-only unless a token file is given). Stops on Ctrl-C or SIGTERM.
+    #[command(after_help = "Example: satline serve --addr 127.0.0.1:8080")]
     Serve(ServeArgs),
 }
 

@@ -146,6 +146,8 @@ pub fn run(
                 tolerance: tolerance(percent)?,
                 keep_state,
             };
+            // A directory (what `export --to toml` writes) stands for its data files.
+            let files = super::import_paths::expand(&files)?;
             let files = files
                 .iter()
                 .map(|f| ImportFile::read(f))
@@ -204,7 +206,12 @@ pub fn run(
         }
         Command::History { solute } => {
             let (id, entries) = readable(db)?.history(&solute)?;
-            store::audit::write_history(&id, &entries, json, out)?;
+            if json {
+                store::audit::write_history(&id, &entries, json, out)?;
+            } else {
+                let width = super::screen::layout(None, false).width;
+                super::history_view::write(&id, &entries, width, out)?;
+            }
         }
         Command::Retire { dataset, note, who } => {
             let path = writable(db, "retire")?;

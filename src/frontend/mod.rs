@@ -11,6 +11,8 @@ pub mod command;
 pub mod complete;
 pub mod help;
 pub mod help_command;
+pub mod history_view;
+pub mod import_paths;
 pub mod librarian;
 pub mod picture;
 pub mod progress;

@@ -81,11 +81,12 @@ pub fn curve_of<'a>(
         .ok_or_else(|| EvalError::NoData {
             message: if options.reviewed_only {
                 format!("{} has no reviewed solubility data", solute.name)
-            } else if let Some(why) = out_of_use(snap, solute) {
-                why
             } else {
+                // The snapshot holds no retired dataset: say what may be the case, and where
+                // to see which (a retired or rejected dataset is in the history).
                 format!(
-                    "{} has no solubility data in this reference yet (its record awaits a checked source)",
+                    "{} has no solubility data in use: the reference holds none for it, or its \
+                     datasets are retired or rejected (`satline history` shows which)",
                     solute.name
                 )
             },
@@ -123,35 +124,6 @@ pub fn cite_dataset(snap: &Snapshot, dataset: &Dataset, solute: &Solute, answer:
         solute,
         answer,
     );
-}
-
-/// Why a solute with solubility datasets has none in use: all retired, or rejected.
-fn out_of_use(snap: &Snapshot, solute: &Solute) -> Option<String> {
-    let held = snap.catalog.datasets_of(&solute.id);
-    if held.is_empty() {
-        return None;
-    }
-    let keys: Vec<&str> = held.iter().map(|d| d.key.as_str()).collect();
-    if held.iter().all(|d| d.retired) {
-        Some(format!(
-            "{} has no solubility data in use: its dataset{} {} {} retired (`satline restore KEY` brings one back)",
-            solute.name,
-            if keys.len() == 1 { "" } else { "s" },
-            keys.join(", "),
-            if keys.len() == 1 { "is" } else { "are" },
-        ))
-    } else if held
-        .iter()
-        .all(|d| d.retired || d.review == Review::Rejected)
-    {
-        Some(format!(
-            "{} has no solubility data in use: its datasets ({}) are retired or rejected in review",
-            solute.name,
-            keys.join(", ")
-        ))
-    } else {
-        None
-    }
 }
 
 /// Adds the sources, provenance caveats and hazard note of the datasets behind a curve.

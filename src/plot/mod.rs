@@ -17,7 +17,9 @@ pub mod font;
 pub mod palette;
 pub mod render;
 pub mod sketch;
-pub mod spec;
+
+/// What a picture shows: the spec an answer carries ([`crate::answer::plot_spec`]).
+pub use crate::answer::plot_spec as spec;
 
 pub use error::PlotError;
 pub use render::{DEFAULT_SIZE, Format, render};

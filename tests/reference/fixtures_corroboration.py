@@ -247,7 +247,7 @@ def toml_string(s):
 
 def record(check):
     lines = ["", "[[check]]"]
-    for key in ("subject", "key", "kind", "reference", "other", "method", "temperature_k",
+    for key in ("subject", "record", "key", "kind", "reference", "other", "method", "temperature_k",
                 "figure", "satline_figure", "unit", "tolerance", "tolerance_unit", "verdict",
                 "explanation", "tool"):
         v = check.get(key)

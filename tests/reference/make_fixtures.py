@@ -129,6 +129,7 @@ def main():
     __import__("fixtures_phase").write(HERE)  # phase diagram: pytzer, CoolProp
     __import__("fixtures_mixtures").write(HERE)  # mixed electrolytes: pytzer
     fixtures_corroboration.write_checks()
+    __import__("fixtures_brine_checks").write_checks()  # ice lines, water activity, density ranges
     __import__("fixtures_thermochemistry").write_all()
 
 

@@ -8,6 +8,7 @@
 
 pub mod answer;
 pub mod catalog;
+pub mod citation;
 pub mod engine;
 pub mod error;
 pub mod frontend;

@@ -48,11 +48,11 @@ fn svg_holds_a_series_per_solute_and_phase_axis_labels_and_legend() {
     for wanted in [
         "temperature (°C)",
         "solubility (g/100g water, anhydrous solute)",
-        "potassium nitrate: solid KNO3",
+        "potassium nitrate: solid KNO₃",
         "potassium chloride: solid KCl",
-        "sodium sulfate: solid Na2SO4·10H2O",
-        "sodium sulfate: solid Na2SO4",
-        "data: perry-7-solubility",
+        "sodium sulfate: solid Na₂SO₄·10H₂O",
+        "sodium sulfate: solid Na₂SO₄",
+        "data: Perry et al. 1997",
     ] {
         assert!(
             texts.iter().any(|t| t == wanted),
@@ -62,7 +62,7 @@ fn svg_holds_a_series_per_solute_and_phase_axis_labels_and_legend() {
     assert!(
         texts
             .iter()
-            .any(|t| t == "Solubility in water: KNO3, KCl, Na2SO4")
+            .any(|t| t == "Solubility in water: KNO₃, KCl, Na₂SO₄")
     );
     // Four series (sodium sulfate has two solid phases), each in its own colour, and no
     // fifth colour of the palette is used for a line.
@@ -77,7 +77,7 @@ fn svg_holds_a_series_per_solute_and_phase_axis_labels_and_legend() {
     assert!(
         texts
             .iter()
-            .any(|t| t.starts_with("Na2SO4·10H2O → Na2SO4 at")),
+            .any(|t| t.starts_with("Na₂SO₄·10H₂O → Na₂SO₄ at")),
         "{texts:?}"
     );
 }
@@ -125,7 +125,7 @@ fn a_loading_draws_its_line_and_limiting_point() {
         "{texts:?}"
     );
     assert!(
-        texts.iter().any(|t| t == "storage range 2 C to 8 C"),
+        texts.iter().any(|t| t == "storage range 2 °C to 8 °C"),
         "{texts:?}"
     );
     assert!(texts.iter().any(|t| t.starts_with("KCl: ")), "{texts:?}");
@@ -145,7 +145,7 @@ fn gases_are_drawn_against_temperature_at_a_pressure() {
     .unwrap();
     let doc = roxmltree::Document::parse(&svg).unwrap();
     let texts = texts(&doc);
-    assert!(texts.iter().any(|t| t == "oxygen (O2)"), "{texts:?}");
+    assert!(texts.iter().any(|t| t == "oxygen (O₂)"), "{texts:?}");
     assert!(
         texts.iter().any(|t| t == "dissolved gas (mg/L)"),
         "{texts:?}"
@@ -313,4 +313,102 @@ fn the_text_sketch_comes_with_the_table() {
         "{stdout}"
     );
     assert!(stdout.contains("temperature (°C)"), "{stdout}");
+}
+
+/// The y of a `<text>` element whose text is `wanted`.
+fn text_y(doc: &roxmltree::Document, wanted: &str) -> Option<f64> {
+    doc.descendants()
+        .filter(|n| n.has_tag_name("text"))
+        .find(|n| n.text().unwrap_or("").trim() == wanted)
+        .and_then(|n| n.attribute("y"))
+        .and_then(|y| y.parse().ok())
+}
+
+/// The font size of a `<text>` element whose text is `wanted`.
+fn text_size(doc: &roxmltree::Document, wanted: &str) -> Option<f64> {
+    doc.descendants()
+        .filter(|n| n.has_tag_name("text"))
+        .find(|n| n.text().unwrap_or("").trim() == wanted)
+        .and_then(|n| n.attribute("font-size"))
+        .and_then(|s| s.trim_end_matches("px").parse().ok())
+}
+
+#[test]
+fn the_legend_sits_under_the_plot_and_states_the_margin() {
+    let engine = engine();
+    let text = "plot KCl, NaCl from 0 C to 40 C with loading 30 g/100g water from 2 C to 8 C \
+                margin 10%";
+    let svg = plot::svg_for(&engine.run_text(text, &mut engine.session())).unwrap();
+    let doc = roxmltree::Document::parse(&svg).unwrap();
+    let texts = texts(&doc);
+    // The margin's line is named with its value.
+    let margin = texts
+        .iter()
+        .find(|t| t.starts_with("loading raised by the 10% margin: "))
+        .unwrap_or_else(|| panic!("{texts:?}"));
+    assert!(margin.ends_with(" g/100g water"), "{margin}");
+    // Every legend entry is below the temperature axis's label: outside the plot area, so
+    // it covers no curve, point or label.
+    let axis = text_y(&doc, "temperature (°C)").unwrap();
+    for entry in [
+        "loading 30 g/100g water",
+        "potassium chloride: solid KCl",
+        margin.as_str(),
+    ] {
+        let y = text_y(&doc, entry).unwrap();
+        assert!(
+            y > axis,
+            "`{entry}` at y {y}, above the axis label at {axis}"
+        );
+    }
+    // The margin is drawn dashed in the plot and in the legend alike: in black, thin, more
+    // than one piece for each.
+    let thin_black = doc
+        .descendants()
+        .filter(|n| {
+            n.attribute("stroke")
+                .is_some_and(|s| s.eq_ignore_ascii_case("#000000"))
+        })
+        .filter(|n| n.attribute("stroke-width") == Some("1"))
+        .count();
+    assert!(thin_black > 4, "{thin_black}");
+}
+
+#[test]
+fn the_footnote_cites_sources_short_and_says_the_state_of_the_data() {
+    let engine = engine();
+    let svg = plot::svg_for(&engine.run_text("plot KNO3 from 0 C to 100 C", &mut engine.session()))
+        .unwrap();
+    let doc = roxmltree::Document::parse(&svg).unwrap();
+    let all = texts(&doc).join(" ");
+    assert!(
+        all.contains("Perry et al. 1997 (perry-7-solubility)"),
+        "{all}"
+    );
+    assert!(
+        all.contains("Typed from memory of the cited tables"),
+        "{all}"
+    );
+    assert!(all.contains("Unreviewed data: potassium nitrate"), "{all}");
+}
+
+#[test]
+fn text_grows_with_the_picture_and_the_svg_carries_its_font() {
+    let engine = engine();
+    let answers = engine.run_text("plot KNO3 from 0 C to 100 C", &mut engine.session());
+    let (small, _) = plot::picture_for(&answers, Format::Svg, 800, 500).unwrap();
+    let (large, _) = plot::picture_for(&answers, Format::Svg, 1600, 1000).unwrap();
+    let small = String::from_utf8(small).unwrap();
+    let large = String::from_utf8(large).unwrap();
+    let small_doc = roxmltree::Document::parse(&small).unwrap();
+    let large_doc = roxmltree::Document::parse(&large).unwrap();
+    let label = "temperature (°C)";
+    let (a, b) = (
+        text_size(&small_doc, label).unwrap(),
+        text_size(&large_doc, label).unwrap(),
+    );
+    assert!((b / a - 2.0).abs() < 0.1, "{a} then {b}");
+    // The font the text names is in the file itself.
+    assert!(small.contains("@font-face{font-family:'DejaVu Sans';src:url(data:font/ttf;base64,"));
+    assert!(small.contains("font-family=\"DejaVu Sans\""));
 }

@@ -71,6 +71,9 @@ pub struct LoadingLine {
     pub value: f64,
     /// The loading raised by the margin asked for, when there is one (dotted line).
     pub with_margin: Option<f64>,
+    /// What the dotted line is, with its value: `loading raised by the 10% margin: 33 g/100g
+    /// water`.
+    pub margin_label: Option<String>,
     /// The storage range, °C.
     pub storage: (f64, f64),
     pub limiting: Vec<Limiting>,
@@ -90,7 +93,8 @@ pub struct PlotSpec {
     pub points: Vec<PointSet>,
     pub transitions: Vec<TransitionMark>,
     pub loading: Option<LoadingLine>,
-    /// A line under the picture (what dashes mean, the caution).
+    /// Lines under the picture, separated by `\n`: what dashes mean, the caution, the
+    /// sources as short citations, and whether the data are typed from memory or unreviewed.
     pub footnote: String,
 }
 

@@ -163,7 +163,7 @@ pub(super) fn ice_line(
         if te > t0 - 1e-9 && te < t1 + 1e-9 {
             mark = Some(TransitionMark {
                 temperature_c: t_c,
-                label: format!("{}: eutectic (ice + salt) at {} C", solute.name, t_c),
+                label: format!("{}: eutectic (ice + salt) at {} °C", solute.name, t_c),
                 colour,
             });
         }

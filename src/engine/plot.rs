@@ -18,7 +18,7 @@ use crate::engine::common::{
 use crate::engine::error::EvalError;
 use crate::engine::gas;
 use crate::engine::snapshot::{BuiltCurve, Snapshot};
-use crate::model::{Review, Solute, SoluteKind};
+use crate::model::{Provenance, Review, Solute, SoluteKind};
 use crate::number::round_significant;
 use crate::query::{GasPressure, Name, Plot, Span};
 use crate::science::gas::dissolved as dissolved_gas;
@@ -235,6 +235,8 @@ fn solids(
     let mut point_sets: Vec<PointSet> = Vec::new();
     let mut transitions: Vec<TransitionMark> = Vec::new();
     let mut sources: Vec<String> = Vec::new();
+    // Solutes whose marked points were typed from memory, or are not yet reviewed.
+    let mut data_state = DataState::default();
     let mut rows: Vec<Row> = Vec::new();
     let mut any_dashed = false;
     let mut colours_of: Vec<Vec<(String, usize)>> = Vec::new();
@@ -415,7 +417,7 @@ fn solids(
             transitions.push(TransitionMark {
                 temperature_c: t_c,
                 label: format!(
-                    "{} → {} at {} C",
+                    "{} → {} at {} °C",
                     transition.below,
                     transition.above,
                     crate::number::display(hundredth(t_c))
@@ -465,8 +467,13 @@ fn solids(
                 .find(|(p, _)| *p == dataset.phase.formula)
                 .map_or_else(|| colours.first().map_or(0, |c| c.1), |c| c.1);
             cite_dataset(snap, dataset, solute, answer);
+            data_state.note(&solute.name, dataset.provenance, dataset.review);
+            let short = snap.catalog.source(&dataset.source).map_or_else(
+                || dataset.source.clone(),
+                |src| crate::citation::short_citation(&crate::catalog::citation(src)),
+            );
             point_sets.push(PointSet {
-                source: format!("data: {}", dataset.source),
+                source: format!("data: {short}"),
                 colour,
                 shape,
                 points,
@@ -538,7 +545,7 @@ fn solids(
                     value: limit_y,
                     colour,
                     label: format!(
-                        "{}: {} (headroom {}% at {} C)",
+                        "{}: {} (headroom {}% at {} °C)",
                         solute.formula,
                         if screening.holds {
                             "stays dissolved"
@@ -572,7 +579,16 @@ fn solids(
                 });
             }
             let (y, with_margin) = level.unwrap_or((0.0, None));
+            let margin_label = with_margin.zip(s.margin).map(|(level, m)| {
+                format!(
+                    "loading raised by the {}% margin: {} {}",
+                    crate::number::display(m.percent),
+                    crate::number::display(round_significant(level, 4)),
+                    unit.symbol()
+                )
+            });
             Some(LoadingLine {
+                margin_label,
                 label: format!(
                     "loading {} {}",
                     crate::number::display(l.loading.value),
@@ -597,7 +613,10 @@ fn solids(
         title: title("Solubility in water", &named),
         x_label: X_LABEL.into(),
         y_label: if s.ice.is_some() {
-            format!("liquid in equilibrium ({}, anhydrous solute)", unit.symbol())
+            format!(
+                "liquid in equilibrium ({}, anhydrous solute)",
+                unit.symbol()
+            )
         } else {
             format!("solubility ({}, anhydrous solute)", unit.symbol())
         },
@@ -606,8 +625,69 @@ fn solids(
         points: point_sets,
         transitions,
         loading,
-        footnote: "Lines: the stable solid's curve, interpolated between tabulated points (markers); dashed: extrapolated. For screening only; see the answer for sources.".into(),
+        footnote: footnote(
+            "Lines: the stable solid's curve, interpolated between tabulated points (markers); \
+             dashed: extrapolated. For screening only.",
+            answer,
+            &data_state,
+        ),
     })
+}
+
+/// Which solutes' drawn data were typed from memory of their tables, or are unreviewed.
+#[derive(Debug, Default)]
+struct DataState {
+    from_memory: Vec<String>,
+    unreviewed: Vec<String>,
+}
+
+impl DataState {
+    fn note(&mut self, solute: &str, provenance: Provenance, review: Review) {
+        let add = |list: &mut Vec<String>| {
+            if !list.iter().any(|s| s == solute) {
+                list.push(solute.to_string());
+            }
+        };
+        if provenance == Provenance::FromMemory {
+            add(&mut self.from_memory);
+        }
+        if review != Review::Reviewed {
+            add(&mut self.unreviewed);
+        }
+    }
+}
+
+/// The lines under a picture: what its lines mean, the sources as short citations with
+/// their keys (the full citations are in the answer), and the state of the data.
+fn footnote(meaning: &str, answer: &Answer, state: &DataState) -> String {
+    let mut lines = vec![meaning.to_string()];
+    if !answer.sources.is_empty() {
+        let cited: Vec<String> = answer
+            .sources
+            .iter()
+            .map(|s| {
+                format!(
+                    "{} ({})",
+                    crate::citation::short_citation(&s.citation),
+                    s.key
+                )
+            })
+            .collect();
+        lines.push(format!(
+            "Sources: {}; full citations in the answer.",
+            cited.join(", ")
+        ));
+    }
+    if !state.from_memory.is_empty() {
+        lines.push(format!(
+            "Typed from memory of the cited tables, not yet checked against them: {}.",
+            state.from_memory.join(", ")
+        ));
+    }
+    if !state.unreviewed.is_empty() {
+        lines.push(format!("Unreviewed data: {}.", state.unreviewed.join(", ")));
+    }
+    lines.join("\n")
 }
 
 fn gases(
@@ -816,7 +896,12 @@ fn gases(
         points: Vec::new(),
         transitions: Vec::new(),
         loading: None,
-        footnote: "Henry's law in pure water; dashed: outside the record's temperature range. For screening only; see the answer for sources.".into(),
+        footnote: footnote(
+            "Henry's law in pure water; dashed: outside the record's temperature range. For \
+             screening only.",
+            answer,
+            &DataState::default(),
+        ),
     })
 }
 

@@ -14,9 +14,11 @@
 
 pub mod error;
 pub mod font;
+pub mod glyphs;
 pub mod palette;
 pub mod render;
 pub mod sketch;
+pub mod text;
 
 /// What a picture shows: the spec an answer carries ([`crate::answer::plot_spec`]).
 pub use crate::answer::plot_spec as spec;

@@ -1,6 +1,8 @@
 //! Draws a `PlotSpec` with plotters: SVG through its SVG backend, PNG through its bitmap
 //! backend and the `png` encoder. Text uses the embedded DejaVu Sans (see `font`), so the
-//! picture needs no system font.
+//! picture needs no system font; an SVG carries the font in itself. Text and lines grow with
+//! the picture's size; the legend sits in rows under the plot, where it covers nothing, and
+//! the footnote under it names the sources and the state of the data.
 
 use plotters::coord::Shift;
 use plotters::prelude::*;
@@ -9,6 +11,7 @@ use super::error::PlotError;
 use super::font;
 use super::palette::{self, Shape};
 use super::spec::PlotSpec;
+use super::text::{self, subscripts};
 
 /// Smallest and largest side of a picture, pixels.
 pub const MIN_SIDE: u32 = 200;
@@ -93,7 +96,7 @@ pub fn svg(spec: &PlotSpec, width: u32, height: u32) -> Result<String, PlotError
         draw(&root, spec).map_err(PlotError::Draw)?;
         root.present().map_err(|e| PlotError::Draw(e.to_string()))?;
     }
-    Ok(text)
+    Ok(font::embed_in_svg(&text))
 }
 
 /// The picture as a PNG file's bytes (8-bit RGB).
@@ -102,7 +105,8 @@ pub fn png(spec: &PlotSpec, width: u32, height: u32) -> Result<Vec<u8>, PlotErro
     font::register()?;
     let mut pixels = vec![0u8; width as usize * height as usize * 3];
     {
-        let root = BitMapBackend::with_buffer(&mut pixels, (width, height)).into_drawing_area();
+        let backend = BitMapBackend::with_buffer(&mut pixels, (width, height));
+        let root = super::glyphs::TrueText(backend).into_drawing_area();
         draw(&root, spec).map_err(PlotError::Draw)?;
         root.present().map_err(|e| PlotError::Draw(e.to_string()))?;
     }
@@ -135,7 +139,163 @@ fn sans(size: u32) -> TextStyle<'static> {
     TextStyle::from((font::FAMILY, size).into_font())
 }
 
-/// Draws the whole picture on any plotters backend.
+/// What a legend entry shows before its text: the line, band or marker as the plot draws it.
+#[derive(Debug, Clone, Copy)]
+enum Mark {
+    /// A line of `width` (base pixels), dashed with (dash, gap) when given.
+    Line {
+        colour: RGBColor,
+        width: u32,
+        dash: Option<(u32, u32)>,
+    },
+    /// The storage range's band.
+    Band,
+    /// A source's marker shape, in grey.
+    Marker(Shape),
+}
+
+/// The legend's entries, in the order the plot draws them.
+fn legend_entries(spec: &PlotSpec) -> Vec<(Mark, String)> {
+    let mut entries = Vec::new();
+    if let Some(loading) = &spec.loading {
+        let (s0, s1) = loading.storage;
+        entries.push((
+            Mark::Band,
+            format!("storage range {} °C to {} °C", figure(s0), figure(s1)),
+        ));
+    }
+    for series in &spec.series {
+        let dash = series
+            .segments
+            .iter()
+            .all(|g| g.extrapolated)
+            .then_some((9, 6));
+        entries.push((
+            Mark::Line {
+                colour: rgb(series.colour),
+                width: 2,
+                dash,
+            },
+            subscripts(&series.label),
+        ));
+    }
+    let mut shown: Vec<&str> = Vec::new();
+    for set in &spec.points {
+        if !shown.contains(&set.source.as_str()) {
+            shown.push(&set.source);
+            entries.push((Mark::Marker(palette::shape(set.shape)), set.source.clone()));
+        }
+    }
+    if let Some(loading) = &spec.loading {
+        entries.push((
+            Mark::Line {
+                colour: BLACK,
+                width: 2,
+                dash: None,
+            },
+            loading.label.clone(),
+        ));
+        if loading.with_margin.is_some() {
+            let label = loading
+                .margin_label
+                .clone()
+                .unwrap_or_else(|| "loading raised by the margin".into());
+            entries.push((
+                Mark::Line {
+                    colour: BLACK,
+                    width: 1,
+                    dash: Some(MARGIN_DASH),
+                },
+                label,
+            ));
+        }
+    }
+    entries
+}
+
+/// The dash and gap of the margin's line, in the plot and in the legend alike.
+const MARGIN_DASH: (u32, u32) = (2, 4);
+
+/// Draws one legend mark with its left edge at `x`, centred on `y`; `k` scales pixels.
+fn draw_mark<DB: DrawingBackend>(
+    area: &DrawingArea<DB, Shift>,
+    mark: Mark,
+    (x, y): (i32, i32),
+    k: f64,
+) -> Result<(), DrawingAreaErrorKind<DB::ErrorType>> {
+    let px = |n: f64| (n * k).round() as i32;
+    let grey = ShapeStyle::from(GREY);
+    match mark {
+        Mark::Line {
+            colour,
+            width,
+            dash,
+        } => {
+            let style = colour.stroke_width(((f64::from(width)) * k).round().max(1.0) as u32);
+            match dash {
+                None => area.draw(&PathElement::new(vec![(x, y), (x + px(24.0), y)], style)),
+                Some((on, off)) => {
+                    let (on, off) = (px(f64::from(on)).max(1), px(f64::from(off)).max(1));
+                    let mut at = x;
+                    while at < x + px(24.0) {
+                        let end = (at + on).min(x + px(24.0));
+                        area.draw(&PathElement::new(vec![(at, y), (end, y)], style))?;
+                        at += on + off;
+                    }
+                    Ok(())
+                }
+            }
+        }
+        Mark::Band => {
+            let band = RGBColor(120, 120, 120).mix(0.13).filled();
+            area.draw(&Rectangle::new(
+                [(x, y - px(6.0)), (x + px(24.0), y + px(6.0))],
+                band,
+            ))
+        }
+        Mark::Marker(shape) => {
+            let c = (x + px(12.0), y);
+            match shape {
+                Shape::Circle => area.draw(&Circle::new(c, px(4.0), grey.filled())),
+                Shape::Triangle => area.draw(&TriangleMarker::new(c, px(5.0), grey.filled())),
+                Shape::Square => area.draw(&Rectangle::new(
+                    [
+                        (c.0 - px(4.0), c.1 - px(4.0)),
+                        (c.0 + px(4.0), c.1 + px(4.0)),
+                    ],
+                    grey.stroke_width(px(2.0).max(1) as u32),
+                )),
+                Shape::Cross => area.draw(&Cross::new(
+                    c,
+                    px(4.0),
+                    grey.stroke_width(px(2.0).max(1) as u32),
+                )),
+            }
+        }
+    }
+}
+
+/// The legend laid out in rows under the plot: each entry's mark and text, placed left to
+/// right and wrapped to the picture's width. Returns (x, row) of each entry and the rows.
+fn legend_layout(entries: &[(Mark, String)], width: f64, k: f64) -> (Vec<(f64, usize)>, usize) {
+    let per_char = 7.0 * k;
+    let mut placed = Vec::new();
+    let (mut x, mut row) = (0.0, 0);
+    let margin = 16.0 * k;
+    for (_, text) in entries {
+        let w = 24.0 * k + 8.0 * k + text.chars().count() as f64 * per_char + 22.0 * k;
+        if x > 0.0 && margin + x + w > width - margin {
+            x = 0.0;
+            row += 1;
+        }
+        placed.push((margin + x, row));
+        x += w;
+    }
+    (placed, if entries.is_empty() { 0 } else { row + 1 })
+}
+
+/// Draws the whole picture on any plotters backend: the chart, the legend in rows under it
+/// (where it covers nothing drawn), and the footnote lines.
 fn draw<'a, DB: DrawingBackend + 'a>(
     root: &'a DrawingArea<DB, Shift>,
     spec: &PlotSpec,
@@ -145,33 +305,64 @@ where
 {
     let e = |error: DrawingAreaErrorKind<DB::ErrorType>| error.to_string();
     root.fill(&WHITE).map_err(e)?;
-    let (_, height) = root.dim_in_pixel();
-    let footnote_height = 26.min(height / 5);
-    let (upper, lower) = root.split_vertically(height.saturating_sub(footnote_height));
-    lower
-        .draw(&Text::new(
-            spec.footnote.clone(),
-            (12, 4),
-            sans(12).color(&GREY),
-        ))
-        .map_err(e)?;
+    let (width, height) = root.dim_in_pixel();
+    let k = text::scale(width, height);
+    let size = |base: f64| (base * k).round().max(6.0) as u32;
+    let px = |base: f64| (base * k).round() as i32;
+
+    let entries = legend_entries(spec);
+    let (placed, legend_rows) = legend_layout(&entries, f64::from(width), k);
+    let row_h = 19.0 * k;
+    let legend_h =
+        (legend_rows as f64 * row_h + if legend_rows > 0 { 8.0 * k } else { 0.0 }).round() as u32;
+    let foot_lines: Vec<String> = spec
+        .footnote
+        .lines()
+        .flat_map(|l| text::wrap(l, f64::from(width) - 24.0 * k, 6.0 * k))
+        .collect();
+    let foot_h = (foot_lines.len() as f64 * 15.0 * k + 6.0 * k).round() as u32;
+    let chart_h = height.saturating_sub(legend_h + foot_h).max(height / 2);
+    let (upper, rest) = root.split_vertically(chart_h);
+    let (legend_area, lower) = rest.split_vertically(legend_h);
+
+    for (i, line) in foot_lines.iter().enumerate() {
+        lower
+            .draw(&Text::new(
+                subscripts(line),
+                (px(12.0), px(2.0 + 15.0 * i as f64)),
+                sans(size(11.5)).color(&GREY),
+            ))
+            .map_err(e)?;
+    }
+    for ((mark, label), (x, row)) in entries.iter().zip(&placed) {
+        let y = (*row as f64 * row_h + row_h / 2.0 + 2.0 * k).round() as i32;
+        let x = x.round() as i32;
+        draw_mark(&legend_area, *mark, (x, y), k).map_err(e)?;
+        legend_area
+            .draw(&Text::new(
+                label.clone(),
+                (x + px(32.0), y - px(7.0)),
+                sans(size(13.0)).color(&BLACK),
+            ))
+            .map_err(e)?;
+    }
 
     let (x0, x1) = spec.x_range;
     let x1 = if x1 > x0 { x1 } else { x0 + 1.0 };
     let (y0, y1) = spec.y_range();
     let mut chart = ChartBuilder::on(&upper)
-        .caption(spec.title.clone(), sans(20))
-        .margin(14)
-        .x_label_area_size(46)
-        .y_label_area_size(72)
+        .caption(subscripts(&spec.title), sans(size(20.0)))
+        .margin(px(14.0) as u32)
+        .x_label_area_size(px(46.0) as u32)
+        .y_label_area_size(px(72.0) as u32)
         .build_cartesian_2d(x0..x1, y0..y1)
         .map_err(e)?;
     chart
         .configure_mesh()
         .x_desc(spec.x_label.clone())
         .y_desc(spec.y_label.clone())
-        .axis_desc_style(sans(15))
-        .label_style(sans(13))
+        .axis_desc_style(sans(size(15.0)))
+        .label_style(sans(size(13.0)))
         .light_line_style(WHITE)
         .bold_line_style(RGBColor(225, 225, 225))
         .x_labels(11)
@@ -180,6 +371,7 @@ where
         .y_label_formatter(&|y| label_value(*y))
         .draw()
         .map_err(e)?;
+    let stroke = |base: u32| ((f64::from(base) * k).round().max(1.0)) as u32;
 
     // The storage range first, so every line lies on top of it.
     if let Some(loading) = &spec.loading {
@@ -187,252 +379,142 @@ where
         let band = RGBColor(120, 120, 120).mix(0.13).filled();
         chart
             .draw_series(std::iter::once(Rectangle::new([(s0, y0), (s1, y1)], band)))
-            .map_err(e)?
-            .label(format!(
-                "storage range {} C to {} C",
-                figure(s0),
-                figure(s1)
-            ))
-            .legend(move |(x, y)| Rectangle::new([(x, y - 6), (x + 20, y + 6)], band));
+            .map_err(e)?;
     }
 
     for transition in &spec.transitions {
-        let style = rgb(transition.colour).mix(0.8).stroke_width(1);
+        let style = rgb(transition.colour).mix(0.8).stroke_width(stroke(1));
         let t = transition.temperature_c;
         chart
-            .draw_series(DashedLineSeries::new(vec![(t, y0), (t, y1)], 3, 4, style))
+            .draw_series(DashedLineSeries::new(
+                vec![(t, y0), (t, y1)],
+                px(3.0).max(1) as u32,
+                px(4.0).max(1) as u32,
+                style,
+            ))
             .map_err(e)?;
         let at = chart.backend_coord(&(t, y1));
         upper
             .draw(&Text::new(
-                transition.label.clone(),
-                (at.0 + 5, at.1 + 4),
-                sans(12).color(&GREY),
+                subscripts(&transition.label),
+                (at.0 + px(5.0), at.1 + px(4.0)),
+                sans(size(12.0)).color(&GREY),
             ))
             .map_err(e)?;
     }
 
     for series in &spec.series {
-        let solid = rgb(series.colour).stroke_width(2);
-        let dashed = rgb(series.colour).stroke_width(2);
-        let mut labelled = false;
+        let style = rgb(series.colour).stroke_width(stroke(2));
         for segment in &series.segments {
-            let drawn = if segment.extrapolated {
+            if segment.extrapolated {
                 chart
-                    .draw_series(DashedLineSeries::new(segment.points.clone(), 9, 6, dashed))
-                    .map_err(e)?
+                    .draw_series(DashedLineSeries::new(
+                        segment.points.clone(),
+                        px(9.0).max(1) as u32,
+                        px(6.0).max(1) as u32,
+                        style,
+                    ))
+                    .map_err(e)?;
             } else {
                 chart
-                    .draw_series(LineSeries::new(segment.points.clone(), solid))
-                    .map_err(e)?
-            };
-            if !labelled {
-                labelled = true;
-                drawn
-                    .label(series.label.clone())
-                    .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 20, y)], solid));
+                    .draw_series(LineSeries::new(segment.points.clone(), style))
+                    .map_err(e)?;
             }
         }
     }
 
-    let mut shown_sources: Vec<&str> = Vec::new();
     for set in &spec.points {
         let style = ShapeStyle::from(rgb(set.colour));
-        let grey = ShapeStyle::from(GREY);
         let points = set.points.iter().copied();
-        let first = !shown_sources.contains(&set.source.as_str());
-        if first {
-            shown_sources.push(&set.source);
-        }
-        let source = set.source.clone();
+        let (r, t, sq) = (px(5.0), px(6.0), px(4.0));
         // One arm per shape: plotters' series want one concrete element type each.
         match palette::shape(set.shape) {
             Shape::Circle => {
-                let anno = chart
+                chart
                     .draw_series(points.map(|p| {
                         EmptyElement::at(p)
-                            + Circle::new((0, 0), 5, style.filled())
-                            + Circle::new((0, 0), 5, BLACK.stroke_width(1))
+                            + Circle::new((0, 0), r, style.filled())
+                            + Circle::new((0, 0), r, BLACK.stroke_width(1))
                     }))
                     .map_err(e)?;
-                if first {
-                    anno.label(source)
-                        .legend(move |(x, y)| Circle::new((x + 10, y), 4, grey.filled()));
-                }
             }
             Shape::Triangle => {
-                let anno = chart
+                chart
                     .draw_series(points.map(|p| {
                         EmptyElement::at(p)
                         // plotters fills a triangle marker whatever the style: a larger
                         // dark one behind gives the coloured one an outline.
-                        + TriangleMarker::new((0, 0), 8, BLACK.filled())
-                        + TriangleMarker::new((0, 0), 6, style.filled())
+                        + TriangleMarker::new((0, 0), t + 2, BLACK.filled())
+                        + TriangleMarker::new((0, 0), t, style.filled())
                     }))
                     .map_err(e)?;
-                if first {
-                    anno.label(source)
-                        .legend(move |(x, y)| TriangleMarker::new((x + 10, y), 5, grey.filled()));
-                }
             }
             Shape::Square => {
-                let anno = chart
+                chart
                     .draw_series(points.map(|p| {
                         EmptyElement::at(p)
-                            + Rectangle::new([(-4, -4), (4, 4)], style.filled())
-                            + Rectangle::new([(-4, -4), (4, 4)], BLACK.stroke_width(1))
+                            + Rectangle::new([(-sq, -sq), (sq, sq)], style.filled())
+                            + Rectangle::new([(-sq, -sq), (sq, sq)], BLACK.stroke_width(1))
                     }))
                     .map_err(e)?;
-                if first {
-                    anno.label(source).legend(move |(x, y)| {
-                        Rectangle::new([(x + 6, y - 4), (x + 14, y + 4)], grey.stroke_width(2))
-                    });
-                }
             }
             Shape::Cross => {
-                let anno = chart
-                    .draw_series(points.map(|p| Cross::new(p, 5, style.stroke_width(3))))
+                chart
+                    .draw_series(points.map(|p| Cross::new(p, r, style.stroke_width(stroke(3)))))
                     .map_err(e)?;
-                if first {
-                    anno.label(source)
-                        .legend(move |(x, y)| Cross::new((x + 10, y), 4, grey.stroke_width(2)));
-                }
             }
         }
     }
 
     if let Some(loading) = &spec.loading {
         let (s0, s1) = loading.storage;
-        let line = BLACK.stroke_width(2);
+        let line = BLACK.stroke_width(stroke(2));
         chart
             .draw_series(LineSeries::new(
                 vec![(s0, loading.value), (s1, loading.value)],
                 line,
             ))
-            .map_err(e)?
-            .label(loading.label.clone())
-            .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 20, y)], line));
+            .map_err(e)?;
         if let Some(level) = loading.with_margin {
-            let dotted = BLACK.stroke_width(1);
+            let dotted = BLACK.stroke_width(stroke(1));
             chart
                 .draw_series(DashedLineSeries::new(
                     vec![(s0, level), (s1, level)],
-                    2,
-                    4,
+                    px(f64::from(MARGIN_DASH.0)).max(1) as u32,
+                    px(f64::from(MARGIN_DASH.1)).max(1) as u32,
                     dotted,
                 ))
-                .map_err(e)?
-                .label("loading raised by the margin")
-                .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 20, y)], dotted));
+                .map_err(e)?;
         }
         for limiting in &loading.limiting {
-            let ring = rgb(limiting.colour).stroke_width(3);
+            let ring = rgb(limiting.colour).stroke_width(stroke(3));
             chart
                 .draw_series(std::iter::once(Circle::new(
                     (limiting.temperature_c, limiting.value),
-                    9,
+                    px(9.0),
                     ring,
                 )))
                 .map_err(e)?;
             let at = chart.backend_coord(&(limiting.temperature_c, limiting.value));
+            let label = subscripts(&limiting.label);
+            let style = sans(size(13.0)).color(&BLACK);
+            let place = (at.0 + px(13.0), at.1 + px(6.0));
+            // A white ground under the label, so the loading and margin lines it crosses do
+            // not run through its letters.
+            let (w, h) = upper.estimate_text_size(&label, &style).map_err(e)?;
             upper
-                .draw(&Text::new(
-                    limiting.label.clone(),
-                    (at.0 + 13, at.1 + 6),
-                    sans(13).color(&BLACK),
+                .draw(&Rectangle::new(
+                    [
+                        (place.0 - px(2.0), place.1 - px(1.0)),
+                        (place.0 + w as i32 + px(2.0), place.1 + h as i32 + px(1.0)),
+                    ],
+                    WHITE.mix(0.85).filled(),
                 ))
                 .map_err(e)?;
+            upper.draw(&Text::new(label, place, style)).map_err(e)?;
         }
     }
-
-    let (area_w, area_h) = chart.plotting_area().dim_in_pixel();
-    chart
-        .configure_series_labels()
-        .position(legend_corner(spec, area_w, area_h, (y0, y1)))
-        .background_style(WHITE.mix(0.88))
-        .border_style(RGBColor(160, 160, 160))
-        .label_font(sans(13))
-        .margin(10)
-        .draw()
-        .map_err(e)?;
     Ok(())
-}
-
-/// The corner of the plotting area where the legend hides the fewest things drawn: the
-/// legend's size is estimated from its entries (about 17 pixels a line, 7 a character).
-fn legend_corner(spec: &PlotSpec, width: u32, height: u32, y: (f64, f64)) -> SeriesLabelPosition {
-    let mut labels: Vec<usize> = spec
-        .series
-        .iter()
-        .map(|s| s.label.chars().count())
-        .collect();
-    let mut sources: Vec<&str> = spec.points.iter().map(|p| p.source.as_str()).collect();
-    sources.sort_unstable();
-    sources.dedup();
-    labels.extend(sources.iter().map(|s| s.chars().count()));
-    let mut things: Vec<(f64, f64)> = Vec::new();
-    for series in &spec.series {
-        for segment in &series.segments {
-            things.extend(segment.points.iter().copied());
-        }
-    }
-    for set in &spec.points {
-        things.extend(set.points.iter().copied());
-    }
-    let (x0, x1) = spec.x_range;
-    for transition in &spec.transitions {
-        // The dashed line, and its label running right along the top.
-        let chars = transition.label.chars().count() as f64;
-        let label_w = chars * 7.0 / f64::from(width.max(1)) * (x1 - x0);
-        for k in 0..=10 {
-            let f = f64::from(k) / 10.0;
-            things.push((transition.temperature_c, y.0 + (y.1 - y.0) * f));
-            things.push((
-                transition.temperature_c + label_w * f,
-                y.1 - (y.1 - y.0) * 0.03,
-            ));
-        }
-    }
-    if let Some(loading) = &spec.loading {
-        labels.extend([26, loading.label.chars().count(), 29]);
-        let (a, b) = loading.storage;
-        for k in 0..=20 {
-            things.push((a + (b - a) * f64::from(k) / 20.0, loading.value));
-        }
-        for limiting in &loading.limiting {
-            // A limiting point's label runs to its right.
-            for k in 0..=12 {
-                let dx = (spec.x_range.1 - spec.x_range.0) * 0.03 * f64::from(k);
-                things.push((limiting.temperature_c + dx, limiting.value));
-            }
-        }
-    }
-    let longest = labels.iter().copied().max().unwrap_or(10) as f64;
-    let box_w = ((longest * 7.0 + 60.0) / f64::from(width.max(1))).min(1.0);
-    let box_h = ((labels.len() as f64 * 17.0 + 24.0) / f64::from(height.max(1))).min(1.0);
-    let span_x = (x1 - x0).max(1e-9);
-    let span_y = (y.1 - y.0).max(1e-9);
-    let covered = |left: bool, top: bool| {
-        things
-            .iter()
-            .filter(|(t, v)| {
-                let fx = (t - x0) / span_x;
-                let fy = (v - y.0) / span_y;
-                let in_x = if left { fx <= box_w } else { fx >= 1.0 - box_w };
-                let in_y = if top { fy >= 1.0 - box_h } else { fy <= box_h };
-                in_x && in_y
-            })
-            .count()
-    };
-    [
-        (SeriesLabelPosition::UpperLeft, covered(true, true)),
-        (SeriesLabelPosition::UpperRight, covered(false, true)),
-        (SeriesLabelPosition::LowerRight, covered(false, false)),
-        (SeriesLabelPosition::LowerLeft, covered(true, false)),
-    ]
-    .into_iter()
-    .min_by_key(|(_, n)| *n)
-    .map_or(SeriesLabelPosition::UpperLeft, |(corner, _)| corner)
 }
 
 /// A value for an axis label: three significant figures, shortest form.

@@ -99,9 +99,10 @@ EXPLANATIONS = {
         "the compilation; satline answers from the tabulated curve first and says so."
     ),
     "iron-sulfate/perry-7/density-range": (
-        "The density fit's solutions were measured at 25 C only, up to w = 0.2332, 2.1 % above "
-        "the tabulated solubility there (w = 0.2285): just beyond the 2 % tolerance. Either the "
-        "most concentrated measured solution was slightly supersaturated or the tabulated value "
+        "The density fit covers 15 to 25 C and solutions up to w = 0.2332, 2.1 % above the "
+        "highest tabulated solubility in that range (w = 0.2285, at 25 C): just beyond the 2 % "
+        "tolerance. Either the most concentrated measured solution was slightly supersaturated or "
+        "the tabulated value "
         "is about 2 % low; a second source for iron(II) sulfate's solubility would settle it."
     ),
 }

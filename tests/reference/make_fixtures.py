@@ -128,6 +128,7 @@ def main():
             f.write("\n")
     __import__("fixtures_phase").write(HERE)  # phase diagram: pytzer, CoolProp
     __import__("fixtures_mixtures").write(HERE)  # mixed electrolytes: pytzer
+    __import__("fixtures_mixtures_subzero").write(HERE)  # mixtures below 0 C: pytzer
     fixtures_corroboration.write_checks()
     __import__("fixtures_brine_checks").write_checks()  # ice lines, water activity, density ranges
     __import__("fixtures_thermochemistry").write_all()

@@ -7,6 +7,8 @@ use std::collections::BTreeMap;
 
 use serde::Serialize;
 
+pub mod plot_spec;
+
 /// What kind of statement an answer belongs to.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, utoipa::ToSchema)]
 #[serde(rename_all = "kebab-case")]
@@ -164,7 +166,7 @@ pub struct Answer {
     pub picture: Option<String>,
     /// For `plot`: what the picture shows, for the renderers (not part of the JSON).
     #[serde(skip)]
-    pub plot: Option<Box<crate::plot::PlotSpec>>,
+    pub plot: Option<Box<plot_spec::PlotSpec>>,
 }
 
 impl Answer {

@@ -16,6 +16,7 @@ use crate::model::{
     Check, Dataset, DensityCoefficients, FreezingData, GasConstant, Solute, Source,
 };
 use crate::store::{Contents, Store, StoreError};
+use crate::text::edit_distance;
 
 /// How many "did you mean" names an unknown solute gets at most.
 const MAX_SUGGESTIONS: usize = 3;
@@ -99,24 +100,6 @@ fn normalise(name: &str) -> String {
 
 fn fold(name: &str) -> String {
     normalise(name).to_lowercase()
-}
-
-/// Levenshtein distance over characters.
-pub(crate) fn edit_distance(a: &str, b: &str) -> usize {
-    let b: Vec<char> = b.chars().collect();
-    let mut row: Vec<usize> = (0..=b.len()).collect();
-    for (i, ca) in a.chars().enumerate() {
-        let mut diagonal = row[0];
-        row[0] = i + 1;
-        for (j, cb) in b.iter().enumerate() {
-            let above = row[j + 1];
-            row[j + 1] = (above + 1)
-                .min(row[j] + 1)
-                .min(diagonal + usize::from(ca != *cb));
-            diagonal = above;
-        }
-    }
-    row[b.len()]
 }
 
 impl Catalog {
@@ -279,7 +262,7 @@ impl Catalog {
             .map(|&i| &self.solutes[i])
             .ok_or_else(|| CatalogError::UnknownSolute {
                 // A pasted megabyte is not echoed back.
-                name: crate::engine::cut(name.trim()),
+                name: crate::text::cut(name.trim()),
                 suggestions: self.suggestions(name),
             })
     }
@@ -591,13 +574,6 @@ mod tests {
         );
         let err = catalog().find_solute("zzzzzzzzzz").unwrap_err();
         assert_eq!(err.to_string(), "unknown solute \"zzzzzzzzzz\"");
-    }
-
-    #[test]
-    fn edit_distance_counts_single_changes() {
-        assert_eq!(edit_distance("kitten", "sitting"), 3);
-        assert_eq!(edit_distance("", "abc"), 3);
-        assert_eq!(edit_distance("kno3", "kno3"), 0);
     }
 
     #[test]

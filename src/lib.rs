@@ -22,6 +22,7 @@ pub mod report;
 pub mod science;
 pub mod server;
 pub mod store;
+pub mod text;
 
 pub use error::Error;
 

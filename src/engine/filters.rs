@@ -7,11 +7,11 @@
 use std::collections::BTreeSet;
 
 use crate::answer::Answer;
-use crate::catalog::edit_distance;
 use crate::engine::error::EvalError;
 use crate::engine::snapshot::Snapshot;
 use crate::query::{Filter, Name};
 use crate::science::formula::atomic_weight;
+use crate::text::{cut, edit_distance};
 
 /// Pairs of spellings of one word (British/American, old/new, with or without a hyphen):
 /// a value the catalog does not hold is tried with either side replaced by the other.
@@ -29,20 +29,6 @@ const SPELLINGS: &[(&str, &str)] = &[
 
 /// How many suggestions an unknown value gets at most.
 const MAX_SUGGESTIONS: usize = 3;
-
-/// The longest value echoed in a message, in characters.
-pub const ECHO_CHARS: usize = 60;
-
-/// `text` cut to [`ECHO_CHARS`] characters with an ellipsis and the full length, so a
-/// pasted megabyte is never echoed back.
-pub fn cut(text: &str) -> String {
-    let count = text.chars().count();
-    if count <= ECHO_CHARS {
-        return text.to_string();
-    }
-    let head: String = text.chars().take(ECHO_CHARS).collect();
-    format!("{head}… ({count} characters)")
-}
 
 /// The filters with their values in the catalog's spelling, or the first value the catalog
 /// does not know, with the closest it does.

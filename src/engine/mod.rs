@@ -34,9 +34,9 @@ mod solid;
 use std::path::Path;
 use std::sync::Arc;
 
+pub use crate::text::cut;
 pub use echo::STATEMENT_CHARS;
 pub use error::EvalError;
-pub use filters::cut;
 pub use snapshot::Snapshot;
 
 use crate::answer::{Answer, AnswerKind, ErrorReport};

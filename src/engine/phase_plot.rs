@@ -4,13 +4,13 @@
 
 use serde_json::json;
 
+use crate::answer::plot_spec::{Segment, Series, TransitionMark};
 use crate::answer::{Answer, Basis, Row};
 use crate::engine::common::{celsius, value};
 use crate::engine::error::EvalError;
 use crate::engine::freezing::{ice_caveats, system_of};
 use crate::engine::snapshot::Snapshot;
 use crate::model::Solute;
-use crate::plot::spec::{Segment, Series, TransitionMark};
 use crate::science::freezing::IceBasis;
 use crate::science::units::CompositionUnit;
 

@@ -6,6 +6,9 @@
 use serde_json::json;
 
 use super::phase_plot::lowest_ice_temperature;
+use crate::answer::plot_spec::{
+    Limiting, LoadingLine, PlotSpec, PointSet, Segment, Series, TransitionMark,
+};
 use crate::answer::{Answer, Basis, Row};
 use crate::engine::CAUTION;
 use crate::engine::common::{
@@ -17,9 +20,6 @@ use crate::engine::gas;
 use crate::engine::snapshot::{BuiltCurve, Snapshot};
 use crate::model::{Provenance, Review, Solute, SoluteKind};
 use crate::number::round_significant;
-use crate::plot::spec::{
-    Limiting, LoadingLine, PlotSpec, PointSet, Segment, Series, TransitionMark,
-};
 use crate::query::{GasPressure, Name, Plot, Span};
 use crate::science::gas::dissolved as dissolved_gas;
 use crate::science::solve::stays_dissolved_with;

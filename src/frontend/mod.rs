@@ -82,13 +82,7 @@ pub(crate) fn open_engine(db: Option<&Path>) -> Result<Engine, crate::Error> {
     Engine::open(db)
 }
 
-/// How the database is named in messages.
-pub(crate) fn database_name(db: Option<&Path>) -> String {
-    match db {
-        Some(path) => path.display().to_string(),
-        None => "the embedded database".to_string(),
-    }
-}
+pub(crate) use crate::store::database_name;
 
 #[cfg(test)]
 mod tests {

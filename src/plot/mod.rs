@@ -18,8 +18,10 @@ pub mod glyphs;
 pub mod palette;
 pub mod render;
 pub mod sketch;
-pub mod spec;
 pub mod text;
+
+/// What a picture shows: the spec an answer carries ([`crate::answer::plot_spec`]).
+pub use crate::answer::plot_spec as spec;
 
 pub use error::PlotError;
 pub use render::{DEFAULT_SIZE, Format, render};

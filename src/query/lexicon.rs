@@ -3,6 +3,7 @@
 
 use super::ast::ValueKind;
 use crate::science::units::{CompositionUnit, PressureUnit, TemperatureUnit};
+use crate::text::edit_distance;
 
 /// Words that begin a statement.
 pub const STATEMENT_WORDS: [&str; 17] = [
@@ -169,35 +170,6 @@ pub fn scale_warning(typed: &str, suggestion: Option<&str>) -> String {
     }
 }
 
-/// Edit distance over characters, ignoring case: insertions, deletions, substitutions and
-/// swaps of two neighbours (`form` for `from`) each count one. Long inputs are cut to 64
-/// characters: nothing that long is a misspelt keyword.
-pub fn edit_distance(a: &str, b: &str) -> usize {
-    let a: Vec<char> = a.to_lowercase().chars().take(64).collect();
-    let b: Vec<char> = b.to_lowercase().chars().take(64).collect();
-    // d[i][j]: distance between the first i characters of a and the first j of b.
-    let mut d = vec![vec![0usize; b.len() + 1]; a.len() + 1];
-    for (i, row) in d.iter_mut().enumerate() {
-        row[0] = i;
-    }
-    for (j, cell) in d[0].iter_mut().enumerate() {
-        *cell = j;
-    }
-    for i in 1..=a.len() {
-        for j in 1..=b.len() {
-            let cost = usize::from(a[i - 1] != b[j - 1]);
-            let mut best = (d[i - 1][j] + 1)
-                .min(d[i][j - 1] + 1)
-                .min(d[i - 1][j - 1] + cost);
-            if i > 1 && j > 1 && a[i - 1] == b[j - 2] && a[i - 2] == b[j - 1] {
-                best = best.min(d[i - 2][j - 2] + 1);
-            }
-            d[i][j] = best;
-        }
-    }
-    d[a.len()][b.len()]
-}
-
 /// The candidate closest to `word`, if it is close enough to be a slip of the keyboard:
 /// one edit for words of up to four characters, two for longer ones.
 pub fn nearest<'c>(word: &str, candidates: &[&'c str]) -> Option<&'c str> {
@@ -227,14 +199,6 @@ pub fn one_of(words: &[&str]) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
-
-    #[test]
-    fn distance_counts_edits() {
-        assert_eq!(edit_distance("solubilty", "solubility"), 1);
-        assert_eq!(edit_distance("AT", "at"), 0);
-        assert_eq!(edit_distance("", "at"), 2);
-        assert_eq!(edit_distance("form", "from"), 1);
-    }
 
     #[test]
     fn nearest_needs_a_close_word() {

@@ -219,7 +219,7 @@ impl Drop for Running {
 /// Returns once the address is bound, so a client may connect at once.
 pub fn start(config: Config) -> Result<Running, ServerError> {
     let engine = Engine::open(config.db.as_deref()).map_err(|source| ServerError::OpenStore {
-        database: crate::frontend::database_name(config.db.as_deref()),
+        database: crate::store::database_name(config.db.as_deref()),
         source: Box::new(source),
     })?;
     let listener =

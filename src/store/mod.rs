@@ -329,6 +329,14 @@ pub fn init_empty(path: &Path, actor: &str, force: bool) -> Result<(), StoreErro
     publish(&temp, path, force)
 }
 
+/// How the database is named in messages.
+pub fn database_name(db: Option<&Path>) -> String {
+    match db {
+        Some(path) => path.display().to_string(),
+        None => "the embedded database".to_string(),
+    }
+}
+
 /// Opens the database the command line asked for: the file named by `--db` / `SATLINE_DB`
 /// (never rebuilt), or else the embedded default database (see [`default_db`]).
 pub fn open_configured(db: Option<&Path>) -> Result<Store, StoreError> {

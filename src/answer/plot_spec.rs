@@ -1,7 +1,8 @@
 //! What a picture of curves shows, as plain data: series of sampled points (solid where the
 //! data reach, dashed where extrapolated), tabulated points marked by source, transition
 //! temperatures, and the loading line of a screening question. The engine builds it from
-//! the catalog; `plot::render` and `plot::sketch` draw it and compute nothing.
+//! the catalog and an answer carries it; `plot::render` and `plot::sketch` draw it and
+//! compute nothing (`plot::spec` is this module).
 
 use serde::Serialize;
 

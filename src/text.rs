@@ -1,0 +1,74 @@
+//! Text helpers every layer shares: the one edit distance behind every "did you mean"
+//! (keywords, units, solute names, filter values), and the cut that keeps an echoed value
+//! short.
+
+/// Edit distance over characters, ignoring case: insertions, deletions, substitutions and
+/// swaps of two neighbours (`form` for `from`) each count one. Long inputs are cut to 64
+/// characters: nothing that long is a misspelt keyword.
+pub fn edit_distance(a: &str, b: &str) -> usize {
+    let a: Vec<char> = a.to_lowercase().chars().take(64).collect();
+    let b: Vec<char> = b.to_lowercase().chars().take(64).collect();
+    // d[i][j]: distance between the first i characters of a and the first j of b.
+    let mut d = vec![vec![0usize; b.len() + 1]; a.len() + 1];
+    for (i, row) in d.iter_mut().enumerate() {
+        row[0] = i;
+    }
+    for (j, cell) in d[0].iter_mut().enumerate() {
+        *cell = j;
+    }
+    for i in 1..=a.len() {
+        for j in 1..=b.len() {
+            let cost = usize::from(a[i - 1] != b[j - 1]);
+            let mut best = (d[i - 1][j] + 1)
+                .min(d[i][j - 1] + 1)
+                .min(d[i - 1][j - 1] + cost);
+            if i > 1 && j > 1 && a[i - 1] == b[j - 2] && a[i - 2] == b[j - 1] {
+                best = best.min(d[i - 2][j - 2] + 1);
+            }
+            d[i][j] = best;
+        }
+    }
+    d[a.len()][b.len()]
+}
+
+/// The longest value echoed in a message, in characters.
+pub const ECHO_CHARS: usize = 60;
+
+/// `text` cut to [`ECHO_CHARS`] characters with an ellipsis and the full length, so a
+/// pasted megabyte is never echoed back.
+pub fn cut(text: &str) -> String {
+    let count = text.chars().count();
+    if count <= ECHO_CHARS {
+        return text.to_string();
+    }
+    let head: String = text.chars().take(ECHO_CHARS).collect();
+    format!("{head}… ({count} characters)")
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn edit_distance_counts_single_changes_and_swaps() {
+        assert_eq!(edit_distance("solubilty", "solubility"), 1);
+        assert_eq!(edit_distance("AT", "at"), 0);
+        assert_eq!(edit_distance("", "at"), 2);
+        assert_eq!(edit_distance("form", "from"), 1);
+        assert_eq!(edit_distance("kitten", "sitting"), 3);
+    }
+
+    #[test]
+    fn long_echoes_are_cut_with_their_length() {
+        let long = "x".repeat(ECHO_CHARS + 5);
+        assert_eq!(
+            cut(&long),
+            format!(
+                "{}… ({} characters)",
+                "x".repeat(ECHO_CHARS),
+                ECHO_CHARS + 5
+            )
+        );
+        assert_eq!(cut("KNO3"), "KNO3");
+    }
+}

@@ -43,7 +43,7 @@ from pytzer.parameters import spencer1990  # noqa: E402
 from scipy.optimize import brentq  # noqa: E402
 
 from fixtures_corroboration import (  # noqa: E402
-    SEED, BranchCurve, kelvin, live, load_seed, mass_fraction, molar_mass, record,
+    SEED, BranchCurve, kelvin, live, load_seed, mass_fraction, molar_mass, write_check_files,
 )
 
 TOOL = (
@@ -325,21 +325,11 @@ def density_range_checks(solutes):
 def write_checks():
     """Writes seed-data/checks/{ice-line,water-activity,density-range}.toml."""
     solutes = load_seed()
-    counts = {}
-    for kind, checks in (
+    return write_check_files("fixtures_brine_checks.py", TOOL, "one stored record", (
         ("ice-line", ice_line_checks(solutes)),
         ("water-activity", water_activity_checks(solutes)),
         ("density-range", density_range_checks(solutes)),
-    ):
-        header = (
-            f"# Corroboration checks of kind {kind}, written by tests/reference/make_fixtures.py\n"
-            f"# (fixtures_brine_checks.py; {TOOL.split('; ', 1)[1]}). Do not edit by hand: rerun the script.\n"
-            "# Each record compares one stored record with something outside it; none makes data reviewed.\n"
-        )
-        with open(os.path.join(SEED, "checks", f"{kind}.toml"), "w", encoding="utf-8") as f:
-            f.write(header + "\n".join(record(c) for c in checks) + "\n")
-        counts[kind] = {v: sum(c["verdict"] == v for c in checks) for v in ("pass", "fail", "not-applicable")}
-    return counts
+    ))
 
 
 if __name__ == "__main__":

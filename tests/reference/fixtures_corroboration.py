@@ -456,25 +456,31 @@ def second_source_checks(solutes):
     return out
 
 
-def write_checks():
-    """Writes seed-data/checks/{heat-sign,continuity,second-source}.toml."""
-    solutes = load_seed()
+def write_check_files(module, tool, subject_words, kinds):
+    """Writes seed-data/checks/<kind>.toml for each (kind, checks) of `kinds`, with the
+    header naming the writing module and the tools' versions; returns the verdict counts."""
     os.makedirs(os.path.join(SEED, "checks"), exist_ok=True)
     counts = {}
-    for kind, checks in (
-        ("heat-sign", heat_sign_checks(solutes)),
-        ("continuity", continuity_checks(solutes)),
-        ("second-source", second_source_checks(solutes)),
-    ):
+    for kind, checks in kinds:
         header = (
             f"# Corroboration checks of kind {kind}, written by tests/reference/make_fixtures.py\n"
-            f"# (fixtures_corroboration.py; {TOOL.split('; ', 1)[1]}). Do not edit by hand: rerun the script.\n"
-            "# Each record compares one dataset with something outside it; none makes data reviewed.\n"
+            f"# ({module}; {tool.split('; ', 1)[1]}). Do not edit by hand: rerun the script.\n"
+            f"# Each record compares {subject_words} with something outside it; none makes data reviewed.\n"
         )
         with open(os.path.join(SEED, "checks", f"{kind}.toml"), "w", encoding="utf-8") as f:
             f.write(header + "\n".join(record(c) for c in checks) + "\n")
         counts[kind] = {v: sum(c["verdict"] == v for c in checks) for v in ("pass", "fail", "not-applicable")}
     return counts
+
+
+def write_checks():
+    """Writes seed-data/checks/{heat-sign,continuity,second-source}.toml."""
+    solutes = load_seed()
+    return write_check_files("fixtures_corroboration.py", TOOL, "one dataset", (
+        ("heat-sign", heat_sign_checks(solutes)),
+        ("continuity", continuity_checks(solutes)),
+        ("second-source", second_source_checks(solutes)),
+    ))
 
 
 if __name__ == "__main__":

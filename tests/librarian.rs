@@ -147,6 +147,55 @@ fn seed_rules_apply_with_the_csv_line() {
     }
 }
 
+/// Two spellings of one unit on the rows of one dataset agree; a misspelt unit is named as
+/// unknown, not as a disagreement with an earlier row; every faulty row of a file is
+/// reported, not only the first.
+#[test]
+fn csv_units_are_compared_by_meaning_and_every_fault_is_reported() {
+    let dir = tempfile::tempdir().unwrap();
+    let (_, mut store) = database(dir.path());
+    let plan = import(
+        &mut store,
+        &[csv(&[
+            "invented-x,KCl,KCl,0,C,10,g/100g water,invented-a",
+            "invented-x,KCl,KCl,10,C,12,g/100 g water,invented-a",
+        ])],
+    );
+    assert!(!plan.changes.is_empty());
+    let message = refused(
+        &store,
+        &[csv(&[
+            "invented-y,KCl,KCl,0,C,10,g/100g water,invented-a",
+            "invented-y,KCl,KCl,10,C,12,g/100 g watr,invented-a",
+        ])],
+    );
+    assert!(
+        message.contains("line 3: unknown unit \"g/100 g watr\""),
+        "{message}"
+    );
+    assert!(!message.contains("differs from"), "{message}");
+    let message = refused(
+        &store,
+        &[csv(&[
+            "invented-z,KCl,KCl,0,C,ten,%w/w,invented-a",
+            "invented-z,KCl,KCl,10,C,12,%w/w,invented-a",
+            "invented-z,KCl,KCl,20,C,14,%w/w,nowhere",
+        ])],
+    );
+    assert!(
+        message.starts_with("invented.csv, line 2: value is not a number"),
+        "{message}"
+    );
+    assert!(
+        message.contains("and 1 more fault in this file"),
+        "{message}"
+    );
+    assert!(
+        message.contains("line 4: unknown source key \"nowhere\""),
+        "{message}"
+    );
+}
+
 #[test]
 fn a_value_outside_the_sane_range_of_its_unit_is_refused() {
     let dir = tempfile::tempdir().unwrap();

@@ -37,7 +37,7 @@ use super::read::{Contents, FreezingRecord};
 use super::{Store, StoreError, audit, lock, seed, write};
 use crate::model::thermo::{HeatCapacityFit, ThermoValue};
 use crate::model::{Check, Dataset, DensityCoefficients, GasConstant, Review, Solute, Source};
-use crate::science::units::CompositionUnit;
+use crate::science::units::{CompositionUnit, TemperatureUnit};
 
 /// One file to import, read into memory: its path as given (for messages) and its text.
 #[derive(Debug, Clone)]
@@ -991,6 +991,88 @@ const DATASET_FIELDS: [&str; 8] = [
     "note",
 ];
 
+/// Most faults of one CSV file listed in a single error: the first in full, then the others.
+const FAULTS_LISTED: usize = 20;
+
+/// Every fault of a CSV file's rows as one error (the first's line as its place, the others
+/// listed after it), or `None` when there were none.
+fn all_faults(file: &str, faults: Vec<StoreError>) -> Option<StoreError> {
+    let mut rest = faults.into_iter();
+    let first = rest.next()?;
+    let others: Vec<String> = rest
+        .map(|f| match f {
+            StoreError::Import {
+                record, problem, ..
+            } => format!("{record}: {problem}"),
+            other => other.to_string(),
+        })
+        .collect();
+    if others.is_empty() {
+        return Some(first);
+    }
+    let (record, problem) = match first {
+        StoreError::Import {
+            record, problem, ..
+        } => (record, problem),
+        other => (String::from("line 0"), other.to_string()),
+    };
+    let mut text = format!(
+        "{problem}\n  and {} more fault{} in this file:",
+        others.len(),
+        if others.len() == 1 { "" } else { "s" }
+    );
+    for o in others.iter().take(FAULTS_LISTED) {
+        text.push_str("\n  ");
+        text.push_str(o);
+    }
+    if others.len() > FAULTS_LISTED {
+        text.push_str(&format!(
+            "\n  … {} more not listed",
+            others.len() - FAULTS_LISTED
+        ));
+    }
+    Some(import_error(file, record, text))
+}
+
+/// A row's units written as their symbols (so that two spellings of one unit agree),
+/// checked to be units at all.
+struct DatasetUnits {
+    unit: &'static str,
+    temperature_unit: &'static str,
+}
+
+impl DatasetUnits {
+    fn read(file: &str, line: u64, unit: &str, temperature_unit: &str) -> Result<Self, StoreError> {
+        // A unit known but not allowed in a dataset (per volume) is left to the seed's rules,
+        // which say why.
+        let composition = CompositionUnit::from_symbol(unit).ok_or_else(|| {
+            import_error(
+                file,
+                format!("line {line}"),
+                format!(
+                    "unknown unit \"{unit}\"; a dataset's unit is one of {}",
+                    seed::SEED_UNITS
+                        .iter()
+                        .map(|u| u.symbol())
+                        .collect::<Vec<_>>()
+                        .join(", ")
+                ),
+            )
+        })?;
+        let temperature = TemperatureUnit::from_symbol(temperature_unit).ok_or_else(|| {
+            import_error(
+                file,
+                format!("line {line}"),
+                format!("unknown temperature unit \"{temperature_unit}\"; expected C, K or F"),
+            )
+        })?;
+        Ok(DatasetUnits {
+            unit: composition.symbol(),
+            temperature_unit: temperature.symbol(),
+        })
+    }
+}
+
 /// A value given on one row must agree with the value given on earlier rows of the same
 /// solute or dataset.
 fn agree(
@@ -1079,109 +1161,132 @@ fn parse_csv(
     let mut solutes: Vec<(String, CsvSolute)> = Vec::new();
     // Where each solute is in `solutes`: one look-up per row, not a scan (linear in rows).
     let mut solute_index: HashMap<String, usize> = HashMap::new();
+    let mut faults: Vec<StoreError> = Vec::new();
     for record in reader.records() {
-        let record = record.map_err(csv_error)?;
-        let line = record.position().map_or(0, |p| p.line());
-        let get =
-            |name: &str| -> &str { column.get(name).and_then(|&i| record.get(i)).unwrap_or("") };
-        if record.iter().all(str::is_empty) {
-            continue;
-        }
-        let number = |name: &str| -> Result<Option<f64>, StoreError> {
-            let text = get(name);
-            if text.is_empty() {
-                return Ok(None);
+        let record = match record {
+            Ok(r) => r,
+            Err(e) => {
+                faults.push(csv_error(e));
+                continue;
             }
-            match text.parse::<f64>() {
-                Ok(v) if v.is_finite() => Ok(Some(v)),
-                _ => Err(import_error(
+        };
+        if let Err(fault) = (|| -> Result<(), StoreError> {
+            let line = record.position().map_or(0, |p| p.line());
+            let get = |name: &str| -> &str {
+                column.get(name).and_then(|&i| record.get(i)).unwrap_or("")
+            };
+            if record.iter().all(str::is_empty) {
+                return Ok(());
+            }
+            let number = |name: &str| -> Result<Option<f64>, StoreError> {
+                let text = get(name);
+                if text.is_empty() {
+                    return Ok(None);
+                }
+                match text.parse::<f64>() {
+                    Ok(v) if v.is_finite() => Ok(Some(v)),
+                    _ => Err(import_error(
+                        file,
+                        format!("line {line}"),
+                        format!("{name} is not a number: found \"{text}\""),
+                    )),
+                }
+            };
+            let required = |name: &str| -> Result<&str, StoreError> {
+                let v = get(name);
+                if v.is_empty() {
+                    let why = if name == "source" {
+                        "a dataset without a source is refused: every number needs a citation (add the source with `satline source add`)".to_string()
+                    } else {
+                        format!("the {name} is empty")
+                    };
+                    Err(import_error(file, format!("line {line}"), why))
+                } else {
+                    Ok(v)
+                }
+            };
+            let id = required("solute")?;
+            let phase = required("phase")?;
+            let source = required("source")?;
+            required("formula")?;
+            // Units compared by meaning, so `g/100 g water` on one row agrees with
+            // `g/100g water` on another, and a misspelt unit is named as unknown.
+            let units =
+                DatasetUnits::read(file, line, required("unit")?, required("temperature_unit")?)?;
+            if !known_sources.contains(source) {
+                return Err(import_error(
                     file,
                     format!("line {line}"),
-                    format!("{name} is not a number: found \"{text}\""),
-                )),
-            }
-        };
-        let required = |name: &str| -> Result<&str, StoreError> {
-            let v = get(name);
-            if v.is_empty() {
-                let why = if name == "source" {
-                    "a dataset without a source is refused: every number needs a citation (add the source with `satline source add`)".to_string()
-                } else {
-                    format!("the {name} is empty")
-                };
-                Err(import_error(file, format!("line {line}"), why))
-            } else {
-                Ok(v)
-            }
-        };
-        let id = required("solute")?;
-        let phase = required("phase")?;
-        let source = required("source")?;
-        required("formula")?;
-        required("unit")?;
-        required("temperature_unit")?;
-        if !known_sources.contains(source) {
-            return Err(import_error(
-                file,
-                format!("line {line}"),
-                format!(
-                    "unknown source key \"{source}\" (not in the database or the imported sources.toml); add it with `satline source add` first"
-                ),
-            ));
-        }
-        let temperature = number("temperature")?.ok_or_else(|| {
-            import_error(file, format!("line {line}"), "the temperature is empty")
-        })?;
-        let value = number("value")?
-            .ok_or_else(|| import_error(file, format!("line {line}"), "the value is empty"))?;
-        let uncertainty = number("uncertainty")?;
-
-        let index = match solute_index.get(id) {
-            Some(&i) => i,
-            None => {
-                solute_index.insert(id.to_string(), solutes.len());
-                solutes.push((
-                    id.to_string(),
-                    CsvSolute {
-                        line,
-                        fields: BTreeMap::new(),
-                        datasets: Vec::new(),
-                    },
+                    format!(
+                        "unknown source key \"{source}\" (not in the database or the imported sources.toml); add it with `satline source add` first"
+                    ),
                 ));
-                solutes.len() - 1
             }
-        };
-        let solute = &mut solutes[index].1;
-        for name in SOLUTE_FIELDS {
-            agree(file, line, &mut solute.fields, name, get(name), "solute")?;
-        }
-        let d = match solute
-            .datasets
-            .iter()
-            .position(|d| d.phase == phase && d.source == source)
-        {
-            Some(i) => i,
-            None => {
-                solute.datasets.push(CsvDataset {
-                    line,
-                    phase: phase.to_string(),
-                    source: source.to_string(),
-                    fields: BTreeMap::new(),
-                    points: Vec::new(),
-                });
-                solute.datasets.len() - 1
+            let temperature = number("temperature")?.ok_or_else(|| {
+                import_error(file, format!("line {line}"), "the temperature is empty")
+            })?;
+            let value = number("value")?
+                .ok_or_else(|| import_error(file, format!("line {line}"), "the value is empty"))?;
+            let uncertainty = number("uncertainty")?;
+
+            let index = match solute_index.get(id) {
+                Some(&i) => i,
+                None => {
+                    solute_index.insert(id.to_string(), solutes.len());
+                    solutes.push((
+                        id.to_string(),
+                        CsvSolute {
+                            line,
+                            fields: BTreeMap::new(),
+                            datasets: Vec::new(),
+                        },
+                    ));
+                    solutes.len() - 1
+                }
+            };
+            let solute = &mut solutes[index].1;
+            for name in SOLUTE_FIELDS {
+                agree(file, line, &mut solute.fields, name, get(name), "solute")?;
             }
-        };
-        let dataset = &mut solute.datasets[d];
-        for name in DATASET_FIELDS {
-            agree(file, line, &mut dataset.fields, name, get(name), "dataset")?;
+            let d = match solute
+                .datasets
+                .iter()
+                .position(|d| d.phase == phase && d.source == source)
+            {
+                Some(i) => i,
+                None => {
+                    solute.datasets.push(CsvDataset {
+                        line,
+                        phase: phase.to_string(),
+                        source: source.to_string(),
+                        fields: BTreeMap::new(),
+                        points: Vec::new(),
+                    });
+                    solute.datasets.len() - 1
+                }
+            };
+            let dataset = &mut solute.datasets[d];
+            for name in DATASET_FIELDS {
+                let value = match name {
+                    "unit" => units.unit,
+                    "temperature_unit" => units.temperature_unit,
+                    other => get(other),
+                };
+                agree(file, line, &mut dataset.fields, name, value, "dataset")?;
+            }
+            dataset.points.push(CsvPoint {
+                line,
+                temperature,
+                value,
+                uncertainty,
+            });
+            Ok(())
+        })() {
+            faults.push(fault);
         }
-        dataset.points.push(CsvPoint {
-            line,
-            temperature,
-            value,
-            uncertainty,
-        });
+    }
+    if let Some(fault) = all_faults(file, faults) {
+        return Err(fault);
     }
 
     // Each solute becomes a seed-format solute file, validated by the seed's own rules.

@@ -41,7 +41,7 @@ pub const ICE_K: f64 = 273.15;
 pub const FREEZING_TOLERANCE_K: f64 = 1.0;
 
 /// Composition units accepted in seed datasets (seed-data/README.md).
-const SEED_UNITS: [CompositionUnit; 5] = [
+pub(crate) const SEED_UNITS: [CompositionUnit; 5] = [
     CompositionUnit::GramsPer100gWater,
     CompositionUnit::MassPercent,
     CompositionUnit::MassFraction,

@@ -11,7 +11,7 @@ use rexpect::session::{PtySession, spawn_with_options};
 
 /// How long one expectation may wait. Generous for a loaded 2-core CI machine; a passing
 /// test waits only as long as the session takes to answer.
-const TIMEOUT_MS: u64 = 10_000;
+const TIMEOUT_MS: u64 = 30_000;
 
 /// Starts a session (`satline repl`, or `satline` alone when `args` is empty) with its
 /// history in `history`, and waits for the first prompt.

@@ -196,8 +196,9 @@ impl Engine {
     }
 
     /// Answers one parsed statement; `text` is the script its spans point into.
-    /// (Indexes the lines of `text` for this one statement; a caller answering many
-    /// statements of one text goes through [`Engine::prepare`], which indexes it once.)
+    /// (Counts the lines of `text` up to this one statement; a caller answering many
+    /// statements of one text goes through [`Engine::prepare`] or [`Engine::answer_each`],
+    /// whose line cursor moves on from one statement to the next.)
     pub fn run(&self, statement: &Located<Statement>, text: &str) -> Answer {
         self.run_located(statement, text, &query::LineIndex::new(text))
     }
@@ -310,7 +311,7 @@ impl Engine {
 #[derive(Debug)]
 pub struct Prepared<'t> {
     text: &'t str,
-    /// Where the lines of `text` start: every answer's line found without a rescan.
+    /// A cursor over the lines of `text`: every answer's line found without a rescan.
     lines: query::LineIndex,
     parsed: Vec<Result<Located<Statement>, query::ParseError>>,
 }

@@ -629,6 +629,10 @@ mod tests {
         let text = "ab\ncé x";
         let index = crate::query::LineIndex::new(text);
         assert_eq!(index.line_column(text, 7), (2, 4));
-        assert_eq!(index.line_column("abc", 0), (1, 1));
+        let other = "abc";
+        assert_eq!(
+            crate::query::LineIndex::new(other).line_column(other, 0),
+            (1, 1)
+        );
     }
 }

@@ -203,7 +203,7 @@ impl ParseError {
     }
 
     /// The error as data, at a (line, column) already found (e.g. by a
-    /// [`super::LineIndex`] built once for a whole script).
+    /// [`super::LineIndex`] kept for a whole script).
     pub fn report_at(&self, (line, column): (usize, usize)) -> crate::answer::ErrorReport {
         crate::answer::ErrorReport {
             class: crate::answer::ErrorClass::Parse,

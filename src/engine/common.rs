@@ -1,7 +1,7 @@
 //! Helpers every statement uses: finding a solute and its curve, converting loadings,
 //! citing the data an answer rests on, and turning science errors into messages in °C.
 
-use crate::answer::{Answer, Basis};
+use crate::answer::{Answer, AnswerKind, Basis, SourceRef};
 use crate::catalog::citation;
 use crate::engine::error::EvalError;
 use crate::engine::per_litre::{self, Volume};
@@ -126,8 +126,49 @@ pub fn cite_dataset(snap: &Snapshot, dataset: &Dataset, solute: &Solute, answer:
     );
 }
 
+/// What citing one solute's curve adds to an answer: its sources with their full
+/// citations and its caveats, in order.
+#[derive(Debug, Clone)]
+pub struct Citing {
+    /// The solute whose curve it is (a curve is cited for its own solute).
+    solute: String,
+    sources: Vec<SourceRef>,
+    caveats: Vec<String>,
+}
+
 /// Adds the sources, provenance caveats and hazard note of the datasets behind a curve.
+/// They depend only on the snapshot, so they are worked out (citations formatted,
+/// corroboration looked up) the first time a curve is cited and added as they were after;
+/// each is added once, as if it were worked out again.
 pub fn cite_curve(snap: &Snapshot, built: &BuiltCurve, solute: &Solute, answer: &mut Answer) {
+    let citing = built.citing.get_or_init(|| {
+        let mut fresh = Answer::new("", AnswerKind::Lookup);
+        cite_curve_afresh(snap, built, solute, &mut fresh);
+        Citing {
+            solute: solute.id.clone(),
+            sources: fresh.sources,
+            caveats: fresh.caveats,
+        }
+    });
+    if citing.solute != solute.id {
+        // Not reached (each curve is its own solute's), but never another solute's caveats.
+        cite_curve_afresh(snap, built, solute, answer);
+        return;
+    }
+    for source in &citing.sources {
+        if !answer.sources.iter().any(|s| s.key == source.key) {
+            answer.sources.push(source.clone());
+        }
+    }
+    for caveat in &citing.caveats {
+        if !answer.caveats.contains(caveat) {
+            answer.caveats.push(caveat.clone());
+        }
+    }
+}
+
+/// [`cite_curve`] worked out from the catalog.
+fn cite_curve_afresh(snap: &Snapshot, built: &BuiltCurve, solute: &Solute, answer: &mut Answer) {
     let datasets = snap.catalog.datasets();
     for &i in &built.datasets {
         let dataset = &datasets[i];
@@ -329,5 +370,41 @@ pub fn phase_caveat(phase: &str, answer: &mut Answer) {
         answer.caveat(format!(
             "the solid in equilibrium is the hydrate {phase}; values are per anhydrous solute"
         ));
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::engine::Engine;
+
+    /// Citing a curve from what was worked out at its first citation adds exactly what
+    /// working it out again adds, to an empty answer and to one already citing others.
+    #[test]
+    fn a_curve_cited_again_adds_what_it_added_worked_out_afresh() {
+        let engine = Engine::open_embedded().unwrap();
+        let snap = &engine.snapshot;
+        let mut cited = 0;
+        for (index, solute) in snap.catalog.solutes().iter().enumerate() {
+            for reviewed_only in [false, true] {
+                let Some(built) = snap.curve_at(index, reviewed_only) else {
+                    continue;
+                };
+                let mut earlier = Answer::new("", AnswerKind::Lookup);
+                earlier.cite("other", "Another source.");
+                earlier.caveat("an earlier caveat");
+                for start in [Answer::new("", AnswerKind::Lookup), earlier] {
+                    let (mut afresh, mut first, mut again) = (start.clone(), start.clone(), start);
+                    cite_curve_afresh(snap, built, solute, &mut afresh);
+                    cite_curve(snap, built, solute, &mut first);
+                    cite_curve(snap, built, solute, &mut again);
+                    cite_curve(snap, built, solute, &mut again);
+                    assert_eq!(first, afresh, "{}", solute.id);
+                    assert_eq!(again, afresh, "{}", solute.id);
+                }
+                cited += 1;
+            }
+        }
+        assert!(cited > 10, "only {cited} curves cited");
     }
 }

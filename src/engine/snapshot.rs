@@ -3,8 +3,10 @@
 //! rebuild an interpolant.
 
 use std::collections::HashMap;
+use std::sync::OnceLock;
 
 use crate::catalog::Catalog;
+use crate::engine::common::Citing;
 use crate::model::{Dataset, Provenance, Review};
 use crate::science::activity::{ParameterSet, System};
 use crate::science::curve::{Branch, Curve};
@@ -14,6 +16,9 @@ use crate::science::curve::{Branch, Curve};
 pub struct BuiltCurve {
     pub curve: Curve,
     pub datasets: Vec<usize>,
+    /// What citing the curve adds to an answer, made the first time it is cited (see
+    /// `common::cite_curve`): the same for every statement, so it is formatted once.
+    pub(super) citing: OnceLock<Citing>,
 }
 
 /// The curves of one solute.
@@ -97,6 +102,7 @@ fn build(catalog: &Catalog, indices: &[usize]) -> Option<BuiltCurve> {
     Some(BuiltCurve {
         curve,
         datasets: used,
+        citing: OnceLock::new(),
     })
 }
 

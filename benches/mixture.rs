@@ -1,7 +1,8 @@
 //! Speed of Pitzer's model for mixtures: the activity coefficients of a 6-ion mixture (twice
 //! seawater's major ions, Harvie, Møller & Weare 1984), and the saturation indices of all 8
 //! solids of those ions (halite, sylvite, bischofite, antarcticite, mirabilite,
-//! arcanite, epsomite, gypsum) at 100 temperatures (the coefficients rebuilt at each). The
+//! arcanite, epsomite, gypsum) at 100 temperatures (the coefficients evaluated again at
+//! each, into buffers reused from one temperature to the next, as a range scan does). The
 //! targets: under 2 µs and under 1 ms. When `SATLINE_PEER_PYTHON` names a Python with
 //! pytzer, the same work is timed with `benches/peer/mixture_activity.py` in the same run and
 //! the ratios printed (target: satline at least 20× faster). Run with
@@ -12,8 +13,8 @@ use std::process::Command;
 use std::time::Instant;
 
 use criterion::{Criterion, criterion_group};
-use satline::science::activity::System;
 use satline::science::activity::saturation::Solid;
+use satline::science::activity::{Activity, Coefficients, System};
 use satline::store::models::mixture_systems;
 
 /// Twice the major ions of standard seawater at salinity 35, mol/kg (the fixture's
@@ -57,17 +58,22 @@ fn setup() -> (System, Vec<f64>, Vec<Solid>) {
 }
 
 /// Saturation indices (ln IAP; ln K is a constant offset) of every solid at 100
-/// temperatures.
-fn saturation_indices(system: &System, m: &[f64], solids: &[Solid]) -> f64 {
+/// temperatures, into the buffers `c` and `a`.
+fn saturation_indices(
+    system: &System,
+    m: &[f64],
+    solids: &[Solid],
+    c: &mut Coefficients,
+    a: &mut Activity,
+) -> f64 {
     let mut sum = 0.0;
-    for k in 0..100 {
-        // HMW84 holds at 25 °C only: the same temperature 100 times, the coefficients
-        // rebuilt each time as a range scan does.
-        let _ = k;
-        let c = system.at_unchecked(298.15);
-        let a = c.activity_unchecked(m);
+    for _ in 0..100 {
+        // HMW84 holds at 25 °C only: the same temperature 100 times, every parameter's
+        // temperature function evaluated again each time, as a range scan does.
+        system.evaluate_into(black_box(298.15), c);
+        c.activity_into(m, a);
         for s in solids {
-            sum += s.ln_ion_activity_product(m, &a);
+            sum += s.ln_ion_activity_product(m, a);
         }
     }
     sum
@@ -76,11 +82,24 @@ fn saturation_indices(system: &System, m: &[f64], solids: &[Solid]) -> f64 {
 fn benches(c: &mut Criterion) {
     let (system, m, solids) = setup();
     let coefficients = system.at_unchecked(298.15);
+    let mut activity = Activity::new(m.len());
     c.bench_function("activity of a 6-ion mixture", |b| {
-        b.iter(|| black_box(coefficients.activity_unchecked(black_box(&m))))
+        b.iter(|| {
+            coefficients.activity_into(black_box(&m), &mut activity);
+            black_box(activity.osmotic)
+        })
     });
+    let mut scratch = Coefficients::default();
     c.bench_function("saturation indices of 8 solids at 100 temperatures", |b| {
-        b.iter(|| black_box(saturation_indices(&system, black_box(&m), &solids)))
+        b.iter(|| {
+            black_box(saturation_indices(
+                &system,
+                black_box(&m),
+                &solids,
+                &mut scratch,
+                &mut activity,
+            ))
+        })
     });
 }
 
@@ -100,11 +119,20 @@ fn main() {
     Criterion::default().configure_from_args().final_summary();
     let (system, m, solids) = setup();
     let coefficients = system.at_unchecked(298.15);
+    let mut out = Activity::new(m.len());
     let activity = time_us(100_000, || {
-        black_box(coefficients.activity_unchecked(black_box(&m)));
+        coefficients.activity_into(black_box(&m), &mut out);
+        black_box(out.osmotic);
     });
+    let mut scratch = Coefficients::default();
     let saturation = time_us(1_000, || {
-        black_box(saturation_indices(&system, black_box(&m), &solids));
+        black_box(saturation_indices(
+            &system,
+            black_box(&m),
+            &solids,
+            &mut scratch,
+            &mut out,
+        ));
     });
     println!(
         "satline: activity {activity:.3} µs (target < 2), saturation indices {saturation:.1} µs (target < 1000)"

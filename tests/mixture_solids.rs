@@ -111,16 +111,47 @@ fn invariant_point(e: &Engine) -> (f64, f64) {
     (nacl, kcl)
 }
 
+/// pytzer's prediction from the same data (`tests/reference/mixture_solubility_pytzer.json`,
+/// written by `fixtures_mixture_solubility.py`): the solubility products from the
+/// reference's 25 °C solubilities, the same Greenberg & Møller (1989) parameters, pytzer's
+/// own equations and solver.
+const SOLUBILITY_FIXTURE: &str = include_str!("reference/mixture_solubility_pytzer.json");
+
+fn fixture_rows() -> Vec<serde_json::Value> {
+    let f: serde_json::Value = serde_json::from_str(SOLUBILITY_FIXTURE).unwrap();
+    f["rows"].as_array().unwrap().clone()
+}
+
+/// The invariant point against pytzer (within 0.2 %: same data, an independent
+/// implementation and solver), and against the literature.
+///
 /// Literature point, from memory: at 25 °C the solution saturated with both NaCl and KCl
 /// holds about 20.4 % NaCl and 11.1 % KCl by mass (Linke & Seidell, *Solubilities of
 /// Inorganic and Metal-Organic Compounds*, 4th ed., vol. II, the NaCl–KCl–H2O system;
-/// figures as recalled, not checked against the printed table). The issue's bar is 3 % in
-/// composition; the point is from memory, so this test holds the model to 5 % and prints the
-/// differences for the report.
+/// figures as recalled, not checked against the printed table). The model gives 20.74 % and
+/// 10.62 % (+1.7 %, −4.3 %): outside the issue's 3 % in KCl. Nothing in the code explains
+/// it (pytzer gives the same point from the same data, and the unit conversions agree); the
+/// sylvite product from the reference's 26.22 %w/w (4.767 mol/kg; CRC, from memory) is
+/// within 0.01 in ln K of the one Harvie, Møller & Weare's (1984) standard chemical
+/// potentials imply (as recalled), and with those the point moves only to 20.5 %, 10.8 %.
+/// The rest lies between the recalled figure and the model; not met until the printed
+/// table is read. This test holds the model to 5 % and prints the differences.
 #[test]
 fn the_nacl_kcl_invariant_point_at_25_c() {
     let e = engine();
     let (nacl, kcl) = invariant_point(&e);
+    let peer = fixture_rows()
+        .into_iter()
+        .find(|r| r["salt"] == "NaCl+KCl")
+        .expect("the invariant point in the fixture");
+    let (p_nacl, p_kcl) = (
+        peer["invariant_nacl_mol_kg"].as_f64().unwrap(),
+        peer["invariant_kcl_mol_kg"].as_f64().unwrap(),
+    );
+    assert!(
+        (nacl / p_nacl - 1.0).abs() < 2e-3 && (kcl / p_kcl - 1.0).abs() < 2e-3,
+        "satline {nacl:.4}, {kcl:.4} mol/kg; pytzer {p_nacl:.4}, {p_kcl:.4}"
+    );
     let (g_nacl, g_kcl) = (nacl * M_NACL / 1000.0, kcl * M_KCL / 1000.0);
     let total = 1.0 + g_nacl + g_kcl;
     let (w_nacl, w_kcl) = (100.0 * g_nacl / total, 100.0 * g_kcl / total);
@@ -144,6 +175,51 @@ fn the_nacl_kcl_invariant_point_at_25_c() {
         let headroom = row.headroom_pct.unwrap();
         assert!(headroom.abs() < 0.2, "{row:?}");
     }
+}
+
+/// The solubility of NaCl in MgCl2 and in CaCl2 brines at 25 °C (Harvie, Møller & Weare
+/// 1984), each brine a recipe with a trace of NaCl: against pytzer's prediction from the
+/// same data within 0.3 % (`mixture_solubility_pytzer.json`), and, common practice, less
+/// soluble the stronger the brine (the common chloride). No printed table of these systems
+/// was at hand: the literature check of the issue is not made here.
+#[test]
+fn nacl_in_magnesium_and_calcium_chloride_brines_at_25_c() {
+    let e = engine();
+    let mut checked = 0;
+    let mut worst = 0.0_f64;
+    let mut last: std::collections::BTreeMap<String, f64> = Default::default();
+    for row in fixture_rows().iter().filter(|r| r["salt"] == "NaCl") {
+        let brine = row["brine"].as_str().unwrap();
+        let mb = row["brine_molality"].as_f64().unwrap();
+        let expected = row["solubility_mol_kg"].as_f64().unwrap();
+        let a = answer(
+            &e,
+            &format!(
+                "require recipe 1e-6 mol/kg NaCl, {mb} mol/kg {brine} stays dissolved at 25 C"
+            ),
+        );
+        assert!(
+            a.caveats
+                .iter()
+                .any(|c| c.contains("Harvie, Moller & Weare (1984)")),
+            "{brine} {mb}: {:?}",
+            a.caveats
+        );
+        let got = solubility(&a, "sodium chloride") * 10.0 / M_NACL;
+        assert!(
+            (got / expected - 1.0).abs() < 3e-3,
+            "NaCl in {mb} mol/kg {brine}: {got:.4} mol/kg, pytzer {expected:.4}"
+        );
+        worst = worst.max((got / expected - 1.0).abs());
+        let before = last.insert(brine.to_string(), got).unwrap_or(f64::INFINITY);
+        assert!(got < before, "{brine} {mb}: {got} not below {before}");
+        checked += 1;
+    }
+    println!(
+        "NaCl in MgCl2 and CaCl2 brines at 25 C: worst difference from pytzer {:.3} %",
+        worst * 100.0
+    );
+    assert_eq!(checked, 10, "five brines of each salt");
 }
 
 /// Below the system's range the recipe falls back to each solute on its own and says why;
@@ -224,9 +300,17 @@ fn recipe_ice_lines_match_the_brine_freezing_curves() {
             row["mass_fraction"].as_f64().unwrap(),
         );
         // The MgCl2 bar is 1.1 K, not the issue's 0.5 K: the Spencer, Møller & Weare set
-        // (with the Clegg, Rard & Pitzer A_φ) freezes 12–16 % brines up to 1.0 K warmer than
-        // the brine curve (and than the reference's own tabulated ice line); not met, said
-        // in the report.
+        // freezes 12–16 % brines up to 1.0 K warmer than the brine curve (the reference's
+        // own MgCl2 ice line is that same curve, Melinder 2010 through CoolProp, so it
+        // corroborates nothing). Not from this code: pytzer with the same set gives the same
+        // +1.01 K at 14–15 %; Møller's (1988) A_φ (the one the paper used, extrapolated
+        // below 0 °C) instead of Clegg, Rard & Pitzer's changes it by 0.01 K; the ice
+        // equilibrium here is within 3.5e-4 in ln a_w of IAPWS-06 ice against IAPWS-95
+        // water at −15 °C (0.03 K); the transcribed coefficients are pytzer's
+        // `bC_Mg_Cl_SMW90` figure for figure. The brine curve itself is a polynomial that
+        // is not cryoscopic when dilute (1 % freezes at −0.66 °C, where 0.106 mol/kg with
+        // φ ≈ 0.86 gives −0.51 °C). Which fit is nearer the measurements needs a printed
+        // table of MgCl2 freezing points, not at hand: not met, said in the report.
         let (extra, w_max, bar) = match solute {
             "MgCl2" => ("", 0.20, 1.1),
             "NaCl" => (" extrapolate", 0.20, 0.5),

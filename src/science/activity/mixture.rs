@@ -100,6 +100,28 @@ pub struct System {
     pairs: Vec<Pair>,
     thetas: Vec<(usize, usize, TemperatureForm)>,
     psis: Vec<(usize, usize, usize, TemperatureForm)>,
+    /// Index tables made once by [`System::build`]: every pair of like-signed ions with a θ
+    /// or unequal charges (`theta` the index into `thetas` that holds for it, the last one
+    /// named), and every ψ once (`psi` the index into `psis`).
+    likes: Vec<LikeIndex>,
+    triplets: Vec<TripletIndex>,
+}
+
+/// Two ions of one sign whose mixing terms are not zero.
+#[derive(Debug, Clone, Copy)]
+struct LikeIndex {
+    i: usize,
+    j: usize,
+    theta: Option<usize>,
+}
+
+/// Two ions of one sign (`i < j`) and one of the other, with their ψ.
+#[derive(Debug, Clone, Copy)]
+struct TripletIndex {
+    i: usize,
+    j: usize,
+    k: usize,
+    psi: usize,
 }
 
 impl System {
@@ -123,6 +145,8 @@ impl System {
             pairs: Vec::new(),
             thetas: Vec::new(),
             psis: Vec::new(),
+            likes: Vec::new(),
+            triplets: Vec::new(),
         };
         if !(spec.ionic_strength_max.is_finite() && spec.ionic_strength_max > 0.0) {
             return Err("ionic_strength_max must be positive".into());
@@ -213,7 +237,42 @@ impl System {
         if system.t_min_k > system.t_max_k {
             return Err("its sets share no temperature".into());
         }
+        system.index_tables();
         Ok(system)
+    }
+
+    /// Fills [`System::likes`] and [`System::triplets`]: a parameter named twice counts
+    /// once (the last one named holds, as a table written in order would keep it).
+    fn index_tables(&mut self) {
+        let n = self.ions.len();
+        let sign = |i: usize| self.ions[i].1.signum();
+        let charge = |i: usize| self.ions[i].1;
+        let mut likes = Vec::new();
+        let mut triplets = Vec::new();
+        for i in 0..n {
+            for j in (i + 1)..n {
+                if sign(i) == 0 || sign(i) != sign(j) {
+                    continue;
+                }
+                let theta = self
+                    .thetas
+                    .iter()
+                    .rposition(|(a, b, _)| (*a, *b) == (i, j) || (*a, *b) == (j, i));
+                if theta.is_some() || charge(i) != charge(j) {
+                    likes.push(LikeIndex { i, j, theta });
+                }
+                for k in (0..n).filter(|&k| sign(k) != 0 && sign(k) != sign(i)) {
+                    let psi = self.psis.iter().rposition(|(a, b, c, _)| {
+                        *c == k && ((*a, *b) == (i, j) || (*a, *b) == (j, i))
+                    });
+                    if let Some(psi) = psi {
+                        triplets.push(TripletIndex { i, j, k, psi });
+                    }
+                }
+            }
+        }
+        self.likes = likes;
+        self.triplets = triplets;
     }
 
     /// The index of ion `symbol`, added if new.
@@ -263,45 +322,62 @@ impl System {
 
     /// [`System::at`] with no range check.
     pub fn at_unchecked(&self, t_k: f64) -> Coefficients {
-        let n = self.ions.len();
-        let mut c = Coefficients {
-            n,
-            z: self.ions.iter().map(|(_, z)| f64::from(*z)).collect(),
-            a_phi: a_phi(t_k),
-            ionic_strength_max: self.ionic_strength_max,
-            pair: vec![None; n * n],
-            theta: vec![0.0; n * n],
-            psi: vec![0.0; n * n * n],
-        };
-        for p in &self.pairs {
+        let mut c = Coefficients::default();
+        self.evaluate_into(t_k, &mut c);
+        c
+    }
+
+    /// The parameters at `t_k` written into `c` (its buffers reused, so a scan over
+    /// temperatures allocates nothing after the first): every temperature function is
+    /// evaluated here, once per temperature. No range check.
+    pub fn evaluate_into(&self, t_k: f64, c: &mut Coefficients) {
+        c.z.clear();
+        c.z.extend(self.ions.iter().map(|(_, z)| f64::from(*z)));
+        c.a_phi = a_phi(t_k);
+        c.ionic_strength_max = self.ionic_strength_max;
+        c.pairs.clear();
+        c.pairs.extend(self.pairs.iter().map(|p| {
             let s = &p.set;
             let zz = f64::from(s.cation_charge * s.anion_charge);
-            c.pair[p.cation * n + p.anion] = Some(PairAt {
+            PairAt {
+                cation: p.cation,
+                anion: p.anion,
                 beta0: s.beta0.at(t_k),
                 beta1: s.beta1.at(t_k),
                 beta2: s.beta2.at(t_k),
                 c: s.c_phi.at(t_k) / (2.0 * zz.sqrt()),
                 alpha1: s.alpha1,
                 alpha2: s.alpha2,
-            });
-        }
-        for (i, j, v) in &self.thetas {
-            let v = v.at(t_k);
-            c.theta[i * n + j] = v;
-            c.theta[j * n + i] = v;
-        }
-        for (i, j, k, v) in &self.psis {
-            let v = v.at(t_k);
-            c.psi[(i * n + j) * n + k] = v;
-            c.psi[(j * n + i) * n + k] = v;
-        }
-        c
+            }
+        }));
+        c.likes.clear();
+        c.likes.extend(self.likes.iter().map(|l| {
+            let (zi, zj) = (
+                self.ions[l.i].1.unsigned_abs(),
+                self.ions[l.j].1.unsigned_abs(),
+            );
+            LikeAt {
+                i: l.i,
+                j: l.j,
+                theta: l.theta.map_or(0.0, |k| self.thetas[k].2.at(t_k)),
+                charges: (zi != zj).then_some((zi, zj)),
+            }
+        }));
+        c.triplets.clear();
+        c.triplets.extend(self.triplets.iter().map(|t| TripletAt {
+            i: t.i,
+            j: t.j,
+            k: t.k,
+            psi: self.psis[t.psi].3.at(t_k),
+        }));
     }
 }
 
 /// One cation–anion pair's parameters at one temperature.
 #[derive(Debug, Clone, Copy, PartialEq)]
 struct PairAt {
+    cation: usize,
+    anion: usize,
     beta0: f64,
     beta1: f64,
     beta2: f64,
@@ -311,20 +387,40 @@ struct PairAt {
     alpha2: f64,
 }
 
-/// A system's parameters at one temperature, by ion index: ready to evaluate many
-/// compositions.
-#[derive(Debug, Clone)]
+/// Two ions of one sign at one temperature: θ, and their charges when unequal (then the
+/// unsymmetrical terms Eθ, Eθ' apply).
+#[derive(Debug, Clone, Copy, PartialEq)]
+struct LikeAt {
+    i: usize,
+    j: usize,
+    theta: f64,
+    charges: Option<(u32, u32)>,
+}
+
+/// ψ of two ions of one sign (`i`, `j`) and one of the other (`k`) at one temperature.
+#[derive(Debug, Clone, Copy, PartialEq)]
+struct TripletAt {
+    i: usize,
+    j: usize,
+    k: usize,
+    psi: f64,
+}
+
+/// The largest product of two like charges whose J(x) is kept per composition (charges up
+/// to 4); beyond it Eθ is evaluated pair by pair.
+const MAX_CHARGE_PRODUCT: usize = 16;
+
+/// A system's parameters at one temperature, as lists of the terms that are not zero (each
+/// pair, each like-signed pair, each ψ once): ready to evaluate many compositions, with no
+/// allocation per composition ([`Coefficients::activity_into`]).
+#[derive(Debug, Clone, Default)]
 pub struct Coefficients {
-    n: usize,
     z: Vec<f64>,
     a_phi: f64,
     ionic_strength_max: f64,
-    /// `[cation * n + anion]`.
-    pair: Vec<Option<PairAt>>,
-    /// `[i * n + j]`, symmetric.
-    theta: Vec<f64>,
-    /// `[(i * n + j) * n + k]` for i, j of one sign and k of the other; symmetric in i, j.
-    psi: Vec<f64>,
+    pairs: Vec<PairAt>,
+    likes: Vec<LikeAt>,
+    triplets: Vec<TripletAt>,
 }
 
 /// What the model gives for one composition.
@@ -341,20 +437,31 @@ pub struct Activity {
 }
 
 impl Activity {
+    /// An activity of `n` ions to be filled by [`Coefficients::activity_into`] (pure water
+    /// until then).
+    pub fn new(n: usize) -> Activity {
+        Activity {
+            ln_gamma: vec![0.0; n],
+            osmotic: 1.0,
+            ln_water: 0.0,
+            ionic_strength: 0.0,
+        }
+    }
+
     /// The water activity a_w.
     pub fn water_activity(&self) -> f64 {
         self.ln_water.exp()
     }
 }
 
-/// g(x) = 2[1 − (1 + x)e^{−x}]/x².
-fn g(x: f64) -> f64 {
-    2.0 * (1.0 - (1.0 + x) * (-x).exp()) / (x * x)
+/// g(x) = 2[1 − (1 + x)e^{−x}]/x², with `e` = e^{−x}.
+fn g_with(x: f64, e: f64) -> f64 {
+    2.0 * (1.0 - (1.0 + x) * e) / (x * x)
 }
 
-/// g'(x) = −2[1 − (1 + x + x²/2)e^{−x}]/x².
-fn g_prime(x: f64) -> f64 {
-    -2.0 * (1.0 - (1.0 + x + 0.5 * x * x) * (-x).exp()) / (x * x)
+/// g'(x) = −2[1 − (1 + x + x²/2)e^{−x}]/x², with `e` = e^{−x}.
+fn g_prime_with(x: f64, e: f64) -> f64 {
+    -2.0 * (1.0 - (1.0 + x + 0.5 * x * x) * e) / (x * x)
 }
 
 /// Chebyshev coefficients of Harvie's method for J(x), highest order first: Pitzer (1991)
@@ -416,14 +523,13 @@ pub fn harvie_j(x: f64) -> (f64, f64) {
     if x <= 0.0 || !x.is_finite() {
         return (0.0, 0.0);
     }
+    // One power per call: dz/dx from it (x^{-0.8} = x^{0.2}/x, x^{-1.1} = x^{-0.1}/x).
     let (ak, z, dz) = if x < 1.0 {
-        (&HARVIE_I, 4.0 * x.powf(0.2) - 2.0, 0.8 * x.powf(-0.8))
+        let p = x.powf(0.2);
+        (&HARVIE_I, 4.0 * p - 2.0, 0.8 * p / x)
     } else {
-        (
-            &HARVIE_II,
-            40.0 / 9.0 * x.powf(-0.1) - 22.0 / 9.0,
-            -4.0 / 9.0 * x.powf(-1.1),
-        )
+        let p = x.powf(-0.1);
+        (&HARVIE_II, 40.0 / 9.0 * p - 22.0 / 9.0, -4.0 / 9.0 * p / x)
     };
     let (mut b0, mut b1, mut b2) = (0.0, 0.0, 0.0);
     let (mut d0, mut d1, mut d2) = (0.0, 0.0, 0.0);
@@ -448,10 +554,21 @@ pub fn e_theta(zi: f64, zj: f64, ionic: f64, a_phi: f64) -> (f64, f64) {
         return (0.0, 0.0);
     }
     let s = 6.0 * a_phi * ionic.sqrt();
+    e_theta_with(zi, zj, ionic, s, |zz| harvie_j(s * zz))
+}
+
+/// Eθ and Eθ' from J and J' at x = s·z_a z_b, given by `j` for the product z_a z_b.
+fn e_theta_with(
+    zi: f64,
+    zj: f64,
+    ionic: f64,
+    s: f64,
+    mut j: impl FnMut(f64) -> (f64, f64),
+) -> (f64, f64) {
     let (xij, xii, xjj) = (s * zi * zj, s * zi * zi, s * zj * zj);
-    let (jij, dij) = harvie_j(xij);
-    let (jii, dii) = harvie_j(xii);
-    let (jjj, djj) = harvie_j(xjj);
+    let (jij, dij) = j(zi * zj);
+    let (jii, dii) = j(zi * zi);
+    let (jjj, djj) = j(zj * zj);
     let e = zi * zj / (4.0 * ionic) * (jij - 0.5 * jii - 0.5 * jjj);
     let e_prime = -e / ionic
         + zi * zj / (8.0 * ionic * ionic) * (xij * dij - 0.5 * xii * dii - 0.5 * xjj * djj);
@@ -461,12 +578,12 @@ pub fn e_theta(zi: f64, zj: f64, ionic: f64, a_phi: f64) -> (f64, f64) {
 impl Coefficients {
     /// The number of ions.
     pub fn len(&self) -> usize {
-        self.n
+        self.z.len()
     }
 
     /// True for a system of no ions.
     pub fn is_empty(&self) -> bool {
-        self.n == 0
+        self.z.is_empty()
     }
 
     /// The activity of a composition: `molalities` of every ion of the system (mol/kg, in
@@ -474,11 +591,22 @@ impl Coefficients {
     /// non-finite molality, a solution that is not electrically neutral (within 1e-6 of its
     /// charge), or an ionic strength above the system's.
     pub fn activity(&self, molalities: &[f64]) -> Result<Activity, ScienceError> {
-        if molalities.len() != self.n {
+        let mut out = Activity::new(self.len());
+        self.checked_activity_into(molalities, &mut out)?;
+        Ok(out)
+    }
+
+    /// [`Coefficients::activity`] into `out` (its buffer reused).
+    pub fn checked_activity_into(
+        &self,
+        molalities: &[f64],
+        out: &mut Activity,
+    ) -> Result<(), ScienceError> {
+        if molalities.len() != self.len() {
             return Err(ScienceError::OutsideModel(format!(
                 "{} molalities given for a system of {} ions",
                 molalities.len(),
-                self.n
+                self.len()
             )));
         }
         if let Some(m) = molalities.iter().find(|m| !(m.is_finite() && **m >= 0.0)) {
@@ -499,130 +627,114 @@ impl Coefficients {
                 "the ions are not electrically neutral (net charge {charge:.3e} mol/kg)"
             )));
         }
-        let a = self.activity_unchecked(molalities);
-        if a.ionic_strength > self.ionic_strength_max {
+        self.activity_into(molalities, out);
+        if out.ionic_strength > self.ionic_strength_max {
             return Err(ScienceError::OutsideModel(format!(
                 "ionic strength {:.2} mol/kg is beyond the {:.1} mol/kg the parameter system is answered to",
-                a.ionic_strength, self.ionic_strength_max
+                out.ionic_strength, self.ionic_strength_max
             )));
         }
-        Ok(a)
+        Ok(())
     }
 
     /// [`Coefficients::activity`] with no checks (the caller keeps to the model's range).
     pub fn activity_unchecked(&self, m: &[f64]) -> Activity {
-        let n = self.n;
+        let mut out = Activity::new(self.len());
+        self.activity_into(m, &mut out);
+        out
+    }
+
+    /// [`Coefficients::activity_unchecked`] into `out`, allocating nothing (`out` sized to
+    /// the system's ions once). One pass over each list of terms: every pair's B, B', B^φ
+    /// and C feed F, the osmotic sum and the ln γ of both its ions; every like-signed pair's
+    /// Φ, Φ', Φ^φ likewise; every ψ its three ions; J(x) once per product of like charges.
+    pub fn activity_into(&self, m: &[f64], out: &mut Activity) {
+        let n = self.len();
         let z = &self.z;
-        let ionic: f64 = 0.5 * m.iter().zip(z).map(|(m, z)| m * z * z).sum::<f64>();
-        let total: f64 = m.iter().sum();
-        if ionic <= 0.0 {
-            return Activity {
-                ln_gamma: vec![0.0; n],
-                osmotic: 1.0,
-                ln_water: 0.0,
-                ionic_strength: 0.0,
-            };
+        out.ln_gamma.clear();
+        out.ln_gamma.resize(n, 0.0);
+        let mut ionic = 0.0;
+        let mut total = 0.0;
+        let mut big_z = 0.0;
+        for (m, z) in m.iter().zip(z) {
+            ionic += m * z * z;
+            total += m;
+            big_z += m * z.abs();
         }
-        let big_z: f64 = m.iter().zip(z).map(|(m, z)| m * z.abs()).sum();
+        ionic *= 0.5;
+        if ionic <= 0.0 {
+            out.osmotic = 1.0;
+            out.ln_water = 0.0;
+            out.ionic_strength = 0.0;
+            return;
+        }
+        let lg = &mut out.ln_gamma;
         let root = ionic.sqrt();
         let a_phi = self.a_phi;
-        let f_gamma = -a_phi * (root / (1.0 + B * root) + 2.0 / B * (1.0 + B * root).ln());
-        // Pair terms at this ionic strength: B, B', B^φ, C by [c * n + a].
-        let mut b = vec![0.0; n * n];
-        let mut b_prime = vec![0.0; n * n];
-        let mut b_phi = vec![0.0; n * n];
-        let mut cc = vec![0.0; n * n];
-        for (idx, p) in self.pair.iter().enumerate() {
-            let Some(p) = p else { continue };
-            let (x1, x2) = (p.alpha1 * root, p.alpha2 * root);
-            let (mut bv, mut bp, mut bf) = (p.beta0 + p.beta1 * g(x1), p.beta1 * g_prime(x1), {
-                p.beta0 + p.beta1 * (-x1).exp()
-            });
-            if p.beta2 != 0.0 && x2 > 0.0 {
-                bv += p.beta2 * g(x2);
-                bp += p.beta2 * g_prime(x2);
-                bf += p.beta2 * (-x2).exp();
-            }
-            b[idx] = bv;
-            b_prime[idx] = bp / ionic;
-            b_phi[idx] = bf;
-            cc[idx] = p.c;
-        }
-        // Mixing of like-signed ions: Φ, Φ', Φ^φ by [i * n + j].
-        let mut phi_mix = vec![0.0; n * n];
-        let mut phi_mix_prime = vec![0.0; n * n];
-        let mut phi_mix_phi = vec![0.0; n * n];
-        for i in 0..n {
-            for j in 0..n {
-                if i == j || z[i].signum() != z[j].signum() {
-                    continue;
-                }
-                let (e, ep) = e_theta(z[i].abs(), z[j].abs(), ionic, a_phi);
-                let t = self.theta[i * n + j];
-                phi_mix[i * n + j] = t + e;
-                phi_mix_prime[i * n + j] = ep;
-                phi_mix_phi[i * n + j] = t + e + ionic * ep;
-            }
-        }
-        // F and the sums shared by every ion.
-        let mut f = f_gamma;
+        let mut f = -a_phi * (root / (1.0 + B * root) + 2.0 / B * (1.0 + B * root).ln());
         let mut sum_mc_ma_c = 0.0;
         let mut osm = -a_phi * ionic * root / (1.0 + B * root);
-        for c in (0..n).filter(|&c| z[c] > 0.0) {
-            for a in (0..n).filter(|&a| z[a] < 0.0) {
-                let mm = m[c] * m[a];
-                let idx = c * n + a;
-                f += mm * b_prime[idx];
-                sum_mc_ma_c += mm * cc[idx];
-                osm += mm * (b_phi[idx] + big_z * cc[idx]);
+        for p in &self.pairs {
+            let (mc, ma) = (m[p.cation], m[p.anion]);
+            let (x1, x2) = (p.alpha1 * root, p.alpha2 * root);
+            let e1 = (-x1).exp();
+            let mut bv = p.beta0 + p.beta1 * g_with(x1, e1);
+            let mut bp = p.beta1 * g_prime_with(x1, e1);
+            let mut bf = p.beta0 + p.beta1 * e1;
+            if p.beta2 != 0.0 && x2 > 0.0 {
+                let e2 = (-x2).exp();
+                bv += p.beta2 * g_with(x2, e2);
+                bp += p.beta2 * g_prime_with(x2, e2);
+                bf += p.beta2 * e2;
             }
+            let mm = mc * ma;
+            f += mm * bp / ionic;
+            sum_mc_ma_c += mm * p.c;
+            osm += mm * (bf + big_z * p.c);
+            let counter = 2.0 * bv + big_z * p.c;
+            lg[p.cation] += ma * counter;
+            lg[p.anion] += mc * counter;
         }
-        for i in 0..n {
-            for j in (i + 1)..n {
-                if z[i].signum() != z[j].signum() {
-                    continue;
-                }
-                let mm = m[i] * m[j];
-                f += mm * phi_mix_prime[i * n + j];
-                let mut term = phi_mix_phi[i * n + j];
-                for k in (0..n).filter(|&k| z[k].signum() != z[i].signum()) {
-                    term += m[k] * self.psi[(i * n + j) * n + k];
-                }
-                osm += mm * term;
+        // J(x) and J'(x) at x = s·z_i z_j, kept by the product of charges.
+        let s = 6.0 * a_phi * root;
+        let mut j_cache = [(f64::NAN, 0.0); MAX_CHARGE_PRODUCT + 1];
+        let mut j_of = |zz: f64| {
+            let k = zz as usize;
+            if k > MAX_CHARGE_PRODUCT {
+                return harvie_j(s * zz);
             }
+            if j_cache[k].0.is_nan() {
+                j_cache[k] = harvie_j(s * zz);
+            }
+            j_cache[k]
+        };
+        for l in &self.likes {
+            let (e, ep) = match l.charges {
+                Some((zi, zj)) => e_theta_with(f64::from(zi), f64::from(zj), ionic, s, &mut j_of),
+                None => (0.0, 0.0),
+            };
+            let (mi, mj) = (m[l.i], m[l.j]);
+            let phi = l.theta + e;
+            let mm = mi * mj;
+            f += mm * ep;
+            osm += mm * (phi + ionic * ep);
+            lg[l.i] += 2.0 * mj * phi;
+            lg[l.j] += 2.0 * mi * phi;
+        }
+        for t in &self.triplets {
+            let (mi, mj, mk) = (m[t.i], m[t.j], m[t.k]);
+            osm += mi * mj * mk * t.psi;
+            lg[t.i] += mj * mk * t.psi;
+            lg[t.j] += mi * mk * t.psi;
+            lg[t.k] += mi * mj * t.psi;
+        }
+        for (v, zi) in lg.iter_mut().zip(z) {
+            *v += zi * zi * f + zi.abs() * sum_mc_ma_c;
         }
         let osmotic = 1.0 + 2.0 / total * osm;
-        let mut ln_gamma = vec![0.0; n];
-        for (i, lg) in ln_gamma.iter_mut().enumerate() {
-            let zi = z[i];
-            let mut v = zi * zi * f + zi.abs() * sum_mc_ma_c;
-            // Counter-ions: 2B + Z·C.
-            for k in (0..n).filter(|&k| z[k].signum() != zi.signum()) {
-                let idx = if zi > 0.0 { i * n + k } else { k * n + i };
-                v += m[k] * (2.0 * b[idx] + big_z * cc[idx]);
-            }
-            // Like-signed ions: 2Φ + Σ m ψ over counter-ions.
-            for j in (0..n).filter(|&j| j != i && z[j].signum() == zi.signum()) {
-                let mut term = 2.0 * phi_mix[i * n + j];
-                for k in (0..n).filter(|&k| z[k].signum() != zi.signum()) {
-                    term += m[k] * self.psi[(i * n + j) * n + k];
-                }
-                v += m[j] * term;
-            }
-            // Pairs of counter-ions: ψ_{k l i}.
-            for k in (0..n).filter(|&k| z[k].signum() != zi.signum()) {
-                for l in ((k + 1)..n).filter(|&l| z[l].signum() == z[k].signum()) {
-                    v += m[k] * m[l] * self.psi[(k * n + l) * n + i];
-                }
-            }
-            *lg = v;
-        }
-        Activity {
-            ln_gamma,
-            osmotic,
-            ln_water: -osmotic * total * WATER_KG_PER_MOL,
-            ionic_strength: ionic,
-        }
+        out.osmotic = osmotic;
+        out.ln_water = -osmotic * total * WATER_KG_PER_MOL;
+        out.ionic_strength = ionic;
     }
 }
 
@@ -793,6 +905,53 @@ mod tests {
                 "{l}: {lhs} {rhs}"
             );
         }
+    }
+
+    /// A θ or ψ named twice (in either order of its like ions) counts once, the last one
+    /// named holding; the answer written into a used buffer equals a fresh one.
+    #[test]
+    fn a_parameter_named_twice_counts_once_and_buffers_are_reused() {
+        let base = system();
+        let sets = vec![
+            set("nacl", "NaCl", 1, 1, 1, 1, [0.0765, 0.2644, 0.00127]),
+            set("mgcl2", "MgCl2", 2, 1, 1, 2, [0.35235, 1.6815, 0.00519]),
+            set("na2so4", "Na2SO4", 1, 2, 2, 1, [0.01958, 1.113, 0.00497]),
+        ];
+        let mix = vec![
+            mixing("t-mg-na-old", &["Na", "Mg"], 0.5),
+            mixing("t-mg-na", &["Mg", "Na"], 0.07),
+            mixing("p-mg-na-cl-old", &["Na", "Mg", "Cl"], 0.3),
+            mixing("p-mg-na-cl", &["Mg", "Na", "Cl"], -0.012),
+            mixing("t-cl-so4", &["Cl", "SO4"], 0.02),
+            mixing("p-na-cl-so4", &["Na", "Cl", "SO4"], 0.0014),
+        ];
+        let spec = SystemSpec {
+            key: "twice".into(),
+            name: "twice".into(),
+            source: "s".into(),
+            note: None,
+            ionic_strength_max: 20.0,
+            sets: vec!["nacl".into(), "mgcl2".into(), "na2so4".into()],
+            mixing: mix.iter().map(|m| m.key.clone()).collect(),
+        };
+        let twice = System::build(&spec, &sets, &mix).unwrap();
+        let m = molalities(
+            &base,
+            &[("Na", 2.0), ("Mg", 0.7), ("Cl", 2.4), ("SO4", 0.5)],
+        );
+        let want = base.at(298.15).unwrap().activity(&m).unwrap();
+        let mut c = Coefficients::default();
+        let mut out = Activity::new(1);
+        // A buffer used first for another composition and temperature.
+        twice.evaluate_into(298.15, &mut c);
+        c.activity_into(&molalities(&twice, &[("Na", 1.0), ("Cl", 1.0)]), &mut out);
+        twice.evaluate_into(298.15, &mut c);
+        c.activity_into(&m, &mut out);
+        assert_eq!(out.ln_gamma.len(), want.ln_gamma.len());
+        for (a, b) in out.ln_gamma.iter().zip(&want.ln_gamma) {
+            assert!((a - b).abs() < 1e-14, "{a} {b}");
+        }
+        assert!((out.osmotic - want.osmotic).abs() < 1e-14);
     }
 
     #[test]

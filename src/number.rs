@@ -13,6 +13,56 @@ pub fn round_significant(x: f64, digits: usize) -> f64 {
         return x;
     }
     let digits = digits.clamp(1, 15);
+    if let Some(rounded) = by_power_of_ten(x, digits) {
+        return rounded;
+    }
+    by_text(x, digits)
+}
+
+/// Exact powers of ten as f64 (10^0 to 10^22 are all exactly representable).
+const POWERS_OF_TEN: [f64; 23] = [
+    1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16,
+    1e17, 1e18, 1e19, 1e20, 1e21, 1e22,
+];
+
+/// The quick way, for up to 9 figures and the magnitudes answers show: scale `x` by an exact
+/// power of ten so that the figures kept are the integer part, round, and scale back. Scaling
+/// back divides (or multiplies) two exactly held integers, so the result is the f64 nearest to
+/// the rounded decimal, as parsing its text would give. The one product that is not exact,
+/// `x` times the power, is off by at most half a unit in its last place (under 1e-7 for
+/// figures below 1e9); where that could move the rounding (a fraction within 1e-6 of one
+/// half) or the figure count comes out wrong, `None` sends the number the text way.
+fn by_power_of_ten(x: f64, digits: usize) -> Option<f64> {
+    if digits > 9 {
+        return None;
+    }
+    let exponent = x.abs().log10().floor();
+    let shift = digits as f64 - 1.0 - exponent;
+    if !(shift.abs() <= 22.0) {
+        return None;
+    }
+    let power = *POWERS_OF_TEN.get(shift.abs() as usize)?;
+    let scaled = if shift >= 0.0 { x * power } else { x / power };
+    let fraction = scaled.abs().fract();
+    if (fraction - 0.5).abs() < 1e-6 || !scaled.is_finite() {
+        return None;
+    }
+    let kept = scaled.round();
+    // As many figures as asked: log10 can be off by one next to a power of ten.
+    let (low, high) = (POWERS_OF_TEN[digits - 1], POWERS_OF_TEN[digits]);
+    if !(low..high).contains(&kept.abs()) {
+        return None;
+    }
+    // Both operands exact: one correctly rounded operation, as parsing the decimal would be.
+    Some(if shift >= 0.0 {
+        kept / power
+    } else {
+        kept * power
+    })
+}
+
+/// The sure way: the number's decimal text rounded by the formatter, read back.
+fn by_text(x: f64, digits: usize) -> f64 {
     // The text is written on the stack: answers round many numbers (one per row of a large
     // screening), and a heap string each time would cost more than the rounding.
     let mut buffer = StackText::default();
@@ -83,6 +133,28 @@ mod tests {
             round_significant(-1.234_567_890_123_456e-300, 15),
             -1.234_567_890_123_46e-300
         );
+    }
+
+    proptest::proptest! {
+        /// The quick way gives the very f64 the text way gives, across magnitudes and
+        /// figures, near-halves included (values with few digits land on ties often).
+        #[test]
+        fn quick_rounding_agrees_with_the_text(
+            mantissa in -1.0e6f64..1.0e6,
+            exponent in -30i32..30,
+            digits in 1usize..=15,
+            short in proptest::bool::ANY,
+        ) {
+            let x = if short {
+                // Few decimal digits: 2.345, 0.125, 31.65 ... the cases where a tie is near.
+                (mantissa.round() / 1000.0) * 10f64.powi(exponent / 3)
+            } else {
+                mantissa * 10f64.powi(exponent)
+            };
+            if x.is_finite() && x != 0.0 {
+                proptest::prop_assert_eq!(round_significant(x, digits), by_text(x, digits));
+            }
+        }
     }
 
     #[test]

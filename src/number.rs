@@ -38,7 +38,7 @@ fn by_power_of_ten(x: f64, digits: usize) -> Option<f64> {
     }
     let exponent = x.abs().log10().floor();
     let shift = digits as f64 - 1.0 - exponent;
-    if !(shift.abs() <= 22.0) {
+    if shift.abs() > 22.0 {
         return None;
     }
     let power = *POWERS_OF_TEN.get(shift.abs() as usize)?;

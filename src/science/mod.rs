@@ -1,6 +1,7 @@
 //! The computations behind every answer: pure functions over plain data. No I/O, no SQLite.
 //! Every public function's doc comment gives its formula and its source.
 
+pub mod acid_base;
 pub mod activity;
 pub mod bounds;
 pub mod curve;

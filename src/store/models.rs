@@ -8,6 +8,7 @@ use std::collections::HashSet;
 use serde::Deserialize;
 
 use super::StoreError;
+use crate::science::acid_base::AcidSystem;
 use crate::science::activity::{MixingSet, ParameterSet, System, SystemSpec};
 use crate::science::formula::parse_formula;
 
@@ -20,6 +21,8 @@ struct ModelFile {
     mixing: Vec<MixingSet>,
     #[serde(default)]
     system: Vec<SystemSpec>,
+    #[serde(default)]
+    acid: Vec<AcidSystem>,
 }
 
 fn bad(file: &str, record: impl Into<String>, problem: impl Into<String>) -> StoreError {
@@ -206,6 +209,41 @@ pub fn parameter_sets<P: AsRef<str>, C: AsRef<str>>(
     Ok(sets)
 }
 
+/// Every acid-base record (`[[acid]]`) of the `models/` files among `files`: each cites a
+/// source of `sources.toml`, has a provenance, a temperature range, a key used once, and is
+/// whole ([`AcidSystem::check`]); one of them is water (key `water`).
+pub fn acid_systems<P: AsRef<str>, C: AsRef<str>>(
+    files: &[(P, C)],
+) -> Result<Vec<AcidSystem>, StoreError> {
+    let source_keys = source_keys(files)?;
+    let mut acids: Vec<AcidSystem> = Vec::new();
+    for (path, file) in model_files(files)? {
+        for acid in file.acid {
+            let record = format!("acid \"{}\"", acid.key);
+            check_record(
+                &source_keys,
+                path,
+                &record,
+                (&acid.source, &acid.provenance, &acid.review),
+                (acid.t_min_k, acid.t_max_k),
+            )?;
+            acid.check().map_err(|why| bad(path, &record, why))?;
+            if acids.iter().any(|a| a.key == acid.key) {
+                return Err(bad(path, record, "key used twice"));
+            }
+            acids.push(acid);
+        }
+    }
+    if !acids.is_empty() && !acids.iter().any(|a| a.key == "water") {
+        return Err(bad(
+            "models/",
+            "acid \"water\"",
+            "acid-base records need water's own ionization (key \"water\")",
+        ));
+    }
+    Ok(acids)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -231,6 +269,44 @@ mod tests {
             .unwrap();
         // The sets hold to 523.15 K; A-phi (Clegg, Rard & Pitzer 1994) to 373.15 K.
         assert_eq!((gm.t_min_k, gm.t_max_k), (273.15, 373.15));
+    }
+
+    #[test]
+    fn the_seed_acids_load_whole() {
+        let acids = acid_systems(crate::seed_files::SEED_FILES).unwrap();
+        for key in [
+            "water",
+            "phosphoric-acid",
+            "citric-acid",
+            "acetic-acid",
+            "tris",
+            "histidine",
+            "carbonic-acid",
+            "boric-acid",
+            "hepes",
+            "mes",
+        ] {
+            assert!(acids.iter().any(|a| a.key == key), "{key}");
+        }
+        let p = acids.iter().find(|a| a.key == "phosphoric-acid").unwrap();
+        assert_eq!(p.step.len(), 3);
+        assert!(p.buffer_named("Sodium Phosphate").is_some());
+    }
+
+    #[test]
+    fn an_acid_with_a_missing_step_is_refused() {
+        let files = [
+            ("sources.toml", "[[source]]\nkey = \"a\"\n"),
+            (
+                "models/z.toml",
+                "[[acid]]\nkey = \"water\"\nname = \"w\"\nspecies = [\"H2O\", \"OH-\", \"O-2\"]\ncharges = [0, -1, -2]\nstep = [{ pk = 14.0, dh_kj_per_mol = 55.8, dcp_j_per_mol_k = -224.0 }]\nsource = \"a\"\nlocator = \"\"\nprovenance = \"from-memory\"\nt_min_k = 273.15\nt_max_k = 323.15\n",
+            ),
+        ];
+        let e = acid_systems(&files).unwrap_err().to_string();
+        assert!(
+            e.contains("acid \"water\"") && e.contains("need 2 steps"),
+            "{e}"
+        );
     }
 
     #[test]

@@ -33,6 +33,8 @@ pub enum AnswerKind {
     Plot,
     /// `which solids form in RECIPE ...`.
     Solids,
+    /// `ph of RECIPE from T1 to T2`.
+    Ph,
     /// A statement that could not be parsed.
     Invalid,
 }
@@ -56,6 +58,7 @@ impl AnswerKind {
             AnswerKind::Require => "require",
             AnswerKind::Plot => "plot",
             AnswerKind::Solids => "solids",
+            AnswerKind::Ph => "ph",
             AnswerKind::Invalid => "invalid",
         }
     }

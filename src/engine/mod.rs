@@ -11,6 +11,8 @@
 //! ```
 
 mod basis;
+pub mod buffer;
+mod buffer_freeze;
 mod common;
 mod corroboration;
 mod dissolving;
@@ -434,6 +436,7 @@ fn kind_of(statement: &Statement) -> AnswerKind {
             query::RecipeQuestion::Saturation { .. } => AnswerKind::Saturation,
             query::RecipeQuestion::Describe { .. } => AnswerKind::Describe,
             query::RecipeQuestion::Freezing { .. } => AnswerKind::Freezing,
+            query::RecipeQuestion::Ph { .. } => AnswerKind::Ph,
         },
     }
 }

@@ -12,6 +12,7 @@ use serde_json::json;
 
 use crate::answer::{Answer, Basis, Row};
 use crate::engine::CAUTION;
+use crate::engine::buffer;
 use crate::engine::common::{bounds, celsius, phase_caveat, resolve, value};
 use crate::engine::error::EvalError;
 use crate::engine::mixture::{Ask, IceLine, Limits, Mixture, SolidModel, model_for};
@@ -180,16 +181,57 @@ pub fn file_faults(snap: &Snapshot, recipe: &Recipe) -> Vec<EvalError> {
 /// Answers a statement about a recipe: solves its composition once, then asks the
 /// mixture's model.
 pub fn recipe(snap: &Snapshot, s: &RecipeStatement, answer: &mut Answer) -> Result<(), EvalError> {
-    let composed = compose(snap, &s.recipe, &s.options, answer)?;
+    // A buffer set to a pH becomes its forms: a first pass sets it alone, a second with the
+    // rest of the recipe's ions present (the ionic strength moves the shares a little).
+    let expanded = match buffer::expand(snap, &s.recipe, None)? {
+        None => None,
+        Some(first) => {
+            let mut scratch = answer.clone();
+            let pass = compose(snap, &first.recipe, &s.options, &mut scratch)?;
+            buffer::expand(snap, &s.recipe, Some(&pass.mixture))?
+        }
+    };
+    let recipe = expanded.as_ref().map_or(&s.recipe, |e| &e.recipe);
+    let composed = compose(snap, recipe, &s.options, answer)?;
+    if let Some(e) = &expanded {
+        for b in &e.buffers {
+            answer.caveat(buffer::made_of(b));
+            buffer::cite_acid(snap, b.acid, answer);
+        }
+    }
+    if let RecipeQuestion::Ph { temperatures } = &s.question {
+        buffer::ph_over(
+            snap,
+            &composed.mixture,
+            temperatures,
+            s.options.extrapolate,
+            answer,
+        )?;
+        answer.caveat(CAUTION);
+        return Ok(());
+    }
     if let RecipeQuestion::Freezing { at } = &s.question {
+        // A recipe with an acid or base: its own path, with the pH of the liquid left.
+        if buffer::solution_of(snap, &composed.mixture).is_some() {
+            return crate::engine::buffer_freeze::freezing(
+                snap,
+                &composed.mixture,
+                at.kelvin(),
+                at.span,
+                answer,
+            );
+        }
         let asked = crate::engine::freeze_recipe::Asked {
-            recipe: &s.recipe,
+            recipe,
             at: at.kelvin(),
             span: at.span,
         };
         crate::engine::freeze_recipe::freezing(snap, &composed.mixture, &s.options, asked, answer)?;
         answer.caveat(CAUTION);
         return Ok(());
+    }
+    if expanded.is_some() {
+        answer.caveat(buffer::PH_CAVEAT);
     }
     let range = match &s.question {
         RecipeQuestion::Require { temperatures, .. }
@@ -209,9 +251,9 @@ pub fn recipe(snap: &Snapshot, s: &RecipeStatement, answer: &mut Answer) -> Resu
         Limits { t1, t2, margin }
     };
     match &s.question {
-        RecipeQuestion::Define => return define(&mut ask, &s.recipe),
+        RecipeQuestion::Define => return define(&mut ask, recipe),
         RecipeQuestion::Describe { at } => {
-            return describe(&mut ask, &s.recipe, &composed, at.map(|t| t.kelvin()));
+            return describe(&mut ask, recipe, &composed, at.map(|t| t.kelvin()));
         }
         RecipeQuestion::Require {
             temperatures,
@@ -219,13 +261,13 @@ pub fn recipe(snap: &Snapshot, s: &RecipeStatement, answer: &mut Answer) -> Resu
         } => {
             let margin = margin.map_or(0.0, |m| m.percent / 100.0);
             let at = limits(temperatures, margin);
-            require(&mut ask, model, &s.recipe, at, temperatures.span())?;
+            require(&mut ask, model, recipe, at, temperatures.span())?;
         }
         RecipeQuestion::SolidsForm { temperatures } => {
             solids_form(&mut ask, model, limits(temperatures, 0.0))?;
         }
         // Answered above, before a model is chosen.
-        RecipeQuestion::Freezing { .. } => {}
+        RecipeQuestion::Freezing { .. } | RecipeQuestion::Ph { .. } => {}
         RecipeQuestion::Saturation { unit } => {
             let unit = unit.map_or(TemperatureUnit::Celsius, |u| u.unit);
             saturation(&mut ask, model, unit)?;

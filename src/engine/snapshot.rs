@@ -8,6 +8,7 @@ use std::sync::OnceLock;
 use crate::catalog::Catalog;
 use crate::engine::common::Citing;
 use crate::model::{Dataset, Provenance, Review};
+use crate::science::acid_base::{AcidSystem, BufferForm};
 use crate::science::activity::{ParameterSet, System};
 use crate::science::curve::{Branch, Curve};
 
@@ -45,6 +46,8 @@ pub struct Snapshot {
     models: Vec<ParameterSet>,
     /// The mixture model's systems (sets and mixing parameters fitted together), compiled in.
     systems: Vec<System>,
+    /// The acid-base records of buffers (`[[acid]]` in `seed-data/models/`), compiled in.
+    acids: Vec<AcidSystem>,
 }
 
 /// Ranks datasets of one phase: reviewed before unreviewed, then measured or compiled data
@@ -148,6 +151,8 @@ impl Snapshot {
             crate::store::models::parameter_sets(crate::seed_files::SEED_FILES).unwrap_or_default();
         let systems = crate::store::models::mixture_systems(crate::seed_files::SEED_FILES)
             .unwrap_or_default();
+        let acids =
+            crate::store::models::acid_systems(crate::seed_files::SEED_FILES).unwrap_or_default();
         Snapshot {
             catalog,
             curves,
@@ -155,7 +160,37 @@ impl Snapshot {
             names,
             models,
             systems,
+            acids,
         }
+    }
+
+    /// The acid-base records (water's own among them, key `water`).
+    pub fn acids(&self) -> &[AcidSystem] {
+        &self.acids
+    }
+
+    /// Water's ionization record, when the model files have one.
+    pub fn water(&self) -> Option<&AcidSystem> {
+        self.acids.iter().find(|a| a.key == "water")
+    }
+
+    /// The buffer a recipe names (`sodium phosphate`), with its acid.
+    pub fn buffer_named(&self, name: &str) -> Option<(&AcidSystem, &BufferForm)> {
+        self.acids
+            .iter()
+            .find_map(|a| a.buffer_named(name).map(|b| (a, b)))
+    }
+
+    /// Every buffer name the model files give, for did-you-mean.
+    pub fn buffer_names(&self) -> Vec<&str> {
+        self.acids
+            .iter()
+            .flat_map(|a| {
+                a.buffer
+                    .iter()
+                    .flat_map(|b| b.names.iter().map(String::as_str))
+            })
+            .collect()
     }
 
     /// The activity-model parameter sets of an electrolyte (by formula), those reaching

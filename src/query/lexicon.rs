@@ -6,7 +6,7 @@ use crate::science::units::{CompositionUnit, PressureUnit, TemperatureUnit};
 use crate::text::edit_distance;
 
 /// Words that begin a statement.
-pub const STATEMENT_WORDS: [&str; 17] = [
+pub const STATEMENT_WORDS: [&str; 18] = [
     "solubility",
     "which",
     "saturation",
@@ -24,6 +24,7 @@ pub const STATEMENT_WORDS: [&str; 17] = [
     "let",
     "require",
     "plot",
+    "ph",
 ];
 
 /// Words that end a multi-word name: the name stops where one of these begins.

@@ -13,7 +13,17 @@ use crate::science::units::TemperatureUnit;
 pub struct Ingredient {
     pub amount: Loading,
     pub solute: Name,
-    /// From the amount to the end of the solute's name.
+    /// From the amount to the end of the solute's name (or of its `at pH …`).
+    pub span: Span,
+    /// `10 mM sodium phosphate at pH 7.4`: the solute is a buffer named by its acid and
+    /// counter-ion, set to this pH; the engine turns it into the buffer's forms.
+    pub ph: Option<SetPh>,
+}
+
+/// The pH a buffer of a recipe is set to, and where it was written.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct SetPh {
+    pub value: f64,
     pub span: Span,
 }
 
@@ -49,6 +59,7 @@ impl Recipe {
                         span,
                     },
                     span,
+                    ph: i.ph.map(|p| SetPh { span, ..p }),
                 })
                 .collect(),
             volume_at: self.volume_at.map(|t| Temperature { span, ..t }),
@@ -87,6 +98,8 @@ pub enum RecipeQuestion {
     /// `freezing of eyewash at -20 C`: the ice and salts out of the recipe at that
     /// temperature, and the liquid left.
     Freezing { at: Temperature },
+    /// `ph of eyewash from 2 C to 25 C`: the pH at each temperature, the amounts fixed.
+    Ph { temperatures: Temperatures },
 }
 
 /// A statement about a recipe, named or written in place.
@@ -107,6 +120,7 @@ impl RecipeStatement {
             RecipeQuestion::Saturation { .. } => "saturation",
             RecipeQuestion::Describe { .. } => "describe",
             RecipeQuestion::Freezing { .. } => "freezing",
+            RecipeQuestion::Ph { .. } => "ph",
         }
     }
 }

@@ -148,7 +148,12 @@ impl AcidSystem {
                 .rungs
                 .windows(2)
                 .all(|w| w[0].charge_per_unit() < w[1].charge_per_unit());
-            if !ascending || form.rungs.iter().any(|r| !(r.units > 0.0)) {
+            if !ascending
+                || form
+                    .rungs
+                    .iter()
+                    .any(|r| r.units.is_nan() || r.units <= 0.0)
+            {
                 return Err(format!(
                     "buffer {}: rungs must have positive units and rise in charge per unit",
                     form.names[0]
@@ -270,7 +275,7 @@ fn falling_root(g: impl Fn(f64) -> f64) -> Option<f64> {
         } else {
             hi = mid;
         }
-        if hi - lo < 1e-12 {
+        if hi - lo < 1e-10 {
             break;
         }
     }
@@ -323,10 +328,10 @@ pub fn solve(solution: &Solution, t_k: f64) -> Result<Speciation, ScienceError> 
     })
 }
 
-/// The charge of fully dissociated counter-ions (mol/kg of water) that brings `solution`
-/// to `ph` at `t_k`: how much base (or acid) a buffer was titrated with. The counter-ions
-/// are taken as singly charged, adding ½|S| to the ionic strength of the other ions.
-/// Returns that charge and the speciation there.
+/// The charge of fully dissociated counter-ions (mol/kg of water), beyond the solution's own
+/// `strong_charge`, that brings `solution` to `ph` at `t_k`: how much base (or acid) a
+/// buffer was titrated with. The counter-ions are taken as singly charged, adding ½|S| to
+/// the ionic strength. Returns that charge and the speciation there.
 pub fn charge_for_ph(
     solution: &Solution,
     ph: f64,
@@ -343,7 +348,7 @@ pub fn charge_for_ph(
     for _ in 0..200 {
         let (m_h, m_oh) = water_ions(solution.water, ph, t_k, ionic);
         let (charge, acid_half_z2, _) = acid_charge(&solution.acids, ph, t_k, ionic);
-        strong = -(m_h - m_oh + charge);
+        strong = -(solution.strong_charge + m_h - m_oh + charge);
         let next = solution.strong_ionic + 0.5 * strong.abs() + 0.5 * (m_h + m_oh) + acid_half_z2;
         let done = (next - ionic).abs() <= 1e-12 * next.max(1e-6);
         ionic = next;

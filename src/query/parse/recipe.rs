@@ -8,7 +8,7 @@ use nom::{Parser, combinator::cut, error::context};
 use super::super::ast::*;
 use super::super::error::ParseErrorKind;
 use super::super::lexicon::ends_name;
-use super::super::recipe::{Ingredient, Recipe, RecipeQuestion, RecipeStatement};
+use super::super::recipe::{Ingredient, Recipe, RecipeQuestion, RecipeStatement, SetPh};
 use super::clause::*;
 use super::plumbing::*;
 use super::quantity::*;
@@ -41,6 +41,41 @@ pub(super) fn ingredient_name<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, (Name, bool)>
     Ok((cursor, (name, comma)))
 }
 
+/// `at pH 7.4` after a buffer's name; nothing read when `at pH` does not stand there.
+pub(super) fn set_ph<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Option<SetPh>> {
+    let Some(after_at) = has_keyword(i, "at") else {
+        return Ok((i, None));
+    };
+    let Some(after_ph) = has_keyword(after_at, "ph") else {
+        return Ok((i, None));
+    };
+    let t = skip(after_ph);
+    let value = number_text(t).ok().and_then(|(rest, text)| {
+        text.replace('−', "-")
+            .parse::<f64>()
+            .ok()
+            .map(|v| (rest, v))
+    });
+    match value {
+        Some((rest, v)) if v.is_finite() && (0.0..=14.0).contains(&v) => Ok((
+            rest,
+            Some(SetPh {
+                value: v,
+                span: cx.span(t, rest),
+            }),
+        )),
+        Some((rest, _)) => Err(failure(
+            ParseErrorKind::Expected {
+                expected: "a pH from 0 to 14".into(),
+                found: Some(shorten(&t[..t.len() - rest.len()])),
+                suggestion: None,
+            },
+            cx.span(t, rest),
+        )),
+        None => Err(expected_here(cx, t, "a pH such as `7.4`".into(), &[])),
+    }
+}
+
 /// The ingredients after the word `recipe`, and an optional `volume at T`.
 pub(super) fn recipe_body<'a>(
     cx: Cx<'a>,
@@ -57,10 +92,19 @@ pub(super) fn recipe_body<'a>(
         }
         let (after, amount) = cut(context(AMOUNT, |x| loading(cx, x))).parse(t)?;
         let (after, (solute, comma)) = ingredient_name(cx, after)?;
+        let (after, ph, comma) = match set_ph(cx, after)? {
+            (rest, Some(ph)) => {
+                let comma = skip(rest).starts_with(',');
+                let rest = if comma { &skip(rest)[1..] } else { rest };
+                (rest, Some(ph), comma)
+            }
+            (rest, None) => (rest, None, comma),
+        };
         ingredients.push(Ingredient {
             amount,
             solute,
             span: cx.span(t, after),
+            ph,
         });
         if comma {
             rest = after;
@@ -169,6 +213,18 @@ pub(super) fn require<'a>(cx: Cx<'a>, recipe: Recipe, i: &'a str) -> R<'a, State
             },
             tail.options,
         ),
+    ))
+}
+
+/// `ph of RECIPE from 2 C to 25 C [extrapolate]`, after `ph`.
+pub(super) fn ph<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
+    let (i, _) = expect(cx, i, &["of"])?;
+    let (i, recipe) = required_subject(cx, i)?;
+    let (i, temperatures) = temperatures(cx, i)?;
+    let (i, tail) = tail(cx, i, &DATA, &[])?;
+    Ok((
+        i,
+        asked(recipe, RecipeQuestion::Ph { temperatures }, tail.options),
     ))
 }
 

@@ -123,6 +123,7 @@ fn body_line<'a>(cx: Cx<'a>, line: &'a str) -> Result<Line, ParseError> {
     }
     let (after, amount) = loading(cx, line).map_err(|e| finished(e, cx))?;
     let (rest, (solute, comma)) = ingredient_name(cx, after).map_err(|e| finished(e, cx))?;
+    let (rest, ph) = super::recipe::set_ph(cx, rest).map_err(|e| finished(e, cx))?;
     let rest = skip(rest);
     if comma || !rest.is_empty() {
         let found = if rest.is_empty() { "," } else { rest };
@@ -133,9 +134,10 @@ fn body_line<'a>(cx: Cx<'a>, line: &'a str) -> Result<Line, ParseError> {
         ));
     }
     Ok(Line::Ingredient(Ingredient {
-        span: amount.span.to(solute.span),
+        span: amount.span.to(ph.map_or(solute.span, |p| p.span)),
         amount,
         solute,
+        ph,
     }))
 }
 

@@ -34,6 +34,7 @@ pub(super) fn statement<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
         "let" => binding(cx, after),
         "require" => require(cx, after),
         "plot" => plot(cx, after),
+        "ph" => recipe::ph(cx, after),
         _ => {
             let (span, found) = found_at(cx, t);
             let found = found.unwrap_or_default();

@@ -268,13 +268,16 @@ pub fn expand<'s>(
         .map_err(|e| refuse(format!("{written} at pH {}: {e}", ph.value), ph.span))?;
     let n = if total > 0.0 { extra / total } else { 0.0 };
     let Some(parts) = shares(form, n) else {
-        let first = form.rungs.first().map_or("", |r| r.solute.as_str());
-        let last = form.rungs.last().map_or("", |r| r.solute.as_str());
+        let name = |r: Option<&Rung>| {
+            r.and_then(|r| snap.catalog.solute(&r.solute))
+                .map_or_else(String::new, |s| s.name.clone())
+        };
         return Err(refuse(
             format!(
-                "pH {} is beyond what the forms of {written} in the reference can give (from {first} to {last}, {} counter-ion charges per unit asked)",
+                "pH {} is beyond what {written} can give: its forms in the reference run from {} to {}",
                 ph.value,
-                round_significant(n, 3)
+                name(form.rungs.first()),
+                name(form.rungs.last())
             ),
             ph.span,
         ));

@@ -1,0 +1,141 @@
+//! Buffers in recipes through the engine: the invented phosphate-buffered rinse of
+//! `grammar/examples/buffers.satq` (not a real product) answered for cold storage and for
+//! freezing, and the behaviour the trade knows (common practice, no source): on freezing,
+//! sodium phosphate buffers turn markedly more acidic and potassium phosphate buffers much
+//! less; Tris loses about 0.03 pH per kelvin of warming.
+
+use satline::answer::Answer;
+use satline::engine::Engine;
+
+fn answers(script: &str) -> Vec<Answer> {
+    let engine = Engine::open_embedded().unwrap();
+    let mut session = engine.session();
+    engine.run_text(script, &mut session)
+}
+
+fn value(answer: &Answer, quantity_starts: &str) -> f64 {
+    answer
+        .rows
+        .iter()
+        .find(|r| {
+            r.quantity
+                .as_deref()
+                .is_some_and(|q| q.starts_with(quantity_starts))
+        })
+        .and_then(|r| r.value)
+        .unwrap_or_else(|| panic!("no row `{quantity_starts}` in {answer:?}"))
+}
+
+const PBS: &str = "let pbs = recipe 10 mM sodium phosphate at pH 7.4, 137 mM NaCl, 2.7 mM KCl\n";
+
+#[test]
+fn the_rinse_is_made_of_the_two_phosphates_in_the_shares_of_its_ph() {
+    let a = answers(PBS);
+    assert!(a[0].ok, "{:?}", a[0].error);
+    let amount = |name: &str| {
+        a[0].rows
+            .iter()
+            .find(|r| r.solute.as_deref() == Some(name))
+            .and_then(|r| r.value)
+            .unwrap()
+    };
+    let (h2, h1) = (
+        amount("sodium dihydrogen phosphate"),
+        amount("disodium hydrogen phosphate"),
+    );
+    assert!((h2 + h1 - 10.0).abs() < 1e-9, "{h2} + {h1}");
+    // Henderson–Hasselbalch with pK2 7.198 and Davies coefficients at I ≈ 0.166 (a 2−/1−
+    // pair: the ratio is larger than the ideal 10^0.202 = 1.59).
+    let ratio = h1 / h2;
+    assert!(ratio > 3.0 && ratio < 4.5, "{ratio}");
+    assert!(a[0].caveats.iter().any(|c| c.contains("is made of")));
+}
+
+#[test]
+fn the_rinse_in_the_cold_room_holds_and_its_ph_rises_a_little() {
+    let a = answers(&format!(
+        "{PBS}ph of pbs from 2 C to 25 C\nrequire pbs stays dissolved from 2 C to 8 C\n"
+    ));
+    assert!(a[1].ok, "{:?}", a[1].error);
+    let at = |c: f64| {
+        a[1].rows
+            .iter()
+            .find(|r| r.temperature_c == Some(c))
+            .and_then(|r| r.value)
+            .unwrap()
+    };
+    assert!((at(25.0) - 7.4).abs() < 1e-3);
+    let rise = at(2.0) - at(25.0);
+    // Phosphate's second step has a small enthalpy: about +0.1 over 23 K.
+    assert!(rise > 0.05 && rise < 0.2, "{rise}");
+    assert!(a[2].ok && a[2].holds == Some(true), "{:?}", a[2]);
+}
+
+#[test]
+fn on_freezing_sodium_phosphate_turns_acidic_and_potassium_phosphate_hardly_moves() {
+    let a = answers(&format!(
+        "{PBS}freezing of pbs at -20 C\nlet kpbs = recipe 10 mM potassium phosphate at pH 7.4, 137 mM NaCl, 2.7 mM KCl\nfreezing of kpbs at -20 C\n"
+    ));
+    assert!(a[1].ok, "{:?}", a[1].error);
+    assert!(a[3].ok, "{:?}", a[3].error);
+    let sodium = value(&a[1], "pH shift");
+    let potassium = value(&a[3], "pH shift");
+    assert!(sodium < -0.5, "{sodium}");
+    assert!(potassium.abs() < 0.5, "{potassium}");
+    assert!(
+        a[1].rows.iter().any(
+            |r| r.solute.as_deref() == Some("disodium hydrogen phosphate")
+                && r.phase.as_deref() == Some("Na2HPO4·12H2O")
+        ),
+        "{:?}",
+        a[1].rows
+    );
+    assert!(
+        a[1].caveats
+            .iter()
+            .any(|c| c.starts_with("warning: the pH"))
+    );
+    assert!(
+        !a[3]
+            .caveats
+            .iter()
+            .any(|c| c.starts_with("warning: the pH"))
+    );
+    // Ice first, just below 0 C (about −0.6 C for ~0.3 osmol/kg).
+    let ice = value(&a[1], "ice appears");
+    assert!(ice < -0.3 && ice > -1.0, "{ice}");
+}
+
+#[test]
+fn tris_loses_about_three_hundredths_a_kelvin() {
+    let a = answers("ph of recipe 50 mmol/kg Tris-HCl at pH 8.0 from 5 C to 37 C\n");
+    assert!(a[0].ok, "{:?}", a[0].error);
+    let change = value(&a[0], "pH change");
+    let per_k = change / 32.0;
+    assert!(per_k < -0.025 && per_k > -0.035, "{per_k}");
+}
+
+#[test]
+fn bad_buffers_are_refused_with_the_reason() {
+    let a = answers(
+        "ph of recipe 10 mM sodium phosphat at pH 7.4 from 2 C to 25 C\n\
+         ph of recipe 1 g/L sodium phosphate at pH 7.4 from 2 C to 25 C\n\
+         ph of recipe 10 mmol/kg sodium acetate at pH 9 from 2 C to 25 C\n\
+         ph of recipe 10 mmol/kg NaCl from 2 C to 25 C\n\
+         let two = recipe 10 mmol/kg sodium acetate at pH 5, 10 mmol/kg Tris-HCl at pH 8\n",
+    );
+    let message = |i: usize| a[i].error.as_ref().unwrap().message.clone();
+    assert!(
+        message(0).contains("did you mean `sodium phosphate`"),
+        "{}",
+        message(0)
+    );
+    assert!(message(1).contains("mol units"), "{}", message(1));
+    assert!(
+        message(2).contains("beyond what sodium acetate can give"),
+        "{}",
+        message(2)
+    );
+    assert!(message(3).contains("no acid or base"), "{}", message(3));
+    assert!(message(4).contains("two buffers"), "{}", message(4));
+}

@@ -130,6 +130,7 @@ def main():
     __import__("fixtures_mixtures").write(HERE)  # mixed electrolytes: pytzer
     __import__("fixtures_mixtures_subzero").write(HERE)  # mixtures below 0 C: pytzer
     __import__("fixtures_mixture_solubility").write(HERE)  # salts in brines at 25 C: pytzer
+    __import__("fixtures_buffers").write(HERE)  # acid-base dissociation constants: pytzer
     fixtures_corroboration.write_checks()
     __import__("fixtures_brine_checks").write_checks()  # ice lines, water activity, density ranges
     __import__("fixtures_thermochemistry").write_all()

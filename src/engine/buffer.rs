@@ -60,7 +60,7 @@ fn refuse(message: String, span: Span) -> EvalError {
 }
 
 /// The buffer form and its rung a solute is, if any (by solute id).
-fn rung_of<'s>(snap: &'s Snapshot, solute_id: &str) -> Option<(&'s AcidSystem, &'s Rung)> {
+pub(crate) fn rung_of<'s>(snap: &'s Snapshot, solute_id: &str) -> Option<(&'s AcidSystem, &'s Rung)> {
     snap.acids().iter().find_map(|a| {
         a.buffer
             .iter()
@@ -195,15 +195,7 @@ pub fn expand<'s>(
         ));
     };
     let unit = ingredient.amount.unit;
-    let molar = matches!(
-        unit,
-        CompositionUnit::Molality
-            | CompositionUnit::MillimolesPerKilogram
-            | CompositionUnit::MicromolesPerKilogram
-            | CompositionUnit::MolesPerLitre
-            | CompositionUnit::MillimolesPerLitre
-            | CompositionUnit::MicromolesPerLitre
-    );
+    let molar = unit.is_molar();
     if !molar {
         return Err(refuse(
             format!(

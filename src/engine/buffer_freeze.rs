@@ -231,13 +231,7 @@ fn salts_and_liquid<'s>(snap: &'s Snapshot, mixture: &Mixture) -> (Vec<Salt<'s>>
             .iter()
             .position(|s| s.id == solute.id)
             .unwrap_or(usize::MAX);
-        let rung = snap.acids().iter().find_map(|a| {
-            a.buffer
-                .iter()
-                .flat_map(|b| b.rungs.iter())
-                .find(|r| r.solute == solute.id)
-                .map(|r| (a, r))
-        });
+        let rung = crate::engine::buffer::rung_of(snap, &solute.id);
         let mut salt = Salt {
             name: solute.name.clone(),
             phase: String::new(),

@@ -60,7 +60,10 @@ fn refuse(message: String, span: Span) -> EvalError {
 }
 
 /// The buffer form and its rung a solute is, if any (by solute id).
-pub(crate) fn rung_of<'s>(snap: &'s Snapshot, solute_id: &str) -> Option<(&'s AcidSystem, &'s Rung)> {
+pub(crate) fn rung_of<'s>(
+    snap: &'s Snapshot,
+    solute_id: &str,
+) -> Option<(&'s AcidSystem, &'s Rung)> {
     snap.acids().iter().find_map(|a| {
         a.buffer
             .iter()

@@ -18,7 +18,6 @@ pub mod number;
 pub mod output;
 pub mod plot;
 pub mod query;
-pub mod report;
 pub mod science;
 pub mod server;
 pub mod store;

@@ -28,7 +28,7 @@ fn start(history: &Path, args: &[&str]) -> PtySession {
     let options = Options::new().timeout_ms(Some(TIMEOUT_MS));
     let mut session = spawn_with_options(command, options).unwrap();
     session
-        .exp_string("Caution: reference data are for screening.")
+        .exp_string("Caution: Reference data are for screening:")
         .unwrap();
     session.exp_string("satline> ").unwrap();
     session

@@ -95,6 +95,15 @@ impl Engine {
         &self.snapshot.catalog
     }
 
+    /// `satline describe SOLUTE`: everything the reference holds on one solute (found by
+    /// name, formula, id or synonym), for the printers of `output::report`.
+    pub fn describe_solute(
+        &self,
+        name: &str,
+    ) -> Result<crate::catalog::Description<'_>, crate::catalog::CatalogError> {
+        self.snapshot.catalog.describe(name)
+    }
+
     /// A fresh session (no `let` names bound).
     pub fn session(&self) -> Session {
         Session::default()

@@ -4,13 +4,6 @@
 use crate::query::MassUnit;
 use crate::science::units::{CompositionUnit, PressureUnit, TemperatureUnit};
 
-/// The caution shown once per session (see DESIGN.md, "Cautions").
-pub const CAUTION: &str = "Caution: reference data are for screening. A real formulation \
-(other solutes, pH, supersaturation, seeding, container) can behave differently: confirm \
-with stability testing of the actual product. Follow the safety data sheet, local \
-regulations and licensed practice for hazardous substances (oxidisers, toxic salts, \
-pressurised gases).";
-
 /// One help topic.
 #[derive(Debug, PartialEq, Eq)]
 pub struct Topic {
@@ -258,7 +251,7 @@ pub const TOPICS: &[Topic] = &[
         name: "caution",
         aliases: &["safety"],
         summary: "what the reference is for, and what it is not",
-        body: CAUTION,
+        body: crate::engine::CAUTION,
         examples: &[],
     },
 ];

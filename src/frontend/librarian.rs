@@ -5,14 +5,15 @@
 use std::io::{self, Write};
 use std::path::{Path, PathBuf};
 
-use crate::catalog::Catalog;
+use crate::Error;
+use crate::engine::Engine;
 use crate::frontend::cli::{Command, ReviewAction, SourceAction};
 use crate::librarian;
 use crate::output::Format;
+use crate::output::report;
 use crate::store::export::ExportFormat;
 use crate::store::review::{Decision, Retirement};
 use crate::store::{self, ImportFile, ImportOptions, Store};
-use crate::{Error, report};
 
 /// What went wrong in a librarian's command; [`Failure::exit_code`] says the exit status.
 pub enum Failure {
@@ -126,13 +127,13 @@ pub fn run(
             )?;
         }
         Command::Describe { solute } => {
-            let catalog = Catalog::open(db)?;
-            let description = catalog.describe(&solute).map_err(Error::from)?;
+            let engine = Engine::open(db)?;
+            let description = engine.describe_solute(&solute).map_err(Error::from)?;
             report::write_description(&description, out)?;
         }
         Command::Solutes => {
-            let catalog = Catalog::open(db)?;
-            report::write_solutes(&catalog, out)?;
+            let engine = Engine::open(db)?;
+            report::write_solutes(engine.catalog(), out)?;
         }
         Command::Import {
             files,

@@ -202,7 +202,7 @@ pub fn banner() -> String {
         "satline {}: a cited solubility reference for aqueous products.\n\
          Type `help` for statements and examples, Ctrl-D to leave.\n\n{}",
         env!("CARGO_PKG_VERSION"),
-        help::wrap(help::CAUTION, help::WIDTH)
+        help::wrap(&format!("Caution: {}", crate::engine::CAUTION), help::WIDTH)
     )
 }
 
@@ -423,8 +423,9 @@ mod tests {
     #[test]
     fn banner_carries_the_caution() {
         let banner = banner();
-        assert!(banner.contains("Caution: reference data are for screening."));
-        assert!(banner.contains("pressurised gases)."));
+        // The engine's one caution text, as every answer carries it.
+        assert!(banner.contains("Caution: Reference data are for screening:"));
+        assert!(banner.contains("licensed practice."));
     }
 
     #[test]

@@ -5,6 +5,7 @@ pub mod csv;
 pub mod headings;
 pub mod json;
 pub mod notes;
+pub mod report;
 pub mod table;
 
 use std::io::{self, Write};

@@ -196,6 +196,12 @@ mod tests {
     }
 
     #[test]
+    fn the_page_shows_the_engines_caution_before_it_asks_for_it() {
+        // The text the page holds until the vocabulary arrives is the engine's own.
+        assert!(INDEX_HTML.contains(crate::engine::CAUTION));
+    }
+
+    #[test]
     fn the_page_loads_only_its_own_files() {
         for text in [INDEX_HTML, PAGE_CSS, PAGE_JS] {
             for far in ["http://", "https://", "//cdn", "@import"] {

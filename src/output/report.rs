@@ -1,14 +1,13 @@
-//! Plain-text reports of the catalog for the librarian's commands (`describe`, `solutes`).
-//! Written to any `Write` so tests can capture them; the richer output module comes later.
+//! Plain-text reports of the catalog for the librarian's commands (`describe`, `solutes`):
+//! the engine finds the records (`Engine::describe_solute`, `Engine::catalog`), these print
+//! them, with the engine's one caution text. Written to any `Write` so tests can capture them.
 
 use std::io::{self, Write};
 
 use crate::catalog::{Catalog, Description, citation};
+use crate::engine::CAUTION;
 use crate::model::{Dataset, FitQuantity, GasFit, GasLaw};
 use crate::science::units::TemperatureUnit;
-
-/// The usual caution, said once per report (DESIGN.md, Cautions).
-pub const CAUTION: &str = "Reference data are for screening: a real formulation can behave differently, so confirm with stability testing of the actual product, and follow the safety data sheet for hazardous substances.";
 
 /// Writes the table of solutes: id, name, formula, kind, number of solubility datasets and
 /// of Henry's-law records.

@@ -139,3 +139,30 @@ fn bad_buffers_are_refused_with_the_reason() {
     assert!(message(3).contains("no acid or base"), "{}", message(3));
     assert!(message(4).contains("two buffers"), "{}", message(4));
 }
+
+#[test]
+fn a_freezing_path_stops_at_its_eutectic_and_never_empties_the_liquid() {
+    // Sodium phosphate alone: Na2HPO4·12H2O comes out first, the liquid turns acidic, and
+    // where a second form comes out (ice and two salts) the liquid is at its eutectic.
+    let a = answers(
+        "freezing of recipe 10 mM sodium phosphate at pH 7.4 at -30 C\n\
+         freezing of recipe 1 mmol/kg KH2PO4 at -5 C\n",
+    );
+    for answer in &a {
+        assert!(answer.ok, "{:?}", answer.error);
+        let ph = value(answer, "pH of the liquid at the eutectic");
+        assert!((3.0..=9.0).contains(&ph), "{ph}");
+        let water = value(answer, "water left liquid");
+        assert!(water >= 0.05, "{water}");
+        assert!(answer.caveats.iter().any(|c| c.contains("extrapolated")));
+    }
+    let eutectic = value(&a[0], "the liquid left reaches a eutectic");
+    assert!(eutectic < -1.0 && eutectic > -30.0, "{eutectic}");
+}
+
+#[test]
+fn a_buffer_of_nothing_is_refused() {
+    let a = answers("ph of recipe 0 mM sodium phosphate at pH 7 from 20 C to 30 C\n");
+    let message = &a[0].error.as_ref().unwrap().message;
+    assert!(message.contains("sets no pH"), "{message}");
+}

@@ -207,6 +207,12 @@ pub fn expand<'s>(
             ingredient.amount.span,
         ));
     }
+    if ingredient.amount.value <= 0.0 {
+        return Err(refuse(
+            format!("a buffer of no `{written}` sets no pH: give its amount"),
+            ingredient.amount.span,
+        ));
+    }
     let Some(water) = snap.water() else {
         return Err(refuse(
             "the reference holds no record of water's ionization: no pH can be worked out".into(),

@@ -333,13 +333,16 @@ pub fn freezing(
     let mut eutectic: Option<(f64, String)> = None;
     while t > target_k + 1e-9 {
         t = (t - STEP_K).max(target_k);
+        let f_before = f;
+        let ph_before = ph;
         f = water_left(liquid.particles(), t);
         if f < 1.0 && onset.is_none() {
             onset = Some(t);
         }
+        let mut out_here: Option<usize> = None;
         for _ in 0..3 {
             let mut moved = false;
-            for salt in salts.iter_mut() {
+            for (k, salt) in salts.iter_mut().enumerate() {
                 let Some(solubility) = saturated(snap, salt, t) else {
                     salt.unknown = true;
                     continue;
@@ -352,6 +355,7 @@ pub fn freezing(
                     if x > 0.0 {
                         take_out(&mut liquid, salt, x);
                         salt.out += x;
+                        out_here = Some(k);
                         if salt.first.is_none() {
                             salt.first = Some(t);
                             if let Some(curve) = snap.curve_at(salt.catalog_index, false)
@@ -369,19 +373,38 @@ pub fn freezing(
                 break;
             }
         }
+        // The liquid has reached a eutectic, below which what is left solidifies, when with
+        // ice present: a salt that is no buffer form starts to crystallise (the brine's own
+        // eutectic), a second buffer form does (ice and two forms), or the liquid collapses
+        // (half its water frozen in one step, or almost none left). The pH reported is the
+        // liquid's there, before it collapses.
+        let crystallising = salts.iter().filter(|s| s.first.is_some()).count();
+        let at_eutectic = out_here.and_then(|k| {
+            let salt = &salts[k];
+            let new = salt.first == Some(t);
+            let brine = new && salt.acid.is_none();
+            let second_form = new && salt.acid.is_some() && crystallising >= 2;
+            let collapse = f < 0.5 * f_before || f < 1e-3;
+            (onset.is_some() && (brine || second_form || collapse)).then(|| salt.name.clone())
+        });
+        if let Some(name) = at_eutectic {
+            if f < 0.5 * f_before || f < 1e-3 {
+                // Report the liquid as it was on reaching the point.
+                f = f_before;
+                ph = ph_before;
+            } else {
+                let s = solve(&liquid.solution(water, f), t).map_err(|e| refuse(e.to_string()))?;
+                beyond |= s.beyond_davies;
+                ph = s.ph;
+            }
+            path.push((t, ph));
+            eutectic = Some((t, name));
+            break;
+        }
         let s = solve(&liquid.solution(water, f), t).map_err(|e| refuse(e.to_string()))?;
         beyond |= s.beyond_davies;
         ph = s.ph;
         path.push((t, s.ph));
-        // A salt that is no buffer form crystallising with ice: the liquid has reached a
-        // eutectic; below it, what is left solidifies.
-        if let Some(salt) = salts
-            .iter()
-            .find(|s| s.acid.is_none() && s.first == Some(t))
-        {
-            eutectic = Some((t, salt.name.clone()));
-            break;
-        }
     }
     let ph_row = |t_k: f64, ph: f64, quantity: &'static str| Row {
         quantity: Some(quantity.into()),
@@ -486,15 +509,15 @@ pub fn freezing(
     });
     if shift.abs() > WARN_SHIFT {
         answer.caveat(format!(
-            "warning: the pH of the liquid left shifts by {} on freezing, before the product is solid (down to {} C: {} to {}), as {} crystallises: a protein or drug in it meets that pH; freeze fast, or choose a buffer whose forms stay dissolved (a potassium phosphate buffer shifts far less)",
+            "warning: the pH of the liquid left shifts by {} on freezing, before the product is solid (down to {} C: {} to {}), as {}: a protein or drug in it meets that pH; freeze fast, or choose a buffer whose forms stay dissolved (a potassium phosphate buffer shifts far less)",
             round_significant(shift, 2),
             round_significant(celsius(last_t), 3),
             round_significant(start.ph, 3),
             round_significant(ph, 3),
-            firsts
-                .iter()
-                .find(|s| s.acid.is_some())
-                .map_or("a buffer salt".to_string(), |s| s.name.clone())
+            firsts.iter().find(|s| s.acid.is_some()).map_or(
+                "the liquid cools and concentrates (no buffer form crystallises)".to_string(),
+                |s| format!("{} crystallises", s.name)
+            )
         ));
     }
     let unknown: Vec<&str> = salts
@@ -509,6 +532,17 @@ pub fn freezing(
         ));
     }
     answer.caveat("freeze-concentration path in a simple model: water activity ideal (Raoult), each salt checked against its own solubility (a buffer form by its own species; no common-ion effect), solubilities below the data extrapolated on the curve's end, water of crystallisation not taken from the liquid; the temperatures and pH are estimates to compare buffers, not a prediction of a real freezer");
+    let lowest_constants = liquid
+        .acids
+        .iter()
+        .map(|p| p.acid.t_min_k)
+        .fold(water.t_min_k, f64::max);
+    if last_t < lowest_constants - 1e-9 {
+        answer.caveat(format!(
+            "the acid-base constants are evaluated from {} C: below it their temperature dependence is extrapolated",
+            celsius(lowest_constants)
+        ));
+    }
     if beyond {
         answer.caveat("the liquid's ionic strength passes 0.5 mol/kg on the way: the Davies coefficients are taken at 0.5 there, so the pH is rougher");
     }

@@ -8,6 +8,10 @@ use std::collections::BTreeMap;
 use serde::Serialize;
 
 pub mod plot_spec;
+mod rows;
+pub mod screened;
+
+pub use rows::Rows;
 
 /// What kind of statement an answer belongs to.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, utoipa::ToSchema)]
@@ -159,7 +163,8 @@ pub struct Answer {
     /// that point at it.
     #[serde(skip)]
     pub span: (usize, usize),
-    pub rows: Vec<Row>,
+    #[schema(value_type = Vec<Row>)]
+    pub rows: Rows,
     pub caveats: Vec<String>,
     pub sources: Vec<SourceRef>,
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -183,7 +188,7 @@ impl Answer {
             holds: None,
             shortfall: None,
             span: (0, 0),
-            rows: Vec::new(),
+            rows: Rows::new(),
             caveats: Vec::new(),
             sources: Vec::new(),
             error: None,

@@ -227,6 +227,11 @@ impl Catalog {
         self.source_index.get(key).map(|&i| &self.sources[i])
     }
 
+    /// The position of the source with this key in [`Catalog::sources`].
+    pub fn source_position(&self, key: &str) -> Option<usize> {
+        self.source_index.get(key).copied()
+    }
+
     /// Every solute, by id.
     pub fn solutes(&self) -> &[Solute] {
         &self.solutes

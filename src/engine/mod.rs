@@ -30,6 +30,7 @@ pub mod pitzer_solids;
 mod plot;
 mod recipe;
 mod records;
+mod screen;
 mod snapshot;
 mod solid;
 
@@ -229,7 +230,7 @@ impl Engine {
         answer.span = span;
         let result = match &statement.node {
             Statement::Solubility(s) => solid::lookup(&self.snapshot, s, &mut answer),
-            Statement::Screen(s) => solid::screen(&self.snapshot, s, &mut answer),
+            Statement::Screen(s) => screen::screen(&self.snapshot, s, &mut answer),
             Statement::Saturation(s) => solid::saturation(&self.snapshot, s, &mut answer),
             Statement::Ceiling(s) => solid::ceiling(&self.snapshot, s, &mut answer),
             Statement::HeatOfSolution(s) => heat::heat(&self.snapshot, s, &mut answer),

@@ -607,7 +607,7 @@ fn solids(
             "dashed lines are extrapolated beyond the data or across a gap between two solid phases: treat them with care",
         );
     }
-    answer.rows = rows;
+    answer.rows = rows.into();
     let named: Vec<&Solute> = solutes.iter().map(|(x, _)| *x).collect();
     Ok(PlotSpec {
         title: title("Solubility in water", &named),

@@ -3,8 +3,9 @@
 //! rebuild an interpolant.
 
 use std::collections::HashMap;
-use std::sync::OnceLock;
+use std::sync::{Arc, OnceLock};
 
+use crate::answer::screened::ScreenNames;
 use crate::catalog::Catalog;
 use crate::engine::common::Citing;
 use crate::model::{Dataset, Provenance, Review};
@@ -17,6 +18,13 @@ use crate::science::curve::{Branch, Curve};
 pub struct BuiltCurve {
     pub curve: Curve,
     pub datasets: Vec<usize>,
+    /// Whether any of `datasets` is typed from memory, or unreviewed: kept here so that a
+    /// screening of many solutes reads no dataset to count them.
+    pub from_memory: bool,
+    pub unreviewed: bool,
+    /// The source every one of `datasets` cites, when they all cite one (its position in
+    /// `Catalog::sources`).
+    pub one_source: Option<usize>,
     /// What citing the curve adds to an answer, made the first time it is cited (see
     /// `common::cite_curve`): the same for every statement, so it is formatted once.
     pub(super) citing: OnceLock<Citing>,
@@ -38,6 +46,8 @@ pub struct Snapshot {
     /// The curves of each solute, in the order of `Catalog::solutes` (a screening walks
     /// them side by side without hashing ids).
     curves: Vec<SoluteCurves>,
+    /// The names a screening's compact rows refer to (solutes and their curves' phases).
+    screen_names: Arc<ScreenNames>,
     /// Solute id → index into `curves`.
     curve_index: HashMap<String, usize>,
     /// Every name a person may type for a solute (names, ids, formulas, synonyms), sorted.
@@ -102,8 +112,17 @@ fn build(catalog: &Catalog, indices: &[usize]) -> Option<BuiltCurve> {
         }
     }
     let curve = Curve::new(branches).ok()?;
+    let of = |i: &usize| &catalog.datasets()[*i];
+    let first_source = used.first().map(|i| of(i).source.as_str());
     Some(BuiltCurve {
         curve,
+        from_memory: used
+            .iter()
+            .any(|i| of(i).provenance == Provenance::FromMemory),
+        unreviewed: used.iter().any(|i| of(i).review == Review::Unreviewed),
+        one_source: first_source
+            .filter(|key| used.iter().all(|i| of(i).source == *key))
+            .and_then(|key| catalog.source_position(key)),
         datasets: used,
         citing: OnceLock::new(),
     })
@@ -114,6 +133,7 @@ impl Snapshot {
         let mut curves = Vec::with_capacity(catalog.solutes().len());
         let mut curve_index = HashMap::new();
         let mut names = Vec::new();
+        let mut screen_names = ScreenNames::default();
         // Datasets grouped by solute in one pass (in catalog order), so building the
         // snapshot stays linear in the size of the catalog.
         let mut by_solute: HashMap<&str, Vec<usize>> = HashMap::new();
@@ -138,13 +158,29 @@ impl Snapshot {
                 .collect();
             // The last solute of an id wins, as in the catalog's own index.
             curve_index.insert(solute.id.clone(), curves.len());
-            curves.push(SoluteCurves {
+            let solute_curves = SoluteCurves {
                 all: build(&catalog, &usable),
                 reviewed: build(&catalog, &reviewed),
-            });
+            };
+            let phases = |c: &Option<BuiltCurve>| -> Vec<String> {
+                c.iter()
+                    .flat_map(|c| c.curve.branches.iter().map(|b| b.phase.clone()))
+                    .collect()
+            };
+            screen_names.push(
+                &solute.name,
+                phases(&solute_curves.all),
+                phases(&solute_curves.reviewed),
+            );
+            curves.push(solute_curves);
         }
         names.sort();
         names.dedup();
+        // Copied once more, now that nothing else is being built: each solute's curves are
+        // then allocated one after another in catalog order, so a screening that walks the
+        // solutes in that order reads memory forwards (the processor fetches ahead) instead
+        // of jumping to wherever the curve was built beside the names and datasets.
+        let curves: Vec<SoluteCurves> = curves.to_vec();
         // The compiled-in model files are checked by the tests (store::models); a bad one
         // would leave the activity model without parameters, never stop the engine.
         let models =
@@ -156,6 +192,7 @@ impl Snapshot {
         Snapshot {
             catalog,
             curves,
+            screen_names: Arc::new(screen_names),
             curve_index,
             names,
             models,
@@ -223,6 +260,11 @@ impl Snapshot {
         } else {
             curves.all.as_ref()
         }
+    }
+
+    /// The names a screening's compact rows refer to.
+    pub fn screen_names(&self) -> &Arc<ScreenNames> {
+        &self.screen_names
     }
 
     pub fn names(&self) -> &[String] {

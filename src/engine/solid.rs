@@ -9,21 +9,19 @@ use crate::answer::{Answer, Basis, Row};
 use crate::engine::CAUTION;
 use crate::engine::common;
 use crate::engine::common::{
-    basis_caveat, bounds, celsius, cite_curve, cite_source, curve_error, curve_of, in_unit,
-    loading_mass_fraction, phase_caveat, resolve, value,
+    basis_caveat, bounds, celsius, cite_curve, curve_error, curve_of, in_unit, phase_caveat,
+    resolve, value,
 };
 use crate::engine::error::EvalError;
 use crate::engine::per_litre::{self, DEFAULT_VOLUME_T_K, Volume};
-use crate::engine::records::selects;
 use crate::engine::snapshot::Snapshot;
-use crate::model::{Provenance, Review, Solute, SoluteKind};
+use crate::model::Solute;
 use crate::number::{display, round_significant};
-use crate::query::{Ceiling, Convert, HeatOfSolution, Require, Saturation, Screen, Solubility};
-use crate::science::ScienceError;
+use crate::query::{Ceiling, Convert, HeatOfSolution, Require, Saturation, Solubility};
 use crate::science::formula::parse_formula;
 use crate::science::freezing::ICE_POINT;
 use crate::science::heat::heat_of_solution;
-use crate::science::solve::{self, Screening, stays_dissolved_with};
+use crate::science::solve;
 use crate::science::units::{
     self, CompositionUnit, TemperatureUnit, anhydrous_to_hydrate, hydrate_to_anhydrous,
 };
@@ -84,253 +82,16 @@ fn headroom(pct: f64) -> f64 {
 }
 
 /// Headroom for a row: none for a zero loading (it holds trivially, without limit).
-fn finite_headroom(pct: f64) -> Option<f64> {
+pub(super) fn finite_headroom(pct: f64) -> Option<f64> {
     pct.is_finite().then(|| headroom(pct))
 }
 
 /// The caveat of a zero loading.
-fn zero_loading_caveat(w: f64, answer: &mut Answer) {
+pub(super) fn zero_loading_caveat(w: f64, answer: &mut Answer) {
     if w == 0.0 {
         answer.caveat(
             "a zero loading holds trivially: nothing is dissolved, so nothing can crystallise",
         );
-    }
-}
-
-/// `which salts stay dissolved at 30 g/100g water from 2 C to 8 C margin 10%`.
-pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), EvalError> {
-    let (t1, t2) = bounds(&s.temperatures);
-    let margin = s.margin.map_or(0.0, |m| m.percent / 100.0);
-    // Results are ranked as compact records and turned into rows once, in rank order, so
-    // a large screening moves no rows while sorting.
-    // Option, so the rows can be taken out in rank order without another copy.
-    let mut ranked: Vec<Option<Ranked>> = Vec::with_capacity(snap.catalog.solutes().len());
-    let filters = crate::engine::filters::checked(snap, &s.filters, answer)?;
-    let mut no_data: Vec<Row> = Vec::new();
-    let (mut from_memory, mut unreviewed, mut frozen) = (0usize, 0usize, 0usize);
-    for (index, solute) in snap.catalog.solutes().iter().enumerate() {
-        if !selects(snap, solute, s.class, &filters) {
-            continue;
-        }
-        let missing = |reason: String| Row {
-            solute: Some(solute.name.clone()),
-            extra: [
-                ("status".to_string(), json!("no data")),
-                ("reason".to_string(), json!(reason)),
-            ]
-            .into_iter()
-            .collect(),
-            ..Row::default()
-        };
-        if solute.kind == SoluteKind::Gas {
-            no_data.push(missing(
-                "a gas: its solubility depends on its pressure (ask `dissolved`)".into(),
-            ));
-            continue;
-        }
-        let Some(built) = snap.curve_at(index, s.options.reviewed_only) else {
-            no_data.push(missing(if s.options.reviewed_only {
-                "no reviewed solubility data".into()
-            } else {
-                "no solubility data yet".into()
-            }));
-            continue;
-        };
-        // A per-litre loading needs each solution's density: a solute without one is
-        // listed apart with the reason, never as passing.
-        let w = match loading_mass_fraction(snap, &s.loading, solute, &s.options, answer) {
-            Ok(w) => w,
-            Err(e) if s.loading.unit.needs_density() => {
-                no_data.push(missing(e.to_string()));
-                continue;
-            }
-            Err(e) => return Err(e),
-        };
-        // Below 0 °C the loading's ice line comes first, as in `require`: where ice forms in
-        // the range the solute does not pass, and its curve is checked from the ice line up.
-        // (A solute whose curve does not reach the range is listed for that reason first;
-        // one whose ice line is not known, for that one.)
-        let (mut from, mut ice, mut ice_unknown) = (t1, None, None);
-        if t1 < ICE_POINT {
-            match crate::engine::freezing::ice_onset(snap, solute, w, s.options.reviewed_only) {
-                Ok(Some((t_ice, basis))) if t_ice > t1 => {
-                    from = t_ice.min(t2);
-                    ice = Some((t_ice, basis));
-                }
-                Ok(_) => {}
-                Err(reason) => ice_unknown = Some(reason),
-            }
-        }
-        let screening =
-            match stays_dissolved_with(&built.curve, w, from, t2, margin, s.options.extrapolate) {
-                Ok(screening) => screening,
-                Err(ScienceError::OutOfRange { .. } | ScienceError::InGap { .. }) => {
-                    let (lo, hi) = built.curve.temperature_range();
-                    no_data.push(missing(format!(
-                        "data do not cover the whole range (they cover {} C to {} C)",
-                        celsius(lo),
-                        celsius(hi)
-                    )));
-                    continue;
-                }
-                Err(other) => {
-                    no_data.push(missing(other.to_string()));
-                    continue;
-                }
-            };
-        if let Some(reason) = ice_unknown {
-            no_data.push(missing(format!(
-                "whether ice forms in the range is not known: {reason}"
-            )));
-            continue;
-        }
-        let datasets = snap.catalog.datasets();
-        if built
-            .datasets
-            .iter()
-            .any(|&i| datasets[i].provenance == Provenance::FromMemory)
-        {
-            from_memory += 1;
-        }
-        if built
-            .datasets
-            .iter()
-            .any(|&i| datasets[i].review == Review::Unreviewed)
-        {
-            unreviewed += 1;
-        }
-        for &i in &built.datasets {
-            cite_source(snap, &datasets[i].source, answer);
-        }
-        let saturated = in_unit(
-            snap,
-            screening.limiting_mass_fraction,
-            s.loading.unit,
-            solute,
-            s.loading.span,
-            &s.options,
-            answer,
-        )
-        .ok();
-        if ice.is_some() {
-            frozen += 1;
-        }
-        ranked.push(Some(Ranked {
-            solute,
-            screening,
-            saturated,
-            ice,
-        }));
-    }
-    // Best headroom first, then by name; the sort is stable, so equal rows keep catalog
-    // order. Only (headroom, position) pairs move while sorting.
-    let mut order: Vec<(f64, &str, usize)> = ranked
-        .iter()
-        .enumerate()
-        .filter_map(|(i, r)| r.as_ref().map(|r| (r.rank(), r.solute.name.as_str(), i)))
-        .collect();
-    order.sort_by(|a, b| b.0.total_cmp(&a.0).then_with(|| a.1.cmp(b.1)));
-    let held = ranked.iter().flatten().filter(|r| r.holds()).count();
-    let with_data = ranked.len();
-    let no_data_count = no_data.len();
-    let unit = s.loading.unit.symbol();
-    answer.rows.reserve(with_data + no_data_count);
-    for &(_, _, i) in &order {
-        if let Some(r) = ranked[i].take() {
-            answer.rows.push(screening_row(r, unit));
-        }
-    }
-    answer.rows.extend(no_data);
-    if s.loading.value == 0.0 {
-        zero_loading_caveat(0.0, answer);
-    }
-    answer.caveat(format!(
-        "{held} of {with_data} solutes with data stay dissolved; {no_data_count} without data over the range are listed apart as \"no data\", never as passing"
-    ));
-    if margin > 0.0 {
-        answer.caveat(format!(
-            "margin {}%: the solubility must exceed the loading by that share of its solute-to-water ratio",
-            round_significant(margin * 100.0, 4)
-        ));
-    }
-    if frozen > 0 {
-        answer.caveat(format!(
-            "{frozen} of the solutes screened freeze in the range: ice forms on cooling below the temperature given, before any salt crystallises; such a product does not stay liquid"
-        ));
-    }
-    if from_memory > 0 {
-        answer.caveat(format!(
-            "{from_memory} of the solutes screened rest on data typed from memory of the cited tables, not yet checked against them (from-memory)"
-        ));
-    }
-    if unreviewed > 0 {
-        answer.caveat(format!(
-            "{unreviewed} of the solutes screened rest on unreviewed data"
-        ));
-    }
-    answer.caveat(CAUTION);
-    Ok(())
-}
-
-/// One solute's result in a screening, before ranking.
-struct Ranked<'a> {
-    solute: &'a Solute,
-    screening: Screening,
-    saturated: Option<f64>,
-    /// Where ice forms on cooling, K, when that is inside the range, and how that is known.
-    ice: Option<(f64, Basis)>,
-}
-
-impl Ranked<'_> {
-    fn holds(&self) -> bool {
-        self.screening.holds && self.ice.is_none()
-    }
-
-    /// The ranking key: headroom, with a solute that freezes in the range below every other.
-    fn rank(&self) -> f64 {
-        if self.ice.is_some() {
-            f64::NEG_INFINITY
-        } else {
-            self.screening.headroom_pct
-        }
-    }
-}
-
-/// One ranked row of a screening.
-fn screening_row(r: Ranked, unit: &'static str) -> Row {
-    let Ranked {
-        solute,
-        screening,
-        saturated,
-        ice,
-    } = r;
-    if let Some((t_ice, basis)) = ice {
-        return Row {
-            solute: Some(solute.name.clone()),
-            quantity: Some("ice appears on cooling below".into()),
-            value: Some(celsius(t_ice)),
-            unit: Some("C".into()),
-            basis: Some(basis),
-            temperature_c: Some(celsius(t_ice)),
-            holds: Some(false),
-            headroom_pct: None,
-            extra: BTreeMap::new(),
-            phase: Some("ice".into()),
-        };
-    }
-    Row {
-        solute: Some(solute.name.clone()),
-        quantity: Some("solubility at the limiting temperature".into()),
-        value: saturated,
-        unit: saturated.map(|_| unit.into()),
-        basis: Some(screening.basis),
-        temperature_c: Some(celsius(screening.limiting_t_k)),
-        holds: Some(screening.holds),
-        headroom_pct: finite_headroom(screening.headroom_pct),
-        // `holds` says whether it stays dissolved; no `extra` map, so no allocation for it
-        // (a screening may have 100,000 rows).
-        extra: BTreeMap::new(),
-        phase: Some(screening.phase),
     }
 }
 

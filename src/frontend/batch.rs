@@ -463,7 +463,7 @@ mod tests {
     fn require_answer(statement: &str, rows: Vec<Row>) -> Answer {
         let mut answer = Answer::new(statement, AnswerKind::Require);
         answer.holds = Some(rows.iter().all(|r| r.holds == Some(true)));
-        answer.rows = rows;
+        answer.rows = rows.into();
         // What the engine states for such a row.
         answer.shortfall = Some(
             "potassium chloride, limiting temperature 2 C, headroom -12.5%, short by 12.5 \

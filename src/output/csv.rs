@@ -58,7 +58,7 @@ pub fn write_answer(out: &mut impl Write, answer: &Answer) -> io::Result<()> {
             ])
             .map_err(io::Error::other)?;
     }
-    for row in &answer.rows {
+    for row in answer.rows.each() {
         let basis = row.basis.map(|b| b.as_str()).unwrap_or_default();
         writer
             .write_record([

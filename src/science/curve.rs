@@ -46,9 +46,12 @@ impl Basis {
 /// values: it never overshoots.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Pchip {
-    x: Vec<f64>,
-    y: Vec<f64>,
-    d: Vec<f64>,
+    /// The knots' abscissae, ordinates and slopes, one after the other (n each): one
+    /// allocation, so evaluating touches one block of memory.
+    knots: Vec<f64>,
+    /// Lowest and highest abscissa, kept beside the pointer so that asking whether a
+    /// temperature is covered reads no knot.
+    range: (f64, f64),
 }
 
 impl Pchip {
@@ -84,47 +87,63 @@ impl Pchip {
             }
         }
         let d = slopes(&x, &y);
-        Ok(Self { x, y, d })
+        let range = (x[0], x[x.len() - 1]);
+        let mut knots = x;
+        knots.extend_from_slice(&y);
+        knots.extend_from_slice(&d);
+        Ok(Self { knots, range })
     }
 
     /// The knots' abscissae.
     pub fn knots(&self) -> &[f64] {
-        &self.x
+        self.x()
     }
 
     /// The knots' ordinates.
     pub fn values(&self) -> &[f64] {
-        &self.y
+        self.y()
+    }
+
+    fn x(&self) -> &[f64] {
+        &self.knots[..self.knots.len() / 3]
+    }
+
+    fn y(&self) -> &[f64] {
+        let n = self.knots.len() / 3;
+        &self.knots[n..2 * n]
+    }
+
+    fn d(&self) -> &[f64] {
+        let n = self.knots.len() / 3;
+        &self.knots[2 * n..]
     }
 
     /// (lowest x, highest x).
     pub fn range(&self) -> (f64, f64) {
-        (self.x[0], self.x[self.x.len() - 1])
+        self.range
     }
 
     /// Value and derivative at `x`. Outside the knots the end tangent line is followed
     /// (linear extrapolation; callers flag it).
     pub fn eval(&self, x: f64) -> (f64, f64) {
-        let n = self.x.len();
+        let (xs, ys, ds) = (self.x(), self.y(), self.d());
+        let n = xs.len();
         if n == 1 {
-            return (self.y[0], 0.0);
+            return (ys[0], 0.0);
         }
-        if x <= self.x[0] {
-            return (self.y[0] + self.d[0] * (x - self.x[0]), self.d[0]);
+        if x <= xs[0] {
+            return (ys[0] + ds[0] * (x - xs[0]), ds[0]);
         }
-        if x >= self.x[n - 1] {
-            return (
-                self.y[n - 1] + self.d[n - 1] * (x - self.x[n - 1]),
-                self.d[n - 1],
-            );
+        if x >= xs[n - 1] {
+            return (ys[n - 1] + ds[n - 1] * (x - xs[n - 1]), ds[n - 1]);
         }
-        let k = match self.x.binary_search_by(|v| v.total_cmp(&x)) {
-            Ok(k) => return (self.y[k], self.d[k]),
+        let k = match xs.binary_search_by(|v| v.total_cmp(&x)) {
+            Ok(k) => return (ys[k], ds[k]),
             Err(k) => k - 1,
         };
-        let h = self.x[k + 1] - self.x[k];
-        let t = (x - self.x[k]) / h;
-        let (y0, y1, d0, d1) = (self.y[k], self.y[k + 1], self.d[k], self.d[k + 1]);
+        let h = xs[k + 1] - xs[k];
+        let t = (x - xs[k]) / h;
+        let (y0, y1, d0, d1) = (ys[k], ys[k + 1], ds[k], ds[k + 1]);
         let t2 = t * t;
         let t3 = t2 * t;
         let h00 = 2.0 * t3 - 3.0 * t2 + 1.0;
@@ -149,13 +168,14 @@ impl Pchip {
     /// places where the interpolant can have an interior extremum. Beyond the knots the
     /// interpolant is a straight line and has none.
     pub fn turning_points(&self, lo: f64, hi: f64, out: &mut Vec<f64>) {
-        for k in 0..self.x.len().saturating_sub(1) {
-            let (x0, x1) = (self.x[k], self.x[k + 1]);
+        let (xs, ys, ds) = (self.x(), self.y(), self.d());
+        for k in 0..xs.len().saturating_sub(1) {
+            let (x0, x1) = (xs[k], xs[k + 1]);
             if x1 <= lo || x0 >= hi {
                 continue;
             }
             let h = x1 - x0;
-            let (y0, y1, d0, d1) = (self.y[k], self.y[k + 1], self.d[k], self.d[k + 1]);
+            let (y0, y1, d0, d1) = (ys[k], ys[k + 1], ds[k], ds[k + 1]);
             let a = 6.0 * (y0 - y1) + 3.0 * h * (d0 + d1);
             let b = 6.0 * (y1 - y0) - h * (4.0 * d0 + 2.0 * d1);
             let c = h * d0;
@@ -602,6 +622,17 @@ impl Curve {
             branch: i,
             basis: branch.basis_at(t_k),
         })
+    }
+
+    /// [`Curve::evaluate`] without the phase's name (no allocation): the stable branch's
+    /// index in [`Curve::branches`], the mass fraction and its basis, with the same errors.
+    pub fn evaluate_branch(
+        &self,
+        t_k: f64,
+        extrapolate: bool,
+    ) -> Result<(usize, f64, Basis), ScienceError> {
+        let (i, w, _) = self.stable_checked(t_k, extrapolate)?;
+        Ok((i, w, self.branches[i].basis_at(t_k)))
     }
 
     /// The mass fraction [`Curve::evaluate`] gives, with the same errors, without building

@@ -37,6 +37,26 @@ pub struct Minimum {
     pub basis: Basis,
 }
 
+/// [`Minimum`] with the stable phase as its branch's index in [`Curve::branches`]: what a
+/// screening keeps per solute (no allocation).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Lowest {
+    pub t_k: f64,
+    pub mass_fraction: f64,
+    /// Index of the stable branch there in [`Curve::branches`].
+    pub branch: usize,
+    pub basis: Basis,
+}
+
+/// Buffers [`lowest`] reuses from one curve to the next, so that a screening of many
+/// solutes lists their candidates without allocating for each.
+#[derive(Debug, Default)]
+pub struct Scratch {
+    breaks: Vec<f64>,
+    turning: Vec<f64>,
+    candidates: Vec<(f64, bool)>,
+}
+
 /// The minimum of the curve over [t1_k, t2_k] (every temperature, not only the ends), exact
 /// up to the rounding of the candidates listed in the module's comment.
 ///
@@ -50,6 +70,23 @@ pub fn minimum(
     t2_k: f64,
     extrapolate: bool,
 ) -> Result<Minimum, ScienceError> {
+    let low = lowest(curve, t1_k, t2_k, extrapolate, &mut Scratch::default())?;
+    Ok(Minimum {
+        t_k: low.t_k,
+        mass_fraction: low.mass_fraction,
+        phase: curve.branches[low.branch].phase.clone(),
+        basis: low.basis,
+    })
+}
+
+/// [`minimum`] with the stable phase as a branch index, reusing `scratch`.
+pub fn lowest(
+    curve: &Curve,
+    t1_k: f64,
+    t2_k: f64,
+    extrapolate: bool,
+    scratch: &mut Scratch,
+) -> Result<Lowest, ScienceError> {
     if !(t1_k.is_finite() && t2_k.is_finite()) || t2_k < t1_k {
         return Err(ScienceError::BadRange { t1_k, t2_k });
     }
@@ -63,17 +100,17 @@ pub fn minimum(
     if t1_k == t2_k {
         let uncovered = !curve.covers(t1_k);
         if uncovered && !extrapolate {
-            curve.evaluate(t1_k, false)?;
+            curve.evaluate_branch(t1_k, false)?;
         }
-        let e = curve.evaluate(t1_k, true)?;
-        return Ok(Minimum {
+        let (branch, mass_fraction, basis) = curve.evaluate_branch(t1_k, true)?;
+        return Ok(Lowest {
             t_k: t1_k,
-            mass_fraction: e.mass_fraction,
-            phase: e.phase,
+            mass_fraction,
+            branch,
             basis: if uncovered {
                 Basis::Extrapolated
             } else {
-                e.basis
+                basis
             },
         });
     }
@@ -92,10 +129,11 @@ pub fn minimum(
     if let Some(t) = uncovered
         && !extrapolate
     {
-        curve.evaluate(t, false)?;
+        curve.evaluate_branch(t, false)?;
     }
+    candidates(curve, t1_k, t2_k, scratch);
     let mut best: Option<(f64, f64, bool)> = None;
-    for (t, at_breakpoint) in candidates(curve, t1_k, t2_k) {
+    for &(t, at_breakpoint) in &scratch.candidates {
         let Ok(w) = curve.mass_fraction(t, true) else {
             continue;
         };
@@ -108,39 +146,50 @@ pub fn minimum(
         }
     }
     let best_t = best.map_or(t1_k, |(t, _, _)| t);
-    let e = curve.evaluate(best_t, true)?;
-    Ok(Minimum {
+    let (branch, mass_fraction, basis) = curve.evaluate_branch(best_t, true)?;
+    Ok(Lowest {
         t_k: best_t,
-        mass_fraction: e.mass_fraction,
-        phase: e.phase,
+        mass_fraction,
+        branch,
         basis: if uncovered.is_some() {
             Basis::Extrapolated
         } else {
-            e.basis
+            basis
         },
     })
 }
 
-/// The candidates of the module's comment inside [t1_k, t2_k], ascending, each with whether
-/// it is a breakpoint (rather than a point beside one or a turning point).
-fn candidates(curve: &Curve, t1_k: f64, t2_k: f64) -> Vec<(f64, bool)> {
-    let mut breaks = vec![t1_k, t2_k];
+/// The candidates of the module's comment inside [t1_k, t2_k] into `scratch.candidates`,
+/// ascending, each with whether it is a breakpoint (rather than a point beside one or a
+/// turning point).
+fn candidates(curve: &Curve, t1_k: f64, t2_k: f64, scratch: &mut Scratch) {
+    let Scratch {
+        breaks,
+        turning,
+        candidates: out,
+    } = scratch;
+    breaks.clear();
+    turning.clear();
+    out.clear();
+    breaks.extend([t1_k, t2_k]);
+    let inside = |t: &f64| *t >= t1_k && *t <= t2_k;
     for b in &curve.branches {
-        breaks.extend_from_slice(b.knots());
+        // Knots ascend: only those inside the range.
+        let knots = b.knots();
+        let first = knots.partition_point(|&t| t < t1_k);
+        let last = knots.partition_point(|&t| t <= t2_k).max(first);
+        breaks.extend_from_slice(&knots[first..last]);
         let (lo, hi) = b.range();
-        breaks.extend([lo, hi]);
+        breaks.extend([lo, hi].into_iter().filter(inside));
         if let Some((lo, hi)) = b.stable_range() {
-            breaks.extend([lo, hi]);
+            breaks.extend([lo, hi].into_iter().filter(inside));
         }
     }
-    breaks.extend(curve.transitions().iter().map(|t| t.t_k));
-    breaks.retain(|&t| t >= t1_k && t <= t2_k);
-    let mut turning = Vec::new();
+    breaks.extend(curve.transitions().iter().map(|t| t.t_k).filter(inside));
     for b in &curve.branches {
-        b.turning_points(t1_k, t2_k, &mut turning);
+        b.turning_points(t1_k, t2_k, turning);
     }
-    let mut out: Vec<(f64, bool)> = Vec::with_capacity(3 * breaks.len() + turning.len());
-    for &t in &breaks {
+    for &t in breaks.iter() {
         out.push((t, true));
         for beside in [t - BESIDE_K, t + BESIDE_K] {
             if beside > t1_k && beside < t2_k {
@@ -148,11 +197,10 @@ fn candidates(curve: &Curve, t1_k: f64, t2_k: f64) -> Vec<(f64, bool)> {
             }
         }
     }
-    out.extend(turning.into_iter().map(|t| (t, false)));
+    out.extend(turning.iter().map(|&t| (t, false)));
     // Ascending, a breakpoint before anything else at the same temperature; duplicates go.
-    out.sort_by(|a, b| a.0.total_cmp(&b.0).then(b.1.cmp(&a.1)));
+    out.sort_unstable_by(|a, b| a.0.total_cmp(&b.0).then(b.1.cmp(&a.1)));
     out.dedup_by(|later, earlier| later.0 == earlier.0);
-    out
 }
 
 #[cfg(test)]

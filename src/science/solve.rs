@@ -8,7 +8,7 @@
 
 use super::curve::{Basis, Curve, dense_grid};
 use super::error::ScienceError;
-pub use super::range_minimum::{Minimum, minimum};
+pub use super::range_minimum::{Lowest, Minimum, Scratch, lowest, minimum};
 
 /// Steps per interval between knots of the scanning grid.
 const STEPS: usize = 200;
@@ -218,15 +218,58 @@ pub fn stays_dissolved_with(
     margin: f64,
     extrapolate: bool,
 ) -> Result<Screening, ScienceError> {
+    let v = verdict(
+        curve,
+        w,
+        t1_k,
+        t2_k,
+        margin,
+        extrapolate,
+        &mut Scratch::default(),
+    )?;
+    Ok(Screening {
+        holds: v.holds,
+        limiting_t_k: v.limiting_t_k,
+        phase: curve.branches[v.branch].phase.clone(),
+        limiting_mass_fraction: v.limiting_mass_fraction,
+        headroom_pct: v.headroom_pct,
+        basis: v.basis,
+    })
+}
+
+/// [`Screening`] with the stable phase as its branch's index in [`Curve::branches`]: what a
+/// screening of many solutes keeps per solute (no allocation).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Verdict {
+    pub holds: bool,
+    pub limiting_t_k: f64,
+    /// Index of the stable branch at the limiting temperature.
+    pub branch: usize,
+    pub limiting_mass_fraction: f64,
+    pub headroom_pct: f64,
+    pub basis: Basis,
+}
+
+/// [`stays_dissolved_with`] without the phase's name, reusing `scratch` from one curve to
+/// the next.
+pub fn verdict(
+    curve: &Curve,
+    w: f64,
+    t1_k: f64,
+    t2_k: f64,
+    margin: f64,
+    extrapolate: bool,
+    scratch: &mut Scratch,
+) -> Result<Verdict, ScienceError> {
     let w = check_loading_or_zero(w)?;
     let margin = check_margin(margin)?;
-    let m = minimum(curve, t1_k, t2_k, extrapolate)?;
+    let m = lowest(curve, t1_k, t2_k, extrapolate, scratch)?;
     let (r_min, r_load) = (ratio(m.mass_fraction), ratio(w));
-    Ok(Screening {
+    Ok(Verdict {
         // A zero loading holds trivially (nothing is dissolved); its headroom is infinite.
         holds: r_min >= r_load * (1.0 + margin),
         limiting_t_k: m.t_k,
-        phase: m.phase,
+        branch: m.branch,
         limiting_mass_fraction: m.mass_fraction,
         headroom_pct: (r_min / r_load - 1.0) * 100.0,
         basis: m.basis,

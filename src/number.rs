@@ -36,7 +36,7 @@ fn by_power_of_ten(x: f64, digits: usize) -> Option<f64> {
     if digits > 9 {
         return None;
     }
-    let exponent = x.abs().log10().floor();
+    let exponent = f64::from(decimal_exponent(x.abs())?);
     let shift = digits as f64 - 1.0 - exponent;
     if shift.abs() > 22.0 {
         return None;
@@ -59,6 +59,19 @@ fn by_power_of_ten(x: f64, digits: usize) -> Option<f64> {
     } else {
         kept * power
     })
+}
+
+/// ⌊log10 a⌋ for a positive `a` from 1e-22 to below 1e22, by comparing with exact powers
+/// of ten (no logarithm); `None` outside. Next to a power of ten below 1 the product may
+/// round across it: the figure count check of [`by_power_of_ten`] catches that.
+fn decimal_exponent(a: f64) -> Option<i32> {
+    if a >= 1.0 {
+        let k = POWERS_OF_TEN.partition_point(|&p| p <= a);
+        (k < POWERS_OF_TEN.len()).then(|| k as i32 - 1)
+    } else {
+        let k = POWERS_OF_TEN.iter().position(|&p| a * p >= 1.0)?;
+        Some(-(k as i32))
+    }
 }
 
 /// The sure way: the number's decimal text rounded by the formatter, read back.
@@ -155,6 +168,21 @@ mod tests {
                 proptest::prop_assert_eq!(round_significant(x, digits), by_text(x, digits));
             }
         }
+    }
+
+    #[test]
+    fn the_decimal_exponent_is_the_floor_of_the_logarithm() {
+        for a in [
+            1.0, 9.999, 10.0, 31.6, 99.99, 100.0, 0.5, 0.1, 0.099, 1e-5, 1e21, 5e21,
+        ] {
+            assert_eq!(
+                decimal_exponent(a).map(f64::from),
+                Some(a.log10().floor()),
+                "{a}"
+            );
+        }
+        assert_eq!(decimal_exponent(1e22), None);
+        assert_eq!(decimal_exponent(1e-23), None);
     }
 
     #[test]

@@ -148,6 +148,7 @@ mod tests {
                 ),
                 row(0, Finding::Ice),
             ],
+            vec![(0, "no reviewed solubility data".into())],
         )
     }
 
@@ -159,7 +160,7 @@ mod tests {
             solute: Some("salt c".into()),
             ..Row::default()
         });
-        assert_eq!(rows.len(), 3);
+        assert_eq!(rows.len(), 4);
         let each: Vec<Row> = rows.each().map(Cow::into_owned).collect();
         assert_eq!(each.as_slice(), &rows[..]);
         assert_eq!(rows[0].solute.as_deref(), Some("salt b"));
@@ -167,18 +168,20 @@ mod tests {
         assert_eq!(rows[0].unit.as_deref(), Some("g/100g water"));
         assert_eq!(rows[1].phase.as_deref(), Some("ice"));
         assert_eq!(rows[1].holds, Some(false));
-        assert_eq!(rows[2].solute.as_deref(), Some("salt c"));
+        assert_eq!(rows[2].solute.as_deref(), Some("salt a"));
+        assert_eq!(rows[2].extra["status"], "no data");
+        assert_eq!(rows[3].solute.as_deref(), Some("salt c"));
         let json = serde_json::to_value(&rows).unwrap_or_default();
         assert_eq!(json, serde_json::to_value(&rows[..]).unwrap_or_default());
-        assert_eq!(json.as_array().map(Vec::len), Some(3));
+        assert_eq!(json.as_array().map(Vec::len), Some(4));
     }
 
     #[test]
     fn a_row_pushed_after_a_reading_is_read_too() {
         let mut rows = Rows::new();
         rows.set_table(table());
-        assert_eq!(rows.iter().count(), 2);
-        rows.push(Row::default());
         assert_eq!(rows.iter().count(), 3);
+        rows.push(Row::default());
+        assert_eq!(rows.iter().count(), 4);
     }
 }

@@ -77,6 +77,9 @@ pub struct ScreenTable {
     /// The loading's unit, the unit of every solubility row.
     unit: &'static str,
     rows: Vec<ScreenedRow>,
+    /// The solutes listed apart, after the ranked rows: each with why it has no data over
+    /// the range.
+    missing: Vec<(u32, Cow<'static, str>)>,
 }
 
 impl ScreenTable {
@@ -87,26 +90,39 @@ impl ScreenTable {
         reviewed_only: bool,
         unit: &'static str,
         rows: Vec<ScreenedRow>,
+        missing: Vec<(u32, Cow<'static, str>)>,
     ) -> Self {
         ScreenTable {
             names,
             reviewed_only,
             unit,
             rows,
+            missing,
         }
     }
 
     pub fn len(&self) -> usize {
-        self.rows.len()
+        self.rows.len() + self.missing.len()
     }
 
     pub fn is_empty(&self) -> bool {
-        self.rows.is_empty()
+        self.len() == 0
     }
 
-    /// The rows, each made into a [`Row`] when it is reached.
+    /// The rows, each made into a [`Row`] when it is reached: the ranked ones, then those
+    /// without data.
     pub fn rows(&self) -> impl Iterator<Item = Row> + '_ {
-        self.rows.iter().map(|r| self.row(r))
+        let missing = self.missing.iter().map(|(solute, reason)| Row {
+            solute: Some(self.names.solute(*solute).to_string()),
+            extra: [
+                ("status".to_string(), serde_json::json!("no data")),
+                ("reason".to_string(), serde_json::json!(reason)),
+            ]
+            .into_iter()
+            .collect(),
+            ..Row::default()
+        });
+        self.rows.iter().map(|r| self.row(r)).chain(missing)
     }
 
     /// One row as every printer shows it.

@@ -2,7 +2,6 @@
 //! citing the data an answer rests on, and turning science errors into messages in °C.
 
 use crate::answer::{Answer, AnswerKind, Basis, SourceRef};
-use crate::catalog::citation;
 use crate::engine::error::EvalError;
 use crate::engine::per_litre::{self, Volume};
 use crate::engine::snapshot::{BuiltCurve, Snapshot};
@@ -183,13 +182,21 @@ fn cite_curve_afresh(snap: &Snapshot, built: &BuiltCurve, solute: &Solute, answe
 
 /// Adds one source by key, with its full citation.
 pub fn cite_source(snap: &Snapshot, key: &str, answer: &mut Answer) {
-    // A screening cites per solute: skip formatting a citation already in the answer.
-    if answer.sources.iter().any(|s| s.key == key) {
+    if let Some(position) = snap.catalog.source_position(key) {
+        cite_source_at(snap, position, answer);
+    }
+}
+
+/// [`cite_source`] by the source's position in `Catalog::sources`.
+pub fn cite_source_at(snap: &Snapshot, position: usize, answer: &mut Answer) {
+    let (Some(source), Some(text)) = (
+        snap.catalog.sources().get(position),
+        snap.citation_at(position),
+    ) else {
         return;
-    }
-    if let Some(source) = snap.catalog.source(key) {
-        answer.cite(key, citation(source));
-    }
+    };
+    // A screening cites per solute: the citation is formatted once, in the snapshot.
+    answer.cite(&source.key, text);
 }
 
 /// The solute's hazard note, when it has one.

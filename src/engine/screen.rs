@@ -3,12 +3,14 @@
 //! solute's result is a compact row that refers to the catalog's names
 //! ([`ScreenedRow`]); the printers make the rows whole as they write them.
 
-use serde_json::json;
+use std::borrow::Cow;
 
+use crate::answer::Answer;
 use crate::answer::screened::{Finding, ScreenTable, ScreenedRow};
-use crate::answer::{Answer, Row};
 use crate::engine::CAUTION;
-use crate::engine::common::{bounds, celsius, cite_source, in_unit, loading_mass_fraction};
+use crate::engine::common::{
+    bounds, celsius, cite_source, cite_source_at, in_unit, loading_mass_fraction,
+};
 use crate::engine::error::EvalError;
 use crate::engine::records::selects;
 use crate::engine::snapshot::Snapshot;
@@ -40,7 +42,7 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
     // The ranking key of each row: its headroom (a solute that freezes in the range below
     // every other), with the row's position.
     let mut ranks: Vec<(f64, u32)> = Vec::with_capacity(solutes.len());
-    let mut no_data: Vec<Row> = Vec::new();
+    let mut no_data: Vec<(u32, Cow<'static, str>)> = Vec::new();
     let mut counts = Counts::default();
     let mut scratch = Scratch::default();
     // The source last cited: a screening's solutes mostly share a few sources.
@@ -49,16 +51,9 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
         if !selects(snap, solute, s.class, &filters) {
             continue;
         }
-        let missing = |reason: String| Row {
-            solute: Some(solute.name.clone()),
-            extra: [
-                ("status".to_string(), json!("no data")),
-                ("reason".to_string(), json!(reason)),
-            ]
-            .into_iter()
-            .collect(),
-            ..Row::default()
-        };
+        let solute_at = u32::try_from(index).unwrap_or(u32::MAX);
+        let missing = |reason: Cow<'static, str>| (solute_at, reason);
+        let apart = |reason: String| (solute_at, Cow::Owned(reason));
         if solute.kind == SoluteKind::Gas {
             no_data.push(missing(
                 "a gas: its solubility depends on its pressure (ask `dissolved`)".into(),
@@ -78,7 +73,7 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
         let w = match loading_mass_fraction(snap, &s.loading, solute, &s.options, answer) {
             Ok(w) => w,
             Err(e) if s.loading.unit.needs_density() => {
-                no_data.push(missing(e.to_string()));
+                no_data.push(apart(e.to_string()));
                 continue;
             }
             Err(e) => return Err(e),
@@ -111,7 +106,7 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
             Ok(found) => found,
             Err(ScienceError::OutOfRange { .. } | ScienceError::InGap { .. }) => {
                 let (lo, hi) = built.curve.temperature_range();
-                no_data.push(missing(format!(
+                no_data.push(apart(format!(
                     "data do not cover the whole range (they cover {} C to {} C)",
                     celsius(lo),
                     celsius(hi)
@@ -119,12 +114,12 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
                 continue;
             }
             Err(other) => {
-                no_data.push(missing(other.to_string()));
+                no_data.push(apart(other.to_string()));
                 continue;
             }
         };
         if let Some(reason) = ice_unknown {
-            no_data.push(missing(format!(
+            no_data.push(apart(format!(
                 "whether ice forms in the range is not known: {reason}"
             )));
             continue;
@@ -136,9 +131,7 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
             Some(source) if last_cited == Some(source) => {}
             Some(source) => {
                 last_cited = Some(source);
-                if let Some(s) = snap.catalog.sources().get(source) {
-                    cite_source(snap, &s.key, answer);
-                }
+                cite_source_at(snap, source, answer);
             }
             None => {
                 for &i in &built.datasets {
@@ -147,7 +140,6 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
             }
         }
         let position = u32::try_from(rows.len()).unwrap_or(u32::MAX);
-        let solute_at = u32::try_from(index).unwrap_or(u32::MAX);
         let row = match ice {
             Some((t_ice, basis)) => {
                 counts.frozen += 1;
@@ -191,14 +183,14 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
     let held = rows.iter().filter(|r| r.holds).count();
     let with_data = rows.len();
     let no_data_count = no_data.len();
-    let ordered = rank(snap, &rows, ranks);
+    let ordered = rank(snap, &rows, &ranks);
     answer.rows.set_table(ScreenTable::new(
         snap.screen_names().clone(),
         reviewed_only,
         s.loading.unit.symbol(),
         ordered,
+        no_data,
     ));
-    answer.rows.extend(no_data);
     if s.loading.value == 0.0 {
         zero_loading_caveat(0.0, answer);
     }
@@ -207,34 +199,55 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
 }
 
 /// The rows in the order shown: best headroom first, then by solute name, then in catalog
-/// order. Only (key, position) pairs move while sorting.
-fn rank(snap: &Snapshot, rows: &[ScreenedRow], mut ranks: Vec<(f64, u32)>) -> Vec<ScreenedRow> {
+/// order. `ranks` holds each row's headroom (minus infinity for a solute that freezes) and
+/// position in `rows`.
+fn rank(snap: &Snapshot, rows: &[ScreenedRow], ranks: &[(f64, u32)]) -> Vec<ScreenedRow> {
     let solutes = snap.catalog.solutes();
     let name = |position: u32| {
         rows.get(position as usize)
             .and_then(|r| solutes.get(r.solute as usize))
             .map_or("", |s| s.name.as_str())
     };
-    // Descending headroom; equal headrooms (rare but for solutes that freeze) by name and
-    // then position, as a stable sort by (headroom, name) would leave them.
-    ranks.sort_unstable_by(|a, b| b.0.total_cmp(&a.0).then(a.1.cmp(&b.1)));
-    let mut start = 0;
-    while start < ranks.len() {
-        let key = ranks[start].0;
-        let end = start
-            + ranks[start..]
-                .iter()
-                .take_while(|r| r.0.total_cmp(&key).is_eq())
-                .count();
-        if end - start > 1 {
-            ranks[start..end].sort_by(|a, b| name(a.1).cmp(name(b.1)).then(a.1.cmp(&b.1)));
-        }
-        start = end;
-    }
-    ranks
+    // The sort moves plain integers: the headroom's key above the position.
+    let mut keys: Vec<u128> = ranks
         .iter()
-        .filter_map(|&(_, position)| rows.get(position as usize).copied())
+        .map(|&(x, position)| u128::from(descending(x)) << 32 | u128::from(position))
+        .collect();
+    keys.sort_unstable();
+    let position = |key: u128| (key & u128::from(u32::MAX)) as u32;
+    // Equal headrooms (rare, but every solute that freezes) by name, then position, as a
+    // stable sort by (headroom, name) would leave them.
+    let mut start = 0;
+    while start < keys.len() {
+        let headroom = keys[start] >> 32;
+        let run = keys[start..]
+            .iter()
+            .take_while(|&&k| k >> 32 == headroom)
+            .count();
+        if run > 1 {
+            keys[start..start + run].sort_by(|&a, &b| {
+                name(position(a))
+                    .cmp(name(position(b)))
+                    .then(position(a).cmp(&position(b)))
+            });
+        }
+        start += run;
+    }
+    keys.iter()
+        .filter_map(|&k| rows.get(position(k) as usize).copied())
         .collect()
+}
+
+/// The headroom's bits turned so that the integers order as `f64::total_cmp` orders the
+/// numbers, reversed (best first).
+fn descending(x: f64) -> u64 {
+    let bits = x.to_bits();
+    let ascending = if bits >> 63 == 1 {
+        !bits
+    } else {
+        bits | (1 << 63)
+    };
+    !ascending
 }
 
 /// What a screening says beside its rows: how many passed, the margin, the solutes that
@@ -275,4 +288,33 @@ fn caveats(
         ));
     }
     answer.caveat(CAUTION);
+}
+
+#[cfg(test)]
+mod tests {
+    use super::descending;
+
+    #[test]
+    fn the_integer_keys_order_as_the_headrooms_reversed() {
+        let values = [
+            f64::NEG_INFINITY,
+            -1e300,
+            -12.5,
+            -0.0,
+            0.0,
+            1e-300,
+            3.0,
+            12.5,
+            f64::INFINITY,
+        ];
+        for a in values {
+            for b in values {
+                assert_eq!(
+                    descending(a).cmp(&descending(b)),
+                    b.total_cmp(&a),
+                    "{a} {b}"
+                );
+            }
+        }
+    }
 }

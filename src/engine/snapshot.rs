@@ -48,6 +48,8 @@ pub struct Snapshot {
     curves: Vec<SoluteCurves>,
     /// The names a screening's compact rows refer to (solutes and their curves' phases).
     screen_names: Arc<ScreenNames>,
+    /// Each source's citation, in the order of `Catalog::sources`, formatted once.
+    citations: Vec<String>,
     /// Solute id → index into `curves`.
     curve_index: HashMap<String, usize>,
     /// Every name a person may type for a solute (names, ids, formulas, synonyms), sorted.
@@ -189,8 +191,14 @@ impl Snapshot {
             .unwrap_or_default();
         let acids =
             crate::store::models::acid_systems(crate::seed_files::SEED_FILES).unwrap_or_default();
+        let citations = catalog
+            .sources()
+            .iter()
+            .map(crate::catalog::citation)
+            .collect();
         Snapshot {
             catalog,
+            citations,
             curves,
             screen_names: Arc::new(screen_names),
             curve_index,
@@ -260,6 +268,11 @@ impl Snapshot {
         } else {
             curves.all.as_ref()
         }
+    }
+
+    /// The citation of the source at `position` in `Catalog::sources`.
+    pub fn citation_at(&self, position: usize) -> Option<&str> {
+        self.citations.get(position).map(String::as_str)
     }
 
     /// The names a screening's compact rows refer to.

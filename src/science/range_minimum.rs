@@ -8,9 +8,11 @@
 //! minimum over such a piece of a minimum of branches is the minimum over the branches of
 //! each branch's minimum over the piece, and a branch's cubic piece (or its straight end
 //! tangent) has its minimum at an end of the piece or where its derivative vanishes. So the
-//! candidates are: every breakpoint, a point just inside each side of every breakpoint (the
-//! limit on that side, where the set of branches changes in a step), and every turning point
-//! of every branch's cubic inside the range ([`Branch::turning_points`]). The stable curve is
+//! candidates are: every breakpoint, a point just inside each side of every breakpoint where
+//! the set of branches changes in a step (a branch's ends, its stable range's ends, the
+//! transitions: the limit on that side), and every turning point of every branch's cubic
+//! inside the range ([`Branch::turning_points`]). At a knot or an end of the range the
+//! stable curve is continuous, so its value there stands for both sides. The stable curve is
 //! evaluated at each candidate and the lowest value wins; a breakpoint itself is preferred
 //! to a point beside it that is no lower by more than rounding.
 
@@ -171,14 +173,10 @@ fn candidates(curve: &Curve, t1_k: f64, t2_k: f64, scratch: &mut Scratch) {
     breaks.clear();
     turning.clear();
     out.clear();
-    breaks.extend([t1_k, t2_k]);
     let inside = |t: &f64| *t >= t1_k && *t <= t2_k;
+    // First the breakpoints where the set of branches changes in a step (a branch's ends,
+    // its stable range's ends, the transitions): each with the points just inside its sides.
     for b in &curve.branches {
-        // Knots ascend: only those inside the range.
-        let knots = b.knots();
-        let first = knots.partition_point(|&t| t < t1_k);
-        let last = knots.partition_point(|&t| t <= t2_k).max(first);
-        breaks.extend_from_slice(&knots[first..last]);
         let (lo, hi) = b.range();
         breaks.extend([lo, hi].into_iter().filter(inside));
         if let Some((lo, hi)) = b.stable_range() {
@@ -186,9 +184,6 @@ fn candidates(curve: &Curve, t1_k: f64, t2_k: f64, scratch: &mut Scratch) {
         }
     }
     breaks.extend(curve.transitions().iter().map(|t| t.t_k).filter(inside));
-    for b in &curve.branches {
-        b.turning_points(t1_k, t2_k, turning);
-    }
     for &t in breaks.iter() {
         out.push((t, true));
         for beside in [t - BESIDE_K, t + BESIDE_K] {
@@ -196,6 +191,20 @@ fn candidates(curve: &Curve, t1_k: f64, t2_k: f64, scratch: &mut Scratch) {
                 out.push((beside, false));
             }
         }
+    }
+    // Then the range's ends and the knots inside it: there the stable curve is continuous
+    // (the same branches on both sides, each continuous), so its limits beside them are its
+    // values there and need no points of their own.
+    out.extend([(t1_k, true), (t2_k, true)]);
+    for b in &curve.branches {
+        // Knots ascend: only those inside the range.
+        let knots = b.knots();
+        let first = knots.partition_point(|&t| t < t1_k);
+        let last = knots.partition_point(|&t| t <= t2_k).max(first);
+        out.extend(knots[first..last].iter().map(|&t| (t, true)));
+    }
+    for b in &curve.branches {
+        b.turning_points(t1_k, t2_k, turning);
     }
     out.extend(turning.iter().map(|&t| (t, false)));
     // Ascending, a breakpoint before anything else at the same temperature; duplicates go.

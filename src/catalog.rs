@@ -9,6 +9,7 @@
 use crate::model::thermo::Thermochemistry;
 use std::collections::HashMap;
 use std::path::Path;
+use std::sync::OnceLock;
 
 use sha2::{Digest, Sha256};
 
@@ -80,7 +81,9 @@ pub struct Catalog {
     folded_names: HashMap<String, usize>,
     /// Every lookup name as written, with its solute, for suggestions.
     all_names: Vec<(String, usize)>,
-    fingerprint: String,
+    /// Worked out when first asked for (hashing the whole reference costs more than a
+    /// batch run's other start-up work, and most runs never show it).
+    fingerprint: OnceLock<String>,
     schema_version: u32,
 }
 
@@ -130,22 +133,6 @@ impl Catalog {
         } = contents;
         let datasets: Vec<Dataset> = datasets.into_iter().filter(|d| !d.retired).collect();
         let freezing: Vec<FreezingData> = freezing.into_iter().map(|f| f.data).collect();
-        let mut fingerprint = data_fingerprint(
-            &sources,
-            &solutes,
-            &datasets,
-            &gas_constants,
-            &freezing,
-            &densities,
-        );
-        if !checks.is_empty() {
-            // Checks change what answers say (their caveats), so they count as data.
-            let mut hasher = Sha256::new();
-            hasher.update(fingerprint.as_bytes());
-            hasher.update(serde_json::to_vec(&checks).unwrap_or_default());
-            fingerprint = crate::store::seed::hex(&hasher.finalize());
-        }
-
         let source_index = sources
             .iter()
             .enumerate()
@@ -199,7 +186,7 @@ impl Catalog {
             exact_names,
             folded_names,
             all_names,
-            fingerprint,
+            fingerprint: OnceLock::new(),
             schema_version,
         }
     }
@@ -428,7 +415,24 @@ impl Catalog {
 
     /// A SHA-256 (hex) of the data in this snapshot: equal catalogs have equal fingerprints.
     pub fn fingerprint(&self) -> &str {
-        &self.fingerprint
+        self.fingerprint.get_or_init(|| {
+            let fingerprint = data_fingerprint(
+                &self.sources,
+                &self.solutes,
+                &self.datasets,
+                &self.gas_constants,
+                &self.freezing,
+                &self.densities,
+            );
+            if self.checks.is_empty() {
+                return fingerprint;
+            }
+            // Checks change what answers say (their caveats), so they count as data.
+            let mut hasher = Sha256::new();
+            hasher.update(fingerprint.as_bytes());
+            hasher.update(serde_json::to_vec(&self.checks).unwrap_or_default());
+            crate::store::seed::hex(&hasher.finalize())
+        })
     }
 
     /// The schema version of the store this snapshot was read from.

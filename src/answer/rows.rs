@@ -106,8 +106,13 @@ impl PartialEq for Rows {
 impl Serialize for Rows {
     fn serialize<S: Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
         let mut seq = serializer.serialize_seq(Some(self.len()))?;
-        for row in self.each() {
-            seq.serialize_element(row.as_ref())?;
+        // Not through `each`: a batch writes many such rows, and the table's own loop makes
+        // them without allocating for each.
+        if let Some(table) = &self.screened {
+            table.for_each_row(|row| seq.serialize_element(row))?;
+        }
+        for row in &self.list {
+            seq.serialize_element(row)?;
         }
         seq.end()
     }

@@ -125,23 +125,61 @@ impl ScreenTable {
         self.rows.iter().map(|r| self.row(r)).chain(missing)
     }
 
+    /// Calls `write` with every row in order, each made whole with the texts' buffers of
+    /// the row before (no allocation per row once they are long enough): how a printer of
+    /// many rows writes them.
+    pub fn for_each_row<E>(&self, mut write: impl FnMut(&Row) -> Result<(), E>) -> Result<(), E> {
+        let (mut solute, mut phase) = (String::new(), String::new());
+        for r in &self.rows {
+            solute.clear();
+            solute.push_str(self.names.solute(r.solute));
+            phase.clear();
+            phase.push_str(self.phase_of(r));
+            let row = self.row_with(r, solute, phase);
+            write(&row)?;
+            (solute, phase) = (
+                row.solute.unwrap_or_default(),
+                row.phase.unwrap_or_default(),
+            );
+        }
+        for row in self.rows().skip(self.rows.len()) {
+            write(&row)?;
+        }
+        Ok(())
+    }
+
     /// One row as every printer shows it.
     pub fn row(&self, r: &ScreenedRow) -> Row {
-        let solute = Some(self.names.solute(r.solute).to_string());
+        let solute = self.names.solute(r.solute).to_string();
+        self.row_with(r, solute, self.phase_of(r).to_string())
+    }
+
+    /// The row's solid phase: ice, or its stable phase at the limiting temperature.
+    fn phase_of(&self, r: &ScreenedRow) -> &str {
+        match r.finding {
+            Finding::Ice => "ice",
+            Finding::Solubility { branch, .. } => {
+                self.names.phase(r.solute, self.reviewed_only, branch)
+            }
+        }
+    }
+
+    /// The row with the solute's name and the phase given as texts.
+    fn row_with(&self, r: &ScreenedRow, solute: String, phase: String) -> Row {
         match r.finding {
             Finding::Ice => Row {
-                solute,
+                solute: Some(solute),
                 quantity: Some(Cow::Borrowed("ice appears on cooling below")),
                 value: Some(r.temperature_c),
                 unit: Some(Cow::Borrowed("C")),
                 basis: Some(r.basis),
                 temperature_c: Some(r.temperature_c),
                 holds: Some(false),
-                phase: Some("ice".into()),
+                phase: Some(phase),
                 ..Row::default()
             },
-            Finding::Solubility { branch, value } => Row {
-                solute,
+            Finding::Solubility { value, .. } => Row {
+                solute: Some(solute),
                 quantity: Some(Cow::Borrowed("solubility at the limiting temperature")),
                 value,
                 unit: value.map(|_| Cow::Borrowed(self.unit)),
@@ -149,11 +187,7 @@ impl ScreenTable {
                 temperature_c: Some(r.temperature_c),
                 holds: Some(r.holds),
                 headroom_pct: r.headroom_pct,
-                phase: Some(
-                    self.names
-                        .phase(r.solute, self.reviewed_only, branch)
-                        .to_string(),
-                ),
+                phase: Some(phase),
                 ..Row::default()
             },
         }

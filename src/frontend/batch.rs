@@ -267,8 +267,9 @@ pub fn run_std(
         )
     } else {
         // A program is reading: answers are many small writes, and a buffer keeps a long
-        // script from costing a system call per line. It is flushed before returning.
-        let mut out = io::BufWriter::new(stdout.lock());
+        // script from costing a system call per line (64 KiB: a screening's answer is tens
+        // of kilobytes). It is flushed before returning.
+        let mut out = io::BufWriter::with_capacity(1 << 16, stdout.lock());
         run_showing(
             db,
             recipes,

@@ -4,6 +4,14 @@
 
 use std::fmt::Write as _;
 
+/// Significant figures of compositions in answers: the seed tables print three or four.
+pub const VALUE_DIGITS: usize = 4;
+
+/// A composition value for an answer, rounded to [`VALUE_DIGITS`].
+pub fn value(x: f64) -> f64 {
+    round_significant(x, VALUE_DIGITS)
+}
+
 /// Rounds `x` to `digits` significant figures (1..=15). Non-finite values pass through.
 ///
 /// Rounding goes through the decimal text of the number, so the result is the f64 nearest

@@ -7,6 +7,9 @@ use std::borrow::Cow;
 use std::sync::Arc;
 
 use super::{Basis, Row};
+use crate::number;
+#[cfg(doc)]
+use crate::number::VALUE_DIGITS;
 
 /// The names a screening's rows refer to: every solute's name in catalog order and the
 /// phases of its curves' branches (from all data, and from reviewed data only).
@@ -49,7 +52,8 @@ impl ScreenNames {
 pub enum Finding {
     /// The curve's lowest point in the range: the stable branch there (its index in the
     /// curve) and the solubility there in the loading's unit (absent when it cannot be
-    /// given in that unit).
+    /// given in that unit), not yet rounded: it is rounded to [`VALUE_DIGITS`] when the row
+    /// is made whole, so a screening rounds only the rows it prints.
     Solubility { branch: u16, value: Option<f64> },
     /// Ice forms on cooling below `temperature_c`, before any salt crystallises.
     Ice,
@@ -181,7 +185,7 @@ impl ScreenTable {
             Finding::Solubility { value, .. } => Row {
                 solute: Some(solute),
                 quantity: Some(Cow::Borrowed("solubility at the limiting temperature")),
-                value,
+                value: value.map(number::value),
                 unit: value.map(|_| Cow::Borrowed(self.unit)),
                 basis: Some(r.basis),
                 temperature_c: Some(r.temperature_c),

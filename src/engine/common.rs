@@ -11,9 +11,6 @@ use crate::query::{Loading, Name, Options, Span, Temperatures};
 use crate::science::ScienceError;
 use crate::science::units::{self, CompositionUnit, Context};
 
-/// Significant figures of compositions in answers: the seed tables print three or four.
-pub const VALUE_DIGITS: usize = 4;
-
 /// Kelvin to °C, rounded to 0.01 K (the precision of the inversions).
 pub fn celsius(t_k: f64) -> f64 {
     let c = t_k - 273.15;
@@ -36,10 +33,7 @@ pub fn celsius_text(t_k: f64) -> String {
     }
 }
 
-/// A composition value for an answer, rounded to [`VALUE_DIGITS`].
-pub fn value(x: f64) -> f64 {
-    round_significant(x, VALUE_DIGITS)
-}
+pub use crate::number::value;
 
 /// Finds a solute by what was typed, or says what was meant.
 pub fn resolve<'a>(snap: &'a Snapshot, name: &Name) -> Result<&'a Solute, EvalError> {

@@ -9,7 +9,7 @@ use crate::answer::Answer;
 use crate::answer::screened::{Finding, ScreenTable, ScreenedRow};
 use crate::engine::CAUTION;
 use crate::engine::common::{
-    bounds, celsius, cite_source, cite_source_at, in_unit, loading_mass_fraction,
+    bounds, celsius, cite_source, cite_source_at, context, in_unit, loading_mass_fraction,
 };
 use crate::engine::error::EvalError;
 use crate::engine::records::selects;
@@ -20,6 +20,7 @@ use crate::query::Screen;
 use crate::science::ScienceError;
 use crate::science::freezing::ICE_POINT;
 use crate::science::solve::{Scratch, verdict};
+use crate::science::units;
 
 use super::solid::{finite_headroom, zero_loading_caveat};
 
@@ -154,16 +155,27 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
                 }
             }
             None => {
-                let value = in_unit(
-                    snap,
-                    found.limiting_mass_fraction,
-                    s.loading.unit,
-                    solute,
-                    s.loading.span,
-                    &s.options,
-                    answer,
-                )
-                .ok();
+                // Rounded when printed (`Finding::Solubility`); a per-litre value comes
+                // rounded already, and rounding it again leaves it as it is.
+                let value = if s.loading.unit.needs_density() {
+                    in_unit(
+                        snap,
+                        found.limiting_mass_fraction,
+                        s.loading.unit,
+                        solute,
+                        s.loading.span,
+                        &s.options,
+                        answer,
+                    )
+                    .ok()
+                } else {
+                    units::from_mass_fraction(
+                        found.limiting_mass_fraction,
+                        s.loading.unit,
+                        &context(solute),
+                    )
+                    .ok()
+                };
                 ranks.push((found.headroom_pct, position));
                 ScreenedRow {
                     solute: solute_at,

@@ -143,16 +143,19 @@ mod tests {
             Arc::new(names),
             false,
             "g/100g water",
-            vec![
-                row(
-                    1,
-                    Finding::Solubility {
-                        branch: 0,
-                        value: Some(30.0),
-                    },
-                ),
-                row(0, Finding::Ice),
-            ],
+            (
+                vec![
+                    row(0, Finding::Ice),
+                    row(
+                        1,
+                        Finding::Solubility {
+                            branch: 0,
+                            value: Some(30.0),
+                        },
+                    ),
+                ],
+                vec![1, 0],
+            ),
             vec![(0, "no reviewed solubility data".into())],
         )
     }

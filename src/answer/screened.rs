@@ -80,20 +80,24 @@ pub struct ScreenTable {
     reviewed_only: bool,
     /// The loading's unit, the unit of every solubility row.
     unit: &'static str,
+    /// The rows in the order they were worked out.
     rows: Vec<ScreenedRow>,
+    /// Positions in `rows`, in the order the rows are shown (ranking moves these only).
+    order: Vec<u32>,
     /// The solutes listed apart, after the ranked rows: each with why it has no data over
     /// the range.
     missing: Vec<(u32, Cow<'static, str>)>,
 }
 
 impl ScreenTable {
-    /// A table whose rows (in the order they are to be shown) refer to `names`; phases are
-    /// those of the curves from reviewed data only when `reviewed_only`.
+    /// A table whose rows refer to `names`, shown in the order of `order` (positions in
+    /// `rows`; a position outside is passed over); phases are those of the curves from
+    /// reviewed data only when `reviewed_only`.
     pub fn new(
         names: Arc<ScreenNames>,
         reviewed_only: bool,
         unit: &'static str,
-        rows: Vec<ScreenedRow>,
+        (rows, order): (Vec<ScreenedRow>, Vec<u32>),
         missing: Vec<(u32, Cow<'static, str>)>,
     ) -> Self {
         ScreenTable {
@@ -101,12 +105,18 @@ impl ScreenTable {
             reviewed_only,
             unit,
             rows,
+            order,
             missing,
         }
     }
 
+    /// The rows in the order shown.
+    fn shown(&self) -> impl Iterator<Item = &ScreenedRow> + '_ {
+        self.order.iter().filter_map(|&i| self.rows.get(i as usize))
+    }
+
     pub fn len(&self) -> usize {
-        self.rows.len() + self.missing.len()
+        self.shown().count() + self.missing.len()
     }
 
     pub fn is_empty(&self) -> bool {
@@ -126,7 +136,7 @@ impl ScreenTable {
             .collect(),
             ..Row::default()
         });
-        self.rows.iter().map(|r| self.row(r)).chain(missing)
+        self.shown().map(|r| self.row(r)).chain(missing)
     }
 
     /// Calls `write` with every row in order, each made whole with the texts' buffers of
@@ -134,7 +144,7 @@ impl ScreenTable {
     /// many rows writes them.
     pub fn for_each_row<E>(&self, mut write: impl FnMut(&Row) -> Result<(), E>) -> Result<(), E> {
         let (mut solute, mut phase) = (String::new(), String::new());
-        for r in &self.rows {
+        for r in self.shown() {
             solute.clear();
             solute.push_str(self.names.solute(r.solute));
             phase.clear();
@@ -146,7 +156,7 @@ impl ScreenTable {
                 row.phase.unwrap_or_default(),
             );
         }
-        for row in self.rows().skip(self.rows.len()) {
+        for row in self.rows().skip(self.shown().count()) {
             write(&row)?;
         }
         Ok(())

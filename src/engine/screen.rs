@@ -200,7 +200,7 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
         snap.screen_names().clone(),
         reviewed_only,
         s.loading.unit.symbol(),
-        ordered,
+        (rows, ordered),
         no_data,
     ));
     if s.loading.value == 0.0 {
@@ -210,10 +210,10 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
     Ok(())
 }
 
-/// The rows in the order shown: best headroom first, then by solute name, then in catalog
+/// The positions of the rows in the order shown: best headroom first, then by solute name, then in catalog
 /// order. `ranks` holds each row's headroom (minus infinity for a solute that freezes) and
 /// position in `rows`.
-fn rank(snap: &Snapshot, rows: &[ScreenedRow], ranks: &[(f64, u32)]) -> Vec<ScreenedRow> {
+fn rank(snap: &Snapshot, rows: &[ScreenedRow], ranks: &[(f64, u32)]) -> Vec<u32> {
     let solutes = snap.catalog.solutes();
     let name = |position: u32| {
         rows.get(position as usize)
@@ -245,9 +245,7 @@ fn rank(snap: &Snapshot, rows: &[ScreenedRow], ranks: &[(f64, u32)]) -> Vec<Scre
         }
         start += run;
     }
-    keys.iter()
-        .filter_map(|&k| rows.get(position(k) as usize).copied())
-        .collect()
+    keys.iter().map(|&k| position(k)).collect()
 }
 
 /// The headroom's bits turned so that the integers order as `f64::total_cmp` orders the

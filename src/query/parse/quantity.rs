@@ -317,6 +317,18 @@ pub(super) trait Measured: Sized {
     fn from_value(value: Value) -> Option<Self>;
 }
 
+/// `Measured::from_value` for a kind whose `Value` variant is named like its type.
+macro_rules! from_value {
+    ($kind:ident) => {
+        fn from_value(value: Value) -> Option<Self> {
+            match value {
+                Value::$kind(v) => Some(v),
+                _ => None,
+            }
+        }
+    };
+}
+
 impl Measured for Temperature {
     const KIND: ValueKind = ValueKind::Temperature;
     fn from_quantity(q: &Quantity) -> Result<Self, NomErr<PErr>> {
@@ -325,55 +337,33 @@ impl Measured for Temperature {
             _ => Err(wrong_quantity(Self::KIND, q)),
         }
     }
-    fn from_value(value: Value) -> Option<Self> {
-        match value {
-            Value::Temperature(v) => Some(v),
-            _ => None,
-        }
-    }
+    from_value!(Temperature);
 }
 
-impl Measured for Loading {
-    const KIND: ValueKind = ValueKind::Loading;
-    fn from_quantity(q: &Quantity) -> Result<Self, NomErr<PErr>> {
-        match q.unit {
-            AnyUnit::Composition(_) if q.value < 0.0 => Err(negative(q)),
-            AnyUnit::Composition(unit) => Ok(Loading {
-                value: q.value,
-                unit,
-                span: q.span,
-            }),
-            _ => Err(wrong_quantity(Self::KIND, q)),
+/// `Measured` for an amount that cannot be negative: a `{ value, unit, span }` record whose
+/// unit is the `AnyUnit` variant named.
+macro_rules! non_negative_amount {
+    ($kind:ident, $unit:ident) => {
+        impl Measured for $kind {
+            const KIND: ValueKind = ValueKind::$kind;
+            fn from_quantity(q: &Quantity) -> Result<Self, NomErr<PErr>> {
+                match q.unit {
+                    AnyUnit::$unit(_) if q.value < 0.0 => Err(negative(q)),
+                    AnyUnit::$unit(unit) => Ok($kind {
+                        value: q.value,
+                        unit,
+                        span: q.span,
+                    }),
+                    _ => Err(wrong_quantity(Self::KIND, q)),
+                }
+            }
+            from_value!($kind);
         }
-    }
-    fn from_value(value: Value) -> Option<Self> {
-        match value {
-            Value::Loading(v) => Some(v),
-            _ => None,
-        }
-    }
+    };
 }
 
-impl Measured for Pressure {
-    const KIND: ValueKind = ValueKind::Pressure;
-    fn from_quantity(q: &Quantity) -> Result<Self, NomErr<PErr>> {
-        match q.unit {
-            AnyUnit::Pressure(_) if q.value < 0.0 => Err(negative(q)),
-            AnyUnit::Pressure(unit) => Ok(Pressure {
-                value: q.value,
-                unit,
-                span: q.span,
-            }),
-            _ => Err(wrong_quantity(Self::KIND, q)),
-        }
-    }
-    fn from_value(value: Value) -> Option<Self> {
-        match value {
-            Value::Pressure(v) => Some(v),
-            _ => None,
-        }
-    }
-}
+non_negative_amount!(Loading, Composition);
+non_negative_amount!(Pressure, Pressure);
 
 /// The one quantity rule: a number with a unit of the kind `T` wants, or a name bound by
 /// `let` to a value of that kind.

@@ -134,23 +134,29 @@ pub fn lowest(
         curve.evaluate_branch(t, false)?;
     }
     candidates(curve, t1_k, t2_k, scratch);
-    let mut best: Option<(f64, f64, bool)> = None;
+    // (t, w, at a breakpoint, stable branch, basis) of the lowest candidate so far.
+    let mut best: Option<(f64, f64, bool, usize, Basis)> = None;
     for &(t, at_breakpoint) in &scratch.candidates {
-        let Ok(w) = curve.mass_fraction(t, true) else {
+        let Ok((branch, w, basis)) = curve.evaluate_branch(t, true) else {
             continue;
         };
         let better = match best {
             None => true,
-            Some((_, bw, b_at)) => w < bw - TIE || (w < bw + TIE && at_breakpoint && !b_at),
+            Some((_, bw, b_at, _, _)) => w < bw - TIE || (w < bw + TIE && at_breakpoint && !b_at),
         };
         if better {
-            best = Some((t, w, at_breakpoint));
+            best = Some((t, w, at_breakpoint, branch, basis));
         }
     }
-    let best_t = best.map_or(t1_k, |(t, _, _)| t);
-    let (branch, mass_fraction, basis) = curve.evaluate_branch(best_t, true)?;
+    let (t_k, mass_fraction, branch, basis) = match best {
+        Some((t, w, _, branch, basis)) => (t, w, branch, basis),
+        None => {
+            let (branch, w, basis) = curve.evaluate_branch(t1_k, true)?;
+            (t1_k, w, branch, basis)
+        }
+    };
     Ok(Lowest {
-        t_k: best_t,
+        t_k,
         mass_fraction,
         branch,
         basis: if uncovered.is_some() {

@@ -1,6 +1,6 @@
 //! Text helpers every layer shares: the one edit distance behind every "did you mean"
-//! (keywords, units, solute names, filter values), and the cut that keeps an echoed value
-//! short.
+//! (keywords, units, solute names, filter values), the cut that keeps an echoed value
+//! short, and the filling of words into lines.
 
 /// Edit distance over characters, ignoring case: insertions, deletions, substitutions and
 /// swaps of two neighbours (`form` for `from`) each count one. Long inputs are cut to 64
@@ -43,6 +43,35 @@ pub fn cut(text: &str) -> String {
     }
     let head: String = text.chars().take(ECHO_CHARS).collect();
     format!("{head}… ({count} characters)")
+}
+
+/// `words` laid into lines of at most `width` characters, joined by newlines: the first line
+/// after `first`, the others after `indent`. A word longer than a line stays whole on a line
+/// of its own; with no width, one line. Callers choose how their text splits into words
+/// (notes fold runs of white space, a fault's message keeps them).
+pub fn fill<'a>(
+    words: impl IntoIterator<Item = &'a str>,
+    width: Option<usize>,
+    first: &str,
+    indent: &str,
+) -> String {
+    let mut lines: Vec<String> = Vec::new();
+    let mut line = first.to_string();
+    let mut empty = true;
+    for word in words {
+        let fits = width.is_none_or(|w| line.chars().count() + 1 + word.chars().count() <= w);
+        if !empty && !fits {
+            lines.push(std::mem::replace(&mut line, indent.to_string()));
+            empty = true;
+        }
+        if !empty {
+            line.push(' ');
+        }
+        line.push_str(word);
+        empty = false;
+    }
+    lines.push(line);
+    lines.join("\n")
 }
 
 #[cfg(test)]

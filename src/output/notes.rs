@@ -34,26 +34,10 @@ pub use crate::citation::short_citation;
 /// `text` wrapped at `width` columns: the first line after `first`, the others after
 /// `indent`. Words longer than a line stay whole.
 pub fn wrap(text: &str, width: Option<usize>, first: &str, indent: &str) -> String {
-    let Some(width) = width else {
-        return format!("{first}{text}");
-    };
-    let mut lines: Vec<String> = Vec::new();
-    let mut line = first.to_string();
-    let mut empty = true;
-    for word in text.split_whitespace() {
-        let fits = line.chars().count() + 1 + word.chars().count() <= width;
-        if !empty && !fits {
-            lines.push(std::mem::replace(&mut line, indent.to_string()));
-            empty = true;
-        }
-        if !empty {
-            line.push(' ');
-        }
-        line.push_str(word);
-        empty = false;
+    match width {
+        None => format!("{first}{text}"),
+        Some(_) => crate::text::fill(text.split_whitespace(), width, first, indent),
     }
-    lines.push(line);
-    lines.join("\n")
 }
 
 /// Numbers as a reader writes them: "1", "1 and 2", "1, 2 and 4", runs as "1-3".

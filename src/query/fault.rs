@@ -100,25 +100,11 @@ fn pieces(text: &str, width: Option<usize>) -> Vec<(usize, usize)> {
 }
 
 fn wrapped(text: &str, width: Option<usize>, first: &str, indent: &str) -> String {
-    let Some(width) = width else {
-        return format!("{first}{text}");
-    };
-    let mut lines: Vec<String> = Vec::new();
-    let mut line = first.to_string();
-    let mut empty = true;
-    for word in text.split(' ') {
-        if !empty && line.chars().count() + 1 + word.chars().count() > width {
-            lines.push(std::mem::replace(&mut line, indent.to_string()));
-            empty = true;
-        }
-        if !empty {
-            line.push(' ');
-        }
-        line.push_str(word);
-        empty = false;
+    match width {
+        None => format!("{first}{text}"),
+        // Split on single spaces: a message's runs of spaces are kept.
+        Some(_) => crate::text::fill(text.split(' '), width, first, indent),
     }
-    lines.push(line);
-    lines.join("\n")
 }
 
 /// The largest char boundary at or below `offset`, within `text`.

@@ -282,6 +282,18 @@ pub fn in_unit(
         .map_err(|e| per_volume(e, unit, span))
 }
 
+/// [`in_unit`] in a loading's own unit; an error points at the loading.
+pub fn in_loading_unit(
+    snap: &Snapshot,
+    w: f64,
+    loading: &Loading,
+    solute: &Solute,
+    options: &Options,
+    answer: &mut Answer,
+) -> Result<f64, EvalError> {
+    in_unit(snap, w, loading.unit, solute, loading.span, options, answer)
+}
+
 /// A science error on a loading or unit, said in the words of a person asking.
 fn per_volume(error: ScienceError, unit: CompositionUnit, span: Span) -> EvalError {
     match error {

@@ -6,7 +6,8 @@ use serde_json::json;
 use crate::answer::{Answer, Basis, Row};
 use crate::engine::CAUTION;
 use crate::engine::common::{
-    celsius, cite_curve, cite_source, cite_typed, curve_error, hazard, in_unit, resolve, value,
+    celsius, cite_curve, cite_source, cite_typed, curve_error, hazard, in_loading_unit, resolve,
+    value,
 };
 use crate::engine::error::EvalError;
 use crate::engine::snapshot::Snapshot;
@@ -213,12 +214,11 @@ pub fn freezing(snap: &Snapshot, s: &Freezing, answer: &mut Answer) -> Result<()
                     .collect(),
                     ..row(solute, "ice")
                 });
-                let liquid = in_unit(
+                let liquid = in_loading_unit(
                     snap,
                     f.liquid_mass_fraction,
-                    s.loading.unit,
+                    &s.loading,
                     solute,
-                    s.loading.span,
                     &s.options,
                     answer,
                 )?;

@@ -9,7 +9,7 @@ use crate::answer::Answer;
 use crate::answer::screened::{Finding, ScreenTable, ScreenedRow};
 use crate::engine::CAUTION;
 use crate::engine::common::{
-    bounds, celsius, cite_source, cite_source_at, context, in_unit, loading_mass_fraction,
+    bounds, celsius, cite_source, cite_source_at, context, in_loading_unit, loading_mass_fraction,
 };
 use crate::engine::error::EvalError;
 use crate::engine::records::selects;
@@ -158,12 +158,11 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
                 // Rounded when printed (`Finding::Solubility`); a per-litre value comes
                 // rounded already, and rounding it again leaves it as it is.
                 let value = if s.loading.unit.needs_density() {
-                    in_unit(
+                    in_loading_unit(
                         snap,
                         found.limiting_mass_fraction,
-                        s.loading.unit,
+                        &s.loading,
                         solute,
-                        s.loading.span,
                         &s.options,
                         answer,
                     )

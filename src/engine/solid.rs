@@ -9,8 +9,8 @@ use crate::answer::{Answer, Basis, Row};
 use crate::engine::CAUTION;
 use crate::engine::common;
 use crate::engine::common::{
-    basis_caveat, bounds, celsius, cite_curve, curve_error, curve_of, in_unit, phase_caveat,
-    resolve, value,
+    basis_caveat, bounds, celsius, cite_curve, curve_error, curve_of, in_loading_unit, in_unit,
+    phase_caveat, resolve, value,
 };
 use crate::engine::error::EvalError;
 use crate::engine::per_litre::{self, DEFAULT_VOLUME_T_K, Volume};
@@ -122,12 +122,11 @@ pub fn require(snap: &Snapshot, s: &Require, answer: &mut Answer) -> Result<(), 
     let screening =
         solve::stays_dissolved_with(&built.curve, w, from, t2, margin, s.options.extrapolate)
             .map_err(|e| curve_error(e, solute, s.temperatures.span()))?;
-    let saturated = in_unit(
+    let saturated = in_loading_unit(
         snap,
         screening.limiting_mass_fraction,
-        s.loading.unit,
+        &s.loading,
         solute,
-        s.loading.span,
         &s.options,
         answer,
     )?;

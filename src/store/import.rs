@@ -822,7 +822,7 @@ fn compare(incoming: &Contents, existing: &Contents, options: &ImportOptions) ->
 ///
 /// The transaction is IMMEDIATE, and the plan is re-validated inside it: when another
 /// writer has changed the database since the plan was read, nothing is written and the
-/// answer is [`StoreError::Stale`] (plan again, or use [`plan_and_apply`], which plans
+/// answer is [`StoreError::Stale`] (plan again, or use [`Store::import`], which plans
 /// inside the transaction and so never is stale).
 pub fn apply(
     store: &mut Store,
@@ -842,25 +842,28 @@ pub fn apply(
     Ok(summary)
 }
 
-/// Plans and writes an import in one IMMEDIATE transaction: the plan reads the state it
-/// replaces while holding the write lock, so concurrent importers are serialised and every
-/// audit `before` is what the write replaced. `planned` sees the plan before anything is
-/// written (for progress); `tick` is called once per point written.
-pub fn plan_and_apply(
-    store: &mut Store,
-    files: &[ImportFile],
-    options: &ImportOptions,
-    actor: &str,
-    planned: &mut dyn FnMut(&ImportPlan),
-    tick: &mut dyn FnMut(),
-) -> Result<(ImportPlan, ImportSummary), StoreError> {
-    let tx = lock::begin_write(&store.conn, &store.location)?;
-    let plan = plan(store, files, options)?;
-    planned(&plan);
-    let summary =
-        write_plan(&tx, &plan, actor, tick).map_err(|e| lock::name_file(e, &store.location))?;
-    lock::commit(tx, &store.location)?;
-    Ok((plan, summary))
+impl Store {
+    /// Plans and writes an import in one IMMEDIATE transaction: the plan reads the state it
+    /// replaces while holding the write lock, so concurrent importers are serialised and
+    /// every audit `before` is what the write replaced (no other writer's change is lost).
+    /// `planned` sees the plan before anything is written (for progress); `tick` is called
+    /// once per point written.
+    pub fn import(
+        &mut self,
+        files: &[ImportFile],
+        options: &ImportOptions,
+        actor: &str,
+        planned: &mut dyn FnMut(&ImportPlan),
+        tick: &mut dyn FnMut(),
+    ) -> Result<(ImportPlan, ImportSummary), StoreError> {
+        let tx = lock::begin_write(&self.conn, &self.location)?;
+        let plan = plan(self, files, options)?;
+        planned(&plan);
+        let summary =
+            write_plan(&tx, &plan, actor, tick).map_err(|e| lock::name_file(e, &self.location))?;
+        lock::commit(tx, &self.location)?;
+        Ok((plan, summary))
+    }
 }
 
 /// The id of the newest audit row (0 when there is none).

@@ -265,19 +265,6 @@ impl Store {
         import::plan(self, files, options)
     }
 
-    /// Plans and writes an import in one IMMEDIATE transaction (planning under the write
-    /// lock, so no other writer's change is lost); see [`import::plan_and_apply`].
-    pub fn import(
-        &mut self,
-        files: &[ImportFile],
-        options: &ImportOptions,
-        actor: &str,
-        planned: &mut dyn FnMut(&ImportPlan),
-        tick: &mut dyn FnMut(),
-    ) -> Result<(ImportPlan, ImportSummary), StoreError> {
-        import::plan_and_apply(self, files, options, actor, planned, tick)
-    }
-
     /// Writes a planned import in one transaction; see [`import::apply`].
     pub fn apply_import(
         &mut self,

@@ -605,7 +605,16 @@ fn range_body<'a>(
             checked_temperature(&q, high.unit)?
         }
     };
-    let span = cx.span(begin, rest);
+    Ok((rest, ordered_range(cx, low, high, cx.span(begin, rest))?))
+}
+
+/// The range from `low` to `high` over `span`, refused when it runs backwards (`8 C to 2 C`).
+pub(super) fn ordered_range(
+    cx: Cx<'_>,
+    low: Temperature,
+    high: Temperature,
+    span: Span,
+) -> Result<TemperatureRange, NomErr<PErr>> {
     if low.kelvin() > high.kelvin() {
         return Err(failure(
             ParseErrorKind::ReversedRange {
@@ -615,7 +624,7 @@ fn range_body<'a>(
             span,
         ));
     }
-    Ok((rest, TemperatureRange { low, high, span }))
+    Ok(TemperatureRange { low, high, span })
 }
 
 pub(super) fn committed_temperature<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Temperature> {

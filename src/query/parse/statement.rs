@@ -478,17 +478,8 @@ pub(super) fn let_value<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Value> {
                     return Ok((rest, Value::Temperature(low)));
                 };
                 let (rest, high) = committed_temperature(cx, after)?;
-                let span = cx.span(t, rest);
-                if low.kelvin() > high.kelvin() {
-                    return Err(failure(
-                        ParseErrorKind::ReversedRange {
-                            low: cx.text(low.span),
-                            high: cx.text(high.span),
-                        },
-                        span,
-                    ));
-                }
-                Ok((rest, Value::Range(TemperatureRange { low, high, span })))
+                let range = ordered_range(cx, low, high, cx.span(t, rest))?;
+                Ok((rest, Value::Range(range)))
             }
             AnyUnit::Percent => Err(wrong_quantity(ValueKind::Loading, &q)),
             AnyUnit::Composition(_) | AnyUnit::Pressure(_) if q.value < 0.0 => Err(negative(&q)),

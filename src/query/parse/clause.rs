@@ -306,16 +306,7 @@ fn clauses<'a>(
                 });
             }
             words.dedup();
-            let shown: Vec<&str> = words
-                .iter()
-                .map(|w| {
-                    if *w == "reviewed" {
-                        "reviewed only"
-                    } else {
-                        *w
-                    }
-                })
-                .collect();
+            let shown = as_shown(&words);
             let expected = if shown.is_empty() {
                 "the end of the statement".to_string()
             } else {
@@ -330,3 +321,11 @@ fn clauses<'a>(
 }
 
 pub(super) const DATA: [Clause; 2] = [Clause::Extrapolate, Clause::ReviewedOnly];
+
+/// Closing words as a message lists them: `reviewed` as `reviewed only`.
+pub(super) fn as_shown(words: &[&'static str]) -> Vec<&'static str> {
+    words
+        .iter()
+        .map(|&w| if w == "reviewed" { "reviewed only" } else { w })
+        .collect()
+}

@@ -681,16 +681,7 @@ pub(super) fn plot<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
                     words.extend(["from", "over"]);
                 }
                 words.extend(["in", "with", "margin", "under", "extrapolate", "reviewed"]);
-                let shown: Vec<&str> = words
-                    .iter()
-                    .map(|w| {
-                        if *w == "reviewed" {
-                            "reviewed only"
-                        } else {
-                            *w
-                        }
-                    })
-                    .collect();
+                let shown = as_shown(&words);
                 let expected = format!(
                     "{} or the end of the statement",
                     one_of(&shown).replace(" or ", ", ")

@@ -73,6 +73,40 @@ pub struct ScreenedRow {
     pub headroom_pct: Option<f64>,
 }
 
+/// Why a solute is listed apart, kept as what it is made of until it is shown (a screening
+/// may list thousands apart and print none of them).
+#[derive(Debug, Clone, PartialEq)]
+pub enum Missing {
+    /// The reason, in words.
+    Said(Cow<'static, str>),
+    /// The data do not reach the whole range: the temperatures they cover, °C.
+    Uncovered { from_c: f64, to_c: f64 },
+}
+
+impl Missing {
+    /// The reason as the row shows it.
+    pub fn text(&self) -> Cow<'_, str> {
+        match self {
+            Missing::Said(reason) => Cow::Borrowed(reason),
+            Missing::Uncovered { from_c, to_c } => Cow::Owned(format!(
+                "data do not cover the whole range (they cover {from_c} C to {to_c} C)"
+            )),
+        }
+    }
+}
+
+impl From<&'static str> for Missing {
+    fn from(reason: &'static str) -> Self {
+        Missing::Said(Cow::Borrowed(reason))
+    }
+}
+
+impl From<String> for Missing {
+    fn from(reason: String) -> Self {
+        Missing::Said(Cow::Owned(reason))
+    }
+}
+
 /// A screening's ranked rows with the names they refer to.
 #[derive(Debug, Clone, PartialEq)]
 pub struct ScreenTable {
@@ -86,7 +120,7 @@ pub struct ScreenTable {
     order: Vec<u32>,
     /// The solutes listed apart, after the ranked rows: each with why it has no data over
     /// the range.
-    missing: Vec<(u32, Cow<'static, str>)>,
+    missing: Vec<(u32, Missing)>,
 }
 
 impl ScreenTable {
@@ -98,7 +132,7 @@ impl ScreenTable {
         reviewed_only: bool,
         unit: &'static str,
         (rows, order): (Vec<ScreenedRow>, Vec<u32>),
-        missing: Vec<(u32, Cow<'static, str>)>,
+        missing: Vec<(u32, Missing)>,
     ) -> Self {
         ScreenTable {
             names,
@@ -130,7 +164,7 @@ impl ScreenTable {
             solute: Some(self.names.solute(*solute).to_string()),
             extra: [
                 ("status".to_string(), serde_json::json!("no data")),
-                ("reason".to_string(), serde_json::json!(reason)),
+                ("reason".to_string(), serde_json::json!(reason.text())),
             ]
             .into_iter()
             .collect(),

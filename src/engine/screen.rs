@@ -3,10 +3,8 @@
 //! solute's result is a compact row that refers to the catalog's names
 //! ([`ScreenedRow`]); the printers make the rows whole as they write them.
 
-use std::borrow::Cow;
-
 use crate::answer::Answer;
-use crate::answer::screened::{Finding, ScreenTable, ScreenedRow};
+use crate::answer::screened::{Finding, Missing, ScreenTable, ScreenedRow};
 use crate::engine::CAUTION;
 use crate::engine::common::{
     bounds, celsius, cite_source, cite_source_at, context, in_loading_unit, loading_mass_fraction,
@@ -43,7 +41,7 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
     // The ranking key of each row: its headroom (a solute that freezes in the range below
     // every other), with the row's position.
     let mut ranks: Vec<(f64, u32)> = Vec::with_capacity(solutes.len());
-    let mut no_data: Vec<(u32, Cow<'static, str>)> = Vec::new();
+    let mut no_data: Vec<(u32, Missing)> = Vec::new();
     let mut counts = Counts::default();
     let mut scratch = Scratch::default();
     // The source last cited: a screening's solutes mostly share a few sources.
@@ -53,16 +51,15 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
             continue;
         }
         let solute_at = u32::try_from(index).unwrap_or(u32::MAX);
-        let missing = |reason: Cow<'static, str>| (solute_at, reason);
-        let apart = |reason: String| (solute_at, Cow::Owned(reason));
+        let apart = |reason: Missing| (solute_at, reason);
         if solute.kind == SoluteKind::Gas {
-            no_data.push(missing(
+            no_data.push(apart(
                 "a gas: its solubility depends on its pressure (ask `dissolved`)".into(),
             ));
             continue;
         }
         let Some(built) = snap.curve_at(index, reviewed_only) else {
-            no_data.push(missing(if reviewed_only {
+            no_data.push(apart(if reviewed_only {
                 "no reviewed solubility data".into()
             } else {
                 "no solubility data yet".into()
@@ -74,7 +71,7 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
         let w = match loading_mass_fraction(snap, &s.loading, solute, &s.options, answer) {
             Ok(w) => w,
             Err(e) if s.loading.unit.needs_density() => {
-                no_data.push(apart(e.to_string()));
+                no_data.push(apart(e.to_string().into()));
                 continue;
             }
             Err(e) => return Err(e),
@@ -107,22 +104,21 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
             Ok(found) => found,
             Err(ScienceError::OutOfRange { .. } | ScienceError::InGap { .. }) => {
                 let (lo, hi) = built.curve.temperature_range();
-                no_data.push(apart(format!(
-                    "data do not cover the whole range (they cover {} C to {} C)",
-                    celsius(lo),
-                    celsius(hi)
-                )));
+                no_data.push(apart(Missing::Uncovered {
+                    from_c: celsius(lo),
+                    to_c: celsius(hi),
+                }));
                 continue;
             }
             Err(other) => {
-                no_data.push(apart(other.to_string()));
+                no_data.push(apart(other.to_string().into()));
                 continue;
             }
         };
         if let Some(reason) = ice_unknown {
-            no_data.push(apart(format!(
-                "whether ice forms in the range is not known: {reason}"
-            )));
+            no_data.push(apart(
+                format!("whether ice forms in the range is not known: {reason}").into(),
+            ));
             continue;
         }
         counts.from_memory += usize::from(built.from_memory);

@@ -126,37 +126,86 @@ impl Pchip {
     /// Value and derivative at `x`. Outside the knots the end tangent line is followed
     /// (linear extrapolation; callers flag it).
     pub fn eval(&self, x: f64) -> (f64, f64) {
+        let piece = self.piece(x);
+        (piece.value(), piece.slope())
+    }
+
+    /// The value alone of [`Pchip::eval`] (the same number, without the derivative's
+    /// arithmetic): what a screening of many curves asks for.
+    pub fn value(&self, x: f64) -> f64 {
+        self.piece(x).value()
+    }
+
+    /// The piece of the interpolant that holds `x`.
+    fn piece(&self, x: f64) -> Piece {
         let (xs, ys, ds) = (self.x(), self.y(), self.d());
         let n = xs.len();
         if n == 1 {
-            return (ys[0], 0.0);
+            return Piece::Knot(ys[0], 0.0);
         }
         if x <= xs[0] {
-            return (ys[0] + ds[0] * (x - xs[0]), ds[0]);
+            return Piece::Line(ys[0], ds[0], x - xs[0]);
         }
         if x >= xs[n - 1] {
-            return (ys[n - 1] + ds[n - 1] * (x - xs[n - 1]), ds[n - 1]);
+            return Piece::Line(ys[n - 1], ds[n - 1], x - xs[n - 1]);
         }
         let k = match xs.binary_search_by(|v| v.total_cmp(&x)) {
-            Ok(k) => return (ys[k], ds[k]),
+            Ok(k) => return Piece::Knot(ys[k], ds[k]),
             Err(k) => k - 1,
         };
         let h = xs[k + 1] - xs[k];
-        let t = (x - xs[k]) / h;
-        let (y0, y1, d0, d1) = (ys[k], ys[k + 1], ds[k], ds[k + 1]);
-        let t2 = t * t;
-        let t3 = t2 * t;
-        let h00 = 2.0 * t3 - 3.0 * t2 + 1.0;
-        let h10 = t3 - 2.0 * t2 + t;
-        let h01 = -2.0 * t3 + 3.0 * t2;
-        let h11 = t3 - t2;
-        let v = h00 * y0 + h10 * h * d0 + h01 * y1 + h11 * h * d1;
-        let dv = ((6.0 * t2 - 6.0 * t) * y0
-            + (3.0 * t2 - 4.0 * t + 1.0) * h * d0
-            + (-6.0 * t2 + 6.0 * t) * y1
-            + (3.0 * t2 - 2.0 * t) * h * d1)
-            / h;
-        (v, dv)
+        Piece::Cubic {
+            t: (x - xs[k]) / h,
+            h,
+            y: (ys[k], ys[k + 1]),
+            d: (ds[k], ds[k + 1]),
+        }
+    }
+}
+
+/// Where a point falls on a [`Pchip`]: on an end tangent (value, slope, distance from the
+/// end knot), on a knot (value, slope), or inside an interval's cubic (the fraction `t` of
+/// the interval of width `h`, the ends' values and slopes).
+enum Piece {
+    Line(f64, f64, f64),
+    Knot(f64, f64),
+    Cubic {
+        t: f64,
+        h: f64,
+        y: (f64, f64),
+        d: (f64, f64),
+    },
+}
+
+impl Piece {
+    fn value(&self) -> f64 {
+        match *self {
+            Piece::Line(y, d, dx) => y + d * dx,
+            Piece::Knot(y, _) => y,
+            Piece::Cubic { t, h, y, d } => {
+                let t2 = t * t;
+                let t3 = t2 * t;
+                let h00 = 2.0 * t3 - 3.0 * t2 + 1.0;
+                let h10 = t3 - 2.0 * t2 + t;
+                let h01 = -2.0 * t3 + 3.0 * t2;
+                let h11 = t3 - t2;
+                h00 * y.0 + h10 * h * d.0 + h01 * y.1 + h11 * h * d.1
+            }
+        }
+    }
+
+    fn slope(&self) -> f64 {
+        match *self {
+            Piece::Line(_, d, _) | Piece::Knot(_, d) => d,
+            Piece::Cubic { t, h, y, d } => {
+                let t2 = t * t;
+                ((6.0 * t2 - 6.0 * t) * y.0
+                    + (3.0 * t2 - 4.0 * t + 1.0) * h * d.0
+                    + (-6.0 * t2 + 6.0 * t) * y.1
+                    + (3.0 * t2 - 2.0 * t) * h * d.1)
+                    / h
+            }
+        }
     }
 }
 
@@ -169,7 +218,13 @@ impl Pchip {
     /// interpolant is a straight line and has none.
     pub fn turning_points(&self, lo: f64, hi: f64, out: &mut Vec<f64>) {
         let (xs, ys, ds) = (self.x(), self.y(), self.d());
-        for k in 0..xs.len().saturating_sub(1) {
+        // The intervals that reach into (lo, hi): from the last knot at or below lo to the
+        // first at or above hi.
+        let first = xs.partition_point(|&x| x <= lo).saturating_sub(1);
+        let last = xs
+            .partition_point(|&x| x < hi)
+            .min(xs.len().saturating_sub(1));
+        for k in first..last {
             let (x0, x1) = (xs[k], xs[k + 1]);
             if x1 <= lo || x0 >= hi {
                 continue;
@@ -417,6 +472,13 @@ impl Branch {
     pub fn value_unchecked(&self, t_k: f64) -> (f64, f64) {
         let (w, d) = self.interpolant.eval(t_k);
         (w.clamp(0.0, 1.0 - 1e-12), d)
+    }
+
+    /// The mass fraction of [`Branch::value_unchecked`] (without the slope's arithmetic)
+    /// and its basis: what a screening asks of a curve's one branch where it covers `t_k`.
+    pub fn mass_fraction_and_basis(&self, t_k: f64) -> (f64, Basis) {
+        let w = self.interpolant.value(t_k).clamp(0.0, 1.0 - 1e-12);
+        (w, self.basis_at(t_k))
     }
 
     fn basis_at(&self, t_k: f64) -> Basis {

@@ -16,7 +16,7 @@
 //! evaluated at each candidate and the lowest value wins; a breakpoint itself is preferred
 //! to a point beside it that is no lower by more than rounding.
 
-use super::curve::{Basis, Curve};
+use super::curve::{Basis, Branch, Curve, Transition};
 use super::error::ScienceError;
 
 /// How far inside a piece the one-sided limit at a breakpoint is taken, K: far below any
@@ -99,6 +99,9 @@ pub fn lowest(
         super::bounds::check_window(t1_k, lo, hi)?;
         super::bounds::check_window(t2_k, lo, hi)?;
     }
+    if let Some(b) = lone_covering(curve, t1_k, t2_k) {
+        return Ok(lowest_on(b, t1_k, t2_k, scratch));
+    }
     if t1_k == t2_k {
         let uncovered = !curve.covers(t1_k);
         if uncovered && !extrapolate {
@@ -140,11 +143,7 @@ pub fn lowest(
         let Ok((branch, w, basis)) = curve.evaluate_branch(t, true) else {
             continue;
         };
-        let better = match best {
-            None => true,
-            Some((_, bw, b_at, _, _)) => w < bw - TIE || (w < bw + TIE && at_breakpoint && !b_at),
-        };
-        if better {
+        if best.is_none_or(|(_, bw, b_at, _, _)| better(w, at_breakpoint, bw, b_at)) {
             best = Some((t, w, at_breakpoint, branch, basis));
         }
     }
@@ -167,10 +166,65 @@ pub fn lowest(
     })
 }
 
+/// The one branch of a curve that has only one, when it covers the whole of [t1_k, t2_k]
+/// (by its data or its stable range): there the stable curve is that branch itself, with
+/// no gap, transition or other branch to look for.
+fn lone_covering(curve: &Curve, t1_k: f64, t2_k: f64) -> Option<&Branch> {
+    match curve.branches.as_slice() {
+        [b] if b.covers(t1_k) && b.covers(t2_k) => Some(b),
+        _ => None,
+    }
+}
+
+/// [`lowest`] on a lone branch that covers the range: the same candidates, each evaluated
+/// on the branch directly (what [`Curve::evaluate_branch`] gives there, without its checks).
+fn lowest_on(b: &Branch, t1_k: f64, t2_k: f64, scratch: &mut Scratch) -> Lowest {
+    let at = |t_k: f64| {
+        let (mass_fraction, basis) = b.mass_fraction_and_basis(t_k);
+        Lowest {
+            t_k,
+            mass_fraction,
+            branch: 0,
+            basis,
+        }
+    };
+    if t1_k == t2_k {
+        return at(t1_k);
+    }
+    candidates_of(std::slice::from_ref(b), &[], t1_k, t2_k, scratch);
+    let mut best: Option<(Lowest, bool)> = None;
+    for &(t, at_breakpoint) in &scratch.candidates {
+        let here = at(t);
+        if best.is_none_or(|(b, b_at)| {
+            better(here.mass_fraction, at_breakpoint, b.mass_fraction, b_at)
+        }) {
+            best = Some((here, at_breakpoint));
+        }
+    }
+    best.map_or_else(|| at(t1_k), |(low, _)| low)
+}
+
+/// Whether a candidate of value `w` beats the best so far (`bw`): lower by more than
+/// rounding, or as low and at a breakpoint where the best is not.
+fn better(w: f64, at_breakpoint: bool, bw: f64, best_at_breakpoint: bool) -> bool {
+    w < bw - TIE || (w < bw + TIE && at_breakpoint && !best_at_breakpoint)
+}
+
 /// The candidates of the module's comment inside [t1_k, t2_k] into `scratch.candidates`,
 /// ascending, each with whether it is a breakpoint (rather than a point beside one or a
 /// turning point).
 fn candidates(curve: &Curve, t1_k: f64, t2_k: f64, scratch: &mut Scratch) {
+    candidates_of(&curve.branches, curve.transitions(), t1_k, t2_k, scratch);
+}
+
+/// [`candidates`] of these branches with these transitions between them.
+fn candidates_of(
+    branches: &[Branch],
+    transitions: &[Transition],
+    t1_k: f64,
+    t2_k: f64,
+    scratch: &mut Scratch,
+) {
     let Scratch {
         breaks,
         turning,
@@ -182,14 +236,14 @@ fn candidates(curve: &Curve, t1_k: f64, t2_k: f64, scratch: &mut Scratch) {
     let inside = |t: &f64| *t >= t1_k && *t <= t2_k;
     // First the breakpoints where the set of branches changes in a step (a branch's ends,
     // its stable range's ends, the transitions): each with the points just inside its sides.
-    for b in &curve.branches {
+    for b in branches {
         let (lo, hi) = b.range();
         breaks.extend([lo, hi].into_iter().filter(inside));
         if let Some((lo, hi)) = b.stable_range() {
             breaks.extend([lo, hi].into_iter().filter(inside));
         }
     }
-    breaks.extend(curve.transitions().iter().map(|t| t.t_k).filter(inside));
+    breaks.extend(transitions.iter().map(|t| t.t_k).filter(inside));
     for &t in breaks.iter() {
         out.push((t, true));
         for beside in [t - BESIDE_K, t + BESIDE_K] {
@@ -202,14 +256,14 @@ fn candidates(curve: &Curve, t1_k: f64, t2_k: f64, scratch: &mut Scratch) {
     // (the same branches on both sides, each continuous), so its limits beside them are its
     // values there and need no points of their own.
     out.extend([(t1_k, true), (t2_k, true)]);
-    for b in &curve.branches {
+    for b in branches {
         // Knots ascend: only those inside the range.
         let knots = b.knots();
         let first = knots.partition_point(|&t| t < t1_k);
         let last = knots.partition_point(|&t| t <= t2_k).max(first);
         out.extend(knots[first..last].iter().map(|&t| (t, true)));
     }
-    for b in &curve.branches {
+    for b in branches {
         b.turning_points(t1_k, t2_k, turning);
     }
     out.extend(turning.iter().map(|&t| (t, false)));

@@ -19,6 +19,7 @@ mod dissolving;
 mod echo;
 mod error;
 mod filters;
+mod flat_curves;
 pub mod freeze_recipe;
 mod freezing;
 mod gas;

@@ -17,7 +17,7 @@ use crate::number::round_significant;
 use crate::query::Screen;
 use crate::science::ScienceError;
 use crate::science::freezing::ICE_POINT;
-use crate::science::solve::{Scratch, verdict};
+use crate::science::solve::{Question, Scratch, verdict};
 use crate::science::units;
 
 use super::solid::{finite_headroom, zero_loading_caveat};
@@ -91,15 +91,15 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
                 Err(reason) => ice_unknown = Some(reason),
             }
         }
-        let found = verdict(
-            &built.curve,
+        let question = Question {
             w,
-            from,
-            t2,
+            t1_k: from,
+            t2_k: t2,
             margin,
-            s.options.extrapolate,
-            &mut scratch,
-        );
+            extrapolate: s.options.extrapolate,
+        };
+        let lone = snap.lone_at(index, reviewed_only);
+        let found = verdict(&built.curve, lone, &question, &mut scratch);
         let found = match found {
             Ok(found) => found,
             Err(ScienceError::OutOfRange { .. } | ScienceError::InGap { .. }) => {
@@ -215,32 +215,85 @@ fn rank(snap: &Snapshot, rows: &[ScreenedRow], ranks: &[(f64, u32)]) -> Vec<u32>
             .and_then(|r| solutes.get(r.solute as usize))
             .map_or("", |s| s.name.as_str())
     };
-    // The sort moves plain integers: the headroom's key above the position.
-    let mut keys: Vec<u128> = ranks
+    // The sort moves plain integers: each headroom's key with the row's position. Both sorts
+    // below order equal keys by position, the order the rows came in.
+    let mut keys: Vec<(u64, u32)> = ranks
         .iter()
-        .map(|&(x, position)| u128::from(descending(x)) << 32 | u128::from(position))
+        .map(|&(x, position)| (descending(x), position))
         .collect();
-    keys.sort_unstable();
-    let position = |key: u128| (key & u128::from(u32::MAX)) as u32;
+    if keys.len() < RADIX_FROM {
+        keys.sort_unstable();
+    } else {
+        radix_sort(&mut keys);
+    }
     // Equal headrooms (rare, but every solute that freezes) by name, then position, as a
     // stable sort by (headroom, name) would leave them.
     let mut start = 0;
     while start < keys.len() {
-        let headroom = keys[start] >> 32;
-        let run = keys[start..]
-            .iter()
-            .take_while(|&&k| k >> 32 == headroom)
-            .count();
+        let headroom = keys[start].0;
+        let run = keys[start..].iter().take_while(|k| k.0 == headroom).count();
         if run > 1 {
-            keys[start..start + run].sort_by(|&a, &b| {
-                name(position(a))
-                    .cmp(name(position(b)))
-                    .then(position(a).cmp(&position(b)))
-            });
+            keys[start..start + run]
+                .sort_by(|&(_, a), &(_, b)| name(a).cmp(name(b)).then(a.cmp(&b)));
         }
         start += run;
     }
-    keys.iter().map(|&k| position(k)).collect()
+    keys.iter().map(|&(_, position)| position).collect()
+}
+
+/// From how many rows a screening ranks them by radix sort rather than by comparison.
+const RADIX_FROM: usize = 2048;
+
+/// Up to how many keys [`radix_sort`] sorts by comparison.
+const SMALL: usize = 48;
+
+/// Sorts `keys` by their first field and, among equal ones, by their second, given that the
+/// keys come ordered by their second field among equal first ones (rows come in position
+/// order). A most-significant-digit radix sort: the keys are spread over buckets by their
+/// leading bits below the bits all of them share (about one bucket per key: one counting
+/// pass, one pass that moves them), and each bucket is sorted the same way where it lies,
+/// by comparison once it is small.
+fn radix_sort(keys: &mut [(u64, u32)]) {
+    if keys.len() <= SMALL {
+        keys.sort_unstable();
+        return;
+    }
+    let (Some(lo), Some(hi)) = (
+        keys.iter().map(|k| k.0).min(),
+        keys.iter().map(|k| k.0).max(),
+    ) else {
+        return;
+    };
+    if lo == hi {
+        // Equal keys, already in position order.
+        return;
+    }
+    let bits = (usize::BITS - keys.len().leading_zeros()).clamp(4, 16);
+    // The span's highest bit falls in the top bucket's half: at least two buckets are used.
+    let shift = (u64::BITS - (hi - lo).leading_zeros()).saturating_sub(bits);
+    let bucket = |key: u64| ((key - lo) >> shift) as usize;
+    let mut starts = vec![0usize; bucket(hi) + 2];
+    for &(key, _) in keys.iter() {
+        starts[bucket(key) + 1] += 1;
+    }
+    for i in 1..starts.len() {
+        starts[i] += starts[i - 1];
+    }
+    let mut next = starts.clone();
+    let mut moved = vec![(0u64, 0u32); keys.len()];
+    for &item in keys.iter() {
+        let b = bucket(item.0);
+        if let Some(slot) = moved.get_mut(next[b]) {
+            *slot = item;
+        }
+        next[b] += 1;
+    }
+    keys.copy_from_slice(&moved);
+    for pair in starts.windows(2) {
+        if pair[1] - pair[0] > 1 {
+            radix_sort(&mut keys[pair[0]..pair[1]]);
+        }
+    }
 }
 
 /// The headroom's bits turned so that the integers order as `f64::total_cmp` orders the
@@ -297,7 +350,33 @@ fn caveats(
 
 #[cfg(test)]
 mod tests {
-    use super::descending;
+    use super::{descending, radix_sort};
+
+    #[test]
+    fn the_radix_sort_orders_as_a_stable_sort_by_key() {
+        // Invented keys with many repeats, sharing their high bytes.
+        let mut state = 0x2545_F491_4F6C_DD1Du64;
+        let keys: Vec<(u64, u32)> = (0..10_000u32)
+            .map(|position| {
+                state ^= state << 13;
+                state ^= state >> 7;
+                state ^= state << 17;
+                (0x3FF0_0000_0000_0000 | (state % 5_000) << 20, position)
+            })
+            .collect();
+        let mut by_radix = keys.clone();
+        radix_sort(&mut by_radix);
+        let mut stable = keys;
+        stable.sort_by_key(|k| k.0);
+        assert_eq!(by_radix, stable);
+        // One key far from the rest (a solute that freezes) and keys all equal.
+        let mut far: Vec<(u64, u32)> = vec![(7, 0), (u64::MAX, 1), (5, 2), (7, 3), (6, 4)];
+        radix_sort(&mut far);
+        assert_eq!(far, [(5, 2), (6, 4), (7, 0), (7, 3), (u64::MAX, 1)]);
+        let mut same = vec![(9u64, 2u32), (9, 0), (9, 1)];
+        radix_sort(&mut same);
+        assert_eq!(same, [(9, 0), (9, 1), (9, 2)]);
+    }
 
     #[test]
     fn the_integer_keys_order_as_the_headrooms_reversed() {

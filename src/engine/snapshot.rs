@@ -11,7 +11,9 @@ use crate::engine::common::Citing;
 use crate::model::{Dataset, Provenance, Review};
 use crate::science::acid_base::{AcidSystem, BufferForm};
 use crate::science::activity::{ParameterSet, System};
-use crate::science::curve::{Branch, Curve};
+use crate::science::curve::{Branch, BranchView, Curve};
+
+use super::flat_curves::FlatCurves;
 
 /// A curve and the datasets it was built from (indices into `Catalog::datasets`).
 #[derive(Debug, Clone)]
@@ -46,6 +48,8 @@ pub struct Snapshot {
     /// The curves of each solute, in the order of `Catalog::solutes` (a screening walks
     /// them side by side without hashing ids).
     curves: Vec<SoluteCurves>,
+    /// The curves of one branch copied into flat arrays, in the order of `curves`.
+    flat: FlatCurves,
     /// The names a screening's compact rows refer to (solutes and their curves' phases).
     screen_names: Arc<ScreenNames>,
     /// Each source's citation, in the order of `Catalog::sources`, formatted once.
@@ -183,6 +187,10 @@ impl Snapshot {
         // solutes in that order reads memory forwards (the processor fetches ahead) instead
         // of jumping to wherever the curve was built beside the names and datasets.
         let curves: Vec<SoluteCurves> = curves.to_vec();
+        let mut flat = FlatCurves::default();
+        for c in &curves {
+            flat.push(c.all.as_ref(), c.reviewed.as_ref());
+        }
         // The compiled-in model files are checked by the tests (store::models); a bad one
         // would leave the activity model without parameters, never stop the engine.
         let models =
@@ -200,6 +208,7 @@ impl Snapshot {
             catalog,
             citations,
             curves,
+            flat,
             screen_names: Arc::new(screen_names),
             curve_index,
             names,
@@ -268,6 +277,12 @@ impl Snapshot {
         } else {
             curves.all.as_ref()
         }
+    }
+
+    /// The flat copy of the curve of the solute at `index` in `Catalog::solutes`, when it
+    /// is a curve of one branch (see [`FlatCurves`]).
+    pub fn lone_at(&self, index: usize, reviewed_only: bool) -> Option<BranchView<'_>> {
+        self.flat.lone_at(index, reviewed_only)
     }
 
     /// The citation of the source at `position` in `Catalog::sources`.

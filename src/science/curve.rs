@@ -94,28 +94,19 @@ impl Pchip {
         Ok(Self { knots, range })
     }
 
+    /// The knots as a borrowed view.
+    pub fn view(&self) -> Knots<'_> {
+        Knots(&self.knots)
+    }
+
     /// The knots' abscissae.
     pub fn knots(&self) -> &[f64] {
-        self.x()
+        self.view().x()
     }
 
     /// The knots' ordinates.
     pub fn values(&self) -> &[f64] {
-        self.y()
-    }
-
-    fn x(&self) -> &[f64] {
-        &self.knots[..self.knots.len() / 3]
-    }
-
-    fn y(&self) -> &[f64] {
-        let n = self.knots.len() / 3;
-        &self.knots[n..2 * n]
-    }
-
-    fn d(&self) -> &[f64] {
-        let n = self.knots.len() / 3;
-        &self.knots[2 * n..]
+        self.view().y()
     }
 
     /// (lowest x, highest x).
@@ -126,18 +117,66 @@ impl Pchip {
     /// Value and derivative at `x`. Outside the knots the end tangent line is followed
     /// (linear extrapolation; callers flag it).
     pub fn eval(&self, x: f64) -> (f64, f64) {
-        let piece = self.piece(x);
-        (piece.value(), piece.slope())
+        self.view().eval(x)
     }
 
     /// The value alone of [`Pchip::eval`] (the same number, without the derivative's
     /// arithmetic): what a screening of many curves asks for.
     pub fn value(&self, x: f64) -> f64 {
+        self.view().value(x)
+    }
+}
+
+/// A [`Pchip`]'s knots borrowed as one slice laid out as the interpolant keeps them: the
+/// abscissae, the ordinates, then the slopes (n each). The engine's snapshot keeps the knots
+/// of every curve of one branch so, one after another in one flat array, and evaluates them
+/// with this same code.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Knots<'a>(&'a [f64]);
+
+impl<'a> Knots<'a> {
+    /// The view of `raw` (as [`Knots::raw`] gives it); `None` unless its length is a
+    /// positive multiple of three.
+    pub fn new(raw: &'a [f64]) -> Option<Self> {
+        (!raw.is_empty() && raw.len() % 3 == 0).then_some(Knots(raw))
+    }
+
+    /// The slice itself, for copying into a flat array.
+    pub fn raw(self) -> &'a [f64] {
+        self.0
+    }
+
+    fn n(self) -> usize {
+        self.0.len() / 3
+    }
+
+    /// The knots' abscissae.
+    pub fn x(self) -> &'a [f64] {
+        &self.0[..self.n()]
+    }
+
+    /// The knots' ordinates.
+    pub fn y(self) -> &'a [f64] {
+        &self.0[self.n()..2 * self.n()]
+    }
+
+    fn d(self) -> &'a [f64] {
+        &self.0[2 * self.n()..]
+    }
+
+    /// See [`Pchip::eval`].
+    pub fn eval(self, x: f64) -> (f64, f64) {
+        let piece = self.piece(x);
+        (piece.value(), piece.slope())
+    }
+
+    /// See [`Pchip::value`].
+    pub fn value(self, x: f64) -> f64 {
         self.piece(x).value()
     }
 
     /// The piece of the interpolant that holds `x`.
-    fn piece(&self, x: f64) -> Piece {
+    fn piece(self, x: f64) -> Piece {
         let (xs, ys, ds) = (self.x(), self.y(), self.d());
         let n = xs.len();
         if n == 1 {
@@ -217,6 +256,13 @@ impl Pchip {
     /// places where the interpolant can have an interior extremum. Beyond the knots the
     /// interpolant is a straight line and has none.
     pub fn turning_points(&self, lo: f64, hi: f64, out: &mut Vec<f64>) {
+        self.view().turning_points(lo, hi, out);
+    }
+}
+
+impl Knots<'_> {
+    /// See [`Pchip::turning_points`].
+    pub fn turning_points(self, lo: f64, hi: f64, out: &mut Vec<f64>) {
         let (xs, ys, ds) = (self.x(), self.y(), self.d());
         // The intervals that reach into (lo, hi): from the last knot at or below lo to the
         // first at or above hi.
@@ -477,18 +523,19 @@ impl Branch {
     /// The mass fraction of [`Branch::value_unchecked`] (without the slope's arithmetic)
     /// and its basis: what a screening asks of a curve's one branch where it covers `t_k`.
     pub fn mass_fraction_and_basis(&self, t_k: f64) -> (f64, Basis) {
-        let w = self.interpolant.value(t_k).clamp(0.0, 1.0 - 1e-12);
-        (w, self.basis_at(t_k))
+        self.view().mass_fraction_and_basis(t_k)
     }
 
     fn basis_at(&self, t_k: f64) -> Basis {
-        let (lo, hi) = self.tabulated_range();
-        if t_k < lo || t_k > hi {
-            Basis::Extrapolated
-        } else if self.knots().iter().any(|k| (k - t_k).abs() <= 1e-9) {
-            Basis::Tabulated
-        } else {
-            Basis::Interpolated
+        self.view().basis_at(t_k)
+    }
+
+    /// The branch's knots and covered range, borrowed.
+    pub fn view(&self) -> BranchView<'_> {
+        BranchView {
+            knots: self.interpolant.view(),
+            range: self.range(),
+            stable: self.stable,
         }
     }
 
@@ -518,6 +565,44 @@ impl Branch {
             branch: 0,
             basis: self.basis_at(t_k),
         })
+    }
+}
+
+/// A branch's knots and the range it covers ([`Branch::range`]), borrowed: what the range
+/// minimum of a curve of one branch works on, whether the knots are the branch's own or the
+/// engine's flat copy of them.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct BranchView<'a> {
+    pub knots: Knots<'a>,
+    pub range: (f64, f64),
+    /// The stable range, where known ([`Branch::stable_range`]).
+    pub stable: Option<(f64, f64)>,
+}
+
+impl BranchView<'_> {
+    /// True when `t_k` lies within the covered range.
+    pub fn covers(self, t_k: f64) -> bool {
+        t_k >= self.range.0 && t_k <= self.range.1
+    }
+
+    /// See [`Branch::mass_fraction_and_basis`].
+    pub fn mass_fraction_and_basis(self, t_k: f64) -> (f64, Basis) {
+        let w = self.knots.value(t_k).clamp(0.0, 1.0 - 1e-12);
+        (w, self.basis_at(t_k))
+    }
+
+    fn basis_at(self, t_k: f64) -> Basis {
+        let x = self.knots.x();
+        let (Some(&lo), Some(&hi)) = (x.first(), x.last()) else {
+            return Basis::Extrapolated;
+        };
+        if t_k < lo || t_k > hi {
+            Basis::Extrapolated
+        } else if x.iter().any(|k| (k - t_k).abs() <= 1e-9) {
+            Basis::Tabulated
+        } else {
+            Basis::Interpolated
+        }
     }
 }
 
@@ -602,6 +687,14 @@ impl Curve {
         Self {
             branches: vec![branch],
             transitions: Vec::new(),
+        }
+    }
+
+    /// The curve's branch as a view, when it has only one.
+    pub fn lone(&self) -> Option<BranchView<'_>> {
+        match self.branches.as_slice() {
+            [b] => Some(b.view()),
+            _ => None,
         }
     }
 

@@ -16,7 +16,7 @@
 //! evaluated at each candidate and the lowest value wins; a breakpoint itself is preferred
 //! to a point beside it that is no lower by more than rounding.
 
-use super::curve::{Basis, Branch, Curve, Transition};
+use super::curve::{Basis, BranchView, Curve, Transition};
 use super::error::ScienceError;
 
 /// How far inside a piece the one-sided limit at a breakpoint is taken, K: far below any
@@ -89,8 +89,28 @@ pub fn lowest(
     extrapolate: bool,
     scratch: &mut Scratch,
 ) -> Result<Lowest, ScienceError> {
+    lowest_with(curve, curve.lone(), t1_k, t2_k, extrapolate, scratch)
+}
+
+/// [`lowest`] with the curve's lone branch (when it has only one) given as a view, such as
+/// the engine's flat copy of its knots, read without reaching into the curve; `None` for a
+/// curve of several branches.
+pub fn lowest_with(
+    curve: &Curve,
+    lone: Option<BranchView<'_>>,
+    t1_k: f64,
+    t2_k: f64,
+    extrapolate: bool,
+    scratch: &mut Scratch,
+) -> Result<Lowest, ScienceError> {
     if !(t1_k.is_finite() && t2_k.is_finite()) || t2_k < t1_k {
         return Err(ScienceError::BadRange { t1_k, t2_k });
+    }
+    // Where the lone branch covers the whole range the stable curve is that branch itself,
+    // with no gap, transition or other branch to look for (and the range is within any
+    // extrapolation window).
+    if let Some(b) = lone.filter(|b| b.covers(t1_k) && b.covers(t2_k)) {
+        return Ok(lowest_on(b, t1_k, t2_k, scratch));
     }
     if extrapolate {
         // Both ends within reach: the window is an interval around the data, so the
@@ -98,9 +118,6 @@ pub fn lowest(
         let (lo, hi) = curve.temperature_range();
         super::bounds::check_window(t1_k, lo, hi)?;
         super::bounds::check_window(t2_k, lo, hi)?;
-    }
-    if let Some(b) = lone_covering(curve, t1_k, t2_k) {
-        return Ok(lowest_on(b, t1_k, t2_k, scratch));
     }
     if t1_k == t2_k {
         let uncovered = !curve.covers(t1_k);
@@ -166,19 +183,9 @@ pub fn lowest(
     })
 }
 
-/// The one branch of a curve that has only one, when it covers the whole of [t1_k, t2_k]
-/// (by its data or its stable range): there the stable curve is that branch itself, with
-/// no gap, transition or other branch to look for.
-fn lone_covering(curve: &Curve, t1_k: f64, t2_k: f64) -> Option<&Branch> {
-    match curve.branches.as_slice() {
-        [b] if b.covers(t1_k) && b.covers(t2_k) => Some(b),
-        _ => None,
-    }
-}
-
 /// [`lowest`] on a lone branch that covers the range: the same candidates, each evaluated
 /// on the branch directly (what [`Curve::evaluate_branch`] gives there, without its checks).
-fn lowest_on(b: &Branch, t1_k: f64, t2_k: f64, scratch: &mut Scratch) -> Lowest {
+fn lowest_on(b: BranchView<'_>, t1_k: f64, t2_k: f64, scratch: &mut Scratch) -> Lowest {
     let at = |t_k: f64| {
         let (mass_fraction, basis) = b.mass_fraction_and_basis(t_k);
         Lowest {
@@ -191,7 +198,7 @@ fn lowest_on(b: &Branch, t1_k: f64, t2_k: f64, scratch: &mut Scratch) -> Lowest 
     if t1_k == t2_k {
         return at(t1_k);
     }
-    candidates_of(std::slice::from_ref(b), &[], t1_k, t2_k, scratch);
+    candidates_of([b], &[], t1_k, t2_k, scratch);
     let mut best: Option<(Lowest, bool)> = None;
     for &(t, at_breakpoint) in &scratch.candidates {
         let here = at(t);
@@ -214,12 +221,13 @@ fn better(w: f64, at_breakpoint: bool, bw: f64, best_at_breakpoint: bool) -> boo
 /// ascending, each with whether it is a breakpoint (rather than a point beside one or a
 /// turning point).
 fn candidates(curve: &Curve, t1_k: f64, t2_k: f64, scratch: &mut Scratch) {
-    candidates_of(&curve.branches, curve.transitions(), t1_k, t2_k, scratch);
+    let views = curve.branches.iter().map(|b| b.view());
+    candidates_of(views, curve.transitions(), t1_k, t2_k, scratch);
 }
 
 /// [`candidates`] of these branches with these transitions between them.
-fn candidates_of(
-    branches: &[Branch],
+fn candidates_of<'a>(
+    branches: impl IntoIterator<Item = BranchView<'a>, IntoIter: Clone>,
     transitions: &[Transition],
     t1_k: f64,
     t2_k: f64,
@@ -234,12 +242,13 @@ fn candidates_of(
     turning.clear();
     out.clear();
     let inside = |t: &f64| *t >= t1_k && *t <= t2_k;
+    let branches = branches.into_iter();
     // First the breakpoints where the set of branches changes in a step (a branch's ends,
     // its stable range's ends, the transitions): each with the points just inside its sides.
-    for b in branches {
-        let (lo, hi) = b.range();
+    for b in branches.clone() {
+        let (lo, hi) = b.range;
         breaks.extend([lo, hi].into_iter().filter(inside));
-        if let Some((lo, hi)) = b.stable_range() {
+        if let Some((lo, hi)) = b.stable {
             breaks.extend([lo, hi].into_iter().filter(inside));
         }
     }
@@ -256,15 +265,15 @@ fn candidates_of(
     // (the same branches on both sides, each continuous), so its limits beside them are its
     // values there and need no points of their own.
     out.extend([(t1_k, true), (t2_k, true)]);
-    for b in branches {
+    for b in branches.clone() {
         // Knots ascend: only those inside the range.
-        let knots = b.knots();
+        let knots = b.knots.x();
         let first = knots.partition_point(|&t| t < t1_k);
         let last = knots.partition_point(|&t| t <= t2_k).max(first);
         out.extend(knots[first..last].iter().map(|&t| (t, true)));
     }
     for b in branches {
-        b.turning_points(t1_k, t2_k, turning);
+        b.knots.turning_points(t1_k, t2_k, turning);
     }
     out.extend(turning.iter().map(|&t| (t, false)));
     // Ascending, a breakpoint before anything else at the same temperature; duplicates go.

@@ -6,9 +6,9 @@
 //! r stays dissolved with margin m when the curve's r is at least r·(1+m) everywhere in the
 //! range. Only data-covered temperatures are used (no extrapolation).
 
-use super::curve::{Basis, Curve, dense_grid};
+use super::curve::{Basis, BranchView, Curve, dense_grid};
 use super::error::ScienceError;
-pub use super::range_minimum::{Lowest, Minimum, Scratch, lowest, minimum};
+pub use super::range_minimum::{Lowest, Minimum, Scratch, lowest, lowest_with, minimum};
 
 /// Steps per interval between knots of the scanning grid.
 const STEPS: usize = 200;
@@ -218,15 +218,14 @@ pub fn stays_dissolved_with(
     margin: f64,
     extrapolate: bool,
 ) -> Result<Screening, ScienceError> {
-    let v = verdict(
-        curve,
+    let question = Question {
         w,
         t1_k,
         t2_k,
         margin,
         extrapolate,
-        &mut Scratch::default(),
-    )?;
+    };
+    let v = verdict(curve, curve.lone(), &question, &mut Scratch::default())?;
     Ok(Screening {
         holds: v.holds,
         limiting_t_k: v.limiting_t_k,
@@ -251,19 +250,24 @@ pub struct Verdict {
 }
 
 /// [`stays_dissolved_with`] without the phase's name, reusing `scratch` from one curve to
-/// the next.
+/// the next; `lone` is the curve's branch when it has only one ([`Curve::lone`], or a flat
+/// copy of it).
 pub fn verdict(
     curve: &Curve,
-    w: f64,
-    t1_k: f64,
-    t2_k: f64,
-    margin: f64,
-    extrapolate: bool,
+    lone: Option<BranchView<'_>>,
+    question: &Question,
     scratch: &mut Scratch,
 ) -> Result<Verdict, ScienceError> {
+    let Question {
+        w,
+        t1_k,
+        t2_k,
+        margin,
+        extrapolate,
+    } = *question;
     let w = check_loading_or_zero(w)?;
     let margin = check_margin(margin)?;
-    let m = lowest(curve, t1_k, t2_k, extrapolate, scratch)?;
+    let m = lowest_with(curve, lone, t1_k, t2_k, extrapolate, scratch)?;
     let (r_min, r_load) = (ratio(m.mass_fraction), ratio(w));
     Ok(Verdict {
         // A zero loading holds trivially (nothing is dissolved); its headroom is infinite.
@@ -274,6 +278,18 @@ pub fn verdict(
         headroom_pct: (r_min / r_load - 1.0) * 100.0,
         basis: m.basis,
     })
+}
+
+/// What [`verdict`] asks of a curve: whether the loading `w` (mass fraction) stays
+/// dissolved over [t1_k, t2_k] with `margin`, extrapolating where the range has no data
+/// when `extrapolate` is true.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Question {
+    pub w: f64,
+    pub t1_k: f64,
+    pub t2_k: f64,
+    pub margin: f64,
+    pub extrapolate: bool,
 }
 
 /// The largest loading that stays dissolved over a range with a margin.

@@ -222,7 +222,7 @@ fn rank(snap: &Snapshot, rows: &[ScreenedRow], ranks: &[(f64, u32)]) -> Vec<u32>
         .map(|&(x, position)| (descending(x), position))
         .collect();
     if keys.len() < RADIX_FROM {
-        keys.sort_unstable();
+        by_comparison(&mut keys);
     } else {
         radix_sort(&mut keys);
     }
@@ -244,6 +244,11 @@ fn rank(snap: &Snapshot, rows: &[ScreenedRow], ranks: &[(f64, u32)]) -> Vec<u32>
 /// From how many rows a screening ranks them by radix sort rather than by comparison.
 const RADIX_FROM: usize = 2048;
 
+/// Sorts `keys` by their first field, then their second, by comparison.
+fn by_comparison(keys: &mut [(u64, u32)]) {
+    keys.sort_unstable();
+}
+
 /// Up to how many keys [`radix_sort`] sorts by comparison.
 const SMALL: usize = 48;
 
@@ -255,7 +260,7 @@ const SMALL: usize = 48;
 /// by comparison once it is small.
 fn radix_sort(keys: &mut [(u64, u32)]) {
     if keys.len() <= SMALL {
-        keys.sort_unstable();
+        by_comparison(keys);
         return;
     }
     let (Some(lo), Some(hi)) = (

@@ -259,7 +259,13 @@ const SMALL: usize = 48;
 /// pass, one pass that moves them), and each bucket is sorted the same way where it lies,
 /// by comparison once it is small.
 fn radix_sort(keys: &mut [(u64, u32)]) {
-    if keys.len() <= SMALL {
+    let mut moved = vec![(0u64, 0u32); keys.len()];
+    spread(keys, &mut moved);
+}
+
+/// [`radix_sort`] of `keys` with `moved` (as long as `keys`) to move them through.
+fn spread(keys: &mut [(u64, u32)], moved: &mut [(u64, u32)]) {
+    if keys.len() <= SMALL || moved.len() != keys.len() {
         by_comparison(keys);
         return;
     }
@@ -285,7 +291,6 @@ fn radix_sort(keys: &mut [(u64, u32)]) {
         starts[i] += starts[i - 1];
     }
     let mut next = starts.clone();
-    let mut moved = vec![(0u64, 0u32); keys.len()];
     for &item in keys.iter() {
         let b = bucket(item.0);
         if let Some(slot) = moved.get_mut(next[b]) {
@@ -293,10 +298,11 @@ fn radix_sort(keys: &mut [(u64, u32)]) {
         }
         next[b] += 1;
     }
-    keys.copy_from_slice(&moved);
+    keys.copy_from_slice(moved);
     for pair in starts.windows(2) {
         if pair[1] - pair[0] > 1 {
-            radix_sort(&mut keys[pair[0]..pair[1]]);
+            let bucket = pair[0]..pair[1];
+            spread(&mut keys[bucket.clone()], &mut moved[bucket]);
         }
     }
 }

@@ -84,13 +84,18 @@ pub enum Missing {
 }
 
 impl Missing {
-    /// The reason as the row shows it.
-    pub fn text(&self) -> Cow<'_, str> {
+    /// Appends the reason as the row shows it to `out`.
+    pub fn write_to(&self, out: &mut String) {
         match self {
-            Missing::Said(reason) => Cow::Borrowed(reason),
-            Missing::Uncovered { from_c, to_c } => Cow::Owned(format!(
-                "data do not cover the whole range (they cover {from_c} C to {to_c} C)"
-            )),
+            Missing::Said(reason) => out.push_str(reason),
+            Missing::Uncovered { from_c, to_c } => {
+                use std::fmt::Write;
+                // Writing into a String does not fail.
+                let _ = write!(
+                    out,
+                    "data do not cover the whole range (they cover {from_c} C to {to_c} C)"
+                );
+            }
         }
     }
 }
@@ -104,6 +109,35 @@ impl From<&'static str> for Missing {
 impl From<String> for Missing {
     fn from(reason: String) -> Self {
         Missing::Said(Cow::Owned(reason))
+    }
+}
+
+/// A row of a solute listed apart, its solute and reason still empty ([`fill_apart`]).
+fn apart_row() -> Row {
+    Row {
+        solute: Some(String::new()),
+        extra: [
+            ("status".to_string(), serde_json::json!("no data")),
+            (
+                "reason".to_string(),
+                serde_json::Value::String(String::new()),
+            ),
+        ]
+        .into_iter()
+        .collect(),
+        ..Row::default()
+    }
+}
+
+/// Writes a solute listed apart and its reason into a row from [`apart_row`], reusing the
+/// row's text buffers.
+fn fill_apart(row: &mut Row, solute: &str, reason: &Missing) {
+    let name = row.solute.get_or_insert_with(String::new);
+    name.clear();
+    name.push_str(solute);
+    if let Some(serde_json::Value::String(text)) = row.extra.get_mut("reason") {
+        text.clear();
+        reason.write_to(text);
     }
 }
 
@@ -160,15 +194,10 @@ impl ScreenTable {
     /// The rows, each made into a [`Row`] when it is reached: the ranked ones, then those
     /// without data.
     pub fn rows(&self) -> impl Iterator<Item = Row> + '_ {
-        let missing = self.missing.iter().map(|(solute, reason)| Row {
-            solute: Some(self.names.solute(*solute).to_string()),
-            extra: [
-                ("status".to_string(), serde_json::json!("no data")),
-                ("reason".to_string(), serde_json::json!(reason.text())),
-            ]
-            .into_iter()
-            .collect(),
-            ..Row::default()
+        let missing = self.missing.iter().map(|(solute, reason)| {
+            let mut row = apart_row();
+            fill_apart(&mut row, self.names.solute(*solute), reason);
+            row
         });
         self.shown().map(|r| self.row(r)).chain(missing)
     }
@@ -190,7 +219,9 @@ impl ScreenTable {
                 row.phase.unwrap_or_default(),
             );
         }
-        for row in self.rows().skip(self.shown().count()) {
+        let mut row = apart_row();
+        for (solute, reason) in &self.missing {
+            fill_apart(&mut row, self.names.solute(*solute), reason);
             write(&row)?;
         }
         Ok(())

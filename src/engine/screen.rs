@@ -98,7 +98,11 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
             margin,
             extrapolate: s.options.extrapolate,
         };
-        let lone = snap.lone_at(index, reviewed_only);
+        // The flat copy where there is one; a curve of one branch with a stable range of its
+        // own has none and is read as it is.
+        let lone = snap
+            .lone_at(index, reviewed_only)
+            .or_else(|| built.curve.lone());
         let found = verdict(&built.curve, lone, &question, &mut scratch);
         let found = match found {
             Ok(found) => found,

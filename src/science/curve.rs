@@ -119,12 +119,6 @@ impl Pchip {
     pub fn eval(&self, x: f64) -> (f64, f64) {
         self.view().eval(x)
     }
-
-    /// The value alone of [`Pchip::eval`] (the same number, without the derivative's
-    /// arithmetic): what a screening of many curves asks for.
-    pub fn value(&self, x: f64) -> f64 {
-        self.view().value(x)
-    }
 }
 
 /// A [`Pchip`]'s knots borrowed as one slice laid out as the interpolant keeps them: the
@@ -170,7 +164,8 @@ impl<'a> Knots<'a> {
         (piece.value(), piece.slope())
     }
 
-    /// See [`Pchip::value`].
+    /// The value alone of [`Knots::eval`] (the same number, without the derivative's
+    /// arithmetic): what a screening of many curves asks for.
     pub fn value(self, x: f64) -> f64 {
         self.piece(x).value()
     }
@@ -520,12 +515,6 @@ impl Branch {
         (w.clamp(0.0, 1.0 - 1e-12), d)
     }
 
-    /// The mass fraction of [`Branch::value_unchecked`] (without the slope's arithmetic)
-    /// and its basis: what a screening asks of a curve's one branch where it covers `t_k`.
-    pub fn mass_fraction_and_basis(&self, t_k: f64) -> (f64, Basis) {
-        self.view().mass_fraction_and_basis(t_k)
-    }
-
     fn basis_at(&self, t_k: f64) -> Basis {
         self.view().basis_at(t_k)
     }
@@ -585,7 +574,8 @@ impl BranchView<'_> {
         t_k >= self.range.0 && t_k <= self.range.1
     }
 
-    /// See [`Branch::mass_fraction_and_basis`].
+    /// The mass fraction of [`Branch::value_unchecked`] (without the slope's arithmetic)
+    /// and its basis: what a screening asks of a curve's one branch where it covers `t_k`.
     pub fn mass_fraction_and_basis(self, t_k: f64) -> (f64, Basis) {
         let w = self.knots.value(t_k).clamp(0.0, 1.0 - 1e-12);
         (w, self.basis_at(t_k))

@@ -138,6 +138,10 @@ fn ctrl_c_drops_the_line_and_a_backslash_continues_it() {
     let mut session = start(&dir.path().join("history"), &["repl"]);
     type_keys(&mut session, "describe Na");
     session.send_control('c').unwrap();
+    // The line editor's redraws while the keys are typed each show the prompt again, with
+    // no line break: the fresh prompt is the one after the break Ctrl-C makes. (Typing the
+    // next line before it, while the editor is not yet reading again, loses the line.)
+    session.exp_string("\r\n").unwrap();
     session.exp_string("satline> ").unwrap();
     session.send_line("solubility of KNO3 \\").unwrap();
     session.exp_string("..> ").unwrap();

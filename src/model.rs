@@ -14,11 +14,22 @@ pub struct UnknownWord {
     pub found: String,
 }
 
-/// The text of each variant of a fieldless enum, written once: `as_str`, `from_name`, the
-/// list of `NAMES`, `FromStr` and `Display` all come from the one table (the words are
-/// those of the seed format, the database and JSON).
+/// A fieldless enum defined with the text of each variant beside it, written once:
+/// `as_str`, `from_name`, the list of `NAMES`, `FromStr` and `Display` all come from the
+/// one table (the words are those of the seed format, the database and JSON; serde's own
+/// names are set by the enum's attributes, as for any enum).
 macro_rules! words {
-    ($name:ident as $what:literal { $($variant:ident = $text:literal),+ $(,)? }) => {
+    (
+        $(#[$meta:meta])*
+        pub enum $name:ident as $what:literal {
+            $($(#[$variant_meta:meta])* $variant:ident = $text:literal),+ $(,)?
+        }
+    ) => {
+        $(#[$meta])*
+        pub enum $name {
+            $($(#[$variant_meta])* $variant,)+
+        }
+
         impl $name {
             /// Every word, in the order of the variants.
             pub const NAMES: &'static [&'static str] = &[$($text),+];
@@ -58,26 +69,19 @@ macro_rules! words {
     };
 }
 
-/// What kind of publication a source is.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
-#[serde(rename_all = "kebab-case")]
-pub enum SourceKind {
-    Handbook,
-    Compilation,
-    Paper,
-    Standard,
-    Book,
-    Other,
+words! {
+    /// What kind of publication a source is.
+    #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
+    #[serde(rename_all = "kebab-case")]
+    pub enum SourceKind as "source kind" {
+        Handbook = "handbook",
+        Compilation = "compilation",
+        Paper = "paper",
+        Standard = "standard",
+        Book = "book",
+        Other = "other",
+    }
 }
-
-words!(SourceKind as "source kind" {
-    Handbook = "handbook",
-    Compilation = "compilation",
-    Paper = "paper",
-    Standard = "standard",
-    Book = "book",
-    Other = "other",
-});
 
 /// A bibliographic record. Every dataset and every gas constant names one.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
@@ -98,56 +102,43 @@ pub struct Source {
     pub note: Option<String>,
 }
 
-/// Salt, molecular solute or gas.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
-#[serde(rename_all = "kebab-case")]
-pub enum SoluteKind {
-    Salt,
-    Molecular,
-    Gas,
+words! {
+    /// Salt, molecular solute or gas.
+    #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
+    #[serde(rename_all = "kebab-case")]
+    pub enum SoluteKind as "solute kind" {
+        Salt = "salt",
+        Molecular = "molecular",
+        Gas = "gas",
+    }
 }
 
-words!(SoluteKind as "solute kind" {
-    Salt = "salt",
-    Molecular = "molecular",
-    Gas = "gas",
-});
-
-/// How a dataset came to be.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
-#[serde(rename_all = "kebab-case")]
-pub enum Provenance {
-    /// Measured by the authors of the source.
-    Measured,
-    /// Taken from an evaluated compilation or handbook table.
-    Compiled,
-    /// Typed from memory of a printed table; must be checked against the table.
-    FromMemory,
-    /// Computed from other data (for example converted from another unit).
-    Derived,
+words! {
+    /// How a dataset came to be.
+    #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
+    #[serde(rename_all = "kebab-case")]
+    pub enum Provenance as "provenance" {
+        /// Measured by the authors of the source.
+        Measured = "measured",
+        /// Taken from an evaluated compilation or handbook table.
+        Compiled = "compiled",
+        /// Typed from memory of a printed table; must be checked against the table.
+        FromMemory = "from-memory",
+        /// Computed from other data (for example converted from another unit).
+        Derived = "derived",
+    }
 }
 
-words!(Provenance as "provenance" {
-    Measured = "measured",
-    Compiled = "compiled",
-    FromMemory = "from-memory",
-    Derived = "derived",
-});
-
-/// Review state of a dataset.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
-#[serde(rename_all = "kebab-case")]
-pub enum Review {
-    Unreviewed,
-    Reviewed,
-    Rejected,
+words! {
+    /// Review state of a dataset.
+    #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
+    #[serde(rename_all = "kebab-case")]
+    pub enum Review as "review" {
+        Unreviewed = "unreviewed",
+        Reviewed = "reviewed",
+        Rejected = "rejected",
+    }
 }
-
-words!(Review as "review" {
-    Unreviewed = "unreviewed",
-    Reviewed = "reviewed",
-    Rejected = "rejected",
-});
 
 /// A substance that dissolves in water.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
@@ -262,21 +253,18 @@ pub struct VantHoffLaw {
     pub temperature_term_k: f64,
 }
 
-/// What a gas-solubility fit gives.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
-pub enum FitQuantity {
-    /// Mole fraction of dissolved gas (seed form `mole-fraction-fit`).
-    #[default]
-    MoleFraction,
-    /// Moles of gas per kg of solution (seed form `molality-fit`, for published fits that
-    /// are not mole-fraction fits).
-    Molality,
+words! {
+    /// What a gas-solubility fit gives.
+    #[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+    pub enum FitQuantity as "gas-law form" {
+        /// Mole fraction of dissolved gas (seed form `mole-fraction-fit`).
+        #[default]
+        MoleFraction = "mole-fraction-fit",
+        /// Moles of gas per kg of solution (seed form `molality-fit`, for published fits that
+        /// are not mole-fraction fits).
+        Molality = "molality-fit",
+    }
 }
-
-words!(FitQuantity as "gas-law form" {
-    MoleFraction = "mole-fraction-fit",
-    Molality = "molality-fit",
-});
 
 /// A fitted gas solubility `q` at a gas partial pressure of `reference_pressure_pa`:
 /// `ln q = a + b/τ + c ln τ + d τ` with `τ = T / scale_k`, fitted from `t_min_k` to
@@ -383,42 +371,34 @@ pub struct DensityCoefficients {
     pub note: Option<String>,
 }
 
-/// The kind of record a corroboration check is about.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
-#[serde(rename_all = "kebab-case")]
-pub enum CheckSubject {
-    /// A solubility dataset (`solute/key`).
-    Dataset,
-    /// Tabulated freezing points (`solute/key`).
-    Freezing,
-    /// A Henry's-law record (`solute/key`).
-    Henry,
+words! {
+    /// The kind of record a corroboration check is about.
+    #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
+    #[serde(rename_all = "kebab-case")]
+    pub enum CheckSubject as "check subject kind" {
+        /// A solubility dataset (`solute/key`).
+        Dataset = "dataset",
+        /// Tabulated freezing points (`solute/key`).
+        Freezing = "freezing",
+        /// A Henry's-law record (`solute/key`).
+        Henry = "henry",
+    }
 }
 
-words!(CheckSubject as "check subject kind" {
-    Dataset = "dataset",
-    Freezing = "freezing",
-    Henry = "henry",
-});
-
-/// What a corroboration check found.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
-#[serde(rename_all = "kebab-case")]
-pub enum Verdict {
-    /// The record agrees with the outside reference within the tolerance.
-    Pass,
-    /// It does not; the check's explanation should say why the record stays.
-    Fail,
-    /// The comparison is not meaningful here (the explanation says why), so it neither
-    /// corroborates nor contradicts.
-    NotApplicable,
+words! {
+    /// What a corroboration check found.
+    #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
+    #[serde(rename_all = "kebab-case")]
+    pub enum Verdict as "check verdict" {
+        /// The record agrees with the outside reference within the tolerance.
+        Pass = "pass",
+        /// It does not; the check's explanation should say why the record stays.
+        Fail = "fail",
+        /// The comparison is not meaningful here (the explanation says why), so it neither
+        /// corroborates nor contradicts.
+        NotApplicable = "not-applicable",
+    }
 }
-
-words!(Verdict as "check verdict" {
-    Pass = "pass",
-    Fail = "fail",
-    NotApplicable = "not-applicable",
-});
 
 /// A corroboration check: one stored record compared with something outside it (a
 /// general-purpose library's model or table, another source, another branch of the same

@@ -1,13 +1,13 @@
 //! Helpers every statement uses: finding a solute and its curve, converting loadings,
 //! citing the data an answer rests on, and turning science errors into messages in °C.
 
-use crate::answer::{Answer, AnswerKind, Basis, SourceRef};
+use crate::answer::{Answer, AnswerKind, Basis, Row, SourceRef};
 use crate::engine::error::EvalError;
 use crate::engine::per_litre::{self, Volume};
 use crate::engine::snapshot::{BuiltCurve, Snapshot};
 use crate::model::{Dataset, Provenance, Review, Solute, SoluteKind};
 use crate::number::round_significant;
-use crate::query::{Loading, Name, Options, Span, Temperatures};
+use crate::query::{Loading, Name, Options, Span, Temperatures, UnitChoice};
 use crate::science::ScienceError;
 use crate::science::units::{self, CompositionUnit, Context};
 
@@ -280,6 +280,29 @@ pub fn in_unit(
     units::from_mass_fraction(w, unit, &context(solute))
         .map(value)
         .map_err(|e| per_volume(e, unit, span))
+}
+
+/// A row of one solute's amount, in the unit a statement asks for (grams per 100 g of water
+/// when it names none; an error points at the unit, or at `otherwise` when none was named):
+/// the solute, the value and its unit; the caller adds what the amount is.
+pub fn amount_row(
+    snap: &Snapshot,
+    w: f64,
+    asked: Option<UnitChoice<CompositionUnit>>,
+    otherwise: Span,
+    solute: &Solute,
+    options: &Options,
+    answer: &mut Answer,
+) -> Result<Row, EvalError> {
+    let unit = asked.map_or(CompositionUnit::GramsPer100gWater, |u| u.unit);
+    let span = asked.map_or(otherwise, |u| u.span);
+    let amount = in_unit(snap, w, unit, solute, span, options, answer)?;
+    Ok(Row {
+        solute: Some(solute.name.clone()),
+        value: Some(amount),
+        unit: Some(unit.symbol().into()),
+        ..Row::default()
+    })
 }
 
 /// [`in_unit`] in a loading's own unit; an error points at the loading.

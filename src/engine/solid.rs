@@ -9,7 +9,7 @@ use crate::answer::{Answer, Basis, Row};
 use crate::engine::CAUTION;
 use crate::engine::common;
 use crate::engine::common::{
-    basis_caveat, bounds, celsius, cite_curve, curve_error, curve_of, in_loading_unit, in_unit,
+    amount_row, basis_caveat, bounds, celsius, cite_curve, curve_error, curve_of, in_loading_unit,
     phase_caveat, resolve, value,
 };
 use crate::engine::error::EvalError;
@@ -34,29 +34,22 @@ pub fn lookup(snap: &Snapshot, s: &Solubility, answer: &mut Answer) -> Result<()
         .curve
         .evaluate(s.temperature.kelvin(), s.options.extrapolate)
         .map_err(|e| curve_error(e, solute, s.temperature.span))?;
-    let unit = s
-        .unit
-        .map_or(CompositionUnit::GramsPer100gWater, |u| u.unit);
-    let span = s.unit.map_or(s.temperature.span, |u| u.span);
     let basis = evaluation.basis;
-    let amount = in_unit(
+    let row = amount_row(
         snap,
         evaluation.mass_fraction,
-        unit,
+        s.unit,
+        s.temperature.span,
         solute,
-        span,
         &s.options,
         answer,
     )?;
     answer.rows.push(Row {
-        solute: Some(solute.name.clone()),
         quantity: Some("solubility".into()),
-        value: Some(amount),
-        unit: Some(unit.symbol().into()),
         basis: Some(basis),
         phase: Some(evaluation.phase.clone()),
         temperature_c: Some(celsius(s.temperature.kelvin())),
-        ..Row::default()
+        ..row
     });
     if basis == Basis::Extrapolated && !s.options.extrapolate {
         stable_range_caveat(answer);
@@ -289,28 +282,21 @@ pub fn ceiling(snap: &Snapshot, s: &Ceiling, answer: &mut Answer) -> Result<(), 
     let margin = s.margin.map_or(0.0, |m| m.percent / 100.0);
     let ceiling = solve::ceiling_with(&built.curve, t1, t2, margin, s.options.extrapolate)
         .map_err(|e| curve_error(e, solute, s.temperatures.span()))?;
-    let unit = s
-        .unit
-        .map_or(CompositionUnit::GramsPer100gWater, |u| u.unit);
-    let span = s.unit.map_or(s.temperatures.span(), |u| u.span);
-    let amount = in_unit(
+    let row = amount_row(
         snap,
         ceiling.mass_fraction,
-        unit,
+        s.unit,
+        s.temperatures.span(),
         solute,
-        span,
         &s.options,
         answer,
     )?;
     answer.rows.push(Row {
-        solute: Some(solute.name.clone()),
         quantity: Some("largest safe loading".into()),
-        value: Some(amount),
-        unit: Some(unit.symbol().into()),
         basis: Some(Basis::Computed),
         phase: Some(ceiling.phase.clone()),
         temperature_c: Some(celsius(ceiling.limiting_t_k)),
-        ..Row::default()
+        ..row
     });
     if margin > 0.0 {
         answer.caveat(format!(

@@ -10,29 +10,23 @@ use serde::{Deserialize, Serialize};
 
 use super::{Provenance, Review};
 
-/// What a [`ThermoValue`] measures.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
-#[serde(rename_all = "kebab-case")]
-pub enum ThermoQuantity {
-    /// Standard enthalpy of formation at 298.15 K, kJ/mol, in a [`ThermoState`].
-    Formation,
-    /// Standard molar enthalpy of hydration of a gaseous ion, kJ/mol.
-    Hydration,
-    /// Ionic or thermochemical radius, pm.
-    Radius,
-    /// The n-th ionisation energy of a gaseous atom or ion, eV.
-    Ionisation,
-    /// Electron affinity of a gaseous atom, eV.
-    ElectronAffinity,
+words! {
+    /// What a [`ThermoValue`] measures.
+    #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
+    #[serde(rename_all = "kebab-case")]
+    pub enum ThermoQuantity as "quantity" {
+        /// Standard enthalpy of formation at 298.15 K, kJ/mol, in a [`ThermoState`].
+        Formation = "formation",
+        /// Standard molar enthalpy of hydration of a gaseous ion, kJ/mol.
+        Hydration = "hydration",
+        /// Ionic or thermochemical radius, pm.
+        Radius = "radius",
+        /// The n-th ionisation energy of a gaseous atom or ion, eV.
+        Ionisation = "ionisation",
+        /// Electron affinity of a gaseous atom, eV.
+        ElectronAffinity = "electron-affinity",
+    }
 }
-
-words!(ThermoQuantity as "quantity" {
-    Formation = "formation",
-    Hydration = "hydration",
-    Radius = "radius",
-    Ionisation = "ionisation",
-    ElectronAffinity = "electron-affinity",
-});
 
 impl ThermoQuantity {
     /// The one unit a value of this quantity is written in.
@@ -45,25 +39,20 @@ impl ThermoQuantity {
     }
 }
 
-/// The state of a substance an enthalpy of formation is for.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
-pub enum ThermoState {
-    /// `cr`: crystal.
-    Crystal,
-    /// `aq`: in water at the standard state m = 1 mol/kg (ideal).
-    Aqueous,
-    /// `g`: ideal gas.
-    Gas,
-    /// `l`: liquid.
-    Liquid,
+words! {
+    /// The state of a substance an enthalpy of formation is for.
+    #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
+    pub enum ThermoState as "state" {
+        /// `cr`: crystal.
+        Crystal = "cr",
+        /// `aq`: in water at the standard state m = 1 mol/kg (ideal).
+        Aqueous = "aq",
+        /// `g`: ideal gas.
+        Gas = "g",
+        /// `l`: liquid.
+        Liquid = "l",
+    }
 }
-
-words!(ThermoState as "state" {
-    Crystal = "cr",
-    Aqueous = "aq",
-    Gas = "g",
-    Liquid = "l",
-});
 
 /// One tabulated thermochemical figure.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]

@@ -741,41 +741,10 @@ impl Coefficients {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::science::activity::pitzer::test_set;
 
     fn constant(v: f64) -> TemperatureForm {
         TemperatureForm::Constant(v)
-    }
-
-    fn set(
-        key: &str,
-        formula: &str,
-        zc: u32,
-        za: u32,
-        nc: u32,
-        na: u32,
-        b: [f64; 3],
-    ) -> ParameterSet {
-        ParameterSet {
-            key: key.into(),
-            electrolyte: formula.into(),
-            source: "s".into(),
-            provenance: "compiled".into(),
-            review: "unreviewed".into(),
-            note: None,
-            cation_charge: zc,
-            anion_charge: za,
-            cation_count: nc,
-            anion_count: na,
-            beta0: constant(b[0]),
-            beta1: constant(b[1]),
-            beta2: constant(0.0),
-            c_phi: constant(b[2]),
-            alpha1: 2.0,
-            alpha2: 0.0,
-            t_min_k: 298.15,
-            t_max_k: 298.15,
-            molality_max: 6.0,
-        }
     }
 
     fn mixing(key: &str, ions: &[&str], v: f64) -> MixingSet {
@@ -796,9 +765,9 @@ mod tests {
     /// and their θ, ψ (the same as seed-data/models/pitzer-harvie-moller-weare-1984.toml).
     fn system() -> System {
         let sets = vec![
-            set("nacl", "NaCl", 1, 1, 1, 1, [0.0765, 0.2644, 0.00127]),
-            set("mgcl2", "MgCl2", 2, 1, 1, 2, [0.35235, 1.6815, 0.00519]),
-            set("na2so4", "Na2SO4", 1, 2, 2, 1, [0.01958, 1.113, 0.00497]),
+            test_set("nacl", "NaCl", 1, 1, 1, 1, [0.0765, 0.2644, 0.00127]),
+            test_set("mgcl2", "MgCl2", 2, 1, 1, 2, [0.35235, 1.6815, 0.00519]),
+            test_set("na2so4", "Na2SO4", 1, 2, 2, 1, [0.01958, 1.113, 0.00497]),
         ];
         let mix = vec![
             mixing("t-mg-na", &["Mg", "Na"], 0.07),
@@ -830,7 +799,7 @@ mod tests {
     fn one_salt_gives_the_single_electrolyte_osmotic_coefficient() {
         let s = system();
         let c = s.at(298.15).unwrap();
-        let nacl = set("nacl", "NaCl", 1, 1, 1, 1, [0.0765, 0.2644, 0.00127]);
+        let nacl = test_set("nacl", "NaCl", 1, 1, 1, 1, [0.0765, 0.2644, 0.00127]);
         for m in [0.1, 1.0, 3.0, 6.0] {
             let a = c
                 .activity(&molalities(&s, &[("Na", m), ("Cl", m)]))
@@ -913,9 +882,9 @@ mod tests {
     fn a_parameter_named_twice_counts_once_and_buffers_are_reused() {
         let base = system();
         let sets = vec![
-            set("nacl", "NaCl", 1, 1, 1, 1, [0.0765, 0.2644, 0.00127]),
-            set("mgcl2", "MgCl2", 2, 1, 1, 2, [0.35235, 1.6815, 0.00519]),
-            set("na2so4", "Na2SO4", 1, 2, 2, 1, [0.01958, 1.113, 0.00497]),
+            test_set("nacl", "NaCl", 1, 1, 1, 1, [0.0765, 0.2644, 0.00127]),
+            test_set("mgcl2", "MgCl2", 2, 1, 1, 2, [0.35235, 1.6815, 0.00519]),
+            test_set("na2so4", "Na2SO4", 1, 2, 2, 1, [0.01958, 1.113, 0.00497]),
         ];
         let mix = vec![
             mixing("t-mg-na-old", &["Na", "Mg"], 0.5),
@@ -976,7 +945,15 @@ mod tests {
 
     #[test]
     fn a_system_that_does_not_fit_is_refused_with_a_reason() {
-        let sets = vec![set("nacl", "NaCl", 1, 1, 1, 1, [0.0765, 0.2644, 0.00127])];
+        let sets = vec![test_set(
+            "nacl",
+            "NaCl",
+            1,
+            1,
+            1,
+            1,
+            [0.0765, 0.2644, 0.00127],
+        )];
         let mut spec = SystemSpec {
             key: "x".into(),
             name: "x".into(),

@@ -98,6 +98,42 @@ pub struct ParameterSet {
     pub molality_max: f64,
 }
 
+/// A set for tests: the electrolyte with ions of charges `zc`, `za` and counts `nc`, `na`,
+/// constant β0, β1 and Cφ (`b`), no β2, α1 = 2, at 25 °C up to 6 mol/kg.
+#[cfg(test)]
+pub(crate) fn test_set(
+    key: &str,
+    formula: &str,
+    zc: u32,
+    za: u32,
+    nc: u32,
+    na: u32,
+    b: [f64; 3],
+) -> ParameterSet {
+    let constant = TemperatureForm::Constant;
+    ParameterSet {
+        key: key.into(),
+        electrolyte: formula.into(),
+        source: "s".into(),
+        provenance: "compiled".into(),
+        review: "unreviewed".into(),
+        note: None,
+        cation_charge: zc,
+        anion_charge: za,
+        cation_count: nc,
+        anion_count: na,
+        beta0: constant(b[0]),
+        beta1: constant(b[1]),
+        beta2: constant(0.0),
+        c_phi: constant(b[2]),
+        alpha1: 2.0,
+        alpha2: 0.0,
+        t_min_k: 298.15,
+        t_max_k: 298.15,
+        molality_max: 6.0,
+    }
+}
+
 fn zero() -> TemperatureForm {
     TemperatureForm::Constant(0.0)
 }
@@ -191,25 +227,8 @@ mod tests {
     /// Pitzer & Mayorga (1973) Table I, NaCl at 25 °C: β0 0.0765, β1 0.2664, Cφ 0.00127.
     fn nacl_25() -> ParameterSet {
         ParameterSet {
-            key: "pm73-nacl".into(),
-            electrolyte: "NaCl".into(),
             source: "pitzer-mayorga-1973".into(),
-            provenance: "compiled".into(),
-            review: "unreviewed".into(),
-            note: None,
-            cation_charge: 1,
-            anion_charge: 1,
-            cation_count: 1,
-            anion_count: 1,
-            beta0: TemperatureForm::Constant(0.0765),
-            beta1: TemperatureForm::Constant(0.2664),
-            beta2: TemperatureForm::Constant(0.0),
-            c_phi: TemperatureForm::Constant(0.00127),
-            alpha1: 2.0,
-            alpha2: 0.0,
-            t_min_k: 298.15,
-            t_max_k: 298.15,
-            molality_max: 6.0,
+            ..test_set("pm73-nacl", "NaCl", 1, 1, 1, 1, [0.0765, 0.2664, 0.00127])
         }
     }
 

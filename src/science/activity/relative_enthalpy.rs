@@ -76,6 +76,7 @@ pub fn apparent_relative_enthalpy(
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::science::activity::pitzer::test_set;
 
     #[test]
     fn the_dilute_limit_is_debye_huckel() {
@@ -83,25 +84,12 @@ mod tests {
         // salt tends to A_H·ln(1 + b√m)/b, A_H = 4RT²·dA_φ/dT.
         let flat = TemperatureForm::Spencer90([0.0; 6]);
         let set = ParameterSet {
-            key: "flat".into(),
-            electrolyte: "NaCl".into(),
-            source: "x".into(),
-            provenance: "compiled".into(),
-            review: "unreviewed".into(),
-            note: None,
-            cation_charge: 1,
-            anion_charge: 1,
-            cation_count: 1,
-            anion_count: 1,
             beta0: flat.clone(),
             beta1: flat.clone(),
-            beta2: TemperatureForm::Constant(0.0),
             c_phi: flat,
-            alpha1: 2.0,
-            alpha2: 0.0,
             t_min_k: 273.15,
             t_max_k: 323.15,
-            molality_max: 6.0,
+            ..test_set("flat", "NaCl", 1, 1, 1, 1, [0.0; 3])
         };
         let t = 298.15;
         let da = (a_phi(t + 0.01) - a_phi(t - 0.01)) / 0.02;

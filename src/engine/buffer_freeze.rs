@@ -26,6 +26,7 @@ use crate::number::round_significant;
 use crate::query::Span;
 use crate::science::acid_base::{AcidSystem, Present, Solution, solve};
 use crate::science::activity::ice::ln_water_activity_of_ice;
+use crate::science::bisect::{Until, bisect};
 use crate::science::enthalpy::dissociate;
 use crate::science::freezing::{ICE_POINT, molality};
 
@@ -201,18 +202,13 @@ fn amount_out(
     if !most.is_finite() || most <= 0.0 {
         return 0.0;
     }
-    let (mut lo, mut hi) = (0.0, most * (1.0 - 1e-9));
     // 40 halvings: 1e-12 of what the liquid holds.
-    for _ in 0..40 {
-        let mid = 0.5 * (lo + hi);
+    let bracket = bisect(0.0, most * (1.0 - 1e-9), Until::Halvings(40), |mid| {
         let mut trial = liquid.clone();
         take_out(&mut trial, salt, mid);
-        match held(salt, &trial, f, t_k, water) {
-            Some(h) if h > solubility => lo = mid,
-            _ => hi = mid,
-        }
-    }
-    hi
+        held(salt, &trial, f, t_k, water).is_some_and(|h| h > solubility)
+    });
+    bracket.hi
 }
 
 /// The salts of the recipe that could crystallise, and the liquid they make.

@@ -19,6 +19,7 @@ use crate::number::round_significant;
 use crate::query::{Options, Recipe, Span};
 use crate::science::activity::freeze::{Candidate, Frozen, freeze};
 use crate::science::activity::ice::ln_water_activity_of_ice;
+use crate::science::bisect::{Until, try_bisect};
 use crate::science::formula::molar_mass;
 use crate::science::freezing::ICE_POINT;
 
@@ -127,16 +128,8 @@ fn first_out(
     for k in 1..=n {
         let t = top - (top - bottom) * k as f64 / n as f64;
         if out(t)? {
-            let (mut lo, mut hi) = (t, above);
-            while hi - lo > 1e-3 {
-                let mid = 0.5 * (lo + hi);
-                if out(mid)? {
-                    lo = mid;
-                } else {
-                    hi = mid;
-                }
-            }
-            return Ok(Some(0.5 * (lo + hi)));
+            let bracket = try_bisect(t, above, Until::Width(1e-3), out)?;
+            return Ok(Some(bracket.mid()));
         }
         above = t;
     }

@@ -25,6 +25,7 @@ use crate::science::activity::ice::ln_water_activity_of_ice;
 use crate::science::activity::ions::electrolyte;
 use crate::science::activity::saturation::Solid;
 use crate::science::activity::{Coefficients, System};
+use crate::science::bisect::{Until, try_bisect};
 use crate::science::curve::Basis;
 use crate::science::formula::parse_formula;
 use crate::science::freezing::{ICE_POINT, molality};
@@ -378,17 +379,11 @@ impl SolidModel for PitzerSolids<'_> {
         for &t in &ts[1..] {
             let v = f(t)?;
             if (prev.1 > 0.0) != (v > 0.0) {
-                let (mut a, mut b) = (prev.0, t);
                 let fa_positive = prev.1 > 0.0;
-                while b - a > 1e-4 {
-                    let mid = 0.5 * (a + b);
-                    if (f(mid)? > 0.0) == fa_positive {
-                        a = mid;
-                    } else {
-                        b = mid;
-                    }
-                }
-                let t_k = 0.5 * (a + b);
+                let t_k = try_bisect(prev.0, t, Until::Width(1e-4), |m| {
+                    f(m).map(|v| (v > 0.0) == fa_positive)
+                })?
+                .mid();
                 let (_, p) = self.ln_omega(ask, index, t_k)?;
                 out.push(Crossing {
                     t_k,
@@ -445,16 +440,8 @@ pub fn ice_line_of(model: &PitzerSolids, ions: &[f64]) -> Result<f64, String> {
     for &t in &fine[1..] {
         let v = g(t)?;
         if v >= 0.0 {
-            let (mut a, mut b) = (t, prev.0);
-            while b - a > 1e-4 {
-                let mid = 0.5 * (a + b);
-                if g(mid)? >= 0.0 {
-                    a = mid;
-                } else {
-                    b = mid;
-                }
-            }
-            return Ok(0.5 * (a + b));
+            let bracket = try_bisect(t, prev.0, Until::Width(1e-4), |m| g(m).map(|v| v >= 0.0))?;
+            return Ok(bracket.mid());
         }
         prev = (t, v);
     }

@@ -18,6 +18,7 @@ use serde::Deserialize;
 
 use super::activity::debye_huckel::{A_PHI_RANGE_K, a_phi};
 use super::error::ScienceError;
+use crate::science::bisect::{Until, bisect};
 
 /// The reference temperature of the constants, K.
 pub const T0_K: f64 = 298.15;
@@ -263,23 +264,12 @@ fn acid_charge(acids: &[Present], ph: f64, t_k: f64, ionic: f64) -> (f64, f64, V
 
 /// Bisection for the pH where `g` (falling with pH) changes sign, on [−2, 16].
 fn falling_root(g: impl Fn(f64) -> f64) -> Option<f64> {
-    let (mut lo, mut hi) = (-2.0_f64, 16.0_f64);
+    let (lo, hi) = (-2.0_f64, 16.0_f64);
     let (g_lo, g_hi) = (g(lo), g(hi));
     if !(g_lo >= 0.0 && g_hi <= 0.0) {
         return None;
     }
-    for _ in 0..200 {
-        let mid = 0.5 * (lo + hi);
-        if g(mid) > 0.0 {
-            lo = mid;
-        } else {
-            hi = mid;
-        }
-        if hi - lo < 1e-10 {
-            break;
-        }
-    }
-    Some(0.5 * (lo + hi))
+    Some(bisect(lo, hi, Until::Width(1e-10), |ph| g(ph) > 0.0).mid())
 }
 
 fn check_temperature(t_k: f64) -> Result<(), ScienceError> {

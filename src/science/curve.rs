@@ -4,6 +4,7 @@
 //! Units: temperatures in kelvin, compositions as the mass fraction of anhydrous solute.
 
 use super::error::ScienceError;
+use crate::science::bisect::{Until, bisect};
 
 /// How a value was obtained from the data (the `basis` of every answer's row).
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, serde::Serialize, utoipa::ToSchema)]
@@ -862,18 +863,13 @@ impl Curve {
             if ia == ib {
                 continue;
             }
-            let (mut lo, mut hi) = (a, b);
-            while hi - lo > 1e-4 {
-                let mid = 0.5 * (lo + hi);
-                if self.stable(mid).0 == ia {
-                    lo = mid;
-                } else {
-                    hi = mid;
-                }
-            }
-            let mut t_k = 0.5 * (lo + hi);
+            let bracket = bisect(a, b, Until::Width(1e-4), |t| self.stable(t).0 == ia);
+            let mut t_k = bracket.mid();
             // Where a stable range says where the phase changes, that is the temperature.
-            for b in [&self.branches[ia], &self.branches[self.stable(hi).0]] {
+            for b in [
+                &self.branches[ia],
+                &self.branches[self.stable(bracket.hi).0],
+            ] {
                 if let Some((a, z)) = b.stable {
                     for end in [a, z] {
                         if (end - t_k).abs() < 1e-3 {
@@ -885,7 +881,7 @@ impl Curve {
             out.push(Transition {
                 t_k,
                 below: self.branches[ia].phase.clone(),
-                above: self.branches[self.stable(hi).0].phase.clone(),
+                above: self.branches[self.stable(bracket.hi).0].phase.clone(),
             });
         }
         out

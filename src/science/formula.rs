@@ -342,17 +342,21 @@ impl Parser<'_> {
     fn count(&mut self) -> Result<f64, FormulaError> {
         match self.digits() {
             None => Ok(1.0),
-            Some((start, d)) => {
-                let n: f64 = d.parse().map_err(|_| FormulaError::UnexpectedChar {
-                    found: d.chars().next().unwrap_or('?'),
-                    position: start,
-                })?;
-                if n == 0.0 {
-                    Err(FormulaError::ZeroCount { position: start })
-                } else {
-                    Ok(n)
-                }
-            }
+            Some((start, _)) => self.number_from(start),
+        }
+    }
+
+    /// The number written from `start` to here; zero is refused.
+    fn number_from(&self, start: usize) -> Result<f64, FormulaError> {
+        let d = &self.text[start..self.pos];
+        let n: f64 = d.parse().map_err(|_| FormulaError::UnexpectedChar {
+            found: d.chars().next().unwrap_or('?'),
+            position: start,
+        })?;
+        if n == 0.0 {
+            Err(FormulaError::ZeroCount { position: start })
+        } else {
+            Ok(n)
         }
     }
 
@@ -370,16 +374,7 @@ impl Parser<'_> {
             self.pos += 1;
             self.digits();
         }
-        let d = &self.text[start..self.pos];
-        let n: f64 = d.parse().map_err(|_| FormulaError::UnexpectedChar {
-            found: '.',
-            position: start,
-        })?;
-        if n == 0.0 {
-            Err(FormulaError::ZeroCount { position: start })
-        } else {
-            Ok(n)
-        }
+        self.number_from(start)
     }
 
     fn part(&mut self) -> Result<FormulaPart, FormulaError> {

@@ -11,6 +11,7 @@ use super::error::ScienceError;
 use super::solve::saturation_temperatures;
 use super::units::positive;
 use crate::model::FreezingData;
+use crate::science::bisect::{Until, try_bisect};
 
 /// Cryoscopic constant of water, K·kg/mol: 1.86 (e.g. P. Atkins & J. de Paula, Physical
 /// Chemistry, table of cryoscopic constants). Valid for ideal dilute solutions only.
@@ -211,7 +212,6 @@ impl System<'_> {
                 ));
             }
         };
-        let (mut a, mut b) = (w_low, top);
         let at_top = self.ice_line(top)?.t_k;
         if t_k < at_top - 1e-9 {
             return Err(ScienceError::IceLineUnknown(format!(
@@ -219,15 +219,10 @@ impl System<'_> {
                 t_k, at_top
             )));
         }
-        for _ in 0..80 {
-            let mid = 0.5 * (a + b);
-            if self.ice_line(mid)?.t_k > t_k {
-                a = mid;
-            } else {
-                b = mid;
-            }
-        }
-        Ok(0.5 * (a + b))
+        let bracket = try_bisect(w_low, top, Until::Halvings(80), |w| {
+            self.ice_line(w).map(|p| p.t_k > t_k)
+        })?;
+        Ok(bracket.mid())
     }
 }
 

@@ -3,6 +3,7 @@
 
 pub mod acid_base;
 pub mod activity;
+pub mod bisect;
 pub mod bounds;
 pub mod curve;
 pub mod density;

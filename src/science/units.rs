@@ -361,6 +361,18 @@ fn invalid(value: f64, unit: CompositionUnit, why: &'static str) -> ScienceError
     }
 }
 
+/// A loading in grams per 100 g of water, refused when negative or not finite.
+fn grams_per_100g_water(grams: f64) -> Result<(), ScienceError> {
+    if !grams.is_finite() || grams < 0.0 {
+        return Err(invalid(
+            grams,
+            CompositionUnit::GramsPer100gWater,
+            "negative or not finite",
+        ));
+    }
+    Ok(())
+}
+
 /// Converts a composition to the mass fraction of anhydrous solute in the solution.
 ///
 /// With r the solute-to-water mass ratio (g solute per g water), M the solute's molar mass,
@@ -471,13 +483,7 @@ pub fn hydrate_to_anhydrous(
 ) -> Result<f64, ScienceError> {
     let f = anhydrous_share(anhydrous_molar_mass, water)?;
     let h = hydrate_per_100g_water;
-    if !h.is_finite() || h < 0.0 {
-        return Err(invalid(
-            h,
-            CompositionUnit::GramsPer100gWater,
-            "negative or not finite",
-        ));
-    }
+    grams_per_100g_water(h)?;
     Ok(100.0 * h * f / (100.0 + h * (1.0 - f)))
 }
 
@@ -492,13 +498,7 @@ pub fn anhydrous_to_hydrate(
 ) -> Result<f64, ScienceError> {
     let f = anhydrous_share(anhydrous_molar_mass, water)?;
     let a = anhydrous_per_100g_water;
-    if !a.is_finite() || a < 0.0 {
-        return Err(invalid(
-            a,
-            CompositionUnit::GramsPer100gWater,
-            "negative or not finite",
-        ));
-    }
+    grams_per_100g_water(a)?;
     let r = a / 100.0;
     let denominator = f - r * (1.0 - f);
     if denominator <= 0.0 {

@@ -264,14 +264,10 @@ mod tests {
     use super::*;
     use crate::science::activity::System;
     use crate::science::activity::ice::ln_water_activity_of_ice;
-    use crate::store::models::mixture_systems;
+    use crate::science::activity::seed_system;
 
     fn gm89() -> System {
-        mixture_systems(crate::seed_files::SEED_FILES)
-            .unwrap()
-            .into_iter()
-            .find(|s| s.key == "greenberg-moller-1989-na-k-cl")
-            .unwrap()
+        seed_system("greenberg-moller-1989-na-k-cl")
     }
 
     #[test]

@@ -3,6 +3,7 @@
 //! parameter set gives.
 
 use super::pitzer::{ParameterSet, ln_water_activity_unchecked};
+use crate::science::bisect::{Until, bisect};
 use crate::science::error::ScienceError;
 
 /// Molar gas constant, J/(mol·K) (CODATA 2018, exact).
@@ -66,16 +67,7 @@ pub fn freezing_point(set: &ParameterSet, molality: f64) -> Result<f64, ScienceE
             set.t_min_k, set.key
         )));
     }
-    let (mut a, mut b) = (lo, hi);
-    while b - a > 1e-6 {
-        let mid = 0.5 * (a + b);
-        if f(mid) > 0.0 {
-            a = mid;
-        } else {
-            b = mid;
-        }
-    }
-    Ok(0.5 * (a + b))
+    Ok(bisect(lo, hi, Until::Width(1e-6), |t| f(t) > 0.0).mid())
 }
 
 #[cfg(test)]

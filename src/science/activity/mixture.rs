@@ -747,6 +747,20 @@ mod tests {
         TemperatureForm::Constant(v)
     }
 
+    /// The system of NaCl, MgCl2 and Na2SO4 with every mixing set given.
+    fn built(key: &str, sets: &[ParameterSet], mix: &[MixingSet]) -> System {
+        let spec = SystemSpec {
+            key: key.into(),
+            name: key.into(),
+            source: "s".into(),
+            note: None,
+            ionic_strength_max: 20.0,
+            sets: vec!["nacl".into(), "mgcl2".into(), "na2so4".into()],
+            mixing: mix.iter().map(|m| m.key.clone()).collect(),
+        };
+        System::build(&spec, sets, mix).unwrap()
+    }
+
     fn mixing(key: &str, ions: &[&str], v: f64) -> MixingSet {
         MixingSet {
             key: key.into(),
@@ -775,16 +789,7 @@ mod tests {
             mixing("t-cl-so4", &["Cl", "SO4"], 0.02),
             mixing("p-na-cl-so4", &["Na", "Cl", "SO4"], 0.0014),
         ];
-        let spec = SystemSpec {
-            key: "test".into(),
-            name: "test".into(),
-            source: "s".into(),
-            note: None,
-            ionic_strength_max: 20.0,
-            sets: vec!["nacl".into(), "mgcl2".into(), "na2so4".into()],
-            mixing: mix.iter().map(|m| m.key.clone()).collect(),
-        };
-        System::build(&spec, &sets, &mix).unwrap()
+        built("test", &sets, &mix)
     }
 
     fn molalities(s: &System, given: &[(&str, f64)]) -> Vec<f64> {
@@ -894,16 +899,7 @@ mod tests {
             mixing("t-cl-so4", &["Cl", "SO4"], 0.02),
             mixing("p-na-cl-so4", &["Na", "Cl", "SO4"], 0.0014),
         ];
-        let spec = SystemSpec {
-            key: "twice".into(),
-            name: "twice".into(),
-            source: "s".into(),
-            note: None,
-            ionic_strength_max: 20.0,
-            sets: vec!["nacl".into(), "mgcl2".into(), "na2so4".into()],
-            mixing: mix.iter().map(|m| m.key.clone()).collect(),
-        };
-        let twice = System::build(&spec, &sets, &mix).unwrap();
+        let twice = built("twice", &sets, &mix);
         let m = molalities(
             &base,
             &[("Na", 2.0), ("Mg", 0.7), ("Cl", 2.4), ("SO4", 0.5)],

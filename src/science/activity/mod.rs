@@ -20,3 +20,13 @@ pub mod saturation;
 
 pub use mixture::{Activity, Coefficients, MixingSet, System, SystemSpec};
 pub use pitzer::{ParameterSet, TemperatureForm, osmotic_coefficient, water_activity};
+
+/// The seed's Pitzer system with this key, for tests.
+#[cfg(test)]
+pub(crate) fn seed_system(key: &str) -> System {
+    crate::store::models::mixture_systems(crate::seed_files::SEED_FILES)
+        .unwrap()
+        .into_iter()
+        .find(|s| s.key == key)
+        .unwrap()
+}

@@ -12,6 +12,7 @@
 
 use super::ions::electrolyte;
 use super::mixture::{Activity, Coefficients, System};
+use crate::science::bisect::{Until, try_bisect};
 use crate::science::error::ScienceError;
 
 /// A solid phase in terms of a system's ions.
@@ -120,35 +121,25 @@ impl Solid {
         if ratio(0.0)? >= 0.0 {
             return Ok(0.0);
         }
-        let (mut lo, mut hi) = (0.0, m_max);
-        if ratio(hi)? < 0.0 {
+        if ratio(m_max)? < 0.0 {
             return Err(ScienceError::OutsideModel(format!(
                 "the salt does not saturate below {m_max} mol/kg, the model's limit here"
             )));
         }
-        for _ in 0..60 {
-            let mid = 0.5 * (lo + hi);
-            if ratio(mid)? < 0.0 {
-                lo = mid;
-            } else {
-                hi = mid;
-            }
-        }
-        Ok(0.5 * (lo + hi))
+        let bracket = try_bisect(0.0, m_max, Until::Halvings(60), |m| {
+            ratio(m).map(|r| r < 0.0)
+        })?;
+        Ok(bracket.mid())
     }
 }
 
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::store::models::mixture_systems;
+    use crate::science::activity::seed_system;
 
     fn hmw84() -> System {
-        mixture_systems(crate::seed_files::SEED_FILES)
-            .unwrap()
-            .into_iter()
-            .find(|s| s.key == "harvie-moller-weare-1984")
-            .unwrap()
+        seed_system("harvie-moller-weare-1984")
     }
 
     /// A solubility taken as the model's input (any value inside the sets' range serves:

@@ -238,13 +238,28 @@ pub fn loading_mass_fraction(
     options: &Options,
     answer: &mut Answer,
 ) -> Result<f64, EvalError> {
-    let w = if loading.unit.needs_density() {
+    if loading.unit.needs_density() {
         let solution = per_litre::solution(snap, &[(solute, loading)], &volume(options), answer)?;
-        solution.ws.first().copied().unwrap_or_default()
+        possible_loading(loading, solution.ws.first().copied().unwrap_or_default())
     } else {
-        units::to_mass_fraction(loading.value, loading.unit, &context(solute))
-            .map_err(|e| per_volume(e, loading.unit, loading.span))?
-    };
+        loading_mass_fraction_by_mass(loading, solute.molar_mass)
+    }
+}
+
+/// [`loading_mass_fraction`] of a loading in a unit that is not per litre, from the
+/// solute's molar mass alone.
+pub fn loading_mass_fraction_by_mass(loading: &Loading, molar_mass: f64) -> Result<f64, EvalError> {
+    let w = units::to_mass_fraction(
+        loading.value,
+        loading.unit,
+        &Context::with_molar_mass(molar_mass),
+    )
+    .map_err(|e| per_volume(e, loading.unit, loading.span))?;
+    possible_loading(loading, w)
+}
+
+/// A loading's mass fraction `w`, refused where no solution holds it.
+fn possible_loading(loading: &Loading, w: f64) -> Result<f64, EvalError> {
     if w >= 1.0 {
         return Err(EvalError::Unanswerable {
             message: format!(

@@ -12,14 +12,19 @@ use crate::number::round_significant;
 use crate::query::{Describe, Filter, Let, List, SoluteClass, Sources, Value};
 use crate::science::formula::parse_formula;
 
+/// Whether a solute of `kind` is of `class`.
+pub fn in_class(class: SoluteClass, kind: SoluteKind) -> bool {
+    match class {
+        SoluteClass::Solutes => true,
+        SoluteClass::Salts => kind == SoluteKind::Salt,
+        SoluteClass::Gases => kind == SoluteKind::Gas,
+        SoluteClass::MolecularSolutes => kind == SoluteKind::Molecular,
+    }
+}
+
 /// True when a solute belongs to the class and passes every filter.
 pub fn selects(snap: &Snapshot, solute: &Solute, class: SoluteClass, filters: &[Filter]) -> bool {
-    let in_class = match class {
-        SoluteClass::Solutes => true,
-        SoluteClass::Salts => solute.kind == SoluteKind::Salt,
-        SoluteClass::Gases => solute.kind == SoluteKind::Gas,
-        SoluteClass::MolecularSolutes => solute.kind == SoluteKind::Molecular,
-    };
+    let in_class = in_class(class, solute.kind);
     // `anion phosphate` matches "hydrogen phosphate" too, and `cation copper` "copper(II)":
     // a filter names the ion's family word.
     let same = |a: &Option<String>, b: &str| {

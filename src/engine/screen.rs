@@ -7,18 +7,19 @@ use crate::answer::Answer;
 use crate::answer::screened::{Finding, Missing, ScreenTable, ScreenedRow};
 use crate::engine::CAUTION;
 use crate::engine::common::{
-    bounds, celsius, cite_source, cite_source_at, context, in_loading_unit, loading_mass_fraction,
+    bounds, celsius, cite_source, cite_source_at, in_loading_unit, loading_mass_fraction,
+    loading_mass_fraction_by_mass,
 };
 use crate::engine::error::EvalError;
-use crate::engine::records::selects;
+use crate::engine::records::{in_class, selects};
 use crate::engine::snapshot::Snapshot;
 use crate::model::SoluteKind;
 use crate::number::round_significant;
 use crate::query::Screen;
 use crate::science::ScienceError;
 use crate::science::freezing::ICE_POINT;
-use crate::science::solve::{Question, Scratch, verdict};
-use crate::science::units;
+use crate::science::solve::{Question, Scratch, verdict, verdict_on_lone};
+use crate::science::units::{self, Context};
 
 use super::solid::{finite_headroom, zero_loading_caveat};
 
@@ -38,43 +39,57 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
     let datasets = snap.catalog.datasets();
     let reviewed_only = s.options.reviewed_only;
     let mut rows: Vec<ScreenedRow> = Vec::with_capacity(solutes.len());
-    // The ranking key of each row: its headroom (a solute that freezes in the range below
-    // every other), with the row's position.
-    let mut ranks: Vec<(f64, u32)> = Vec::with_capacity(solutes.len());
+    // The ranking key of each row: its headroom as a key that sorts descending (a solute
+    // that freezes in the range below every other), with the row's position.
+    let mut keys: Vec<(u64, u32)> = Vec::with_capacity(solutes.len());
     let mut no_data: Vec<(u32, Missing)> = Vec::new();
     let mut counts = Counts::default();
     let mut scratch = Scratch::default();
     // The source last cited: a screening's solutes mostly share a few sources.
-    let mut last_cited: Option<usize> = None;
+    let mut last_cited: Option<u32> = None;
     for (index, solute) in solutes.iter().enumerate() {
-        if !selects(snap, solute, s.class, &filters) {
+        // What a screening reads of each solute lies in one flat record; the solute itself
+        // is read only for filters, per-litre loadings and ice.
+        let Some(flat) = snap.screened_at(index, reviewed_only) else {
+            continue;
+        };
+        let chosen = if filters.is_empty() {
+            in_class(s.class, flat.kind)
+        } else {
+            selects(snap, solute, s.class, &filters)
+        };
+        if !chosen {
             continue;
         }
         let solute_at = u32::try_from(index).unwrap_or(u32::MAX);
         let apart = |reason: Missing| (solute_at, reason);
-        if solute.kind == SoluteKind::Gas {
+        if flat.kind == SoluteKind::Gas {
             no_data.push(apart(
                 "a gas: its solubility depends on its pressure (ask `dissolved`)".into(),
             ));
             continue;
         }
-        let Some(built) = snap.curve_at(index, reviewed_only) else {
+        let built = || snap.curve_at(index, reviewed_only);
+        if !flat.facts.present {
             no_data.push(apart(if reviewed_only {
                 "no reviewed solubility data".into()
             } else {
                 "no solubility data yet".into()
             }));
             continue;
-        };
+        }
         // A per-litre loading needs each solution's density: a solute without one is
         // listed apart with the reason, never as passing.
-        let w = match loading_mass_fraction(snap, &s.loading, solute, &s.options, answer) {
-            Ok(w) => w,
-            Err(e) if s.loading.unit.needs_density() => {
-                no_data.push(apart(e.to_string().into()));
-                continue;
+        let w = if s.loading.unit.needs_density() {
+            match loading_mass_fraction(snap, &s.loading, solute, &s.options, answer) {
+                Ok(w) => w,
+                Err(e) => {
+                    no_data.push(apart(e.to_string().into()));
+                    continue;
+                }
             }
-            Err(e) => return Err(e),
+        } else {
+            loading_mass_fraction_by_mass(&s.loading, flat.molar_mass)?
         };
         // Below 0 °C the loading's ice line comes first, as in `require`: where ice forms in
         // the range the solute does not pass, and its curve is checked from the ice line up.
@@ -98,16 +113,23 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
             margin,
             extrapolate: s.options.extrapolate,
         };
-        // The flat copy where there is one; a curve of one branch with a stable range of its
-        // own has none and is read as it is.
-        let lone = snap
-            .lone_at(index, reviewed_only)
-            .or_else(|| built.curve.lone());
-        let found = verdict(&built.curve, lone, &question, &mut scratch);
+        // The flat copy where it covers the range; else the whole curve (a curve of one
+        // branch with a stable range of its own has no flat copy and is read as it is).
+        let found = match flat
+            .lone
+            .and_then(|lone| verdict_on_lone(lone, &question, &mut scratch))
+        {
+            Some(found) => found,
+            None => match built() {
+                Some(b) => verdict(&b.curve, b.curve.lone(), &question, &mut scratch),
+                None => continue,
+            },
+        };
         let found = match found {
             Ok(found) => found,
             Err(ScienceError::OutOfRange { .. } | ScienceError::InGap { .. }) => {
-                let (lo, hi) = built.curve.temperature_range();
+                let (lo, hi) =
+                    built().map_or((f64::NAN, f64::NAN), |b| b.curve.temperature_range());
                 no_data.push(apart(Missing::Uncovered {
                     from_c: celsius(lo),
                     to_c: celsius(hi),
@@ -125,17 +147,17 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
             ));
             continue;
         }
-        counts.from_memory += usize::from(built.from_memory);
-        counts.unreviewed += usize::from(built.unreviewed);
-        match built.one_source {
+        counts.from_memory += usize::from(flat.facts.from_memory);
+        counts.unreviewed += usize::from(flat.facts.unreviewed);
+        match flat.facts.one_source {
             // Most solutes cite one source, most screenings a few: cite each once.
             Some(source) if last_cited == Some(source) => {}
             Some(source) => {
                 last_cited = Some(source);
-                cite_source_at(snap, source, answer);
+                cite_source_at(snap, source as usize, answer);
             }
             None => {
-                for &i in &built.datasets {
+                for &i in built().map_or(&[][..], |b| &b.datasets) {
                     cite_source(snap, &datasets[i].source, answer);
                 }
             }
@@ -144,7 +166,7 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
         let row = match ice {
             Some((t_ice, basis)) => {
                 counts.frozen += 1;
-                ranks.push((f64::NEG_INFINITY, position));
+                keys.push((descending(f64::NEG_INFINITY), position));
                 ScreenedRow {
                     solute: solute_at,
                     finding: Finding::Ice,
@@ -171,11 +193,11 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
                     units::from_mass_fraction(
                         found.limiting_mass_fraction,
                         s.loading.unit,
-                        &context(solute),
+                        &Context::with_molar_mass(flat.molar_mass),
                     )
                     .ok()
                 };
-                ranks.push((found.headroom_pct, position));
+                keys.push((descending(found.headroom_pct), position));
                 ScreenedRow {
                     solute: solute_at,
                     finding: Finding::Solubility {
@@ -194,7 +216,7 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
     let held = rows.iter().filter(|r| r.holds).count();
     let with_data = rows.len();
     let no_data_count = no_data.len();
-    let ordered = rank(snap, &rows, &ranks);
+    let ordered = rank(snap, &rows, keys);
     answer.rows.set_table(ScreenTable::new(
         snap.screen_names().clone(),
         reviewed_only,
@@ -210,9 +232,9 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
 }
 
 /// The positions of the rows in the order shown: best headroom first, then by solute name, then in catalog
-/// order. `ranks` holds each row's headroom (minus infinity for a solute that freezes) and
-/// position in `rows`.
-fn rank(snap: &Snapshot, rows: &[ScreenedRow], ranks: &[(f64, u32)]) -> Vec<u32> {
+/// order. `keys` holds each row's headroom (minus infinity for a solute that freezes) as
+/// [`descending`] makes it, and position in `rows`.
+fn rank(snap: &Snapshot, rows: &[ScreenedRow], mut keys: Vec<(u64, u32)>) -> Vec<u32> {
     let solutes = snap.catalog.solutes();
     let name = |position: u32| {
         rows.get(position as usize)
@@ -221,10 +243,6 @@ fn rank(snap: &Snapshot, rows: &[ScreenedRow], ranks: &[(f64, u32)]) -> Vec<u32>
     };
     // The sort moves plain integers: each headroom's key with the row's position. Both sorts
     // below order equal keys by position, the order the rows came in.
-    let mut keys: Vec<(u64, u32)> = ranks
-        .iter()
-        .map(|&(x, position)| (descending(x), position))
-        .collect();
     if keys.len() < RADIX_FROM {
         by_comparison(&mut keys);
     } else {

@@ -11,9 +11,9 @@ use crate::engine::common::Citing;
 use crate::model::{Dataset, Provenance, Review};
 use crate::science::acid_base::{AcidSystem, BufferForm};
 use crate::science::activity::{ParameterSet, System};
-use crate::science::curve::{Branch, BranchView, Curve};
+use crate::science::curve::{Branch, Curve};
 
-use super::flat_curves::FlatCurves;
+use super::flat_curves::{FlatCurves, ScreenedSolute};
 
 /// A curve and the datasets it was built from (indices into `Catalog::datasets`).
 #[derive(Debug, Clone)]
@@ -188,8 +188,8 @@ impl Snapshot {
         // of jumping to wherever the curve was built beside the names and datasets.
         let curves: Vec<SoluteCurves> = curves.to_vec();
         let mut flat = FlatCurves::default();
-        for c in &curves {
-            flat.push(c.all.as_ref(), c.reviewed.as_ref());
+        for (solute, c) in catalog.solutes().iter().zip(&curves) {
+            flat.push(solute, c.all.as_ref(), c.reviewed.as_ref());
         }
         // The compiled-in model files are checked by the tests (store::models); a bad one
         // would leave the activity model without parameters, never stop the engine.
@@ -279,10 +279,11 @@ impl Snapshot {
         }
     }
 
-    /// The flat copy of the curve of the solute at `index` in `Catalog::solutes`, when it
-    /// is a curve of one branch (see [`FlatCurves`]).
-    pub fn lone_at(&self, index: usize, reviewed_only: bool) -> Option<BranchView<'_>> {
-        self.flat.lone_at(index, reviewed_only)
+    /// The solute at `index` in `Catalog::solutes` as a screening reads it: its kind,
+    /// molar mass, what its curve rests on and the flat copy of a curve of one branch (see
+    /// [`FlatCurves`]).
+    pub fn screened_at(&self, index: usize, reviewed_only: bool) -> Option<ScreenedSolute<'_>> {
+        self.flat.solute_at(index, reviewed_only)
     }
 
     /// The citation of the source at `position` in `Catalog::sources`.

@@ -109,8 +109,8 @@ pub fn lowest_with(
     // Where the lone branch covers the whole range the stable curve is that branch itself,
     // with no gap, transition or other branch to look for (and the range is within any
     // extrapolation window).
-    if let Some(b) = lone.filter(|b| b.covers(t1_k) && b.covers(t2_k)) {
-        return Ok(lowest_on(b, t1_k, t2_k, scratch));
+    if let Some(m) = lone.and_then(|b| lowest_on_lone(b, t1_k, t2_k, scratch)) {
+        return Ok(m);
     }
     if extrapolate {
         // Both ends within reach: the window is an interval around the data, so the
@@ -185,6 +185,19 @@ pub fn lowest_with(
 
 /// [`lowest`] on a lone branch that covers the range: the same candidates, each evaluated
 /// on the branch directly (what [`Curve::evaluate_branch`] gives there, without its checks).
+/// The lowest point of a curve's lone branch over [t1_k, t2_k] where the branch covers
+/// the whole range, read from the branch alone (see [`lowest_with`]); `None` when it does
+/// not cover it, or the range is not one, and the whole curve must be asked.
+pub fn lowest_on_lone(
+    lone: BranchView<'_>,
+    t1_k: f64,
+    t2_k: f64,
+    scratch: &mut Scratch,
+) -> Option<Lowest> {
+    let range = t1_k.is_finite() && t2_k.is_finite() && t2_k >= t1_k;
+    (range && lone.covers(t1_k) && lone.covers(t2_k)).then(|| lowest_on(lone, t1_k, t2_k, scratch))
+}
+
 fn lowest_on(b: BranchView<'_>, t1_k: f64, t2_k: f64, scratch: &mut Scratch) -> Lowest {
     let at = |t_k: f64| {
         let (mass_fraction, basis) = b.mass_fraction_and_basis(t_k);

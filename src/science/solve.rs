@@ -8,7 +8,9 @@
 
 use super::curve::{Basis, BranchView, Curve, dense_grid};
 use super::error::ScienceError;
-pub use super::range_minimum::{Lowest, Minimum, Scratch, lowest, lowest_with, minimum};
+pub use super::range_minimum::{
+    Lowest, Minimum, Scratch, lowest, lowest_on_lone, lowest_with, minimum,
+};
 
 /// Steps per interval between knots of the scanning grid.
 const STEPS: usize = 200;
@@ -268,8 +270,27 @@ pub fn verdict(
     let w = check_loading_or_zero(w)?;
     let margin = check_margin(margin)?;
     let m = lowest_with(curve, lone, t1_k, t2_k, extrapolate, scratch)?;
+    Ok(judged(&m, w, margin))
+}
+
+/// [`verdict`] from a curve's lone branch alone (a flat copy of it), where the branch
+/// covers the whole range; `None` when it does not and the whole curve must be asked.
+pub fn verdict_on_lone(
+    lone: BranchView<'_>,
+    question: &Question,
+    scratch: &mut Scratch,
+) -> Option<Result<Verdict, ScienceError>> {
+    let m = lowest_on_lone(lone, question.t1_k, question.t2_k, scratch)?;
+    let checked =
+        check_loading_or_zero(question.w).and_then(|w| Ok((w, check_margin(question.margin)?)));
+    Some(checked.map(|(w, margin)| judged(&m, w, margin)))
+}
+
+/// The verdict on a loading `w` (checked) with `margin` (checked) from the curve's lowest
+/// point over the range.
+fn judged(m: &Lowest, w: f64, margin: f64) -> Verdict {
     let (r_min, r_load) = (ratio(m.mass_fraction), ratio(w));
-    Ok(Verdict {
+    Verdict {
         // A zero loading holds trivially (nothing is dissolved); its headroom is infinite.
         holds: r_min >= r_load * (1.0 + margin),
         limiting_t_k: m.t_k,
@@ -277,7 +298,7 @@ pub fn verdict(
         limiting_mass_fraction: m.mass_fraction,
         headroom_pct: (r_min / r_load - 1.0) * 100.0,
         basis: m.basis,
-    })
+    }
 }
 
 /// What [`verdict`] asks of a curve: whether the loading `w` (mass fraction) stays

@@ -9,7 +9,7 @@ use rusqlite::{Connection, params};
 use serde::Deserialize;
 
 use super::StoreError;
-use super::seed::SeedProblem;
+use super::seed::{SeedProblem, first_use};
 use crate::model::{DensityCoefficients, Provenance, Review};
 
 /// The seed file's path relative to `seed-data/`.
@@ -94,15 +94,13 @@ pub fn parse(
                 SeedProblem::UnknownSource { key: d.source },
             ));
         }
-        if !seen.insert(d.solute.clone()) {
-            return Err(problem(
-                &record,
-                SeedProblem::Duplicate {
-                    what: "density set for solute".to_string(),
-                    id: d.solute,
-                },
-            ));
-        }
+        first_use(
+            &mut seen,
+            FILE,
+            &record,
+            "density set for solute",
+            &d.solute,
+        )?;
         let c = [d.c0, d.c1, d.c2, d.c3, d.c4];
         if c.iter().any(|x| !x.is_finite()) {
             return Err(out_of_range(

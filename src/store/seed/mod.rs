@@ -27,7 +27,7 @@ mod validate;
 
 pub use load::{fingerprint, read_seed_dir};
 pub(crate) use load::{hex, write};
-pub(crate) use validate::{check_slug, optional, problem, syntax};
+pub(crate) use validate::{check_slug, first_use, optional, problem, syntax};
 pub use validate::{parse_seed, parse_with_known, parse_with_known_sources, to_mass_fraction};
 
 /// Lowest temperature of a liquid point in seed data: −55 °C.

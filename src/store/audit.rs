@@ -6,9 +6,10 @@
 //! `dataset:potassium-nitrate/crc-97`, `henry:oxygen/fit`, `freezing:sodium-chloride/crc`,
 //! and `database` for the creation of an empty database.
 
-use rusqlite::{Connection, params};
+use rusqlite::{Connection, Row, params};
 use serde::Serialize;
 
+use super::read::{corrupt, records};
 use super::{StoreError, now_utc};
 
 /// The actor of a change: the `--actor` flag when given, else the user name from `$USER` or
@@ -62,7 +63,8 @@ pub(crate) fn record(
 /// records, freezing data and density coefficients, and the sources they cite), oldest
 /// first.
 pub(crate) fn history(conn: &Connection, id: &str) -> Result<Vec<AuditEntry>, StoreError> {
-    let mut stmt = conn.prepare_cached(
+    records(
+        conn,
         "SELECT id, time, actor, action, entity, before, after FROM audit
          WHERE entity = 'solute:' || ?1
             OR entity = 'density:' || ?1
@@ -74,56 +76,37 @@ pub(crate) fn history(conn: &Connection, id: &str) -> Result<Vec<AuditEntry>, St
                           UNION SELECT 'source:' || source FROM gas_constants WHERE solute = ?1
                           UNION SELECT 'source:' || source FROM freezing WHERE solute = ?1)
          ORDER BY id",
-    )?;
-    all(&mut stmt, params![id])
+        [id],
+        entry,
+    )
 }
 
 /// Every audit row, oldest first.
 pub(crate) fn all_entries(conn: &Connection) -> Result<Vec<AuditEntry>, StoreError> {
-    let mut stmt = conn.prepare_cached(
+    records(
+        conn,
         "SELECT id, time, actor, action, entity, before, after FROM audit ORDER BY id",
-    )?;
-    all(&mut stmt, params![])
+        [],
+        entry,
+    )
 }
 
-fn all(
-    stmt: &mut rusqlite::CachedStatement<'_>,
-    args: &[&dyn rusqlite::ToSql],
-) -> Result<Vec<AuditEntry>, StoreError> {
-    let rows = stmt.query_map(args, |r| {
-        Ok((
-            r.get::<_, i64>(0)?,
-            r.get::<_, String>(1)?,
-            r.get::<_, String>(2)?,
-            r.get::<_, String>(3)?,
-            r.get::<_, String>(4)?,
-            r.get::<_, Option<String>>(5)?,
-            r.get::<_, Option<String>>(6)?,
-        ))
-    })?;
-    let json = |text: Option<String>| -> Result<Option<serde_json::Value>, StoreError> {
-        text.map(|t| {
-            serde_json::from_str(&t).map_err(|e| StoreError::Corrupt {
-                location: "database".to_string(),
-                what: format!("audit JSON: {e}"),
-            })
-        })
-        .transpose()
+/// One audit row of `id, time, actor, action, entity, before, after`.
+fn entry(r: &Row<'_>) -> Result<AuditEntry, StoreError> {
+    let json = |i: usize| -> Result<Option<serde_json::Value>, StoreError> {
+        r.get::<_, Option<String>>(i)?
+            .map(|t| serde_json::from_str(&t).map_err(|e| corrupt(format!("audit JSON: {e}"))))
+            .transpose()
     };
-    let mut out = Vec::new();
-    for row in rows {
-        let (id, time, actor, action, entity, before, after) = row?;
-        out.push(AuditEntry {
-            id,
-            time,
-            actor,
-            action,
-            entity,
-            before: json(before)?,
-            after: json(after)?,
-        });
-    }
-    Ok(out)
+    Ok(AuditEntry {
+        id: r.get(0)?,
+        time: r.get(1)?,
+        actor: r.get(2)?,
+        action: r.get(3)?,
+        entity: r.get(4)?,
+        before: json(5)?,
+        after: json(6)?,
+    })
 }
 
 /// Writes a history for people (one block per change: time, actor, action, entity, then

@@ -15,7 +15,7 @@ use serde::{Deserialize, Serialize};
 
 use super::StoreError;
 use super::read::{Contents, word};
-use super::seed::{SeedProblem, check_slug, optional, problem, syntax};
+use super::seed::{SeedProblem, check_slug, first_use, optional, problem, syntax};
 use crate::model::{Check, CheckSubject, Review, Verdict};
 
 /// The folder of check files inside a seed or export directory.
@@ -161,16 +161,7 @@ pub fn parse_files(
                 explanation,
                 tool: optional(c.tool),
             };
-            if !seen.insert(check.key.clone()) {
-                return Err(problem(
-                    file,
-                    &record,
-                    SeedProblem::Duplicate {
-                        what: "check".to_string(),
-                        id: check.key,
-                    },
-                ));
-            }
+            first_use(&mut seen, file, &record, "check", &check.key)?;
             if !subjects_elsewhere && let Some(reason) = unknown_subject(&check, &[contents]) {
                 return Err(bad(
                     file,

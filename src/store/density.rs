@@ -9,7 +9,8 @@ use rusqlite::{Connection, params};
 use serde::Deserialize;
 
 use super::StoreError;
-use super::seed::SeedProblem;
+use super::read::{records, word_at};
+use super::seed::{SeedProblem, first_use};
 use crate::model::{DensityCoefficients, Provenance, Review};
 
 /// The seed file's path relative to `seed-data/`.
@@ -94,15 +95,13 @@ pub fn parse(
                 SeedProblem::UnknownSource { key: d.source },
             ));
         }
-        if !seen.insert(d.solute.clone()) {
-            return Err(problem(
-                &record,
-                SeedProblem::Duplicate {
-                    what: "density set for solute".to_string(),
-                    id: d.solute,
-                },
-            ));
-        }
+        first_use(
+            &mut seen,
+            FILE,
+            &record,
+            "density set for solute",
+            &d.solute,
+        )?;
         let c = [d.c0, d.c1, d.c2, d.c3, d.c4];
         if c.iter().any(|x| !x.is_finite()) {
             return Err(out_of_range(
@@ -175,14 +174,14 @@ pub(crate) fn replace(conn: &Connection, d: &DensityCoefficients) -> Result<(), 
 
 /// Every stored set, by solute id.
 pub(crate) fn read(conn: &Connection) -> Result<Vec<DensityCoefficients>, StoreError> {
-    let mut stmt = conn.prepare_cached(
+    records(
+        conn,
         "SELECT solute, source, c0, c1, c2, c3, c4, t_min_c, t_max_c, w_max, table_name, cas,
                 points, provenance, review, note
          FROM density_coefficients ORDER BY solute",
-    )?;
-    let rows = stmt.query_map([], |r| {
-        Ok((
-            DensityCoefficients {
+        [],
+        |r| {
+            Ok(DensityCoefficients {
                 solute: r.get(0)?,
                 source: r.get(1)?,
                 c: [r.get(2)?, r.get(3)?, r.get(4)?, r.get(5)?, r.get(6)?],
@@ -192,22 +191,12 @@ pub(crate) fn read(conn: &Connection) -> Result<Vec<DensityCoefficients>, StoreE
                 table_name: r.get(10)?,
                 cas: r.get(11)?,
                 points: r.get(12)?,
-                provenance: Provenance::Compiled,
-                review: Review::Unreviewed,
+                provenance: word_at(r, 13)?,
+                review: word_at(r, 14)?,
                 note: r.get(15)?,
-            },
-            r.get::<_, String>(13)?,
-            r.get::<_, String>(14)?,
-        ))
-    })?;
-    let mut out = Vec::new();
-    for row in rows {
-        let (mut d, provenance, review) = row?;
-        d.provenance = super::read::word(&provenance)?;
-        d.review = super::read::word(&review)?;
-        out.push(d);
-    }
-    Ok(out)
+            })
+        },
+    )
 }
 
 /// The sets as a seed-format `densities.toml`, or `None` when there are none.

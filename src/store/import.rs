@@ -544,10 +544,13 @@ fn kind_of(same: Option<bool>) -> ChangeKind {
 /// One kind of record of an import: how a record is found among the stored ones, how it
 /// is named in the plan and the audit history, and what the import does with it.
 pub(super) struct RecordKind<T> {
+    /// What the plan and the audit history call the record before its key, e.g. `dataset`
+    /// for `dataset:<key>`.
+    pub entity: &'static str,
     /// The stored identity: the record of the same key is the one replaced.
     pub key: fn(&T) -> String,
-    /// `(entity, summary)`: `dataset:<key>` and a few words on the record.
-    pub describe: fn(&T) -> (String, String),
+    /// A few words on the record.
+    pub summary: fn(&T) -> String,
     /// What writing the record does to the stored one (`None` when there is none).
     pub kind: fn(&T, Option<&T>) -> ChangeKind,
     pub record: fn(T) -> Record,
@@ -562,17 +565,23 @@ pub(super) fn plan_records<T: Serialize + Clone>(
 ) {
     let stored: HashMap<String, &T> = existing.iter().map(|b| ((how.key)(b), b)).collect();
     for r in incoming {
-        let before = stored.get(&(how.key)(r)).copied();
-        let (entity, summary) = (how.describe)(r);
+        let key = (how.key)(r);
+        let before = stored.get(&key).copied();
         plan.changes.push(Change {
             kind: (how.kind)(r, before),
-            entity,
-            summary,
+            entity: format!("{}:{key}", how.entity),
+            summary: (how.summary)(r),
             before: before.map(json),
             after: json(r),
             record: (how.record)(r.clone()),
         });
     }
+}
+
+/// A record's summary that names its review state and the source it cites, e.g.
+/// `density coefficients, unreviewed, source crc-97`.
+pub(super) fn summary_citing(what: &str, review: Review, source: &str) -> String {
+    format!("{what}, {}, source {source}", review.as_str())
 }
 
 /// Unchanged when equal.
@@ -630,8 +639,9 @@ fn compare(incoming: &Contents, existing: &Contents, options: &ImportOptions) ->
         &incoming.sources,
         &existing.sources,
         RecordKind {
+            entity: "source",
             key: |s: &Source| s.key.clone(),
-            describe: |s| (format!("source:{}", s.key), s.title.clone()),
+            summary: |s| s.title.clone(),
             kind: equal,
             record: Record::Source,
         },
@@ -641,11 +651,9 @@ fn compare(incoming: &Contents, existing: &Contents, options: &ImportOptions) ->
         &incoming.solutes,
         &existing.solutes,
         RecordKind {
+            entity: "solute",
             key: |s: &Solute| s.id.clone(),
-            describe: |s| {
-                let summary = format!("{} ({}, {})", s.name, s.formula, s.kind.as_str());
-                (format!("solute:{}", s.id), summary)
-            },
+            summary: |s| format!("{} ({}, {})", s.name, s.formula, s.kind.as_str()),
             kind: equal,
             record: Record::Solute,
         },
@@ -655,16 +663,12 @@ fn compare(incoming: &Contents, existing: &Contents, options: &ImportOptions) ->
         &incoming.datasets,
         &existing.datasets,
         RecordKind {
+            entity: "dataset",
             key: |d: &Dataset| d.key.clone(),
-            describe: |d| {
-                let summary = format!(
-                    "{} points, {}, source {}{}",
-                    d.points.len(),
-                    d.review.as_str(),
-                    d.source,
-                    if d.retired { ", retired" } else { "" }
-                );
-                (format!("dataset:{}", d.key), summary)
+            summary: |d| {
+                let points = format!("{} points", d.points.len());
+                let retired = if d.retired { ", retired" } else { "" };
+                summary_citing(&points, d.review, &d.source) + retired
             },
             kind: if keep { dataset_kept } else { dataset_fresh },
             record: Record::Dataset,
@@ -675,11 +679,9 @@ fn compare(incoming: &Contents, existing: &Contents, options: &ImportOptions) ->
         &incoming.gas_constants,
         &existing.gas_constants,
         RecordKind {
+            entity: "henry",
             key: |g: &GasConstant| g.key.clone(),
-            describe: |g| {
-                let summary = format!("Henry's-law record, {}", g.review.as_str());
-                (format!("henry:{}", g.key), summary)
-            },
+            summary: |g| format!("Henry's-law record, {}", g.review.as_str()),
             kind: state_aside(keep),
             record: Record::Gas,
         },
@@ -689,11 +691,9 @@ fn compare(incoming: &Contents, existing: &Contents, options: &ImportOptions) ->
         &incoming.freezing,
         &existing.freezing,
         RecordKind {
+            entity: "freezing",
             key: |f: &FreezingRecord| f.data.key.clone(),
-            describe: |f| {
-                let summary = format!("{} freezing points", f.points_reported.len());
-                (format!("freezing:{}", f.data.key), summary)
-            },
+            summary: |f| format!("{} freezing points", f.points_reported.len()),
             kind: state_aside(keep),
             record: Record::Freezing,
         },
@@ -704,15 +704,9 @@ fn compare(incoming: &Contents, existing: &Contents, options: &ImportOptions) ->
         &incoming.densities,
         &existing.densities,
         RecordKind {
+            entity: "density",
             key: |d: &DensityCoefficients| d.solute.clone(),
-            describe: |d| {
-                let summary = format!(
-                    "density coefficients, {}, source {}",
-                    d.review.as_str(),
-                    d.source
-                );
-                (format!("density:{}", d.solute), summary)
-            },
+            summary: |d| summary_citing("density coefficients", d.review, &d.source),
             kind: if keep { equal } else { density_fresh },
             record: Record::Density,
         },
@@ -728,15 +722,15 @@ fn compare(incoming: &Contents, existing: &Contents, options: &ImportOptions) ->
         &incoming.checks,
         &existing.checks,
         RecordKind {
+            entity: "check",
             key: |c: &Check| c.key.clone(),
-            describe: |c| {
-                let summary = format!(
+            summary: |c| {
+                format!(
                     "{} check against {}: {}",
                     c.kind,
                     c.reference,
                     c.verdict.as_str()
-                );
-                (format!("check:{}", c.key), summary)
+                )
             },
             kind: equal,
             record: Record::Check,
@@ -983,16 +977,9 @@ struct CsvSolute {
 }
 
 const SOLUTE_FIELDS: [&str; 4] = ["formula", "name", "kind", "ions"];
-const DATASET_FIELDS: [&str; 8] = [
-    "unit",
-    "temperature_unit",
-    "phase_name",
-    "dataset",
-    "provenance",
-    "review",
-    "retired",
-    "note",
-];
+/// The optional columns every row of one dataset gives alike: those after the point's and
+/// the solute's (`uncertainty`, `name`, `kind`, `ions`).
+const DATASET_OPTIONAL: &[&str] = CSV_OPTIONAL.split_at(4).1;
 
 /// Most faults of one CSV file listed in a single error: the first in full, then the others.
 const FAULTS_LISTED: usize = 20;
@@ -1269,13 +1256,18 @@ fn parse_csv(
                 }
             };
             let dataset = &mut solute.datasets[d];
-            for name in DATASET_FIELDS {
-                let value = match name {
-                    "unit" => units.unit,
-                    "temperature_unit" => units.temperature_unit,
-                    other => get(other),
-                };
-                agree(file, line, &mut dataset.fields, name, value, "dataset")?;
+            let fields = &mut dataset.fields;
+            agree(file, line, fields, "unit", units.unit, "dataset")?;
+            agree(
+                file,
+                line,
+                fields,
+                "temperature_unit",
+                units.temperature_unit,
+                "dataset",
+            )?;
+            for name in DATASET_OPTIONAL {
+                agree(file, line, fields, name, get(name), "dataset")?;
             }
             dataset.points.push(CsvPoint {
                 line,

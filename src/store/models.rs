@@ -74,15 +74,51 @@ fn model_files<P: AsRef<str>, C: AsRef<str>>(
     Ok(out)
 }
 
+/// A record of a model file that cites a source and holds over a temperature range: a
+/// single-electrolyte parameter set, a mixing parameter or an acid-base record.
+trait ModelRecord: Clone {
+    /// How an error names the record, e.g. `set "nacl"`.
+    const WORD: &'static str;
+    fn key(&self) -> &str;
+    /// Source key, provenance and review state.
+    fn cited(&self) -> (&str, &str, &str);
+    /// `(t_min_k, t_max_k)`.
+    fn range(&self) -> (f64, f64);
+}
+
+macro_rules! model_record {
+    ($($record:ty = $word:literal),+) => {$(
+        impl ModelRecord for $record {
+            const WORD: &'static str = $word;
+            fn key(&self) -> &str {
+                &self.key
+            }
+            fn cited(&self) -> (&str, &str, &str) {
+                (&self.source, &self.provenance, &self.review)
+            }
+            fn range(&self) -> (f64, f64) {
+                (self.t_min_k, self.t_max_k)
+            }
+        }
+    )+};
+}
+
+model_record!(
+    ParameterSet = "set",
+    MixingSet = "mixing",
+    AcidSystem = "acid"
+);
+
 /// The checks every record of a model file passes: a known source, a provenance of
 /// `compiled`, `measured` or `from-memory`, no `reviewed`, a temperature range low to high.
 fn check_record(
     sources: &HashSet<String>,
     path: &str,
     record: &str,
-    (source, provenance, review): (&str, &str, &str),
-    (t_min_k, t_max_k): (f64, f64),
+    r: &impl ModelRecord,
 ) -> Result<(), StoreError> {
+    let (source, provenance, review) = r.cited();
+    let (t_min_k, t_max_k) = r.range();
     if !sources.contains(source) {
         return Err(bad(
             path,
@@ -116,6 +152,30 @@ fn check_record(
     Ok(())
 }
 
+/// The records of one kind (`pick`) in every model file of `files`, each passing
+/// [`check_record`] and `own` (its kind's own checks, a refusal giving the reason), with a
+/// key used once among them.
+fn model_records<T: ModelRecord>(
+    sources: &HashSet<String>,
+    files: &[(&str, ModelFile)],
+    pick: fn(&ModelFile) -> &[T],
+    own: impl Fn(&T) -> Result<(), String>,
+) -> Result<Vec<T>, StoreError> {
+    let mut out: Vec<T> = Vec::new();
+    for (path, file) in files {
+        for r in pick(file) {
+            let record = format!("{} \"{}\"", T::WORD, r.key());
+            check_record(sources, path, &record, r)?;
+            own(r).map_err(|why| bad(path, &record, why))?;
+            if out.iter().any(|o| o.key() == r.key()) {
+                return Err(bad(path, record, "key used twice"));
+            }
+            out.push(r.clone());
+        }
+    }
+    Ok(out)
+}
+
 /// Every mixture system of the `models/` files among `files`, resolved against the
 /// single-electrolyte sets and mixing parameters of all model files: each mixing parameter
 /// passes the checks of [`parameter_sets`] (a source, a provenance, a range, a key used once),
@@ -127,23 +187,18 @@ pub fn mixture_systems<P: AsRef<str>, C: AsRef<str>>(
     let sets = parameter_sets(files)?;
     let sources = source_keys(files)?;
     let parsed = model_files(files)?;
-    let mut mixing: Vec<MixingSet> = Vec::new();
-    for (path, file) in &parsed {
-        for m in &file.mixing {
-            let record = format!("mixing \"{}\"", m.key);
-            check_record(
-                &sources,
-                path,
-                &record,
-                (&m.source, &m.provenance, &m.review),
-                (m.t_min_k, m.t_max_k),
-            )?;
-            if mixing.iter().any(|x| x.key == m.key) || sets.iter().any(|x| x.key == m.key) {
-                return Err(bad(path, record, "key used twice"));
+    let mixing = model_records(
+        &sources,
+        &parsed,
+        |f| &f.mixing,
+        |m| {
+            if sets.iter().any(|s| s.key == m.key) {
+                Err("key used twice".to_string())
+            } else {
+                Ok(())
             }
-            mixing.push(m.clone());
-        }
-    }
+        },
+    )?;
     let mut systems: Vec<System> = Vec::new();
     for (path, file) in &parsed {
         for spec in &file.system {
@@ -173,22 +228,14 @@ pub fn mixture_systems<P: AsRef<str>, C: AsRef<str>>(
 pub fn parameter_sets<P: AsRef<str>, C: AsRef<str>>(
     files: &[(P, C)],
 ) -> Result<Vec<ParameterSet>, StoreError> {
-    let source_keys = source_keys(files)?;
-    let mut sets: Vec<ParameterSet> = Vec::new();
-    for (path, file) in model_files(files)? {
-        for set in file.set {
-            let record = format!("set \"{}\"", set.key);
-            check_record(
-                &source_keys,
-                path,
-                &record,
-                (&set.source, &set.provenance, &set.review),
-                (set.t_min_k, set.t_max_k),
-            )?;
-            parse_formula(&set.electrolyte)
-                .map_err(|e| bad(path, &record, format!("electrolyte: {e}")))?;
+    model_records(
+        &source_keys(files)?,
+        &model_files(files)?,
+        |f| &f.set,
+        |set| {
+            parse_formula(&set.electrolyte).map_err(|e| format!("electrolyte: {e}"))?;
             if !(set.molality_max.is_finite() && set.molality_max > 0.0) {
-                return Err(bad(path, record, "molality_max must be positive"));
+                return Err("molality_max must be positive".to_string());
             }
             if [
                 set.cation_charge,
@@ -198,15 +245,11 @@ pub fn parameter_sets<P: AsRef<str>, C: AsRef<str>>(
             ]
             .contains(&0)
             {
-                return Err(bad(path, record, "charges and counts must be at least 1"));
+                return Err("charges and counts must be at least 1".to_string());
             }
-            if sets.iter().any(|s| s.key == set.key) {
-                return Err(bad(path, record, "key used twice"));
-            }
-            sets.push(set);
-        }
-    }
-    Ok(sets)
+            Ok(())
+        },
+    )
 }
 
 /// Every acid-base record (`[[acid]]`) of the `models/` files among `files`: each cites a
@@ -215,25 +258,12 @@ pub fn parameter_sets<P: AsRef<str>, C: AsRef<str>>(
 pub fn acid_systems<P: AsRef<str>, C: AsRef<str>>(
     files: &[(P, C)],
 ) -> Result<Vec<AcidSystem>, StoreError> {
-    let source_keys = source_keys(files)?;
-    let mut acids: Vec<AcidSystem> = Vec::new();
-    for (path, file) in model_files(files)? {
-        for acid in file.acid {
-            let record = format!("acid \"{}\"", acid.key);
-            check_record(
-                &source_keys,
-                path,
-                &record,
-                (&acid.source, &acid.provenance, &acid.review),
-                (acid.t_min_k, acid.t_max_k),
-            )?;
-            acid.check().map_err(|why| bad(path, &record, why))?;
-            if acids.iter().any(|a| a.key == acid.key) {
-                return Err(bad(path, record, "key used twice"));
-            }
-            acids.push(acid);
-        }
-    }
+    let acids = model_records(
+        &source_keys(files)?,
+        &model_files(files)?,
+        |f| &f.acid,
+        AcidSystem::check,
+    )?;
     if !acids.is_empty() && !acids.iter().any(|a| a.key == "water") {
         return Err(bad(
             "models/",
@@ -247,6 +277,11 @@ pub fn acid_systems<P: AsRef<str>, C: AsRef<str>>(
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// `sources.toml` with the one source `a`, and the model file `path`.
+    fn with_source_a<'a>(path: &'a str, text: &'a str) -> [(&'a str, &'a str); 2] {
+        [("sources.toml", "[[source]]\nkey = \"a\"\n"), (path, text)]
+    }
 
     #[test]
     fn the_seed_models_load() {
@@ -295,13 +330,10 @@ mod tests {
 
     #[test]
     fn an_acid_with_a_missing_step_is_refused() {
-        let files = [
-            ("sources.toml", "[[source]]\nkey = \"a\"\n"),
-            (
-                "models/z.toml",
-                "[[acid]]\nkey = \"water\"\nname = \"w\"\nspecies = [\"H2O\", \"OH-\", \"O-2\"]\ncharges = [0, -1, -2]\nstep = [{ pk = 14.0, dh_kj_per_mol = 55.8, dcp_j_per_mol_k = -224.0 }]\nsource = \"a\"\nlocator = \"\"\nprovenance = \"from-memory\"\nt_min_k = 273.15\nt_max_k = 323.15\n",
-            ),
-        ];
+        let files = with_source_a(
+            "models/z.toml",
+            "[[acid]]\nkey = \"water\"\nname = \"w\"\nspecies = [\"H2O\", \"OH-\", \"O-2\"]\ncharges = [0, -1, -2]\nstep = [{ pk = 14.0, dh_kj_per_mol = 55.8, dcp_j_per_mol_k = -224.0 }]\nsource = \"a\"\nlocator = \"\"\nprovenance = \"from-memory\"\nt_min_k = 273.15\nt_max_k = 323.15\n",
+        );
         let e = acid_systems(&files).unwrap_err().to_string();
         assert!(
             e.contains("acid \"water\"") && e.contains("need 2 steps"),
@@ -311,30 +343,24 @@ mod tests {
 
     #[test]
     fn a_system_naming_a_missing_set_is_refused() {
-        let files = [
-            ("sources.toml", "[[source]]\nkey = \"a\"\n"),
-            (
-                "models/y.toml",
-                "[[system]]\nkey = \"s\"\nname = \"S\"\nsource = \"a\"\nionic_strength_max = 6.0\nsets = [\"nope\"]\nmixing = []\n",
-            ),
-        ];
+        let files = with_source_a(
+            "models/y.toml",
+            "[[system]]\nkey = \"s\"\nname = \"S\"\nsource = \"a\"\nionic_strength_max = 6.0\nsets = [\"nope\"]\nmixing = []\n",
+        );
         let e = mixture_systems(&files).unwrap_err().to_string();
         assert!(e.contains("system \"s\"") && e.contains("\"nope\""), "{e}");
     }
 
     #[test]
     fn an_unknown_source_is_refused() {
-        let files = [
-            ("sources.toml", "[[source]]\nkey = \"a\"\n"),
-            (
-                "models/x.toml",
-                "[[set]]\nkey = \"k\"\nelectrolyte = \"NaCl\"\nsource = \"b\"\nprovenance = \"compiled\"\nreview = \"unreviewed\"\ncation_charge = 1\nanion_charge = 1\ncation_count = 1\nanion_count = 1\nalpha1 = 2.0\nbeta0 = { form = \"constant\", coefficients = 0.1 }\nbeta1 = { form = \"constant\", coefficients = 0.2 }\nc_phi = { form = \"constant\", coefficients = 0.0 }\nt_min_k = 298.15\nt_max_k = 298.15\nmolality_max = 6.0\n",
-            ),
-        ];
+        let files = with_source_a(
+            "models/x.toml",
+            "[[set]]\nkey = \"k\"\nelectrolyte = \"NaCl\"\nsource = \"b\"\nprovenance = \"compiled\"\nreview = \"unreviewed\"\ncation_charge = 1\nanion_charge = 1\ncation_count = 1\nanion_count = 1\nalpha1 = 2.0\nbeta0 = { form = \"constant\", coefficients = 0.1 }\nbeta1 = { form = \"constant\", coefficients = 0.2 }\nc_phi = { form = \"constant\", coefficients = 0.0 }\nt_min_k = 298.15\nt_max_k = 298.15\nmolality_max = 6.0\n",
+        );
         let e = parameter_sets(&files).unwrap_err().to_string();
         assert!(e.contains("source \"b\""), "{e}");
         let ok = files[1].1.replace("source = \"b\"", "source = \"a\"");
-        let sets = parameter_sets(&[files[0], ("models/x.toml", ok.as_str())]).unwrap();
+        let sets = parameter_sets(&with_source_a("models/x.toml", &ok)).unwrap();
         assert_eq!(sets.len(), 1);
     }
 }

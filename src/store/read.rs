@@ -3,7 +3,7 @@
 
 use std::collections::HashMap;
 
-use rusqlite::Connection;
+use rusqlite::{Connection, Params, Row};
 use serde::Serialize;
 
 use super::StoreError;
@@ -80,6 +80,40 @@ pub(crate) fn word<T: std::str::FromStr<Err = UnknownWord>>(s: &str) -> Result<T
     s.parse().map_err(|e: UnknownWord| corrupt(e.to_string()))
 }
 
+/// The word in column `i` of `r` (see [`word`]).
+pub(crate) fn word_at<T: std::str::FromStr<Err = UnknownWord>>(
+    r: &Row<'_>,
+    i: usize,
+) -> Result<T, StoreError> {
+    word(&r.get::<_, String>(i)?)
+}
+
+/// Every row `sql` selects with `params`, each made a record by `record` (which may find
+/// the row damaged), in the order selected.
+pub(crate) fn records<T>(
+    conn: &Connection,
+    sql: &str,
+    params: impl Params,
+    mut record: impl FnMut(&Row<'_>) -> Result<T, StoreError>,
+) -> Result<Vec<T>, StoreError> {
+    let mut stmt = conn.prepare_cached(sql)?;
+    let mut rows = stmt.query(params)?;
+    let mut out = Vec::new();
+    while let Some(r) = rows.next()? {
+        out.push(record(r)?);
+    }
+    Ok(out)
+}
+
+/// The lists `sql` selects as (solute id, item) rows in order, by solute.
+fn by_solute(conn: &Connection, sql: &str) -> Result<HashMap<String, Vec<String>>, StoreError> {
+    let mut lists: HashMap<String, Vec<String>> = HashMap::new();
+    for (solute, item) in records(conn, sql, [], |r| Ok((r.get(0)?, r.get(1)?)))? {
+        lists.entry(solute).or_default().push(item);
+    }
+    Ok(lists)
+}
+
 fn missing(key: &str, column: &str) -> StoreError {
     corrupt(format!("gas constant \"{key}\" lacks {column}"))
 }
@@ -116,265 +150,200 @@ fn read_inside(conn: &Connection) -> Result<Contents, StoreError> {
         ..Contents::default()
     };
 
-    let mut stmt = conn.prepare_cached(
+    contents.sources = records(
+        conn,
         "SELECT key, kind, title, authors, publisher, edition, year, locator, doi, isbn, url, note
          FROM sources ORDER BY key",
+        [],
+        |r| {
+            Ok(Source {
+                key: r.get(0)?,
+                kind: word_at(r, 1)?,
+                title: r.get(2)?,
+                authors: r.get(3)?,
+                publisher: r.get(4)?,
+                edition: r.get(5)?,
+                year: r.get(6)?,
+                locator: r.get(7)?,
+                doi: r.get(8)?,
+                isbn: r.get(9)?,
+                url: r.get(10)?,
+                note: r.get(11)?,
+            })
+        },
     )?;
-    let rows = stmt.query_map([], |r| {
-        Ok((
-            r.get::<_, String>(0)?,
-            r.get::<_, String>(1)?,
-            r.get::<_, String>(2)?,
-            r.get::<_, String>(3)?,
-            r.get::<_, Option<String>>(4)?,
-            r.get::<_, Option<String>>(5)?,
-            r.get::<_, Option<i32>>(6)?,
-            r.get::<_, Option<String>>(7)?,
-            r.get::<_, Option<String>>(8)?,
-            r.get::<_, Option<String>>(9)?,
-            r.get::<_, Option<String>>(10)?,
-            r.get::<_, Option<String>>(11)?,
-        ))
-    })?;
-    for row in rows {
-        let (key, kind, title, authors, publisher, edition, year, locator, doi, isbn, url, note) =
-            row?;
-        contents.sources.push(Source {
-            key,
-            kind: word(&kind)?,
-            title,
-            authors,
-            publisher,
-            edition,
-            year,
-            locator,
-            doi,
-            isbn,
-            url,
-            note,
-        });
-    }
 
-    let mut synonyms: HashMap<String, Vec<String>> = HashMap::new();
-    let mut stmt = conn
-        .prepare_cached("SELECT solute, synonym FROM solute_synonyms ORDER BY solute, position")?;
-    for row in stmt.query_map([], |r| Ok((r.get::<_, String>(0)?, r.get::<_, String>(1)?)))? {
-        let (solute, synonym) = row?;
-        synonyms.entry(solute).or_default().push(synonym);
-    }
-    let mut tags: HashMap<String, Vec<String>> = HashMap::new();
-    let mut stmt =
-        conn.prepare_cached("SELECT solute, tag FROM solute_tags ORDER BY solute, position")?;
-    for row in stmt.query_map([], |r| Ok((r.get::<_, String>(0)?, r.get::<_, String>(1)?)))? {
-        let (solute, tag) = row?;
-        tags.entry(solute).or_default().push(tag);
-    }
-
-    let mut stmt = conn.prepare_cached(
+    let mut synonyms = by_solute(
+        conn,
+        "SELECT solute, synonym FROM solute_synonyms ORDER BY solute, position",
+    )?;
+    let mut tags = by_solute(
+        conn,
+        "SELECT solute, tag FROM solute_tags ORDER BY solute, position",
+    )?;
+    contents.solutes = records(
+        conn,
         "SELECT id, name, formula, kind, molar_mass, cation, anion, ions, hazard FROM solutes ORDER BY id",
+        [],
+        |r| {
+            let id: String = r.get(0)?;
+            Ok(Solute {
+                synonyms: synonyms.remove(&id).unwrap_or_default(),
+                tags: tags.remove(&id).unwrap_or_default(),
+                name: r.get(1)?,
+                formula: r.get(2)?,
+                kind: word_at(r, 3)?,
+                molar_mass: r.get(4)?,
+                cation: r.get(5)?,
+                anion: r.get(6)?,
+                ions: r.get(7)?,
+                hazard: r.get(8)?,
+                id,
+            })
+        },
     )?;
-    let rows = stmt.query_map([], |r| {
-        Ok((
-            r.get::<_, String>(0)?,
-            r.get::<_, String>(1)?,
-            r.get::<_, String>(2)?,
-            r.get::<_, String>(3)?,
-            r.get::<_, f64>(4)?,
-            r.get::<_, Option<String>>(5)?,
-            r.get::<_, Option<String>>(6)?,
-            r.get::<_, u32>(7)?,
-            r.get::<_, Option<String>>(8)?,
-        ))
-    })?;
-    for row in rows {
-        let (id, name, formula, kind, molar_mass, cation, anion, ions, hazard) = row?;
-        contents.solutes.push(Solute {
-            synonyms: synonyms.remove(&id).unwrap_or_default(),
-            tags: tags.remove(&id).unwrap_or_default(),
-            id,
-            name,
-            formula,
-            kind: word(&kind)?,
-            molar_mass,
-            cation,
-            anion,
-            ions,
-            hazard,
-        });
-    }
 
     let mut points: HashMap<String, Vec<Point>> = HashMap::new();
-    let mut stmt = conn.prepare_cached(
+    for (dataset, point) in records(
+        conn,
         "SELECT dataset, temperature_reported, temperature_k, value_reported, mass_fraction, uncertainty
          FROM points ORDER BY dataset, position",
-    )?;
-    let rows = stmt.query_map([], |r| {
-        Ok((
-            r.get::<_, String>(0)?,
-            Point {
+        [],
+        |r| {
+            let point = Point {
                 temperature_reported: r.get(1)?,
                 temperature_k: r.get(2)?,
                 value_reported: r.get(3)?,
                 mass_fraction: r.get(4)?,
                 uncertainty: r.get(5)?,
-            },
-        ))
-    })?;
-    for row in rows {
-        let (dataset, point) = row?;
+            };
+            Ok((r.get::<_, String>(0)?, point))
+        },
+    )? {
         points.entry(dataset).or_default().push(point);
     }
 
-    let mut stmt = conn.prepare_cached(
+    contents.datasets = records(
+        conn,
         "SELECT d.key, d.solute, d.solvent, p.formula, p.name, p.water, d.source, d.unit,
                 d.temperature_unit, d.provenance, d.review, d.retired, d.note,
                 d.stable_low_reported, d.stable_high_reported, d.stable_low_k, d.stable_high_k
          FROM datasets d JOIN phases p ON p.id = d.phase ORDER BY d.key",
+        [],
+        |r| {
+            let key: String = r.get(0)?;
+            Ok(Dataset {
+                points: points.remove(&key).unwrap_or_default(),
+                solute: r.get(1)?,
+                solvent: r.get(2)?,
+                phase: Phase {
+                    formula: r.get(3)?,
+                    name: r.get(4)?,
+                    water: r.get(5)?,
+                },
+                source: r.get(6)?,
+                unit: r.get(7)?,
+                temperature_unit: r.get(8)?,
+                provenance: word_at(r, 9)?,
+                review: word_at(r, 10)?,
+                retired: r.get(11)?,
+                note: r.get(12)?,
+                stable_range: pair(r, 13, 14)?,
+                stable_range_k: pair(r, 15, 16)?,
+                key,
+            })
+        },
     )?;
-    let rows = stmt.query_map([], |r| {
-        Ok((
-            r.get::<_, String>(0)?,
-            r.get::<_, String>(1)?,
-            r.get::<_, String>(2)?,
-            Phase {
-                formula: r.get(3)?,
-                name: r.get(4)?,
-                water: r.get(5)?,
-            },
-            r.get::<_, String>(6)?,
-            r.get::<_, String>(7)?,
-            r.get::<_, String>(8)?,
-            r.get::<_, String>(9)?,
-            r.get::<_, String>(10)?,
-            r.get::<_, bool>(11)?,
-            r.get::<_, Option<String>>(12)?,
-            pair(r, 13, 14)?,
-            pair(r, 15, 16)?,
-        ))
-    })?;
-    for row in rows {
-        let (
-            key,
-            solute,
-            solvent,
-            phase,
-            source,
-            unit,
-            t_unit,
-            prov,
-            rev,
-            retired,
-            note,
-            stable_range,
-            stable_range_k,
-        ) = row?;
-        contents.datasets.push(Dataset {
-            points: points.remove(&key).unwrap_or_default(),
-            key,
-            solute,
-            solvent,
-            phase,
-            source,
-            unit,
-            temperature_unit: t_unit,
-            provenance: word(&prov)?,
-            review: word(&rev)?,
-            retired,
-            note,
-            stable_range,
-            stable_range_k,
-        });
-    }
 
-    let mut stmt = conn.prepare_cached(
+    contents.gas_constants = records(
+        conn,
         "SELECT key, solute, source, form, convention, value, reference_temperature_k, temperature_term_k,
                 a, b, c, d, scale_k, reference_pressure_pa, t_min_k, t_max_k, provenance, review, note
          FROM gas_constants ORDER BY key",
+        [],
+        |r| {
+            let key: String = r.get(0)?;
+            let form: String = r.get(3)?;
+            let f = |i: usize, name: &str| -> Result<f64, StoreError> {
+                r.get::<_, Option<f64>>(i)?
+                    .ok_or_else(|| missing(&key, name))
+            };
+            let law = match (form.as_str(), FitQuantity::from_name(&form)) {
+                ("vant-hoff", _) => GasLaw::VantHoff(VantHoffLaw {
+                    convention: r
+                        .get::<_, Option<String>>(4)?
+                        .ok_or_else(|| missing(&key, "convention"))?,
+                    value: f(5, "value")?,
+                    reference_temperature_k: f(6, "reference_temperature_k")?,
+                    temperature_term_k: f(7, "temperature_term_k")?,
+                }),
+                (_, Some(quantity)) => GasLaw::Fit(GasFit {
+                    quantity,
+                    a: f(8, "a")?,
+                    b: f(9, "b")?,
+                    c: f(10, "c")?,
+                    d: f(11, "d")?,
+                    scale_k: f(12, "scale_k")?,
+                    reference_pressure_pa: f(13, "reference_pressure_pa")?,
+                    t_min_k: f(14, "t_min_k")?,
+                    t_max_k: f(15, "t_max_k")?,
+                }),
+                (other, None) => return Err(corrupt(format!("gas constant form \"{other}\""))),
+            };
+            Ok(GasConstant {
+                solute: r.get(1)?,
+                source: r.get(2)?,
+                law,
+                provenance: word_at(r, 16)?,
+                review: word_at(r, 17)?,
+                note: r.get(18)?,
+                key,
+            })
+        },
     )?;
-    let mut rows = stmt.query([])?;
-    while let Some(r) = rows.next()? {
-        let key: String = r.get(0)?;
-        let form: String = r.get(3)?;
-        let f = |i: usize, name: &str| -> Result<f64, StoreError> {
-            r.get::<_, Option<f64>>(i)?
-                .ok_or_else(|| missing(&key, name))
-        };
-        let law = match (form.as_str(), FitQuantity::from_name(&form)) {
-            ("vant-hoff", _) => GasLaw::VantHoff(VantHoffLaw {
-                convention: r
-                    .get::<_, Option<String>>(4)?
-                    .ok_or_else(|| missing(&key, "convention"))?,
-                value: f(5, "value")?,
-                reference_temperature_k: f(6, "reference_temperature_k")?,
-                temperature_term_k: f(7, "temperature_term_k")?,
-            }),
-            (_, Some(quantity)) => GasLaw::Fit(GasFit {
-                quantity,
-                a: f(8, "a")?,
-                b: f(9, "b")?,
-                c: f(10, "c")?,
-                d: f(11, "d")?,
-                scale_k: f(12, "scale_k")?,
-                reference_pressure_pa: f(13, "reference_pressure_pa")?,
-                t_min_k: f(14, "t_min_k")?,
-                t_max_k: f(15, "t_max_k")?,
-            }),
-            (other, None) => return Err(corrupt(format!("gas constant form \"{other}\""))),
-        };
-        contents.gas_constants.push(GasConstant {
-            solute: r.get(1)?,
-            source: r.get(2)?,
-            law,
-            provenance: word(&r.get::<_, String>(16)?)?,
-            review: word(&r.get::<_, String>(17)?)?,
-            note: r.get(18)?,
-            key,
-        });
-    }
 
     let mut freezing_points: HashMap<String, Vec<(Pair, Pair)>> = HashMap::new();
-    let mut stmt = conn.prepare_cached(
+    for (key, pair) in records(
+        conn,
         "SELECT freezing, composition_reported, temperature_reported, mass_fraction, temperature_k
          FROM freezing_points ORDER BY freezing, position",
-    )?;
-    let rows = stmt.query_map([], |r| {
-        Ok((
-            r.get::<_, String>(0)?,
-            ((r.get(1)?, r.get(2)?), (r.get(3)?, r.get(4)?)),
-        ))
-    })?;
-    for row in rows {
-        let (key, pair) = row?;
+        [],
+        |r| {
+            let pair = ((r.get(1)?, r.get(2)?), (r.get(3)?, r.get(4)?));
+            Ok((r.get::<_, String>(0)?, pair))
+        },
+    )? {
         freezing_points.entry(key).or_default().push(pair);
     }
-    let mut stmt = conn.prepare_cached(
+    contents.freezing = records(
+        conn,
         "SELECT key, solute, source, unit, temperature_unit, provenance, review,
                 eutectic_composition_reported, eutectic_temperature_reported,
                 eutectic_mass_fraction, eutectic_temperature_k, note
          FROM freezing ORDER BY key",
+        [],
+        |r| {
+            let key: String = r.get(0)?;
+            let pairs = freezing_points.remove(&key).unwrap_or_default();
+            let both = |i, j| pair(r, i, j);
+            Ok(FreezingRecord {
+                unit: r.get(3)?,
+                temperature_unit: r.get(4)?,
+                points_reported: pairs.iter().map(|p| p.0).collect(),
+                eutectic_reported: both(7, 8)?,
+                note: r.get(11)?,
+                data: FreezingData {
+                    solute: r.get(1)?,
+                    source: r.get(2)?,
+                    points: pairs.iter().map(|p| p.1).collect(),
+                    eutectic: both(9, 10)?,
+                    provenance: word_at(r, 5)?,
+                    review: word_at(r, 6)?,
+                    key,
+                },
+            })
+        },
     )?;
-    let mut rows = stmt.query([])?;
-    while let Some(r) = rows.next()? {
-        let key: String = r.get(0)?;
-        let pairs = freezing_points.remove(&key).unwrap_or_default();
-        let both = |i, j| pair(r, i, j);
-        contents.freezing.push(FreezingRecord {
-            unit: r.get(3)?,
-            temperature_unit: r.get(4)?,
-            points_reported: pairs.iter().map(|p| p.0).collect(),
-            eutectic_reported: both(7, 8)?,
-            note: r.get(11)?,
-            data: FreezingData {
-                solute: r.get(1)?,
-                source: r.get(2)?,
-                points: pairs.iter().map(|p| p.1).collect(),
-                eutectic: both(9, 10)?,
-                provenance: word(&r.get::<_, String>(5)?)?,
-                review: word(&r.get::<_, String>(6)?)?,
-                key,
-            },
-        });
-    }
     contents.densities = super::density::read(conn)?;
     contents.checks = super::corroboration::read_checks(conn)?;
     Ok(contents)

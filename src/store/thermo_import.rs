@@ -7,7 +7,9 @@
 use rusqlite::{Connection, params};
 
 use super::StoreError;
-use super::import::{ImportPlan, Record, RecordKind, Reviewed, plan_records, state_aside};
+use super::import::{
+    ImportPlan, Record, RecordKind, Reviewed, plan_records, state_aside, summary_citing,
+};
 use crate::model::Review;
 use crate::model::thermo::{HeatCapacityFit, ThermoState, ThermoValue, Thermochemistry};
 
@@ -25,15 +27,31 @@ pub(crate) enum ThermoRecord {
     HeatCapacity(HeatCapacityFit),
 }
 
-fn value_entity(v: &ThermoValue) -> String {
+/// A value's identity: `<quantity>/<state>/<stage>/<species>/<source>`.
+fn value_key(v: &ThermoValue) -> String {
     format!(
-        "thermo:{}/{}/{}/{}/{}",
+        "{}/{}/{}/{}/{}",
         v.quantity.as_str(),
         v.state.map_or("-", ThermoState::as_str),
         v.stage.map_or_else(|| "-".to_string(), |s| s.to_string()),
         v.species,
         v.source
     )
+}
+
+/// The incoming records as the import would write them: as the file has them with
+/// `keep_state`, else unreviewed.
+fn arriving<T: Reviewed>(records: &[T], keep_state: bool) -> Vec<T> {
+    records
+        .iter()
+        .map(|r| {
+            if keep_state {
+                r.clone()
+            } else {
+                r.with_review(Review::Unreviewed)
+            }
+        })
+        .collect()
 }
 
 /// Adds the changes `incoming` makes to `existing` to `plan`. Without `keep_state` every
@@ -46,56 +64,30 @@ pub(crate) fn plan(
     existing: &Thermochemistry,
     keep_state: bool,
 ) {
-    let arriving = |review: Review| {
-        if keep_state {
-            review
-        } else {
-            Review::Unreviewed
-        }
-    };
-    let values: Vec<ThermoValue> = incoming
-        .values
-        .iter()
-        .map(|v| v.with_review(arriving(v.review)))
-        .collect();
     plan_records(
         plan,
-        &values,
+        &arriving(&incoming.values, keep_state),
         &existing.values,
         RecordKind {
-            key: value_entity,
-            describe: |v| {
-                let summary = format!(
-                    "{} {} {}, {}",
-                    v.value,
-                    v.quantity.unit(),
-                    v.species,
-                    v.review.as_str()
-                );
-                (value_entity(v), summary)
+            entity: "thermo",
+            key: value_key,
+            summary: |v| {
+                let unit = v.quantity.unit();
+                format!("{} {unit} {}, {}", v.value, v.species, v.review.as_str())
             },
             kind: state_aside(keep_state),
             record: |v| Record::Thermo(ThermoRecord::Value(v)),
         },
     );
-    let sets: Vec<HeatCapacityFit> = incoming
-        .heat_capacity
-        .iter()
-        .map(|h| h.with_review(arriving(h.review)))
-        .collect();
     plan_records(
         plan,
-        &sets,
+        &arriving(&incoming.heat_capacity, keep_state),
         &existing.heat_capacity,
         RecordKind {
+            entity: "heat-capacity",
             key: |h: &HeatCapacityFit| h.solute.clone(),
-            describe: |h| {
-                let summary = format!(
-                    "Laliberté heat-capacity coefficients, {}, source {}",
-                    h.review.as_str(),
-                    h.source
-                );
-                (format!("heat-capacity:{}", h.solute), summary)
+            summary: |h| {
+                summary_citing("Laliberté heat-capacity coefficients", h.review, &h.source)
             },
             kind: state_aside(keep_state),
             record: |h| Record::Thermo(ThermoRecord::HeatCapacity(h)),

@@ -4,7 +4,7 @@
 use rusqlite::{Connection, Transaction, params};
 
 use super::StoreError;
-use super::read::{corrupt, word};
+use super::read::{corrupt, records, word_at};
 use crate::model::thermo::{
     HeatCapacityFit, ThermoQuantity, ThermoState, ThermoValue, Thermochemistry,
 };
@@ -81,91 +81,63 @@ pub(crate) fn upsert_heat_capacity(
 
 /// Reads every record, in the order written.
 pub(crate) fn read(conn: &Connection) -> Result<Thermochemistry, StoreError> {
-    let mut thermo = Thermochemistry::default();
-    let mut stmt = conn.prepare_cached(
+    let values = records(
+        conn,
         "SELECT file, quantity, state, stage, species, value, source, provenance, review, note
          FROM thermo_values ORDER BY id",
+        [],
+        |r| {
+            let quantity: String = r.get(1)?;
+            let quantity = ThermoQuantity::from_name(&quantity)
+                .ok_or_else(|| corrupt(format!("thermo_values: unknown quantity {quantity:?}")))?;
+            let state = match r.get::<_, Option<String>>(2)? {
+                Some(s) => Some(
+                    ThermoState::from_name(&s)
+                        .ok_or_else(|| corrupt(format!("thermo_values: unknown state {s:?}")))?,
+                ),
+                None => None,
+            };
+            Ok(ThermoValue {
+                file: r.get(0)?,
+                quantity,
+                state,
+                stage: r.get(3)?,
+                species: r.get(4)?,
+                value: r.get(5)?,
+                source: r.get(6)?,
+                provenance: word_at(r, 7)?,
+                review: word_at(r, 8)?,
+                note: r.get(9)?,
+            })
+        },
     )?;
-    let rows = stmt.query_map([], |r| {
-        Ok((
-            r.get::<_, String>(0)?,
-            r.get::<_, String>(1)?,
-            r.get::<_, Option<String>>(2)?,
-            r.get::<_, Option<u8>>(3)?,
-            r.get::<_, String>(4)?,
-            r.get::<_, f64>(5)?,
-            r.get::<_, String>(6)?,
-            r.get::<_, String>(7)?,
-            r.get::<_, String>(8)?,
-            r.get::<_, Option<String>>(9)?,
-        ))
-    })?;
-    for row in rows {
-        let (file, quantity, state, stage, species, value, source, prov, rev, note) = row?;
-        let quantity = ThermoQuantity::from_name(&quantity)
-            .ok_or_else(|| corrupt(format!("thermo_values: unknown quantity {quantity:?}")))?;
-        let state = match state {
-            Some(s) => Some(
-                ThermoState::from_name(&s)
-                    .ok_or_else(|| corrupt(format!("thermo_values: unknown state {s:?}")))?,
-            ),
-            None => None,
-        };
-        thermo.values.push(ThermoValue {
-            file,
-            quantity,
-            state,
-            stage,
-            species,
-            value,
-            source,
-            provenance: word(&prov)?,
-            review: word(&rev)?,
-            note,
-        });
-    }
-    let mut stmt = conn.prepare_cached(
+    let heat_capacity = records(
+        conn,
         "SELECT solute, file, a1, a2, a3, a4, a5, a6, t_min_c, t_max_c, w_max, source,
                 provenance, review, note
          FROM laliberte_heat_capacity ORDER BY rowid",
+        [],
+        |r| {
+            let mut a = [0.0; 6];
+            for (i, x) in a.iter_mut().enumerate() {
+                *x = r.get(2 + i)?;
+            }
+            Ok(HeatCapacityFit {
+                solute: r.get(0)?,
+                file: r.get(1)?,
+                a,
+                t_min_c: r.get(8)?,
+                t_max_c: r.get(9)?,
+                w_max: r.get(10)?,
+                source: r.get(11)?,
+                provenance: word_at(r, 12)?,
+                review: word_at(r, 13)?,
+                note: r.get(14)?,
+            })
+        },
     )?;
-    let rows = stmt.query_map([], |r| {
-        Ok((
-            r.get::<_, String>(0)?,
-            r.get::<_, String>(1)?,
-            [
-                r.get::<_, f64>(2)?,
-                r.get::<_, f64>(3)?,
-                r.get::<_, f64>(4)?,
-                r.get::<_, f64>(5)?,
-                r.get::<_, f64>(6)?,
-                r.get::<_, f64>(7)?,
-            ],
-            (
-                r.get::<_, f64>(8)?,
-                r.get::<_, f64>(9)?,
-                r.get::<_, f64>(10)?,
-            ),
-            r.get::<_, String>(11)?,
-            r.get::<_, String>(12)?,
-            r.get::<_, String>(13)?,
-            r.get::<_, Option<String>>(14)?,
-        ))
-    })?;
-    for row in rows {
-        let (solute, file, a, (t_min_c, t_max_c, w_max), source, prov, rev, note) = row?;
-        thermo.heat_capacity.push(HeatCapacityFit {
-            file,
-            solute,
-            a,
-            t_min_c,
-            t_max_c,
-            w_max,
-            source,
-            provenance: word(&prov)?,
-            review: word(&rev)?,
-            note,
-        });
-    }
-    Ok(thermo)
+    Ok(Thermochemistry {
+        values,
+        heat_capacity,
+    })
 }

@@ -62,6 +62,26 @@ fn bad(file: &str, record: &str, reason: String) -> StoreError {
     problem(file, record, SeedProblem::BadValue { reason })
 }
 
+/// A group's field that one quantity's groups need (`owner`'s, refused without it for the
+/// reason `needs`, and read by `read`) and every other group leaves out.
+fn owned_by<T, U>(
+    field: &str,
+    (quantity, owner): (ThermoQuantity, ThermoQuantity),
+    value: Option<T>,
+    needs: &str,
+    read: impl FnOnce(T) -> Result<U, String>,
+) -> Result<Option<U>, String> {
+    match (quantity == owner, value) {
+        (true, Some(v)) => read(v).map(Some),
+        (true, None) => Err(needs.to_string()),
+        (false, Some(_)) => Err(format!(
+            "`{field}` belongs to {} groups only",
+            owner.as_str()
+        )),
+        (false, None) => Ok(None),
+    }
+}
+
 /// Parses one file `thermochemistry/<stem>.toml` into `out`, checking sources against
 /// `source_keys` and duplicates against what `out` already holds.
 pub fn parse_file(
@@ -97,49 +117,36 @@ pub fn parse_file(
                 },
             ));
         }
-        let state = match (quantity, g.state.as_deref()) {
-            (ThermoQuantity::Formation, Some(s)) => {
-                Some(ThermoState::from_name(s).ok_or_else(|| {
-                    bad(
-                        path,
-                        &record,
-                        format!(
-                            "unknown state \"{s}\"; expected one of {}",
-                            ThermoState::NAMES.join(", ")
-                        ),
+        let state = owned_by(
+            "state",
+            (quantity, ThermoQuantity::Formation),
+            g.state.as_deref(),
+            "a formation group needs `state`",
+            |s| {
+                ThermoState::from_name(s).ok_or_else(|| {
+                    format!(
+                        "unknown state \"{s}\"; expected one of {}",
+                        ThermoState::NAMES.join(", ")
                     )
-                })?)
-            }
-            (ThermoQuantity::Formation, None) => {
-                return Err(bad(path, &record, "a formation group needs `state`".into()));
-            }
-            (_, Some(_)) => {
-                return Err(bad(
-                    path,
-                    &record,
-                    "`state` belongs to formation groups only".into(),
-                ));
-            }
-            (_, None) => None,
-        };
-        let stage = match (quantity, g.stage) {
-            (ThermoQuantity::Ionisation, Some(n)) if (1..=8).contains(&n) => Some(n),
-            (ThermoQuantity::Ionisation, _) => {
-                return Err(bad(
-                    path,
-                    &record,
-                    "an ionisation group needs `stage` from 1 to 8".into(),
-                ));
-            }
-            (_, Some(_)) => {
-                return Err(bad(
-                    path,
-                    &record,
-                    "`stage` belongs to ionisation groups only".into(),
-                ));
-            }
-            (_, None) => None,
-        };
+                })
+            },
+        )
+        .map_err(|why| bad(path, &record, why))?;
+        let needs_stage = "an ionisation group needs `stage` from 1 to 8";
+        let stage = owned_by(
+            "stage",
+            (quantity, ThermoQuantity::Ionisation),
+            g.stage,
+            needs_stage,
+            |n| {
+                if (1..=8).contains(&n) {
+                    Ok(n)
+                } else {
+                    Err(needs_stage.to_string())
+                }
+            },
+        )
+        .map_err(|why| bad(path, &record, why))?;
         if !source_keys.contains(g.source.as_str()) {
             return Err(problem(
                 path,
@@ -424,6 +431,23 @@ values = [["AB", -100.5], ["AB2", -200]]
             (GROUP.replace("\"formation\"", "\"warmth\""), "unknown quantity \"warmth\""),
             (GROUP.replace("kJ/mol", "kcal/mol"), "unknown unit \"kcal/mol\""),
             (GROUP.replace("state = \"cr\"\n", ""), "needs `state`"),
+            (GROUP.replace("\"cr\"", "\"plasma\""), "unknown state \"plasma\""),
+            (GROUP.replace("state = \"cr\"", "stage = 1"), "a formation group needs `state`"),
+            (
+                GROUP.replace("state = \"cr\"", "state = \"cr\"\nstage = 1"),
+                "`stage` belongs to ionisation groups only",
+            ),
+            (
+                GROUP.replace("\"formation\"", "\"ionisation\"").replace("kJ/mol", "eV"),
+                "`state` belongs to formation groups only",
+            ),
+            (
+                GROUP
+                    .replace("\"formation\"", "\"ionisation\"")
+                    .replace("kJ/mol", "eV")
+                    .replace("state = \"cr\"", "stage = 9"),
+                "an ionisation group needs `stage` from 1 to 8",
+            ),
             (GROUP.replace("\"src-a\"", "\"src-b\""), "unknown source key \"src-b\""),
             (GROUP.replace("-200]", "\"much\"]"), "line "),
             (GROUP.replace("-200]", "-1e6]"), "not a plausible formation"),

@@ -27,7 +27,7 @@ mod validate;
 
 pub use load::{fingerprint, read_seed_dir};
 pub(crate) use load::{hex, write};
-pub(crate) use validate::{check_slug, optional, problem, syntax};
+pub(crate) use validate::{check_slug, first_use, optional, problem, syntax};
 pub use validate::{parse_seed, parse_with_known, parse_with_known_sources, to_mass_fraction};
 
 /// Lowest temperature of a liquid point in seed data: −55 °C.
@@ -186,12 +186,13 @@ points = {points}
         )
     }
 
+    /// The demo sources and `text` as the demo salt's file.
+    fn solute_file(text: &str) -> Result<Contents, StoreError> {
+        parse_seed(&[("sources.toml", SOURCES), ("solutes/demo-salt.toml", text)])
+    }
+
     fn parse(points: &str) -> Result<Contents, StoreError> {
-        let text = solute(points);
-        parse_seed(&[
-            ("sources.toml", SOURCES),
-            ("solutes/demo-salt.toml", text.as_str()),
-        ])
+        solute_file(&solute(points))
     }
 
     #[test]
@@ -274,10 +275,7 @@ points = {points}
     #[test]
     fn a_key_that_is_not_a_slug_is_refused() {
         let text = solute("[[0, 1.0]]").replace("key = \"d\"", "key = \"Crc 97\"");
-        let message = reason(parse_seed(&[
-            ("sources.toml", SOURCES),
-            ("solutes/demo-salt.toml", text.as_str()),
-        ]));
+        let message = reason(solute_file(&text));
         assert!(
             message.contains("dataset \"Crc 97\": \"Crc 97\" is not a valid key"),
             "{message}"
@@ -292,28 +290,19 @@ points = {points}
             "{message}"
         );
         let text = solute("[[0, 120]]").replace("g/100g water", "%w/w");
-        let message = reason(parse_seed(&[
-            ("sources.toml", SOURCES),
-            ("solutes/demo-salt.toml", text.as_str()),
-        ]));
+        let message = reason(solute_file(&text));
         assert!(
             message.contains("120 %w/w is not a possible composition"),
             "{message}"
         );
         let text = solute("[[0, 1.0]]").replace("ions = 2\n", "");
-        let message = reason(parse_seed(&[
-            ("sources.toml", SOURCES),
-            ("solutes/demo-salt.toml", text.as_str()),
-        ]));
+        let message = reason(solute_file(&text));
         assert!(message.contains("a salt needs `ions`"), "{message}");
         let text = format!(
             "{}\n[[henry]]\nkey = \"h\"\nsource = \"demo\"\nprovenance = \"derived\"\nreview = \"unreviewed\"\nform = \"vant-hoff\"\nconvention = \"Hcc\"\nvalue = 1.0\nreference_temperature_k = 298.15\ntemperature_term_k = 0\n",
             solute("[[0, 1.0]]")
         );
-        let message = reason(parse_seed(&[
-            ("sources.toml", SOURCES),
-            ("solutes/demo-salt.toml", text.as_str()),
-        ]));
+        let message = reason(solute_file(&text));
         assert!(
             message.contains("henry \"h\": Henry's-law records belong to gases"),
             "{message}"
@@ -323,10 +312,7 @@ points = {points}
     #[test]
     fn a_hydrate_formula_for_the_solute_is_refused() {
         let text = solute("[[0, 1.0]]").replace("formula = \"KCl\"", "formula = \"KCl·2H2O\"");
-        let message = reason(parse_seed(&[
-            ("sources.toml", SOURCES),
-            ("solutes/demo-salt.toml", text.as_str()),
-        ]));
+        let message = reason(solute_file(&text));
         assert!(
             message.contains("includes water of crystallisation"),
             "{message}"

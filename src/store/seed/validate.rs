@@ -43,6 +43,29 @@ pub(crate) fn syntax(file: &str, text: &str, e: &toml::de::Error) -> StoreError 
     )
 }
 
+/// Refuses `key` when `seen` holds it already (a second record of the same key in one file),
+/// and remembers it otherwise; `what` names the kind of key, e.g. `dataset key`.
+pub(crate) fn first_use(
+    seen: &mut HashSet<String>,
+    file: &str,
+    record: &str,
+    what: &str,
+    key: &str,
+) -> Result<(), StoreError> {
+    if seen.insert(key.to_string()) {
+        Ok(())
+    } else {
+        Err(problem(
+            file,
+            record,
+            SeedProblem::Duplicate {
+                what: what.to_string(),
+                id: key.to_string(),
+            },
+        ))
+    }
+}
+
 pub(super) fn is_slug(s: &str) -> bool {
     !s.is_empty()
         && s.bytes()
@@ -306,16 +329,7 @@ pub(super) fn parse_sources(file: &str, text: &str) -> Result<Vec<Source>, Store
     for s in raw.source {
         let record = format!("source \"{}\"", s.key);
         check_slug(file, &record, &s.key)?;
-        if !seen.insert(s.key.clone()) {
-            return Err(problem(
-                file,
-                &record,
-                SeedProblem::Duplicate {
-                    what: "source key".to_string(),
-                    id: s.key,
-                },
-            ));
-        }
+        first_use(&mut seen, file, &record, "source key", &s.key)?;
         out.push(Source {
             key: s.key,
             kind: s.kind,
@@ -423,16 +437,7 @@ pub(super) fn parse_solute(
     for d in raw.dataset {
         let record = format!("dataset \"{}\"", d.key);
         check_slug(file, &record, &d.key)?;
-        if !keys.insert(d.key.clone()) {
-            return Err(problem(
-                file,
-                &record,
-                SeedProblem::Duplicate {
-                    what: "dataset key".to_string(),
-                    id: d.key,
-                },
-            ));
-        }
+        first_use(&mut keys, file, &record, "dataset key", &d.key)?;
         check_source(&record, &d.source)?;
         let unit = composition_unit(file, &record, &d.unit)?;
         let t_unit = temperature_unit(file, &record, &d.temperature_unit)?;
@@ -575,16 +580,7 @@ pub(super) fn parse_solute(
     for h in raw.henry {
         let record = format!("henry \"{}\"", h.key);
         check_slug(file, &record, &h.key)?;
-        if !henry_keys.insert(h.key.clone()) {
-            return Err(problem(
-                file,
-                &record,
-                SeedProblem::Duplicate {
-                    what: "henry key".to_string(),
-                    id: h.key,
-                },
-            ));
-        }
+        first_use(&mut henry_keys, file, &record, "henry key", &h.key)?;
         check_source(&record, &h.source)?;
         gas_constants.push(parse_henry(file, &record, &raw.id, h)?);
     }

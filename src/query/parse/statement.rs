@@ -460,12 +460,8 @@ pub(super) fn binding<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
 
 pub(super) fn let_value<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Value> {
     let t = skip(i);
-    if let Some(range) = bare_range(cx, t) {
+    if let Some(range) = range_here(cx, t) {
         let (rest, range) = range?;
-        return Ok((rest, Value::Range(range)));
-    }
-    if has_keyword(t, "from").is_some() || has_keyword(t, "between").is_some() {
-        let (rest, range) = range_from(cx, t)?;
         return Ok((rest, Value::Range(range)));
     }
     if starts_number(t) {
@@ -559,14 +555,11 @@ pub(super) fn solute_list<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Vec<Name>> {
 pub(super) fn plot<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     let (i, solutes) = solute_list(cx, i)?;
     let t = skip(i);
-    let (mut rest, range) = if let Some(range) = bare_range(cx, t) {
+    let (mut rest, range) = if let Some(range) = range_here(cx, t) {
         let (r, range) = range?;
         (r, Some(range))
-    } else if has_keyword(t, "from").is_some() || has_keyword(t, "between").is_some() {
-        let (r, range) = range_from(cx, t)?;
-        (r, Some(range))
     } else if let Some(after) = has_keyword(t, "over") {
-        if has_keyword(after, "from").is_some() || has_keyword(after, "between").is_some() {
+        if opens_range(after) {
             let (r, range) = range_from(cx, after)?;
             (r, Some(range))
         } else {

@@ -245,6 +245,20 @@ pub(super) fn tail_after<'a>(
     clauses(cx, i, allowed, earlier, lead, true)
 }
 
+/// A statement's required part, read by `part`, with the closing clauses `allowed` before
+/// or after it (`dissolved O2 in mg/L at 4 C` and `dissolved O2 at 4 C in mg/L`).
+pub(super) fn with_clauses<'a, T>(
+    cx: Cx<'a>,
+    i: &'a str,
+    allowed: &[Clause],
+    part: impl FnOnce(Cx<'a>, &'a str) -> R<'a, T>,
+) -> R<'a, (T, Tail)> {
+    let (i, lead) = lead(cx, i, allowed)?;
+    let (i, found) = part(cx, i)?;
+    let (i, tail) = tail_after(cx, i, allowed, &[], lead)?;
+    Ok((i, (found, tail)))
+}
+
 fn clauses<'a>(
     cx: Cx<'a>,
     i: &'a str,

@@ -87,19 +87,14 @@ mod tests {
 
     #[test]
     fn numbers_and_units_are_left_alone() {
-        assert_eq!(
-            subscripts("loading 30 g/100g water"),
-            "loading 30 g/100g water"
-        );
-        assert_eq!(
-            subscripts("storage range 2 °C to 8 °C"),
-            "storage range 2 °C to 8 °C"
-        );
-        assert_eq!(
-            subscripts("Perry et al. 1997 (perry-7-solubility)"),
-            "Perry et al. 1997 (perry-7-solubility)"
-        );
-        assert_eq!(subscripts("at 32.4 °C"), "at 32.4 °C");
+        for text in [
+            "loading 30 g/100g water",
+            "storage range 2 °C to 8 °C",
+            "Perry et al. 1997 (perry-7-solubility)",
+            "at 32.4 °C",
+        ] {
+            assert_eq!(subscripts(text), text);
+        }
     }
 
     #[test]

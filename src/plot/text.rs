@@ -75,14 +75,18 @@ mod tests {
 
     #[test]
     fn formula_digits_become_subscripts() {
-        assert_eq!(subscripts("KNO3"), "KNO₃");
-        assert_eq!(subscripts("Na2SO4·10H2O → Na2SO4"), "Na₂SO₄·10H₂O → Na₂SO₄");
-        assert_eq!(subscripts("(NH4)2SO4"), "(NH₄)₂SO₄");
-        assert_eq!(subscripts("oxygen (O2)"), "oxygen (O₂)");
-        assert_eq!(
-            subscripts("potassium nitrate: solid KNO3"),
-            "potassium nitrate: solid KNO₃"
-        );
+        for (text, written) in [
+            ("KNO3", "KNO₃"),
+            ("Na2SO4·10H2O → Na2SO4", "Na₂SO₄·10H₂O → Na₂SO₄"),
+            ("(NH4)2SO4", "(NH₄)₂SO₄"),
+            ("oxygen (O2)", "oxygen (O₂)"),
+            (
+                "potassium nitrate: solid KNO3",
+                "potassium nitrate: solid KNO₃",
+            ),
+        ] {
+            assert_eq!(subscripts(text), written);
+        }
     }
 
     #[test]

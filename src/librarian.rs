@@ -136,14 +136,8 @@ pub fn review(
     note: &str,
     actor: Option<&str>,
 ) -> Result<Change, StoreError> {
-    let actor = audit::actor(actor);
-    named(
-        path,
-        Store::open(path).and_then(|mut s| s.review(dataset, decision, note, &actor)),
-    )?;
-    Ok(Change {
-        dataset: dataset.to_string(),
-        actor,
+    change_dataset(path, dataset, actor, |store, actor| {
+        store.review(dataset, decision, note, actor)
     })
 }
 
@@ -155,10 +149,23 @@ pub fn set_retired(
     note: Option<&str>,
     actor: Option<&str>,
 ) -> Result<Change, StoreError> {
+    change_dataset(path, dataset, actor, |store, actor| {
+        store.set_retired(dataset, change, note, actor)
+    })
+}
+
+/// Opens the database at `path` and makes one change to `dataset` as `actor` (the user's
+/// name when not given, as for every audit row).
+fn change_dataset<T>(
+    path: &Path,
+    dataset: &str,
+    actor: Option<&str>,
+    write: impl FnOnce(&mut Store, &str) -> Result<T, StoreError>,
+) -> Result<Change, StoreError> {
     let actor = audit::actor(actor);
     named(
         path,
-        Store::open(path).and_then(|mut s| s.set_retired(dataset, change, note, &actor)),
+        Store::open(path).and_then(|mut store| write(&mut store, &actor)),
     )?;
     Ok(Change {
         dataset: dataset.to_string(),

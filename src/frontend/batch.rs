@@ -249,40 +249,32 @@ pub fn run_std(
     let stderr = io::stderr();
     let mut stdin = stdin.lock();
     let mut stderr = stderr.lock();
-    if stdout.is_terminal() {
+    let terminal = stdout.is_terminal();
+    let mut out: Box<dyn Write> = if terminal {
         // A person is reading: each answer appears as it is ready, in step with the
-        // messages on the error stream (standard output is line-buffered). A table shows a
-        // statement's error in place, with its position: it is not repeated on stderr.
-        run_showing(
-            db,
-            recipes,
-            sources,
-            format,
-            pictures,
-            (&mut stdin, &mut stdout.lock(), &mut stderr),
-            Showing {
-                layout: super::screen::layout(layout.width, layout.full),
-                errors_in_place: format == Format::Table,
-            },
-        )
+        // messages on the error stream (standard output is line-buffered).
+        Box::new(stdout.lock())
     } else {
         // A program is reading: answers are many small writes, and a buffer keeps a long
         // script from costing a system call per line (64 KiB: a screening's answer is tens
         // of kilobytes). It is flushed before returning.
-        let mut out = io::BufWriter::with_capacity(1 << 16, stdout.lock());
-        run_showing(
-            db,
-            recipes,
-            sources,
-            format,
-            pictures,
-            (&mut stdin, &mut out, &mut stderr),
-            Showing {
-                layout: super::screen::layout(layout.width, layout.full),
-                errors_in_place: false,
-            },
-        )
-    }
+        Box::new(io::BufWriter::with_capacity(1 << 16, stdout.lock()))
+    };
+    // On a terminal a table shows a statement's error in place, with its position: it is
+    // not repeated on stderr.
+    let showing = Showing {
+        layout: super::screen::layout(layout.width, layout.full),
+        errors_in_place: terminal && format == Format::Table,
+    };
+    run_showing(
+        db,
+        recipes,
+        sources,
+        format,
+        pictures,
+        (&mut stdin, &mut out, &mut stderr),
+        showing,
+    )
 }
 
 /// Answers statements given as command-line arguments (`satline "<statements>"`), with
@@ -560,9 +552,24 @@ mod tests {
         );
     }
 
+    /// Runs `scripts` on the embedded catalog, answers to `out`; the outcome and what was
+    /// written to the error stream.
+    fn run_into(scripts: &[Script], format: Format, out: &mut impl Write) -> (Outcome, String) {
+        let engine = open_engine(None).unwrap();
+        let mut err = Vec::new();
+        let outcome = run_scripts(
+            &engine,
+            scripts,
+            format,
+            &Pictures::default(),
+            out,
+            &mut err,
+        );
+        (outcome, String::from_utf8(err).unwrap())
+    }
+
     #[test]
     fn run_reports_every_unanswered_statement_and_writes_all_answers() {
-        let engine = open_engine(None).unwrap();
         let scripts = vec![
             Script {
                 name: "a.sl".into(),
@@ -574,18 +581,9 @@ mod tests {
             },
         ];
         let mut out = Vec::new();
-        let mut err = Vec::new();
-        let outcome = run_scripts(
-            &engine,
-            &scripts,
-            Format::Json,
-            &Pictures::default(),
-            &mut out,
-            &mut err,
-        );
+        let (outcome, err) = run_into(&scripts, Format::Json, &mut out);
         // With any engine these two lines are not statements of the language.
         assert_eq!(outcome, Outcome::Unanswered);
-        let err = String::from_utf8(err).unwrap();
         let lines: Vec<&str> = err.lines().collect();
         assert_eq!(lines.len(), 2, "{err}");
         assert!(lines[0].starts_with("b.sl:1:"), "{err}");
@@ -607,22 +605,13 @@ mod tests {
 
     #[test]
     fn closed_pipe_ends_quietly() {
-        let engine = open_engine(None).unwrap();
         let scripts = vec![Script {
             name: "a.sl".into(),
             text: "describe NaCl\ndescribe KCl\n".into(),
         }];
-        let mut err = Vec::new();
-        let outcome = run_scripts(
-            &engine,
-            &scripts,
-            Format::Table,
-            &Pictures::default(),
-            &mut ClosedPipe,
-            &mut err,
-        );
+        let (outcome, err) = run_into(&scripts, Format::Table, &mut ClosedPipe);
         assert_ne!(outcome, Outcome::Trouble);
-        assert!(!String::from_utf8(err).unwrap().contains("cannot write"));
+        assert!(!err.contains("cannot write"));
     }
 
     #[test]

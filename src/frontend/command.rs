@@ -68,28 +68,12 @@ pub fn parse(line: &str) -> Option<Result<SessionCommand, CommandError>> {
         }
     };
     let parsed = match first.as_str() {
-        "help" | "?" => {
-            if rest.is_empty() {
-                Ok(SessionCommand::Help(None))
-            } else {
-                help::find(rest)
-                    .map(|topic| SessionCommand::Help(Some(topic)))
-                    .ok_or_else(|| CommandError::UnknownTopic {
-                        given: rest.to_string(),
-                    })
-            }
-        }
-        "output" => {
-            if rest.is_empty() {
-                Ok(SessionCommand::Output(None))
-            } else {
-                Format::from_name(rest)
-                    .map(|format| SessionCommand::Output(Some(format)))
-                    .ok_or_else(|| CommandError::UnknownFormat {
-                        given: rest.to_string(),
-                    })
-            }
-        }
+        "help" | "?" => optional(rest, help::find)
+            .map(SessionCommand::Help)
+            .map_err(|given| CommandError::UnknownTopic { given }),
+        "output" => optional(rest, Format::from_name)
+            .map(SessionCommand::Output)
+            .map_err(|given| CommandError::UnknownFormat { given }),
         "save" => {
             if rest.is_empty() {
                 Err(CommandError::MissingFile)
@@ -104,6 +88,15 @@ pub fn parse(line: &str) -> Option<Result<SessionCommand, CommandError>> {
         _ => return None,
     };
     Some(parsed)
+}
+
+/// The word after a command that takes one at most (`help [TOPIC]`, `output [FORMAT]`):
+/// none, or one that `find` knows; `Err` holds a word it does not know.
+fn optional<T>(rest: &str, find: impl FnOnce(&str) -> Option<T>) -> Result<Option<T>, String> {
+    if rest.is_empty() {
+        return Ok(None);
+    }
+    find(rest).map(Some).ok_or_else(|| rest.to_string())
 }
 
 #[cfg(test)]

@@ -200,53 +200,54 @@ mod tests {
         ])
     }
 
+    /// The word completed at the end of `line`, and its completions.
+    fn at_end(line: &str) -> (&str, Vec<String>) {
+        let (start, matches) = vocabulary().complete(line, line.len());
+        (&line[start..], matches)
+    }
+
+    /// Completing at the end of `line` replaces `word` with one of `matches`.
+    fn completes(line: &str, word: &str, matches: &[&str]) {
+        let (completed, found) = at_end(line);
+        assert_eq!(completed, word, "{line}");
+        assert_eq!(found, matches, "{line}");
+    }
+
     #[test]
     fn completes_a_solute_name_over_two_words() {
-        let v = vocabulary();
-        let line = "solubility of potassium ni";
-        let (start, matches) = v.complete(line, line.len());
-        assert_eq!(&line[start..], "potassium ni");
-        assert_eq!(matches, ["potassium nitrate"]);
+        completes(
+            "solubility of potassium ni",
+            "potassium ni",
+            &["potassium nitrate"],
+        );
     }
 
     #[test]
     fn completes_formulas_ignoring_case() {
-        let v = vocabulary();
-        let line = "describe kn";
-        let (start, matches) = v.complete(line, line.len());
-        assert_eq!(start, 9);
-        assert_eq!(matches, ["KNO3"]);
+        completes("describe kn", "kn", &["KNO3"]);
     }
 
     #[test]
     fn completes_keywords_units_and_commands() {
-        let v = vocabulary();
         assert_eq!(
-            v.complete("solu", 4).1,
+            at_end("solu").1,
             ["solubility", "solute", "solutes", "solution"]
         );
-        let line = "convert 20 g/1";
-        assert_eq!(v.complete(line, line.len()).1, ["g/100g water"]);
-        assert_eq!(v.complete("outp", 4).1, ["output"]);
-        let line = "help req";
-        assert_eq!(v.complete(line, line.len()).1, ["require"]);
+        assert_eq!(at_end("convert 20 g/1").1, ["g/100g water"]);
+        assert_eq!(at_end("outp").1, ["output"]);
+        assert_eq!(at_end("help req").1, ["require"]);
     }
 
     #[test]
     fn nothing_after_a_space_or_for_unknown_text() {
-        let v = vocabulary();
-        assert_eq!(v.complete("solubility of ", 14).1, Vec::<String>::new());
-        assert_eq!(v.complete("zzz", 3).1, Vec::<String>::new());
-        assert_eq!(v.complete("", 0).1, Vec::<String>::new());
+        for line in ["solubility of ", "zzz", ""] {
+            assert_eq!(at_end(line).1, Vec::<String>::new(), "{line}");
+        }
     }
 
     #[test]
     fn completion_after_a_let_sign_starts_after_it() {
-        let v = vocabulary();
-        let line = "let cold =fro";
-        let (start, matches) = v.complete(line, line.len());
-        assert_eq!(&line[start..], "fro");
-        assert_eq!(matches, ["from"]);
+        completes("let cold =fro", "fro", &["from"]);
     }
 
     #[test]

@@ -75,31 +75,30 @@ mod tests {
 
     #[test]
     fn formula_digits_become_subscripts() {
-        assert_eq!(subscripts("KNO3"), "KNO₃");
-        assert_eq!(subscripts("Na2SO4·10H2O → Na2SO4"), "Na₂SO₄·10H₂O → Na₂SO₄");
-        assert_eq!(subscripts("(NH4)2SO4"), "(NH₄)₂SO₄");
-        assert_eq!(subscripts("oxygen (O2)"), "oxygen (O₂)");
-        assert_eq!(
-            subscripts("potassium nitrate: solid KNO3"),
-            "potassium nitrate: solid KNO₃"
-        );
+        for (text, written) in [
+            ("KNO3", "KNO₃"),
+            ("Na2SO4·10H2O → Na2SO4", "Na₂SO₄·10H₂O → Na₂SO₄"),
+            ("(NH4)2SO4", "(NH₄)₂SO₄"),
+            ("oxygen (O2)", "oxygen (O₂)"),
+            (
+                "potassium nitrate: solid KNO3",
+                "potassium nitrate: solid KNO₃",
+            ),
+        ] {
+            assert_eq!(subscripts(text), written);
+        }
     }
 
     #[test]
     fn numbers_and_units_are_left_alone() {
-        assert_eq!(
-            subscripts("loading 30 g/100g water"),
-            "loading 30 g/100g water"
-        );
-        assert_eq!(
-            subscripts("storage range 2 °C to 8 °C"),
-            "storage range 2 °C to 8 °C"
-        );
-        assert_eq!(
-            subscripts("Perry et al. 1997 (perry-7-solubility)"),
-            "Perry et al. 1997 (perry-7-solubility)"
-        );
-        assert_eq!(subscripts("at 32.4 °C"), "at 32.4 °C");
+        for text in [
+            "loading 30 g/100g water",
+            "storage range 2 °C to 8 °C",
+            "Perry et al. 1997 (perry-7-solubility)",
+            "at 32.4 °C",
+        ] {
+            assert_eq!(subscripts(text), text);
+        }
     }
 
     #[test]

@@ -210,29 +210,35 @@ mod tests {
 
     #[test]
     fn a_suggestion_a_thousand_times_off_says_so() {
-        assert_eq!(
-            scale_warning("nmol/L", Some("umol/L")),
-            " (careful: `umol/L` is 1000 times `nmol/L`)"
-        );
-        assert_eq!(
-            scale_warning("ug/L", Some("mg/L")),
-            " (careful: `mg/L` is 1000 times `ug/L`)"
-        );
-        assert_eq!(
-            scale_warning("kmol/L", Some("mmol/L")),
-            " (careful: `kmol/L` is 1000000 times `mmol/L`)"
-        );
-        assert_eq!(
-            scale_warning("g/kg", Some("mg/kg")),
-            " (careful: `g/kg` is 1000 times `mg/kg`)"
-        );
-        assert_eq!(scale_warning("mol/kgg", Some("mol/kg")), "");
-        assert_eq!(scale_warning("mol/l", Some("mol/L")), "");
-        assert_eq!(
-            scale_warning("nM", Some("uM")),
-            " (careful: `uM` is 1000 times `nM`)"
-        );
-        assert_eq!(scale_warning("x", None), "");
+        let cases = [
+            (
+                "nmol/L",
+                Some("umol/L"),
+                " (careful: `umol/L` is 1000 times `nmol/L`)",
+            ),
+            (
+                "ug/L",
+                Some("mg/L"),
+                " (careful: `mg/L` is 1000 times `ug/L`)",
+            ),
+            (
+                "kmol/L",
+                Some("mmol/L"),
+                " (careful: `kmol/L` is 1000000 times `mmol/L`)",
+            ),
+            (
+                "g/kg",
+                Some("mg/kg"),
+                " (careful: `g/kg` is 1000 times `mg/kg`)",
+            ),
+            ("mol/kgg", Some("mol/kg"), ""),
+            ("mol/l", Some("mol/L"), ""),
+            ("nM", Some("uM"), " (careful: `uM` is 1000 times `nM`)"),
+            ("x", None, ""),
+        ];
+        for (given, suggested, warning) in cases {
+            assert_eq!(scale_warning(given, suggested), warning, "{given}");
+        }
     }
 
     #[test]

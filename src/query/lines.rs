@@ -63,11 +63,10 @@ mod tests {
     use super::*;
     use crate::query::line_column;
 
-    #[test]
-    fn agrees_with_counting_from_the_start() {
-        let text = "a\nb°c x\n\n;; y\r\nlast";
+    /// Finds each of `offsets` in `text` in the order given, as counting from the start does.
+    fn agrees(text: &str, offsets: impl IntoIterator<Item = usize>) {
         let index = LineIndex::new(text);
-        for offset in 0..=text.len() + 3 {
+        for offset in offsets {
             assert_eq!(
                 index.line_column(text, offset),
                 line_column(text, offset),
@@ -77,19 +76,18 @@ mod tests {
     }
 
     #[test]
+    fn agrees_with_counting_from_the_start() {
+        let text = "a\nb°c x\n\n;; y\r\nlast";
+        agrees(text, 0..=text.len() + 3);
+    }
+
+    #[test]
     fn agrees_in_any_order_of_positions() {
         let text = "one\n\ntwo°three\nfour\n\n\nfive é\n";
-        let index = LineIndex::new(text);
         // Backwards, then jumping about.
         let mut offsets: Vec<usize> = (0..=text.len() + 2).rev().collect();
         offsets.extend([3, 20, 0, 11, 4, 5, 27, 1, text.len(), 6]);
-        for offset in offsets {
-            assert_eq!(
-                index.line_column(text, offset),
-                line_column(text, offset),
-                "offset {offset}"
-            );
-        }
+        agrees(text, offsets);
     }
 
     #[test]

@@ -13,9 +13,10 @@ use axum::response::{IntoResponse, Response};
 use serde::Deserialize;
 use serde_json::{Value, json};
 
+use super::Shared;
+use super::auth::{self, Librarian};
 use super::limits::read_body;
 use super::reply::{self, ApiError, ErrorFields};
-use super::{Shared, auth};
 use crate::engine::Engine;
 use crate::librarian;
 use crate::store::StoreError;
@@ -115,13 +116,11 @@ where
     security(("bearer" = [])))]
 pub(crate) async fn import(
     State(state): State<Shared>,
+    _: Librarian,
     params: Result<Query<ImportParams>, axum::extract::rejection::QueryRejection>,
     headers: HeaderMap,
     body: Body,
 ) -> Response {
-    if let Err(e) = auth::authorize(state.token.as_ref(), &headers) {
-        return e.into_response();
-    }
     let Query(params) = match params {
         Ok(p) => p,
         Err(e) => {

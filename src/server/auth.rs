@@ -4,11 +4,13 @@
 use std::fmt;
 use std::path::Path;
 
+use axum::extract::FromRequestParts;
+use axum::http::request::Parts;
 use axum::http::{HeaderMap, StatusCode, header};
 use sha2::{Digest, Sha256};
 
-use super::ServerError;
 use super::reply::ApiError;
+use super::{ServerError, Shared};
 
 /// The secret that write operations must present. Its `Debug` form never shows it.
 #[derive(Clone)]
@@ -87,6 +89,18 @@ pub(crate) fn authorize(token: Option<&Token>, headers: &HeaderMap) -> Result<()
         Ok(())
     } else {
         Err(unauthorized("the bearer token is not the server's token"))
+    }
+}
+
+/// A request that presented the token. A handler taking it answers only such requests; the
+/// others get the reply of [`authorize`] (403 on a read-only server, 401 otherwise).
+pub(crate) struct Librarian;
+
+impl FromRequestParts<Shared> for Librarian {
+    type Rejection = ApiError;
+
+    async fn from_request_parts(parts: &mut Parts, state: &Shared) -> Result<Self, ApiError> {
+        authorize(state.token.as_ref(), &parts.headers).map(|()| Librarian)
     }
 }
 

@@ -4,15 +4,16 @@
 //! through `POST /v1/admin/review`.
 
 use axum::Router;
-use axum::extract::rejection::PathRejection;
-use axum::extract::{Path, State};
-use axum::http::{HeaderMap, StatusCode};
+use axum::extract::State;
+use axum::http::StatusCode;
 use axum::response::{IntoResponse, Response};
 use axum::routing::get;
 use serde_json::{Value, json};
 
+use super::Shared;
+use super::auth::Librarian;
 use super::reply::{self, ApiError};
-use super::{Shared, auth};
+use super::routes::Segment;
 use crate::store::{self, Store, StoreError};
 
 /// The routes of this module; merged into the server's router.
@@ -35,14 +36,11 @@ fn store_error(e: StoreError) -> ApiError {
 }
 
 /// Reads from the server's database (the file, or the embedded default) on a blocking
-/// thread, once the token is checked.
-async fn read<F>(state: Shared, headers: HeaderMap, what: F) -> Response
+/// thread.
+async fn read<F>(state: Shared, what: F) -> Response
 where
     F: FnOnce(&Store) -> Result<Value, StoreError> + Send + 'static,
 {
-    if let Err(e) = auth::authorize(state.token.as_ref(), &headers) {
-        return e.into_response();
-    }
     let db = state.db.clone();
     let done = tokio::task::spawn_blocking(move || {
         let store = match &db {
@@ -67,8 +65,8 @@ where
         super::responses::GuardedErrors
     ),
     security(("bearer" = [])))]
-pub(super) async fn queue(State(state): State<Shared>, headers: HeaderMap) -> Response {
-    read(state, headers, |store| {
+pub(super) async fn queue(State(state): State<Shared>, _: Librarian) -> Response {
+    read(state, |store| {
         let records = store.unreviewed()?;
         Ok(json!({"count": records.len(), "records": records}))
     })
@@ -86,21 +84,10 @@ pub(super) async fn queue(State(state): State<Shared>, headers: HeaderMap) -> Re
     security(("bearer" = [])))]
 pub(super) async fn history(
     State(state): State<Shared>,
-    headers: HeaderMap,
-    solute: Result<Path<String>, PathRejection>,
+    Segment(name): Segment,
+    _: Librarian,
 ) -> Response {
-    let name = match solute {
-        Ok(Path(name)) => name,
-        Err(e) => {
-            return ApiError::new(
-                StatusCode::BAD_REQUEST,
-                "bad-parameter",
-                format!("the path cannot be read: {e}"),
-            )
-            .into_response();
-        }
-    };
-    read(state, headers, move |store| {
+    read(state, move |store| {
         let (id, entries) = store.history(&name)?;
         Ok(json!({"solute": id, "count": entries.len(), "entries": entries}))
     })

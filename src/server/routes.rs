@@ -8,8 +8,9 @@ use std::time::Instant;
 
 use axum::Router;
 use axum::body::Body;
-use axum::extract::rejection::{PathRejection, QueryRejection};
-use axum::extract::{Path, Query, State};
+use axum::extract::rejection::QueryRejection;
+use axum::extract::{FromRequestParts, Path, Query, State};
+use axum::http::request::Parts;
 use axum::http::{HeaderMap, Method, StatusCode, Uri, header};
 use axum::middleware;
 use axum::response::{IntoResponse, Response};
@@ -17,10 +18,11 @@ use axum::routing::{get, post};
 use serde::Deserialize;
 use serde_json::{Value, json};
 
+use super::Shared;
+use super::auth::Librarian;
 use super::layers::{catch_panic, log_request, panic_message};
 use super::limits::{Permit, admit, read_body};
 use super::reply::{self, ApiError, ErrorFields, line_column};
-use super::{Shared, auth};
 use crate::answer::{Answer, AnswerKind, ErrorClass};
 use crate::catalog::{Catalog, citation};
 use crate::engine::{Engine, Prepared, Session};
@@ -272,6 +274,24 @@ fn internal(message: String) -> Evaluated {
     )
 }
 
+/// The statements of a query's body, read within the time limit, with the engine's snapshot
+/// that answers them and a session holding the recipes sent along; or the error reply.
+async fn read_query(
+    state: &Shared,
+    headers: &HeaderMap,
+    body: Body,
+) -> Result<(String, Arc<Engine>, Session), ApiError> {
+    let read = tokio::time::timeout(
+        state.limits.time,
+        read_body(headers, body, state.limits.body_bytes),
+    );
+    let bytes = read.await.map_err(|_| time_limit(state))??;
+    let (text, recipes) = query_text(headers, &bytes)?;
+    let engine = state.engine();
+    let session = session_with(&engine, recipes.as_deref())?;
+    Ok((text, engine, session))
+}
+
 /// `POST /v1/query`: the answers to the statements of the body, the same JSON objects as
 /// `satline run --format json`, as one array.
 #[utoipa::path(post, path = "/v1/query", tag = "statements",
@@ -291,22 +311,8 @@ pub(super) async fn query(
 ) -> Response {
     let started = Instant::now();
     let deadline = started + state.limits.time;
-    let read = tokio::time::timeout(
-        state.limits.time,
-        read_body(&headers, body, state.limits.body_bytes),
-    );
-    let bytes = match read.await {
-        Err(_) => return time_limit(&state).into_response(),
-        Ok(Err(e)) => return e.into_response(),
-        Ok(Ok(bytes)) => bytes,
-    };
-    let (text, recipes) = match query_text(&headers, &bytes) {
-        Ok(text) => text,
-        Err(e) => return e.into_response(),
-    };
-    let engine = state.engine();
-    let session = match session_with(&engine, recipes.as_deref()) {
-        Ok(session) => session,
+    let (text, engine, session) = match read_query(&state, &headers, body).await {
+        Ok(read) => read,
         Err(e) => return e.into_response(),
     };
     let max_statements = state.limits.statements;
@@ -471,8 +477,19 @@ pub(super) async fn solutes(
     )
 }
 
-fn path_error(e: PathRejection) -> ApiError {
-    bad_parameter(format!("the path cannot be read: {e}"))
+/// The one segment a route's path names (`{name}`, `{key}`, `{solute}`), as text; a path
+/// that cannot be read (not UTF-8 once decoded) gets the 400 reply.
+pub(super) struct Segment(pub(super) String);
+
+impl<S: Send + Sync> FromRequestParts<S> for Segment {
+    type Rejection = ApiError;
+
+    async fn from_request_parts(parts: &mut Parts, state: &S) -> Result<Self, ApiError> {
+        match Path::<String>::from_request_parts(parts, state).await {
+            Ok(Path(segment)) => Ok(Segment(segment)),
+            Err(e) => Err(bad_parameter(format!("the path cannot be read: {e}"))),
+        }
+    }
 }
 
 /// `GET /v1/solutes/{name}`: one solute (by slug, name, formula or synonym) with its
@@ -483,14 +500,7 @@ fn path_error(e: PathRejection) -> ApiError {
         (status = 200, description = "`{solute, datasets, gas_constants, freezing, sources}`", body = Object),
         super::responses::RecordErrors
     ))]
-pub(super) async fn solute(
-    State(state): State<Shared>,
-    name: Result<Path<String>, PathRejection>,
-) -> Response {
-    let name = match name {
-        Ok(Path(name)) => name,
-        Err(e) => return path_error(e).into_response(),
-    };
+pub(super) async fn solute(State(state): State<Shared>, Segment(name): Segment) -> Response {
     let engine = state.engine();
     let description = match engine.catalog().describe(&name) {
         Ok(d) => d,
@@ -540,14 +550,7 @@ pub(super) async fn sources(State(state): State<Shared>) -> Response {
         (status = 200, description = "`{source}` with its citation", body = Object),
         super::responses::RecordErrors
     ))]
-pub(super) async fn source(
-    State(state): State<Shared>,
-    key: Result<Path<String>, PathRejection>,
-) -> Response {
-    let key = match key {
-        Ok(Path(key)) => key,
-        Err(e) => return path_error(e).into_response(),
-    };
+pub(super) async fn source(State(state): State<Shared>, Segment(key): Segment) -> Response {
     let engine = state.engine();
     match engine.catalog().source(&key) {
         Some(s) => reply::json(StatusCode::OK, &json!({"source": source_record(s)})),
@@ -618,22 +621,8 @@ pub(super) async fn plot(
     if let Err(e) = super::limits::check_picture(width, height) {
         return e.into_response();
     }
-    let read = tokio::time::timeout(
-        state.limits.time,
-        read_body(&headers, body, state.limits.body_bytes),
-    );
-    let bytes = match read.await {
-        Err(_) => return time_limit(&state).into_response(),
-        Ok(Err(e)) => return e.into_response(),
-        Ok(Ok(bytes)) => bytes,
-    };
-    let (text, recipes) = match query_text(&headers, &bytes) {
-        Ok(text) => text,
-        Err(e) => return e.into_response(),
-    };
-    let engine = state.engine();
-    let mut session = match session_with(&engine, recipes.as_deref()) {
-        Ok(session) => session,
+    let (text, engine, mut session) = match read_query(&state, &headers, body).await {
+        Ok(read) => read,
         Err(e) => return e.into_response(),
     };
     let task = tokio::task::spawn_blocking(move || {
@@ -699,10 +688,7 @@ pub(super) async fn health() -> Response {
         super::responses::GuardedErrors
     ),
     security(("bearer" = [])))]
-pub(super) async fn reload(State(state): State<Shared>, headers: HeaderMap) -> Response {
-    if let Err(e) = auth::authorize(state.token.as_ref(), &headers) {
-        return e.into_response();
-    }
+pub(super) async fn reload(State(state): State<Shared>, _: Librarian) -> Response {
     let db = state.db.clone();
     let opened = tokio::task::spawn_blocking(move || Engine::open(db.as_deref())).await;
     let fresh = match opened {

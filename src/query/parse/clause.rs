@@ -8,6 +8,7 @@ use super::super::error::ParseErrorKind;
 use super::super::lexicon::{ends_name, is_keyword, nearest, one_of};
 use super::plumbing::*;
 use super::quantity::*;
+use super::statement::gas_pressure;
 use crate::science::units::{CompositionUnit, TemperatureUnit};
 
 // ---------------------------------------------------------------------------------------
@@ -198,6 +199,23 @@ pub(super) fn duplicate(cx: Cx, t: &str, after: &str, clause: &str) -> NomErr<PE
     )
 }
 
+/// Reads the value of a clause (its word at `t`, its value at `after`) into `slot`, which
+/// must still be empty: a clause given twice is a duplicate.
+fn once<'a, T>(
+    cx: Cx<'a>,
+    (t, after): (&'a str, &'a str),
+    clause: &str,
+    slot: &mut Option<T>,
+    value: impl FnOnce(Cx<'a>, &'a str) -> R<'a, T>,
+) -> Result<&'a str, NomErr<PErr>> {
+    if slot.is_some() {
+        return Err(duplicate(cx, t, after, clause));
+    }
+    let (rest, found) = value(cx, after)?;
+    *slot = Some(found);
+    Ok(rest)
+}
+
 /// The optional clauses, in any order, then the end of the statement. `earlier` names
 /// optional words that could have stood before (for the message and the suggestion only).
 pub(super) fn tail<'a>(
@@ -227,6 +245,20 @@ pub(super) fn tail_after<'a>(
     clauses(cx, i, allowed, earlier, lead, true)
 }
 
+/// A statement's required part, read by `part`, with the closing clauses `allowed` before
+/// or after it (`dissolved O2 in mg/L at 4 C` and `dissolved O2 at 4 C in mg/L`).
+pub(super) fn with_clauses<'a, T>(
+    cx: Cx<'a>,
+    i: &'a str,
+    allowed: &[Clause],
+    part: impl FnOnce(Cx<'a>, &'a str) -> R<'a, T>,
+) -> R<'a, (T, Tail)> {
+    let (i, lead) = lead(cx, i, allowed)?;
+    let (i, found) = part(cx, i)?;
+    let (i, tail) = tail_after(cx, i, allowed, &[], lead)?;
+    Ok((i, (found, tail)))
+}
+
 fn clauses<'a>(
     cx: Cx<'a>,
     i: &'a str,
@@ -244,35 +276,17 @@ fn clauses<'a>(
         let (word, after) = next_word(t);
         let word = word.to_lowercase();
         let allows = |c: Clause| allowed.contains(&c);
+        let at = (t, after);
         if word == "under" && allows(Clause::Under) {
-            if out.pressure.is_some() {
-                return Err(duplicate(cx, t, after, "under"));
-            }
-            let (r, p) = super::statement::gas_pressure(cx, after)?;
-            out.pressure = Some(p);
-            rest = r;
+            rest = once(cx, at, "under", &mut out.pressure, gas_pressure)?;
         } else if word == "in" && allows(Clause::InComposition) {
-            if out.composition.is_some() {
-                return Err(duplicate(cx, t, after, "in"));
-            }
-            let (r, unit) = composition_unit(cx, after)?;
-            out.composition = Some(unit);
-            rest = r;
+            rest = once(cx, at, "in", &mut out.composition, composition_unit)?;
         } else if word == "in" && allows(Clause::InTemperature) {
-            if out.temperature.is_some() {
-                return Err(duplicate(cx, t, after, "in"));
-            }
-            let (r, unit) = temperature_unit(cx, after)?;
-            out.temperature = Some(unit);
-            rest = r;
+            rest = once(cx, at, "in", &mut out.temperature, temperature_unit)?;
         } else if word == "margin" && allows(Clause::Margin) {
-            if out.margin.is_some() {
-                return Err(duplicate(cx, t, after, "margin"));
-            }
-            let (r, m) =
-                cut(context(ValueKind::Margin.example(), |x| margin(cx, x))).parse(after)?;
-            out.margin = Some(m);
-            rest = r;
+            rest = once(cx, at, "margin", &mut out.margin, |cx, x| {
+                cut(context(ValueKind::Margin.example(), |x| margin(cx, x))).parse(x)
+            })?;
         } else if word == "extrapolate" && allows(Clause::Extrapolate) {
             if out.options.extrapolate {
                 return Err(duplicate(cx, t, after, "extrapolate"));

@@ -148,33 +148,44 @@ mod tests {
 
     #[test]
     fn says_what_is_wrong_and_where() {
-        // A volume of water: expected a mass, with the mass it nearly is.
-        let (msg, span, _) = fault("dissolving 300 g CaCl2 in 1 L water from 20 C");
-        assert!(msg.contains("the mass of water"), "{msg}");
-        assert!(msg.contains("`kg`"), "{msg}");
-        assert_eq!(span, (26, 29));
-        // A loading where a mass belongs.
-        let (msg, _, _) = fault("dissolving 30 g/100g water CaCl2 in 1 kg water from 20 C");
-        assert!(msg.contains("the mass of solid"), "{msg}");
-        // Misspelt keyword: did you mean.
-        let (msg, span, _) = fault("dissolving 300 g CaCl2 in 1 kg watr from 20 C");
-        assert!(msg.contains("`water`"), "{msg}");
-        assert_eq!(span, (31, 35));
-        // Negative and zero masses.
+        const VOLUME: &str = "dissolving 300 g CaCl2 in 1 L water from 20 C";
+        const MISSPELT: &str = "dissolving 300 g CaCl2 in 1 kg watr from 20 C";
+        let says = [
+            // A volume of water: expected a mass, with the mass it nearly is.
+            (VOLUME, "the mass of water"),
+            (VOLUME, "`kg`"),
+            // A loading where a mass belongs.
+            (
+                "dissolving 30 g/100g water CaCl2 in 1 kg water from 20 C",
+                "the mass of solid",
+            ),
+            // Misspelt keyword: did you mean.
+            (MISSPELT, "`water`"),
+            // A zero mass.
+            ("dissolving 0 g NaOH in 1 kg water from 20 C", "above zero"),
+            // No start temperature.
+            ("dissolving 3 g NaOH in 1 kg water", "`from` or `at`"),
+            // A misspelt mass unit.
+            (
+                "dissolving 3 kgg NaOH in 1 kg water from 20 C",
+                "did you mean `kg`",
+            ),
+            // A range is not a start.
+            (
+                "dissolving 3 g NaOH in 1 kg water from 20 C to 30 C",
+                "end of the statement",
+            ),
+        ];
+        for (text, said) in says {
+            let (msg, _, _) = fault(text);
+            assert!(msg.contains(said), "{text}: {msg}");
+        }
+        assert_eq!(fault(VOLUME).1, (26, 29));
+        assert_eq!(fault(MISSPELT).1, (31, 35));
+        // A negative mass, and a start below absolute zero.
         let (_, _, kind) = fault("dissolving -3 g NaOH in 1 kg water from 20 C");
         assert!(matches!(kind, ParseErrorKind::NegativeAmount { .. }));
-        let (msg, _, _) = fault("dissolving 0 g NaOH in 1 kg water from 20 C");
-        assert!(msg.contains("above zero"), "{msg}");
-        // No start temperature, and below absolute zero.
-        let (msg, _, _) = fault("dissolving 3 g NaOH in 1 kg water");
-        assert!(msg.contains("`from` or `at`"), "{msg}");
         let (_, _, kind) = fault("dissolving 3 g NaOH in 1 kg water from -300 C");
         assert!(matches!(kind, ParseErrorKind::BelowAbsoluteZero { .. }));
-        // A misspelt mass unit.
-        let (msg, _, _) = fault("dissolving 3 kgg NaOH in 1 kg water from 20 C");
-        assert!(msg.contains("did you mean `kg`"), "{msg}");
-        // A range is not a start.
-        let (msg, _, _) = fault("dissolving 3 g NaOH in 1 kg water from 20 C to 30 C");
-        assert!(msg.contains("end of the statement"), "{msg}");
     }
 }

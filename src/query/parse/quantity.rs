@@ -534,6 +534,20 @@ pub(super) fn bare_range<'a>(cx: Cx<'a>, i: &'a str) -> Option<R<'a, Temperature
     Some(range_body(cx, t, t, &BARE_JOINERS))
 }
 
+/// True when `t` opens a range with `from` or `between`.
+pub(super) fn opens_range(t: &str) -> bool {
+    has_keyword(t, "from").is_some() || has_keyword(t, "between").is_some()
+}
+
+/// A range standing at `t`, with no opening word (`2-8 C`) or opened by `from` or
+/// `between`; `None` when none does.
+pub(super) fn range_here<'a>(cx: Cx<'a>, t: &'a str) -> Option<R<'a, TemperatureRange>> {
+    if opens_range(t) {
+        return Some(range_from(cx, t));
+    }
+    bare_range(cx, t)
+}
+
 /// After the first end of a range: what follows the joining word (`to`, `and`) or dash, if
 /// one stands here. A dash joins when it touches the number before it (`2-8`) or stands
 /// alone between blanks (`2 - 8`), so `2 -8` is not read as a range.
@@ -661,12 +675,8 @@ pub(super) fn point_or_range<'a>(
 pub(super) fn temperatures<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Temperatures> {
     const WHAT: &str = "a temperature or a range, as in `at 5 C`, `from 2 C to 8 C` or `over cold`";
     let t = skip(i);
-    if let Some(range) = bare_range(cx, t) {
+    if let Some(range) = range_here(cx, t) {
         let (rest, range) = range?;
-        return Ok((rest, Temperatures::Range(range)));
-    }
-    if has_keyword(t, "from").is_some() || has_keyword(t, "between").is_some() {
-        let (rest, range) = range_from(cx, t)?;
         return Ok((rest, Temperatures::Range(range)));
     }
     if let Some(rest) = has_keyword(t, "at") {
@@ -676,7 +686,7 @@ pub(super) fn temperatures<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Temperatures> {
         .parse(rest);
     }
     if let Some(rest) = has_keyword(t, "over") {
-        if has_keyword(rest, "from").is_some() || has_keyword(rest, "between").is_some() {
+        if opens_range(rest) {
             let (rest, range) = range_from(cx, rest)?;
             return Ok((rest, Temperatures::Range(range)));
         }

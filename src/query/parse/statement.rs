@@ -53,10 +53,7 @@ pub(super) fn solubility<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     let (i, _) = expect(cx, i, &["of"])?;
     let (i, solute) = solute(cx, i, &["at"])?;
     const CLAUSES: [Clause; 3] = [Clause::InComposition, DATA[0], DATA[1]];
-    let (i, lead) = lead(cx, i, &CLAUSES)?;
-    let (i, _) = expect(cx, i, &["at"])?;
-    let (i, temperature) = committed_temperature(cx, i)?;
-    let (i, tail) = tail_after(cx, i, &CLAUSES, &[], lead)?;
+    let (i, (temperature, tail)) = with_clauses(cx, i, &CLAUSES, at(committed_temperature))?;
     Ok((
         i,
         Statement::Solubility(Solubility {
@@ -81,10 +78,18 @@ pub(super) fn stays_dissolved_at<'a>(
     let (i, _) = expect(cx, i, &["dissolved"])?;
     let (i, _) = expect(cx, i, &["at"])?;
     let (i, loading) = committed_loading(cx, i)?;
-    let (i, lead) = lead(cx, i, &SCREEN_CLAUSES)?;
-    let (i, temperatures) = temperatures(cx, i)?;
-    let (i, tail) = tail_after(cx, i, &SCREEN_CLAUSES, &[], lead)?;
+    let (i, (temperatures, tail)) = with_clauses(cx, i, &SCREEN_CLAUSES, temperatures)?;
     Ok((i, (loading, temperatures, tail)))
+}
+
+/// `at` and what `value` reads after it.
+fn at<'a, T>(
+    value: impl FnOnce(Cx<'a>, &'a str) -> R<'a, T>,
+) -> impl FnOnce(Cx<'a>, &'a str) -> R<'a, T> {
+    move |cx, i| {
+        let (i, _) = expect(cx, i, &["at"])?;
+        value(cx, i)
+    }
 }
 
 pub(super) fn committed_loading<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Loading> {
@@ -134,10 +139,7 @@ pub(super) fn saturation<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     }
     let (i, solute) = solute(cx, i, &["at"])?;
     const CLAUSES: [Clause; 3] = [Clause::InTemperature, DATA[0], DATA[1]];
-    let (i, lead) = lead(cx, i, &CLAUSES)?;
-    let (i, _) = expect(cx, i, &["at"])?;
-    let (i, loading) = committed_loading(cx, i)?;
-    let (i, tail) = tail_after(cx, i, &CLAUSES, &[], lead)?;
+    let (i, (loading, tail)) = with_clauses(cx, i, &CLAUSES, at(committed_loading))?;
     Ok((
         i,
         Statement::Saturation(Saturation {
@@ -153,9 +155,7 @@ pub(super) fn ceiling<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     let (i, _) = expect(cx, i, &["of"])?;
     let (i, solute) = solute(cx, i, &["at", "from", "over"])?;
     const CLAUSES: [Clause; 4] = [Clause::Margin, Clause::InComposition, DATA[0], DATA[1]];
-    let (i, lead) = lead(cx, i, &CLAUSES)?;
-    let (i, temperatures) = temperatures(cx, i)?;
-    let (i, tail) = tail_after(cx, i, &CLAUSES, &[], lead)?;
+    let (i, (temperatures, tail)) = with_clauses(cx, i, &CLAUSES, temperatures)?;
     Ok((
         i,
         Statement::Ceiling(Ceiling {
@@ -198,10 +198,7 @@ pub(super) fn heat_of_solution<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     let (i, _) = expect(cx, i, &["solution"])?;
     let (i, _) = expect(cx, i, &["of"])?;
     let (i, solute) = solute(cx, i, &["at"])?;
-    let (i, lead) = lead(cx, i, &DATA)?;
-    let (i, _) = expect(cx, i, &["at"])?;
-    let (i, temperature) = committed_temperature(cx, i)?;
-    let (i, tail) = tail_after(cx, i, &DATA, &[], lead)?;
+    let (i, (temperature, tail)) = with_clauses(cx, i, &DATA, at(committed_temperature))?;
     Ok((
         i,
         Statement::HeatOfSolution(HeatOfSolution {
@@ -266,10 +263,7 @@ fn names_pressure(cx: Cx, i: &str) -> bool {
 pub(super) fn dissolved<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     const CLAUSES: [Clause; 4] = [Clause::Under, Clause::InComposition, DATA[0], DATA[1]];
     let (i, gas) = cut(context("a gas such as `O2`", |x| name(cx, x, &["at"]))).parse(i)?;
-    let (i, lead) = lead(cx, i, &CLAUSES)?;
-    let (i, _) = expect(cx, i, &["at"])?;
-    let (i, temperature) = committed_temperature(cx, i)?;
-    let (i, tail) = tail_after(cx, i, &CLAUSES, &[], lead)?;
+    let (i, (temperature, tail)) = with_clauses(cx, i, &CLAUSES, at(committed_temperature))?;
     Ok((
         i,
         Statement::DissolvedGas(DissolvedGas {
@@ -460,12 +454,8 @@ pub(super) fn binding<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
 
 pub(super) fn let_value<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Value> {
     let t = skip(i);
-    if let Some(range) = bare_range(cx, t) {
+    if let Some(range) = range_here(cx, t) {
         let (rest, range) = range?;
-        return Ok((rest, Value::Range(range)));
-    }
-    if has_keyword(t, "from").is_some() || has_keyword(t, "between").is_some() {
-        let (rest, range) = range_from(cx, t)?;
         return Ok((rest, Value::Range(range)));
     }
     if starts_number(t) {
@@ -559,14 +549,11 @@ pub(super) fn solute_list<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Vec<Name>> {
 pub(super) fn plot<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     let (i, solutes) = solute_list(cx, i)?;
     let t = skip(i);
-    let (mut rest, range) = if let Some(range) = bare_range(cx, t) {
+    let (mut rest, range) = if let Some(range) = range_here(cx, t) {
         let (r, range) = range?;
         (r, Some(range))
-    } else if has_keyword(t, "from").is_some() || has_keyword(t, "between").is_some() {
-        let (r, range) = range_from(cx, t)?;
-        (r, Some(range))
     } else if let Some(after) = has_keyword(t, "over") {
-        if has_keyword(after, "from").is_some() || has_keyword(after, "between").is_some() {
+        if opens_range(after) {
             let (r, range) = range_from(cx, after)?;
             (r, Some(range))
         } else {

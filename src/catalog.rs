@@ -500,22 +500,15 @@ pub fn citation(source: &Source) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::model::{SoluteKind, SourceKind};
+    use crate::model::SourceKind;
 
     // Invented demo records: names and formulas only, no reference values.
     fn solute(id: &str, name: &str, formula: &str, synonyms: &[&str]) -> Solute {
         Solute {
             id: id.to_string(),
             name: name.to_string(),
-            formula: formula.to_string(),
-            kind: SoluteKind::Salt,
-            molar_mass: 1.0,
             synonyms: synonyms.iter().map(|s| s.to_string()).collect(),
-            tags: vec![],
-            cation: None,
-            anion: None,
-            ions: 2,
-            hazard: None,
+            ..Solute::salt_for_tests(formula, 1.0, 2)
         }
     }
 

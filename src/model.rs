@@ -164,6 +164,26 @@ pub struct Solute {
     pub hazard: Option<String>,
 }
 
+#[cfg(test)]
+impl Solute {
+    /// A salt for tests: `formula`, named by it, with an id of it in lower case.
+    pub(crate) fn salt_for_tests(formula: &str, molar_mass: f64, ions: u32) -> Solute {
+        Solute {
+            id: formula.to_lowercase(),
+            name: formula.into(),
+            formula: formula.into(),
+            kind: SoluteKind::Salt,
+            molar_mass,
+            synonyms: vec![],
+            tags: vec![],
+            cation: None,
+            anion: None,
+            ions,
+            hazard: None,
+        }
+    }
+}
+
 /// The solid in equilibrium with the saturated solution.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct Phase {

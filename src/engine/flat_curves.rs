@@ -171,19 +171,7 @@ mod tests {
         let b = Branch::new("B", &[(283.15, 0.15), (303.15, 0.18)]).unwrap();
         let one = built(Curve::single(a.clone()), vec![0]);
         let two = built(Curve::new(vec![a.clone(), b]).unwrap(), vec![1, 2]);
-        let solute = Solute {
-            id: "a".into(),
-            name: "a".into(),
-            formula: "A".into(),
-            kind: SoluteKind::Salt,
-            molar_mass: 100.0,
-            synonyms: vec![],
-            tags: vec![],
-            cation: None,
-            anion: None,
-            ions: 2,
-            hazard: None,
-        };
+        let solute = Solute::salt_for_tests("A", 100.0, 2);
         let mut flat = FlatCurves::default();
         flat.push(&solute, Some(&one), Some(&one));
         flat.push(&solute, Some(&two), None);

@@ -211,19 +211,7 @@ mod tests {
     use super::*;
 
     fn solute(formula: &str, molar_mass: f64, ions: u32) -> Solute {
-        Solute {
-            id: formula.to_lowercase(),
-            name: formula.into(),
-            formula: formula.into(),
-            kind: SoluteKind::Salt,
-            molar_mass,
-            synonyms: vec![],
-            tags: vec![],
-            cation: None,
-            anion: None,
-            ions,
-            hazard: None,
-        }
+        Solute::salt_for_tests(formula, molar_mass, ions)
     }
 
     #[test]

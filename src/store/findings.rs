@@ -176,7 +176,7 @@ pub fn conflict(d: &Dataset, other: &Dataset, solute: &Solute, tolerance: f64) -
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::model::{Phase, Point, Provenance, Review, SoluteKind};
+    use crate::model::{Phase, Point, Provenance, Review};
 
     // Invented demo numbers.
     fn dataset(key: &str, source: &str, points: &[(f64, f64)]) -> Dataset {
@@ -215,15 +215,7 @@ mod tests {
         Solute {
             id: "demo".to_string(),
             name: "demo".to_string(),
-            formula: "KCl".to_string(),
-            kind: SoluteKind::Salt,
-            molar_mass: 74.55,
-            synonyms: vec![],
-            tags: vec![],
-            cation: None,
-            anion: None,
-            ions: 2,
-            hazard: None,
+            ..Solute::salt_for_tests("KCl", 74.55, 2)
         }
     }
 

@@ -1,6 +1,7 @@
 //! Bisection: the one way satline narrows a bracketed root or threshold (a saturation
 //! molality, a freezing point, a phase change, a pH).
 
+use std::cmp::Ordering;
 use std::convert::Infallible;
 
 /// At most this many halvings when halving until a width: a width below what the numbers
@@ -45,7 +46,8 @@ pub fn try_bisect<E>(
         Until::Width(w) => (MOST_HALVINGS, Some(w)),
     };
     for _ in 0..halvings {
-        if width.is_some_and(|w| !(hi - lo > w)) {
+        // Narrow enough, or a width that cannot be compared (NaN): stop.
+        if width.is_some_and(|w| (hi - lo).partial_cmp(&w) != Some(Ordering::Greater)) {
             break;
         }
         let mid = 0.5 * (lo + hi);

@@ -259,7 +259,7 @@ impl Pchip {
 impl Knots<'_> {
     /// See [`Pchip::turning_points`].
     pub fn turning_points(self, lo: f64, hi: f64, out: &mut Vec<f64>) {
-        let (xs, ys, ds) = (self.x(), self.y(), self.d());
+        let xs = self.x();
         // The intervals that reach into (lo, hi): from the last knot at or below lo to the
         // first at or above hi.
         let first = xs.partition_point(|&x| x <= lo).saturating_sub(1);
@@ -267,42 +267,51 @@ impl Knots<'_> {
             .partition_point(|&x| x < hi)
             .min(xs.len().saturating_sub(1));
         for k in first..last {
-            let (x0, x1) = (xs[k], xs[k + 1]);
-            if x1 <= lo || x0 >= hi {
-                continue;
-            }
-            let h = x1 - x0;
-            let (y0, y1, d0, d1) = (ys[k], ys[k + 1], ds[k], ds[k + 1]);
-            let a = 6.0 * (y0 - y1) + 3.0 * h * (d0 + d1);
-            let b = 6.0 * (y1 - y0) - h * (4.0 * d0 + 2.0 * d1);
-            let c = h * d0;
-            let mut push = |s: f64| {
-                let x = x0 + s * h;
-                if s > 0.0 && s < 1.0 && x > lo && x < hi {
-                    out.push(x);
-                }
-            };
-            let scale = a.abs().max(b.abs()).max(c.abs());
-            if scale == 0.0 {
-                continue;
-            }
-            if a.abs() <= 1e-12 * scale {
-                if b != 0.0 {
-                    push(-c / b);
-                }
-                continue;
-            }
-            let disc = b * b - 4.0 * a * c;
-            if disc < 0.0 {
-                continue;
-            }
-            // The numerically stable pair of roots (no cancellation in either).
-            let q = -0.5 * (b + b.signum() * disc.sqrt());
-            push(q / a);
-            if q != 0.0 {
-                push(c / q);
-            }
+            let [p, q] = self.turning_in(k, lo, hi);
+            out.extend(p);
+            out.extend(q);
         }
+    }
+
+    /// The turning points of the cubic on the interval from knot `k` to knot `k + 1` that
+    /// lie strictly inside both the interval and (lo, hi), in the order the roots are
+    /// found (see [`Knots::turning_points`]).
+    pub fn turning_in(self, k: usize, lo: f64, hi: f64) -> [Option<f64>; 2] {
+        let (xs, ys, ds) = (self.x(), self.y(), self.d());
+        let none = [None, None];
+        let (Some(&x0), Some(&x1)) = (xs.get(k), xs.get(k + 1)) else {
+            return none;
+        };
+        if x1 <= lo || x0 >= hi {
+            return none;
+        }
+        let h = x1 - x0;
+        let (y0, y1, d0, d1) = (ys[k], ys[k + 1], ds[k], ds[k + 1]);
+        let a = 6.0 * (y0 - y1) + 3.0 * h * (d0 + d1);
+        let b = 6.0 * (y1 - y0) - h * (4.0 * d0 + 2.0 * d1);
+        let c = h * d0;
+        let inside = |s: f64| {
+            let x = x0 + s * h;
+            (s > 0.0 && s < 1.0 && x > lo && x < hi).then_some(x)
+        };
+        let scale = a.abs().max(b.abs()).max(c.abs());
+        if scale == 0.0 {
+            return none;
+        }
+        if a.abs() <= 1e-12 * scale {
+            return if b != 0.0 {
+                [inside(-c / b), None]
+            } else {
+                none
+            };
+        }
+        let disc = b * b - 4.0 * a * c;
+        if disc < 0.0 {
+            return none;
+        }
+        // The numerically stable pair of roots (no cancellation in either).
+        let q = -0.5 * (b + b.signum() * disc.sqrt());
+        [inside(q / a), if q != 0.0 { inside(c / q) } else { None }]
     }
 }
 
@@ -578,8 +587,12 @@ impl BranchView<'_> {
     /// The mass fraction of [`Branch::value_unchecked`] (without the slope's arithmetic)
     /// and its basis: what a screening asks of a curve's one branch where it covers `t_k`.
     pub fn mass_fraction_and_basis(self, t_k: f64) -> (f64, Basis) {
-        let w = self.knots.value(t_k).clamp(0.0, 1.0 - 1e-12);
-        (w, self.basis_at(t_k))
+        (self.mass_fraction(t_k), self.basis_at(t_k))
+    }
+
+    /// The mass fraction alone of [`BranchView::mass_fraction_and_basis`].
+    pub fn mass_fraction(self, t_k: f64) -> f64 {
+        self.knots.value(t_k).clamp(0.0, 1.0 - 1e-12)
     }
 
     fn basis_at(self, t_k: f64) -> Basis {

@@ -211,6 +211,24 @@ fn lowest_on(b: BranchView<'_>, t1_k: f64, t2_k: f64, scratch: &mut Scratch) -> 
     if t1_k == t2_k {
         return at(t1_k);
     }
+    let (lo, hi) = b.range;
+    if b.stable.is_none() && lo < t1_k && t2_k < hi && t1_k < t2_k {
+        return walked(b, t1_k, t2_k);
+    }
+    listed(b, t1_k, t2_k, scratch)
+}
+
+/// [`lowest_on`] from the listed candidates of the module's comment.
+fn listed(b: BranchView<'_>, t1_k: f64, t2_k: f64, scratch: &mut Scratch) -> Lowest {
+    let at = |t_k: f64| {
+        let (mass_fraction, basis) = b.mass_fraction_and_basis(t_k);
+        Lowest {
+            t_k,
+            mass_fraction,
+            branch: 0,
+            basis,
+        }
+    };
     candidates_of([b], &[], t1_k, t2_k, scratch);
     let mut best: Option<(Lowest, bool)> = None;
     for &(t, at_breakpoint) in &scratch.candidates {
@@ -222,6 +240,52 @@ fn lowest_on(b: BranchView<'_>, t1_k: f64, t2_k: f64, scratch: &mut Scratch) -> 
         }
     }
     best.map_or_else(|| at(t1_k), |(low, _)| low)
+}
+
+/// [`lowest_on`] of a branch without a stable range whose data reach beyond both ends of
+/// the range: the same candidates (the range's ends, the knots inside, the turning points
+/// of each cubic), walked in ascending order from the knots without listing or sorting
+/// them; the basis is worked out for the lowest alone.
+fn walked(b: BranchView<'_>, t1_k: f64, t2_k: f64) -> Lowest {
+    let xs = b.knots.x();
+    let mut best = (t1_k, b.mass_fraction(t1_k), true);
+    let mut consider = |t: f64, at_breakpoint: bool| {
+        let w = b.mass_fraction(t);
+        if better(w, at_breakpoint, best.1, best.2) {
+            best = (t, w, at_breakpoint);
+        }
+    };
+    let strictly_inside = |t: f64| t > t1_k && t < t2_k;
+    let first = xs.partition_point(|&x| x <= t1_k).saturating_sub(1);
+    let last = xs
+        .partition_point(|&x| x < t2_k)
+        .min(xs.len().saturating_sub(1));
+    for (k, &x) in xs.iter().enumerate().take(last).skip(first) {
+        if strictly_inside(x) {
+            consider(x, true);
+        }
+        let turning = match b.knots.turning_in(k, t1_k, t2_k) {
+            [Some(p), Some(q)] if q < p => [Some(q), Some(p)],
+            pair => pair,
+        };
+        for t in turning.into_iter().flatten() {
+            consider(t, false);
+        }
+    }
+    if let Some(&x) = xs.get(last)
+        && strictly_inside(x)
+    {
+        consider(x, true);
+    }
+    consider(t2_k, true);
+    let (t_k, mass_fraction, _) = best;
+    let (_, basis) = b.mass_fraction_and_basis(t_k);
+    Lowest {
+        t_k,
+        mass_fraction,
+        branch: 0,
+        basis,
+    }
 }
 
 /// Whether a candidate of value `w` beats the best so far (`bw`): lower by more than
@@ -297,7 +361,7 @@ fn candidates_of<'a>(
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::science::curve::Branch;
+    use crate::science::curve::{Branch, Knots};
 
     #[test]
     fn a_dip_between_knots_is_found_at_its_knot() {
@@ -309,6 +373,76 @@ mod tests {
         assert_eq!(m.t_k, 300.0);
         assert_eq!(m.basis, Basis::Tabulated);
         assert!((m.mass_fraction - 0.10).abs() < 1e-15);
+    }
+
+    #[test]
+    fn the_walk_finds_what_the_listed_candidates_find() {
+        // Invented demo curves: pseudo-random knots (SplitMix64), rising, falling and wavy,
+        // with ranges inside them.
+        let mut state = 0x5EED_u64;
+        let mut unit = || {
+            state = state.wrapping_add(0x9E37_79B9_7F4A_7C15);
+            let mut z = state;
+            z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
+            z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
+            ((z ^ (z >> 31)) >> 11) as f64 / (1u64 << 53) as f64
+        };
+        let mut scratch = Scratch::default();
+        let mut compared = 0;
+        for _ in 0..2_000 {
+            let n = 2 + (unit() * 10.0) as usize;
+            let points: Vec<(f64, f64)> = (0..n)
+                .map(|i| (273.15 + 10.0 * i as f64, 0.05 + 0.5 * unit()))
+                .collect();
+            let branch = Branch::new("A", &points).unwrap();
+            let b = branch.view();
+            let (lo, hi) = b.range;
+            let t1 = lo + (hi - lo) * unit();
+            let t2 = t1 + (hi - t1) * unit();
+            // Ends on knots too.
+            let on_knot = |t: f64| points[((t - 273.15) / 10.0).round() as usize].0;
+            let (t1, t2) = if unit() < 0.3 {
+                (on_knot(t1), on_knot(t2))
+            } else {
+                (t1, t2)
+            };
+            if !(lo < t1 && t1 < t2 && t2 < hi) {
+                continue;
+            }
+            assert_eq!(
+                walked(b, t1, t2),
+                listed(b, t1, t2, &mut scratch),
+                "{points:?} {t1} {t2}"
+            );
+            compared += 1;
+        }
+        assert!(compared > 1_000, "{compared}");
+        // Knots with slopes of any sign (not a monotone interpolant's), so that cubics turn
+        // inside their intervals.
+        let mut turned = 0;
+        for _ in 0..2_000 {
+            let n = 2 + (unit() * 6.0) as usize;
+            let mut raw: Vec<f64> = (0..n).map(|i| 273.15 + 10.0 * i as f64).collect();
+            raw.extend((0..n).map(|_| 0.1 + 0.4 * unit()));
+            raw.extend((0..n).map(|_| 0.1 * (unit() - 0.5)));
+            let knots = Knots::new(&raw).unwrap();
+            let (lo, hi) = (raw[0], raw[n - 1]);
+            let b = BranchView {
+                knots,
+                range: (lo, hi),
+                stable: None,
+            };
+            let t1 = lo + (hi - lo) * unit();
+            let t2 = t1 + (hi - t1) * unit();
+            if !(lo < t1 && t1 < t2 && t2 < hi) {
+                continue;
+            }
+            let walk = walked(b, t1, t2);
+            assert_eq!(walk, listed(b, t1, t2, &mut scratch), "{raw:?} {t1} {t2}");
+            turned +=
+                usize::from(!knots.x().contains(&walk.t_k) && walk.t_k != t1 && walk.t_k != t2);
+        }
+        assert!(turned > 100, "{turned}");
     }
 
     #[test]

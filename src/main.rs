@@ -76,14 +76,14 @@ fn main() -> ExitCode {
                 .iter()
                 .map(|f| batch::ScriptSource::from_arg(f))
                 .collect();
-            exit(batch::run_std(
+            let run = batch::Batch {
                 db,
-                &cli.recipes,
-                &sources,
-                cli.format,
-                &pictures,
-                &cli.layout,
-            ))
+                recipes: &cli.recipes,
+                sources: &sources,
+                format: cli.format,
+                pictures: &pictures,
+            };
+            exit(batch::run_std(&run, &cli.layout))
         }
         Some(Command::Repl) => exit(frontend::repl::run(db, &cli.layout)),
         Some(Command::Help { topic }) => exit(frontend::help_command::run(

@@ -83,23 +83,104 @@ words! {
     }
 }
 
-/// A bibliographic record. Every dataset and every gas constant names one.
-#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
-pub struct Source {
-    /// Stable key used by datasets, e.g. `crc-97-aqsol`.
-    pub key: String,
-    pub kind: SourceKind,
-    pub title: String,
-    pub authors: String,
-    pub publisher: Option<String>,
-    pub edition: Option<String>,
-    pub year: Option<i32>,
-    /// Table, page or section the numbers come from.
-    pub locator: Option<String>,
-    pub doi: Option<String>,
-    pub isbn: Option<String>,
-    pub url: Option<String>,
-    pub note: Option<String>,
+/// `Source` and `SourceFields`, the change that edits one, from one list of fields: a field
+/// every source has is a plain value in the record and an `Option` in the change; an
+/// optional field is an `Option` in both. In the change `None` leaves a field as it is.
+macro_rules! source_and_fields {
+    (
+        needed { $($(#[$needed_meta:meta])* $needed:ident: $needed_type:ty,)+ }
+        optional { $($(#[$optional_meta:meta])* $optional:ident: $optional_type:ty,)+ }
+    ) => {
+        /// A bibliographic record. Every dataset and every gas constant names one.
+        #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+        pub struct Source {
+            /// Stable key used by datasets, e.g. `crc-97-aqsol`.
+            pub key: String,
+            $($(#[$needed_meta])* pub $needed: $needed_type,)+
+            $($(#[$optional_meta])* pub $optional: Option<$optional_type>,)+
+        }
+
+        /// Fields to set on a source; `None` leaves a field as it is. Texts are trimmed, and
+        /// an empty text clears an optional field.
+        #[derive(Debug, Clone, Default, PartialEq)]
+        pub struct SourceFields {
+            $($(#[$needed_meta])* pub $needed: Option<$needed_type>,)+
+            $($(#[$optional_meta])* pub $optional: Option<$optional_type>,)+
+        }
+
+        impl Source {
+            /// A source with the fields every source has, and none of the optional ones.
+            pub fn new(key: String, $($needed: $needed_type),+) -> Source {
+                Source {
+                    key,
+                    $($needed,)+
+                    $($optional: None,)+
+                }
+            }
+        }
+
+        impl SourceFields {
+            /// Sets the given fields of `source`.
+            pub fn apply(&self, source: &mut Source) {
+                $(
+                    if let Some(value) = &self.$needed {
+                        source.$needed = value.tidied();
+                    }
+                )+
+                $(
+                    if let Some(value) = &self.$optional {
+                        source.$optional = Some(value.tidied()).filter(|v| !v.is_blank());
+                    }
+                )+
+            }
+        }
+    };
+}
+
+/// How [`SourceFields::apply`] sets a value: a text is trimmed, and an empty one clears an
+/// optional field.
+trait FieldValue: Clone {
+    fn tidied(&self) -> Self {
+        self.clone()
+    }
+
+    fn is_blank(&self) -> bool {
+        false
+    }
+}
+
+impl FieldValue for String {
+    fn tidied(&self) -> Self {
+        self.trim().to_string()
+    }
+
+    fn is_blank(&self) -> bool {
+        self.is_empty()
+    }
+}
+
+impl FieldValue for i32 {}
+
+impl FieldValue for SourceKind {}
+
+// The bibliographic record `Source` and `SourceFields`, the change that edits one.
+source_and_fields! {
+    needed {
+        kind: SourceKind,
+        title: String,
+        authors: String,
+    }
+    optional {
+        publisher: String,
+        edition: String,
+        year: i32,
+        /// Table, page or section the numbers come from.
+        locator: String,
+        doi: String,
+        isbn: String,
+        url: String,
+        note: String,
+    }
 }
 
 words! {

@@ -1,6 +1,6 @@
 //! Text helpers every layer shares: the one edit distance behind every "did you mean"
 //! (keywords, units, solute names, filter values), the cut that keeps an echoed value
-//! short, and the filling of words into lines.
+//! short, the filling of words into lines, and lists said as a sentence says them.
 
 /// Edit distance over characters, ignoring case: insertions, deletions, substitutions and
 /// swaps of two neighbours (`form` for `from`) each count one. Long inputs are cut to 64
@@ -45,6 +45,16 @@ pub fn cut(text: &str) -> String {
     format!("{head}… ({count} characters)")
 }
 
+/// `items` as a sentence lists them: "a", "a and b", "a, b and c" with `conjunction`
+/// `and` (`or` makes "a, b or c").
+pub fn series(items: &[String], conjunction: &str) -> String {
+    match items.split_last() {
+        None => String::new(),
+        Some((last, [])) => last.clone(),
+        Some((last, rest)) => format!("{} {conjunction} {last}", rest.join(", ")),
+    }
+}
+
 /// `words` laid into lines of at most `width` characters, joined by newlines: the first line
 /// after `first`, the others after `indent`. A word longer than a line stays whole on a line
 /// of its own; with no width, one line. Callers choose how their text splits into words
@@ -77,6 +87,15 @@ pub fn fill<'a>(
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn a_series_joins_its_last_item_with_the_conjunction() {
+        let items = |list: &[&str]| list.iter().map(|s| s.to_string()).collect::<Vec<_>>();
+        assert_eq!(series(&[], "and"), "");
+        assert_eq!(series(&items(&["a"]), "and"), "a");
+        assert_eq!(series(&items(&["a", "b"]), "or"), "a or b");
+        assert_eq!(series(&items(&["a", "b", "c"]), "and"), "a, b and c");
+    }
 
     #[test]
     fn edit_distance_counts_single_changes_and_swaps() {

@@ -120,29 +120,27 @@ pub fn read_scripts(
     (scripts, failures)
 }
 
+/// What a batch run reads and how it answers: the database (`None`: the default one), the
+/// recipe files, the scripts in order, the format of the answers and where pictures go.
+#[derive(Debug, Clone, Copy)]
+pub struct Batch<'a> {
+    pub db: Option<&'a Path>,
+    pub recipes: &'a [PathBuf],
+    pub sources: &'a [ScriptSource],
+    pub format: Format,
+    pub pictures: &'a Pictures,
+}
+
 /// A whole batch run: reads the recipe files and the scripts, opens the database, binds the
-/// recipes, runs every statement. Answers go to `out` in `format`; problems go to `err`,
-/// one per line (a fault of a recipe file as `FILE:line:column: message`, exit 2).
-#[allow(clippy::too_many_arguments)]
+/// recipes, runs every statement. Answers go to `out` in the batch's format; problems go to
+/// `err`, one per line (a fault of a recipe file as `FILE:line:column: message`, exit 2).
 pub fn run(
-    db: Option<&Path>,
-    recipes: &[PathBuf],
-    sources: &[ScriptSource],
-    format: Format,
-    pictures: &Pictures,
+    batch: &Batch,
     stdin: &mut impl Read,
     out: &mut impl Write,
     err: &mut impl Write,
 ) -> Outcome {
-    run_showing(
-        db,
-        recipes,
-        sources,
-        format,
-        pictures,
-        (stdin, out, err),
-        Showing::PIPE,
-    )
+    run_showing(batch, (stdin, out, err), Showing::PIPE)
 }
 
 /// How a run shows its answers: the tables' layout, and whether a statement's error is
@@ -166,14 +164,17 @@ impl Showing {
 /// answers (a table on a terminal) show it in place with its position: on a terminal an
 /// error appears once.
 pub fn run_showing(
-    db: Option<&Path>,
-    recipes: &[PathBuf],
-    sources: &[ScriptSource],
-    format: Format,
-    pictures: &Pictures,
+    batch: &Batch,
     (stdin, out, err): (&mut impl Read, &mut impl Write, &mut impl Write),
     showing: Showing,
 ) -> Outcome {
+    let Batch {
+        db,
+        recipes,
+        sources,
+        format,
+        pictures,
+    } = *batch;
     let recipe_sources: Vec<ScriptSource> =
         recipes.iter().cloned().map(ScriptSource::File).collect();
     let (recipe_files, mut failures) = read_scripts(&recipe_sources, stdin);
@@ -236,14 +237,7 @@ enum Errors {
 }
 
 /// A batch run over the process's standard streams.
-pub fn run_std(
-    db: Option<&Path>,
-    recipes: &[PathBuf],
-    sources: &[ScriptSource],
-    format: Format,
-    pictures: &Pictures,
-    layout: &LayoutArgs,
-) -> Outcome {
+pub fn run_std(batch: &Batch, layout: &LayoutArgs) -> Outcome {
     let stdin = io::stdin();
     let stdout = io::stdout();
     let stderr = io::stderr();
@@ -264,17 +258,9 @@ pub fn run_std(
     // not repeated on stderr.
     let showing = Showing {
         layout: super::screen::layout(layout.width, layout.full),
-        errors_in_place: terminal && format == Format::Table,
+        errors_in_place: terminal && batch.format == Format::Table,
     };
-    run_showing(
-        db,
-        recipes,
-        sources,
-        format,
-        pictures,
-        (&mut stdin, &mut out, &mut stderr),
-        showing,
-    )
+    run_showing(batch, (&mut stdin, &mut out, &mut stderr), showing)
 }
 
 /// Answers statements given as command-line arguments (`satline "<statements>"`), with
@@ -288,14 +274,14 @@ pub fn run_arguments(
     layout: &LayoutArgs,
 ) -> Outcome {
     let grouped = super::arguments::group(statements);
-    let outcome = run_std(
+    let batch = Batch {
         db,
         recipes,
-        &[ScriptSource::Arguments(grouped.statements)],
+        sources: &[ScriptSource::Arguments(grouped.statements)],
         format,
         pictures,
-        layout,
-    );
+    };
+    let outcome = run_std(&batch, layout);
     if let (Some(hint), true) = (grouped.hint, outcome == Outcome::Unanswered) {
         report(&mut io::stderr(), &format!("satline: {hint}"));
     }

@@ -321,7 +321,7 @@ pub enum ReviewAction {
 #[derive(Debug, Args)]
 pub struct SourceArgs {
     /// handbook, compilation, paper, standard, book or other.
-    #[arg(long, value_parser = clap::builder::PossibleValuesParser::new(["handbook", "compilation", "paper", "standard", "book", "other"]))]
+    #[arg(long, value_parser = clap::builder::PossibleValuesParser::new(SourceKind::NAMES.iter().copied()))]
     pub kind: Option<String>,
     #[arg(long)]
     pub title: Option<String>,
@@ -348,15 +348,7 @@ pub struct SourceArgs {
 
 impl SourceArgs {
     pub fn fields(self) -> SourceFields {
-        let kind = self.kind.as_deref().and_then(|k| match k {
-            "handbook" => Some(SourceKind::Handbook),
-            "compilation" => Some(SourceKind::Compilation),
-            "paper" => Some(SourceKind::Paper),
-            "standard" => Some(SourceKind::Standard),
-            "book" => Some(SourceKind::Book),
-            "other" => Some(SourceKind::Other),
-            _ => None,
-        });
+        let kind = self.kind.as_deref().and_then(SourceKind::from_name);
         SourceFields {
             kind,
             title: self.title,

@@ -65,14 +65,14 @@ pub fn run_default(
     if std::io::stdin().is_terminal() {
         repl::run(db, layout)
     } else {
-        batch::run_std(
+        let run = batch::Batch {
             db,
             recipes,
-            &[batch::ScriptSource::Stdin],
-            crate::output::Format::Table,
-            &picture::Pictures::default(),
-            layout,
-        )
+            sources: &[batch::ScriptSource::Stdin],
+            format: crate::output::Format::Table,
+            pictures: &picture::Pictures::default(),
+        };
+        batch::run_std(&run, layout)
     }
 }
 

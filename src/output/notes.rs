@@ -58,11 +58,7 @@ pub fn numbers(list: &[usize]) -> String {
         });
         i = j + 1;
     }
-    match parts.split_last() {
-        None => String::new(),
-        Some((last, [])) => last.clone(),
-        Some((last, rest)) => format!("{} and {last}", rest.join(", ")),
-    }
+    crate::text::series(&parts, "and")
 }
 
 #[cfg(test)]

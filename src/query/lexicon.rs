@@ -3,7 +3,7 @@
 
 use super::ast::ValueKind;
 use crate::science::units::{CompositionUnit, PressureUnit, TemperatureUnit};
-use crate::text::edit_distance;
+use crate::text::{edit_distance, series};
 
 /// Words that begin a statement.
 pub const STATEMENT_WORDS: [&str; 18] = [
@@ -190,11 +190,7 @@ pub fn nearest<'c>(word: &str, candidates: &[&'c str]) -> Option<&'c str> {
 /// "`at` or `from`", "`at`, `from` or `over`".
 pub fn one_of(words: &[&str]) -> String {
     let quoted: Vec<String> = words.iter().map(|w| format!("`{w}`")).collect();
-    match quoted.split_last() {
-        None => String::new(),
-        Some((last, [])) => last.clone(),
-        Some((last, rest)) => format!("{} or {last}", rest.join(", ")),
-    }
+    series(&quoted, "or")
 }
 
 #[cfg(test)]

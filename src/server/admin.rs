@@ -17,6 +17,7 @@ use super::Shared;
 use super::auth::{self, Librarian};
 use super::limits::read_body;
 use super::reply::{self, ApiError, ErrorFields};
+use super::routes::bad_parameter;
 use crate::engine::Engine;
 use crate::librarian;
 use crate::store::StoreError;
@@ -124,22 +125,18 @@ pub(crate) async fn import(
     let Query(params) = match params {
         Ok(p) => p,
         Err(e) => {
-            return ApiError::new(
-                StatusCode::BAD_REQUEST,
-                "bad-parameter",
-                format!("expected ?file=NAME.csv|NAME.toml[&dry_run=true][&actor=NAME]: {e}"),
-            )
+            return bad_parameter(format!(
+                "expected ?file=NAME.csv|NAME.toml[&dry_run=true][&actor=NAME]: {e}"
+            ))
             .into_response();
         }
     };
     let name = params.file.trim();
     let plain = !name.is_empty() && !name.contains(['/', '\\']) && !name.starts_with('.');
     if !plain || !(name.ends_with(".csv") || name.ends_with(".toml")) {
-        return ApiError::new(
-            StatusCode::BAD_REQUEST,
-            "bad-parameter",
-            format!("file `{name}`: expected a plain file name ending in .csv or .toml"),
-        )
+        return bad_parameter(format!(
+            "file `{name}`: expected a plain file name ending in .csv or .toml"
+        ))
         .into_response();
     }
     let bytes = match read_body(&headers, body, state.limits.body_bytes).await {

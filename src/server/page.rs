@@ -16,6 +16,7 @@ use serde::Serialize;
 use super::Shared;
 use super::limits::Permit;
 use super::reply::{self, ApiError};
+use super::routes::bad_parameter;
 use crate::science::units::{CompositionUnit, PressureUnit, TemperatureUnit};
 
 const INDEX_HTML: &str = include_str!("../../assets/page/index.html");
@@ -89,13 +90,13 @@ fn statements(
     query: Result<Query<Vec<(String, String)>>, QueryRejection>,
     example: &str,
 ) -> Result<String, ApiError> {
-    let bad = |message: String| ApiError::new(StatusCode::BAD_REQUEST, "bad-parameter", message);
-    let Query(pairs) = query.map_err(|e| bad(format!("the query string cannot be read: {e}")))?;
+    let Query(pairs) =
+        query.map_err(|e| bad_parameter(format!("the query string cannot be read: {e}")))?;
     let mut found = pairs.into_iter().filter(|(name, _)| name == "q");
     match (found.next(), found.next()) {
         (Some((_, text)), None) => Ok(text),
-        (Some(_), Some(_)) => Err(bad("q is given twice".into())),
-        (None, _) => Err(bad(format!(
+        (Some(_), Some(_)) => Err(bad_parameter("q is given twice".into())),
+        (None, _) => Err(bad_parameter(format!(
             "expected ?q= with URL-encoded statements, such as ?q={example}"
         ))),
     }

@@ -364,7 +364,8 @@ fn evaluated_reply(state: &Shared, evaluated: Evaluated) -> Response {
     }
 }
 
-fn bad_parameter(message: String) -> ApiError {
+/// The 400 `bad-parameter` reply: a query string, path or parameter that cannot be used.
+pub(super) fn bad_parameter(message: String) -> ApiError {
     ApiError::new(StatusCode::BAD_REQUEST, "bad-parameter", message)
 }
 

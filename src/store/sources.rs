@@ -4,60 +4,15 @@
 use rusqlite::OptionalExtension as _;
 
 use super::{Store, StoreError, audit, lock, write};
-use crate::model::{Source, SourceKind};
-
-/// Fields to set on a source; `None` leaves a field as it is. An empty text clears an
-/// optional field.
-#[derive(Debug, Clone, Default, PartialEq)]
-pub struct SourceFields {
-    pub kind: Option<SourceKind>,
-    pub title: Option<String>,
-    pub authors: Option<String>,
-    pub publisher: Option<String>,
-    pub edition: Option<String>,
-    pub year: Option<i32>,
-    pub locator: Option<String>,
-    pub doi: Option<String>,
-    pub isbn: Option<String>,
-    pub url: Option<String>,
-    pub note: Option<String>,
-}
-
-fn set(slot: &mut Option<String>, value: &Option<String>) {
-    if let Some(v) = value {
-        *slot = Some(v.trim().to_string()).filter(|v| !v.is_empty());
-    }
-}
+use crate::model::Source;
+/// The change [`Store::save_source`] makes, defined beside the record it changes.
+pub use crate::model::SourceFields;
 
 fn bad(key: &str, reason: &str) -> StoreError {
     StoreError::Import {
         file: "command line".to_string(),
         record: format!("source \"{key}\""),
         problem: reason.to_string(),
-    }
-}
-
-impl SourceFields {
-    fn apply(&self, s: &mut Source) {
-        if let Some(k) = self.kind {
-            s.kind = k;
-        }
-        if let Some(t) = &self.title {
-            s.title = t.trim().to_string();
-        }
-        if let Some(a) = &self.authors {
-            s.authors = a.trim().to_string();
-        }
-        set(&mut s.publisher, &self.publisher);
-        set(&mut s.edition, &self.edition);
-        if self.year.is_some() {
-            s.year = self.year;
-        }
-        set(&mut s.locator, &self.locator);
-        set(&mut s.doi, &self.doi);
-        set(&mut s.isbn, &self.isbn);
-        set(&mut s.url, &self.url);
-        set(&mut s.note, &self.note);
     }
 }
 
@@ -115,22 +70,14 @@ impl Store {
                 });
             }
             (false, Some(before)) => before.clone(),
-            (true, None) => Source {
-                key: key.to_string(),
-                kind: fields
+            (true, None) => Source::new(
+                key.to_string(),
+                fields
                     .kind
                     .ok_or_else(|| bad(key, "a source needs --kind"))?,
-                title: String::new(),
-                authors: String::new(),
-                publisher: None,
-                edition: None,
-                year: None,
-                locator: None,
-                doi: None,
-                isbn: None,
-                url: None,
-                note: None,
-            },
+                String::new(),
+                String::new(),
+            ),
         };
         fields.apply(&mut s);
         if s.title.is_empty() || s.authors.is_empty() {
@@ -166,6 +113,7 @@ impl Store {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::model::SourceKind;
 
     #[test]
     fn add_then_edit_a_source() {

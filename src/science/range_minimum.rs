@@ -211,8 +211,10 @@ fn lowest_on(b: BranchView<'_>, t1_k: f64, t2_k: f64, scratch: &mut Scratch) -> 
     if t1_k == t2_k {
         return at(t1_k);
     }
-    let (lo, hi) = b.range;
-    if b.stable.is_none() && lo < t1_k && t2_k < hi && t1_k < t2_k {
+    // Where neither the branch's ends nor its stable range's ends fall inside the range,
+    // the candidates are the range's ends, the knots and the turning points.
+    let strictly_within = |(lo, hi): (f64, f64)| lo < t1_k && t2_k < hi;
+    if t1_k < t2_k && strictly_within(b.range) && b.stable.is_none_or(strictly_within) {
         return walked(b, t1_k, t2_k);
     }
     listed(b, t1_k, t2_k, scratch)
@@ -242,8 +244,8 @@ fn listed(b: BranchView<'_>, t1_k: f64, t2_k: f64, scratch: &mut Scratch) -> Low
     best.map_or_else(|| at(t1_k), |(low, _)| low)
 }
 
-/// [`lowest_on`] of a branch without a stable range whose data reach beyond both ends of
-/// the range: the same candidates (the range's ends, the knots inside, the turning points
+/// [`lowest_on`] of a branch whose data and stable range (if it has one) reach beyond both
+/// ends of the range: the same candidates (the range's ends, the knots inside, the turning points
 /// of each cubic), walked in ascending order from the knots without listing or sorting
 /// them; the basis is worked out for the lowest alone.
 fn walked(b: BranchView<'_>, t1_k: f64, t2_k: f64) -> Lowest {
@@ -427,17 +429,22 @@ mod tests {
             raw.extend((0..n).map(|_| 0.1 * (unit() - 0.5)));
             let knots = Knots::new(&raw).unwrap();
             let (lo, hi) = (raw[0], raw[n - 1]);
+            // Sometimes a stable range of its own, around or across the range.
+            let stable = (unit() < 0.5).then(|| {
+                let a = lo + (hi - lo) * unit();
+                (a, a + (hi - a) * unit())
+            });
             let b = BranchView {
                 knots,
                 range: (lo, hi),
-                stable: None,
+                stable,
             };
             let t1 = lo + (hi - lo) * unit();
             let t2 = t1 + (hi - t1) * unit();
             if !(lo < t1 && t1 < t2 && t2 < hi) {
                 continue;
             }
-            let walk = walked(b, t1, t2);
+            let walk = lowest_on(b, t1, t2, &mut scratch);
             assert_eq!(walk, listed(b, t1, t2, &mut scratch), "{raw:?} {t1} {t2}");
             turned +=
                 usize::from(!knots.x().contains(&walk.t_k) && walk.t_k != t1 && walk.t_k != t2);

@@ -171,6 +171,25 @@ impl<'a> Knots<'a> {
         self.piece(x).value()
     }
 
+    /// [`Knots::value`] at `x` known to lie on the interval from knot `k` to knot `k + 1`:
+    /// the same number, without searching for the interval when `x` lies strictly inside it.
+    pub fn value_on(self, k: usize, x: f64) -> f64 {
+        let (xs, ys, ds) = (self.x(), self.y(), self.d());
+        match (xs.get(k), xs.get(k + 1)) {
+            (Some(&x0), Some(&x1)) if x > x0 && x < x1 => {
+                let h = x1 - x0;
+                Piece::Cubic {
+                    t: (x - x0) / h,
+                    h,
+                    y: (ys[k], ys[k + 1]),
+                    d: (ds[k], ds[k + 1]),
+                }
+                .value()
+            }
+            _ => self.value(x),
+        }
+    }
+
     /// The piece of the interpolant that holds `x`.
     fn piece(self, x: f64) -> Piece {
         let (xs, ys, ds) = (self.x(), self.y(), self.d());

@@ -249,10 +249,11 @@ fn listed(b: BranchView<'_>, t1_k: f64, t2_k: f64, scratch: &mut Scratch) -> Low
 /// of each cubic), walked in ascending order from the knots without listing or sorting
 /// them; the basis is worked out for the lowest alone.
 fn walked(b: BranchView<'_>, t1_k: f64, t2_k: f64) -> Lowest {
-    let xs = b.knots.x();
+    let (xs, ys) = (b.knots.x(), b.knots.y());
+    // The mass fraction as `BranchView::mass_fraction` gives it, from a value of the knots.
+    let clamped = |v: f64| v.clamp(0.0, 1.0 - 1e-12);
     let mut best = (t1_k, b.mass_fraction(t1_k), true);
-    let mut consider = |t: f64, at_breakpoint: bool| {
-        let w = b.mass_fraction(t);
+    let mut consider = |t: f64, w: f64, at_breakpoint: bool| {
         if better(w, at_breakpoint, best.1, best.2) {
             best = (t, w, at_breakpoint);
         }
@@ -264,22 +265,23 @@ fn walked(b: BranchView<'_>, t1_k: f64, t2_k: f64) -> Lowest {
         .min(xs.len().saturating_sub(1));
     for (k, &x) in xs.iter().enumerate().take(last).skip(first) {
         if strictly_inside(x) {
-            consider(x, true);
+            // At a knot the interpolant's value is the knot's own.
+            consider(x, clamped(ys[k]), true);
         }
         let turning = match b.knots.turning_in(k, t1_k, t2_k) {
             [Some(p), Some(q)] if q < p => [Some(q), Some(p)],
             pair => pair,
         };
         for t in turning.into_iter().flatten() {
-            consider(t, false);
+            consider(t, clamped(b.knots.value_on(k, t)), false);
         }
     }
     if let Some(&x) = xs.get(last)
         && strictly_inside(x)
     {
-        consider(x, true);
+        consider(x, b.mass_fraction(x), true);
     }
-    consider(t2_k, true);
+    consider(t2_k, b.mass_fraction(t2_k), true);
     let (t_k, mass_fraction, _) = best;
     let (_, basis) = b.mass_fraction_and_basis(t_k);
     Lowest {

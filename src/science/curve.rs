@@ -190,12 +190,49 @@ impl<'a> Knots<'a> {
         }
     }
 
+    /// [`Knots::value`] and where `x` falls: on a knot (within 1e-9), between knots, or
+    /// outside them; one search for both.
+    pub fn value_and_basis(self, x: f64) -> (f64, Basis) {
+        let (xs, ys) = (self.x(), self.y());
+        let n = xs.len();
+        let near = |k: usize| xs.get(k).is_some_and(|&v| (v - x).abs() <= 1e-9);
+        let outside = x < xs[0] || x > xs[n - 1];
+        let basis = |tabulated: bool| {
+            if outside {
+                Basis::Extrapolated
+            } else if tabulated {
+                Basis::Tabulated
+            } else {
+                Basis::Interpolated
+            }
+        };
+        if n == 1 {
+            return (ys[0], basis(true));
+        }
+        if x <= xs[0] || x >= xs[n - 1] {
+            // On an end knot, or beyond it on its tangent.
+            return (self.piece(x).value(), basis(true));
+        }
+        match xs.binary_search_by(|v| v.total_cmp(&x)) {
+            Ok(k) => (ys[k], basis(true)),
+            // Between knots k − 1 and k: only they can lie within 1e-9 of x.
+            Err(k) => match k.checked_sub(1) {
+                Some(before) => (self.value_on(before, x), basis(near(before) || near(k))),
+                None => (self.value(x), basis(false)),
+            },
+        }
+    }
+
     /// The piece of the interpolant that holds `x`.
     fn piece(self, x: f64) -> Piece {
         let (xs, ys, ds) = (self.x(), self.y(), self.d());
         let n = xs.len();
         if n == 1 {
             return Piece::Knot(ys[0], 0.0);
+        }
+        if x.is_nan() {
+            // Not a temperature: no piece holds it (and the search below needs an order).
+            return Piece::Knot(f64::NAN, f64::NAN);
         }
         if x <= xs[0] {
             return Piece::Line(ys[0], ds[0], x - xs[0]);
@@ -606,7 +643,8 @@ impl BranchView<'_> {
     /// The mass fraction of [`Branch::value_unchecked`] (without the slope's arithmetic)
     /// and its basis: what a screening asks of a curve's one branch where it covers `t_k`.
     pub fn mass_fraction_and_basis(self, t_k: f64) -> (f64, Basis) {
-        (self.mass_fraction(t_k), self.basis_at(t_k))
+        let (w, basis) = self.knots.value_and_basis(t_k);
+        (w.clamp(0.0, 1.0 - 1e-12), basis)
     }
 
     /// The mass fraction alone of [`BranchView::mass_fraction_and_basis`].
@@ -937,6 +975,41 @@ pub(crate) fn dense_grid(knots: &[f64], steps: usize) -> Vec<f64> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn value_and_basis_agree_with_the_value_and_a_scan_of_the_knots() {
+        // Invented demo knots; points on, near, between and beyond them.
+        let branch = Branch::new(
+            "A",
+            &[
+                (273.15, 0.10),
+                (283.15, 0.15),
+                (293.15, 0.25),
+                (313.15, 0.30),
+            ],
+        )
+        .unwrap();
+        let view = branch.view();
+        let mut points = vec![260.0, 273.15, 400.0, f64::NAN, -f64::NAN];
+        for &x in view.knots.x() {
+            points.extend([x, x - 5e-10, x + 5e-10, x - 2e-9, x + 2e-9, x + 3.3]);
+        }
+        for x in points {
+            let (w, basis) = view.knots.value_and_basis(x);
+            let same = w == view.knots.value(x) || (w.is_nan() && view.knots.value(x).is_nan());
+            assert!(same, "{x}");
+            if !x.is_nan() {
+                assert_eq!(basis, view.basis_at(x), "{x}");
+            }
+        }
+        let one = Branch::new("B", &[(280.0, 0.2)]).unwrap();
+        for x in [279.0, 280.0, 281.0] {
+            assert_eq!(
+                one.view().knots.value_and_basis(x).1,
+                one.view().basis_at(x)
+            );
+        }
+    }
 
     // Invented demo data (not reference values): a rising curve in mass fraction.
     fn rising() -> Branch {

@@ -199,17 +199,8 @@ pub fn lowest_on_lone(
 }
 
 fn lowest_on(b: BranchView<'_>, t1_k: f64, t2_k: f64, scratch: &mut Scratch) -> Lowest {
-    let at = |t_k: f64| {
-        let (mass_fraction, basis) = b.mass_fraction_and_basis(t_k);
-        Lowest {
-            t_k,
-            mass_fraction,
-            branch: 0,
-            basis,
-        }
-    };
     if t1_k == t2_k {
-        return at(t1_k);
+        return point(b, t1_k);
     }
     // Where neither the branch's ends nor its stable range's ends fall inside the range,
     // the candidates are the range's ends, the knots and the turning points.
@@ -220,17 +211,20 @@ fn lowest_on(b: BranchView<'_>, t1_k: f64, t2_k: f64, scratch: &mut Scratch) -> 
     listed(b, t1_k, t2_k, scratch)
 }
 
+/// The branch's point at `t_k`, as a [`Lowest`].
+fn point(b: BranchView<'_>, t_k: f64) -> Lowest {
+    let (mass_fraction, basis) = b.mass_fraction_and_basis(t_k);
+    Lowest {
+        t_k,
+        mass_fraction,
+        branch: 0,
+        basis,
+    }
+}
+
 /// [`lowest_on`] from the listed candidates of the module's comment.
 fn listed(b: BranchView<'_>, t1_k: f64, t2_k: f64, scratch: &mut Scratch) -> Lowest {
-    let at = |t_k: f64| {
-        let (mass_fraction, basis) = b.mass_fraction_and_basis(t_k);
-        Lowest {
-            t_k,
-            mass_fraction,
-            branch: 0,
-            basis,
-        }
-    };
+    let at = |t_k: f64| point(b, t_k);
     candidates_of([b], &[], t1_k, t2_k, scratch);
     let mut best: Option<(Lowest, bool)> = None;
     for &(t, at_breakpoint) in &scratch.candidates {

@@ -45,6 +45,12 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
     let mut no_data: Vec<(u32, Missing)> = Vec::new();
     let mut counts = Counts::default();
     let mut scratch = Scratch::default();
+    // A loading in a unit neither per litre nor molar is the same mass fraction for every
+    // solute: worked out once (an error in it is still raised where the first solute
+    // reaches it, as for the others).
+    let unit = s.loading.unit;
+    let same_for_all = (!unit.needs_density() && !unit.is_molar())
+        .then(|| loading_mass_fraction_by_mass(&s.loading, f64::NAN));
     // The source last cited: a screening's solutes mostly share a few sources.
     let mut last_cited: Option<u32> = None;
     for (index, solute) in solutes.iter().enumerate() {
@@ -89,7 +95,10 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
                 }
             }
         } else {
-            loading_mass_fraction_by_mass(&s.loading, flat.molar_mass)?
+            match &same_for_all {
+                Some(w) => w.clone()?,
+                None => loading_mass_fraction_by_mass(&s.loading, flat.molar_mass)?,
+            }
         };
         // Below 0 °C the loading's ice line comes first, as in `require`: where ice forms in
         // the range the solute does not pass, and its curve is checked from the ice line up.

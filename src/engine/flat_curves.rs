@@ -146,12 +146,12 @@ fn facts(built: &BuiltCurve) -> CurveFacts {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::science::curve::{Branch, Curve};
+    use std::sync::OnceLock;
 
     fn lone(flat: &FlatCurves, index: usize, reviewed_only: bool) -> Option<BranchView<'_>> {
         flat.solute_at(index, reviewed_only)?.lone
     }
-    use crate::science::curve::{Branch, Curve};
-    use std::sync::OnceLock;
 
     fn built(curve: Curve, datasets: Vec<usize>) -> BuiltCurve {
         BuiltCurve {

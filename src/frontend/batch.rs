@@ -244,23 +244,28 @@ pub fn run_std(batch: &Batch, layout: &LayoutArgs) -> Outcome {
     let mut stdin = stdin.lock();
     let mut stderr = stderr.lock();
     let terminal = stdout.is_terminal();
-    let mut out: Box<dyn Write> = if terminal {
-        // A person is reading: each answer appears as it is ready, in step with the
-        // messages on the error stream (standard output is line-buffered).
-        Box::new(stdout.lock())
-    } else {
-        // A program is reading: answers are many small writes, and a buffer keeps a long
-        // script from costing a system call per line (64 KiB: a screening's answer is tens
-        // of kilobytes). It is flushed before returning.
-        Box::new(io::BufWriter::with_capacity(1 << 16, stdout.lock()))
-    };
     // On a terminal a table shows a statement's error in place, with its position: it is
     // not repeated on stderr.
     let showing = Showing {
         layout: super::screen::layout(layout.width, layout.full),
         errors_in_place: terminal && batch.format == Format::Table,
     };
-    run_showing(batch, (&mut stdin, &mut out, &mut stderr), showing)
+    if terminal {
+        // A person is reading: each answer appears as it is ready, in step with the
+        // messages on the error stream (standard output is line-buffered).
+        run_showing(
+            batch,
+            (&mut stdin, &mut stdout.lock(), &mut stderr),
+            showing,
+        )
+    } else {
+        // A program is reading: answers are many small writes, and a buffer keeps a long
+        // script from costing a system call per line (64 KiB: a screening's answer is tens
+        // of kilobytes). It is flushed before returning. Written through its own type, not
+        // a boxed writer: serde writes a screening's rows in many small pieces.
+        let mut out = io::BufWriter::with_capacity(1 << 16, stdout.lock());
+        run_showing(batch, (&mut stdin, &mut out, &mut stderr), showing)
+    }
 }
 
 /// Answers statements given as command-line arguments (`satline "<statements>"`), with

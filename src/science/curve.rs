@@ -174,19 +174,22 @@ impl<'a> Knots<'a> {
     /// [`Knots::value`] at `x` known to lie on the interval from knot `k` to knot `k + 1`:
     /// the same number, without searching for the interval when `x` lies strictly inside it.
     pub fn value_on(self, k: usize, x: f64) -> f64 {
-        let (xs, ys, ds) = (self.x(), self.y(), self.d());
+        let xs = self.x();
         match (xs.get(k), xs.get(k + 1)) {
-            (Some(&x0), Some(&x1)) if x > x0 && x < x1 => {
-                let h = x1 - x0;
-                Piece::Cubic {
-                    t: (x - x0) / h,
-                    h,
-                    y: (ys[k], ys[k + 1]),
-                    d: (ds[k], ds[k + 1]),
-                }
-                .value()
-            }
+            (Some(&x0), Some(&x1)) if x > x0 && x < x1 => self.cubic(k, x).value(),
             _ => self.value(x),
+        }
+    }
+
+    /// The cubic piece of the interval from knot `k` to knot `k + 1` (both exist), at `x`.
+    fn cubic(self, k: usize, x: f64) -> Piece {
+        let (xs, ys, ds) = (self.x(), self.y(), self.d());
+        let h = xs[k + 1] - xs[k];
+        Piece::Cubic {
+            t: (x - xs[k]) / h,
+            h,
+            y: (ys[k], ys[k + 1]),
+            d: (ds[k], ds[k + 1]),
         }
     }
 
@@ -240,16 +243,9 @@ impl<'a> Knots<'a> {
         if x >= xs[n - 1] {
             return Piece::Line(ys[n - 1], ds[n - 1], x - xs[n - 1]);
         }
-        let k = match xs.binary_search_by(|v| v.total_cmp(&x)) {
-            Ok(k) => return Piece::Knot(ys[k], ds[k]),
-            Err(k) => k - 1,
-        };
-        let h = xs[k + 1] - xs[k];
-        Piece::Cubic {
-            t: (x - xs[k]) / h,
-            h,
-            y: (ys[k], ys[k + 1]),
-            d: (ds[k], ds[k + 1]),
+        match xs.binary_search_by(|v| v.total_cmp(&x)) {
+            Ok(k) => Piece::Knot(ys[k], ds[k]),
+            Err(k) => self.cubic(k - 1, x),
         }
     }
 }
@@ -934,12 +930,10 @@ impl Curve {
                 continue;
             }
             let bracket = bisect(a, b, Until::Width(1e-4), |t| self.stable(t).0 == ia);
+            let above = self.stable(bracket.hi).0;
             let mut t_k = bracket.mid();
             // Where a stable range says where the phase changes, that is the temperature.
-            for b in [
-                &self.branches[ia],
-                &self.branches[self.stable(bracket.hi).0],
-            ] {
+            for b in [&self.branches[ia], &self.branches[above]] {
                 if let Some((a, z)) = b.stable {
                     for end in [a, z] {
                         if (end - t_k).abs() < 1e-3 {
@@ -951,7 +945,7 @@ impl Curve {
             out.push(Transition {
                 t_k,
                 below: self.branches[ia].phase.clone(),
-                above: self.branches[self.stable(bracket.hi).0].phase.clone(),
+                above: self.branches[above].phase.clone(),
             });
         }
         out

@@ -183,8 +183,6 @@ pub fn lowest_with(
     })
 }
 
-/// [`lowest`] on a lone branch that covers the range: the same candidates, each evaluated
-/// on the branch directly (what [`Curve::evaluate_branch`] gives there, without its checks).
 /// The lowest point of a curve's lone branch over [t1_k, t2_k] where the branch covers
 /// the whole range, read from the branch alone (see [`lowest_with`]); `None` when it does
 /// not cover it, or the range is not one, and the whole curve must be asked.
@@ -198,6 +196,8 @@ pub fn lowest_on_lone(
     (range && lone.covers(t1_k) && lone.covers(t2_k)).then(|| lowest_on(lone, t1_k, t2_k, scratch))
 }
 
+/// [`lowest`] on a lone branch that covers the range: the same candidates, each evaluated
+/// on the branch directly (what [`Curve::evaluate_branch`] gives there, without its checks).
 fn lowest_on(b: BranchView<'_>, t1_k: f64, t2_k: f64, scratch: &mut Scratch) -> Lowest {
     if t1_k == t2_k {
         return point(b, t1_k);
@@ -239,9 +239,9 @@ fn listed(b: BranchView<'_>, t1_k: f64, t2_k: f64, scratch: &mut Scratch) -> Low
 }
 
 /// [`lowest_on`] of a branch whose data and stable range (if it has one) reach beyond both
-/// ends of the range: the same candidates (the range's ends, the knots inside, the turning points
-/// of each cubic), walked in ascending order from the knots without listing or sorting
-/// them; the basis is worked out for the lowest alone.
+/// ends of the range: the same candidates (the range's ends, the knots inside, the turning
+/// points of each cubic), walked in ascending order from the knots without listing or
+/// sorting them; the basis is worked out for the lowest alone.
 fn walked(b: BranchView<'_>, t1_k: f64, t2_k: f64) -> Lowest {
     let (xs, ys) = (b.knots.x(), b.knots.y());
     // The mass fraction as `BranchView::mass_fraction` gives it, from a value of the knots.

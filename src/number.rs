@@ -12,6 +12,21 @@ pub fn value(x: f64) -> f64 {
     round_significant(x, VALUE_DIGITS)
 }
 
+/// A temperature in °C as answers show it: to 0.01 (a rounded −0 shown as 0). Beyond 1e12
+/// the number is returned as it is: it has no hundredths, and scaling it could overflow.
+pub fn hundredths_of_degree(c: f64) -> f64 {
+    if c.abs() > 1e12 {
+        return c;
+    }
+    // `+ 0.0` turns a rounded −0 into 0, so nothing prints as `-0 C`.
+    (c * 100.0).round() / 100.0 + 0.0
+}
+
+/// A headroom in percent as answers show it: to 0.1.
+pub fn tenths_of_percent(pct: f64) -> f64 {
+    (pct * 10.0).round() / 10.0
+}
+
 /// Rounds `x` to `digits` significant figures (1..=15). Non-finite values pass through.
 ///
 /// Rounding goes through the decimal text of the number, so the result is the f64 nearest

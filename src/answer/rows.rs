@@ -131,13 +131,8 @@ mod tests {
         let mut names = ScreenNames::default();
         names.push("salt a", vec!["A".into()], vec![]);
         names.push("salt b", vec!["B·H2O".into(), "B".into()], vec!["B".into()]);
-        let row = |solute, finding| ScreenedRow {
-            solute,
-            finding,
-            basis: Basis::Interpolated,
-            holds: true,
-            temperature_c: 5.0,
-            headroom_pct: Some(12.5),
+        let row = |solute, finding| {
+            ScreenedRow::new(solute, finding, Basis::Interpolated, true, 5.0, 12.5)
         };
         ScreenTable::new(
             Arc::new(names),

@@ -59,18 +59,95 @@ pub enum Finding {
     Ice,
 }
 
-/// One solute's row of a screening, by reference.
+/// One solute's row of a screening, by reference, in 32 bytes: its numbers as worked out,
+/// rounded as answers show them when the row is made whole ([`ScreenTable::row`]).
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct ScreenedRow {
     /// The solute's position in the catalog.
-    pub solute: u32,
-    pub finding: Finding,
-    pub basis: Basis,
-    pub holds: bool,
-    /// The limiting temperature (or where ice forms), °C, rounded as answers show it.
-    pub temperature_c: f64,
-    /// Headroom in percent, when finite.
-    pub headroom_pct: Option<f64>,
+    solute: u32,
+    /// The stable branch (a solubility row).
+    branch: u16,
+    basis: Basis,
+    /// [`HOLDS`], [`ICE`], [`HAS_VALUE`].
+    flags: u8,
+    /// The limiting temperature (or where ice forms), °C.
+    celsius: f64,
+    /// Headroom in percent (not finite for a zero loading, which holds without limit).
+    headroom_pct: f64,
+    /// The solubility in the loading's unit, when [`HAS_VALUE`].
+    value: f64,
+}
+
+/// The loading stays dissolved.
+const HOLDS: u8 = 1;
+/// The row is [`Finding::Ice`].
+const ICE: u8 = 2;
+/// The solubility row has a value.
+const HAS_VALUE: u8 = 4;
+
+impl ScreenedRow {
+    /// The row of the solute at `solute` in the catalog: what it found, on what basis,
+    /// whether the loading holds, the limiting temperature in °C and the headroom in
+    /// percent (an ice row has neither headroom nor a passing loading).
+    pub fn new(
+        solute: u32,
+        finding: Finding,
+        basis: Basis,
+        holds: bool,
+        celsius: f64,
+        headroom_pct: f64,
+    ) -> Self {
+        let (branch, value, flags) = match finding {
+            Finding::Ice => (0, f64::NAN, ICE),
+            Finding::Solubility { branch, value } => (
+                branch,
+                value.unwrap_or(f64::NAN),
+                if holds { HOLDS } else { 0 } | if value.is_some() { HAS_VALUE } else { 0 },
+            ),
+        };
+        ScreenedRow {
+            solute,
+            branch,
+            basis,
+            flags,
+            celsius,
+            headroom_pct,
+            value,
+        }
+    }
+
+    /// The solute's position in the catalog.
+    pub fn solute(&self) -> u32 {
+        self.solute
+    }
+
+    /// Whether the loading stays dissolved.
+    pub fn holds(&self) -> bool {
+        self.flags & HOLDS != 0
+    }
+
+    /// What the row says of its solute.
+    pub fn finding(&self) -> Finding {
+        if self.flags & ICE != 0 {
+            Finding::Ice
+        } else {
+            Finding::Solubility {
+                branch: self.branch,
+                value: (self.flags & HAS_VALUE != 0).then_some(self.value),
+            }
+        }
+    }
+
+    /// The limiting temperature (or where ice forms), °C, as answers show it.
+    fn temperature_c(&self) -> f64 {
+        number::hundredths_of_degree(self.celsius)
+    }
+
+    /// The headroom in percent as answers show it, when finite.
+    fn headroom(&self) -> Option<f64> {
+        let pct = self.headroom_pct;
+        pct.is_finite().then(|| number::tenths_of_percent(pct))
+    }
 }
 
 /// Why a solute is listed apart, kept as what it is made of until it is shown (a screening
@@ -235,7 +312,7 @@ impl ScreenTable {
 
     /// The row's solid phase: ice, or its stable phase at the limiting temperature.
     fn phase_of(&self, r: &ScreenedRow) -> &str {
-        match r.finding {
+        match r.finding() {
             Finding::Ice => "ice",
             Finding::Solubility { branch, .. } => {
                 self.names.phase(r.solute, self.reviewed_only, branch)
@@ -245,14 +322,15 @@ impl ScreenTable {
 
     /// The row with the solute's name and the phase given as texts.
     fn row_with(&self, r: &ScreenedRow, solute: String, phase: String) -> Row {
-        match r.finding {
+        let temperature_c = r.temperature_c();
+        match r.finding() {
             Finding::Ice => Row {
                 solute: Some(solute),
                 quantity: Some(Cow::Borrowed("ice appears on cooling below")),
-                value: Some(r.temperature_c),
+                value: Some(temperature_c),
                 unit: Some(Cow::Borrowed("C")),
                 basis: Some(r.basis),
-                temperature_c: Some(r.temperature_c),
+                temperature_c: Some(temperature_c),
                 holds: Some(false),
                 phase: Some(phase),
                 ..Row::default()
@@ -263,9 +341,9 @@ impl ScreenTable {
                 value: value.map(number::value),
                 unit: value.map(|_| Cow::Borrowed(self.unit)),
                 basis: Some(r.basis),
-                temperature_c: Some(r.temperature_c),
-                holds: Some(r.holds),
-                headroom_pct: r.headroom_pct,
+                temperature_c: Some(temperature_c),
+                holds: Some(r.holds()),
+                headroom_pct: r.headroom(),
                 phase: Some(phase),
                 ..Row::default()
             },

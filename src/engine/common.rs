@@ -13,13 +13,7 @@ use crate::science::units::{self, CompositionUnit, Context};
 
 /// Kelvin to °C, rounded to 0.01 K (the precision of the inversions).
 pub fn celsius(t_k: f64) -> f64 {
-    let c = t_k - 273.15;
-    // Beyond 1e12 the rounding would overflow to infinity; such a number has no hundredths.
-    if c.abs() > 1e12 {
-        return c;
-    }
-    // `+ 0.0` turns a rounded −0 into 0, so nothing prints as `-0 C`.
-    (c * 100.0).round() / 100.0 + 0.0
+    crate::number::hundredths_of_degree(t_k - 273.15)
 }
 
 /// A temperature (K) in °C for a message: to 0.01 K, or in exponent form when it is far

@@ -29,6 +29,7 @@ mod per_litre;
 mod phase_plot;
 pub mod pitzer_solids;
 mod plot;
+mod ranking;
 mod recipe;
 mod records;
 mod screen;

@@ -71,7 +71,7 @@ fn stable_range_caveat(answer: &mut Answer) {
 
 /// Headroom in percent, to 0.1 %.
 fn headroom(pct: f64) -> f64 {
-    (pct * 10.0).round() / 10.0
+    crate::number::tenths_of_percent(pct)
 }
 
 /// Headroom for a row: none for a zero loading (it holds trivially, without limit).

@@ -216,13 +216,19 @@ impl<'a> Knots<'a> {
             // On an end knot, or beyond it on its tangent.
             return (self.piece(x).value(), basis(true));
         }
-        match xs.binary_search_by(|v| v.total_cmp(&x)) {
-            Ok(k) => (ys[k], basis(true)),
+        if x.is_nan() {
+            return (f64::NAN, basis(false));
+        }
+        // Strictly between the end knots: `k` is the first knot at or above x, in 1..n−1.
+        let k = xs.partition_point(|&v| v < x);
+        match (xs.get(k), k.checked_sub(1)) {
+            (Some(&at), _) if at == x => (ys[k], basis(true)),
             // Between knots k − 1 and k: only they can lie within 1e-9 of x.
-            Err(k) => match k.checked_sub(1) {
-                Some(before) => (self.value_on(before, x), basis(near(before) || near(k))),
-                None => (self.value(x), basis(false)),
-            },
+            (Some(_), Some(before)) => (
+                self.cubic(before, x).value(),
+                basis(near(before) || near(k)),
+            ),
+            _ => (self.value(x), basis(false)),
         }
     }
 

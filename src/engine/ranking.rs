@@ -1,0 +1,210 @@
+//! The order a screening shows its rows in: best headroom first, equal headrooms by solute
+//! name, then in catalog order. A screening may rank 100,000 rows, so the headrooms are
+//! turned into integers that order as the numbers do ([`descending`]) and the rows'
+//! positions are spread over buckets by their headrooms' values, one pass for most of them
+//! ([`order_positions`]), rather than compared with each other.
+
+/// The headroom's bits turned so that the integers order as `f64::total_cmp` orders the
+/// numbers, reversed (best first).
+pub fn descending(x: f64) -> u64 {
+    let bits = x.to_bits();
+    let ascending = if bits >> 63 == 1 {
+        !bits
+    } else {
+        bits | (1 << 63)
+    };
+    !ascending
+}
+
+/// The headroom a key of [`descending`] was made from.
+fn headroom_of(key: u64) -> f64 {
+    let ascending = !key;
+    f64::from_bits(if ascending >> 63 == 1 {
+        ascending & !(1 << 63)
+    } else {
+        !ascending
+    })
+}
+
+/// The positions `0..keys.len()` in the order shown: by key (`keys[p]` is row `p`'s
+/// headroom as [`descending`] makes it), equal keys by `name(p)`, then by position.
+pub fn ranked<'a>(keys: &[u64], name: impl Fn(u32) -> &'a str) -> Vec<u32> {
+    let n = u32::try_from(keys.len()).unwrap_or(u32::MAX);
+    let mut order: Vec<u32> = (0..n).collect();
+    order_positions(keys, &mut order, &mut Vec::new(), 0);
+    // Equal headrooms (rare, but every solute that freezes) by name, then position, as a
+    // stable sort by (headroom, name) would leave them.
+    let key = |p: u32| keys.get(p as usize).copied();
+    let mut start = 0;
+    while start < order.len() {
+        let first = key(order[start]);
+        let run = order[start..]
+            .iter()
+            .take_while(|&&p| key(p) == first)
+            .count();
+        if run > 1 {
+            order[start..start + run].sort_by(|&a, &b| name(a).cmp(name(b)).then(a.cmp(&b)));
+        }
+        start += run;
+    }
+    order
+}
+
+/// Up to how many positions [`order_positions`] sorts by comparison.
+const SMALL: usize = 32;
+
+/// How many times [`order_positions`] spreads a bucket again before it sorts it by
+/// comparison (headrooms spread far apart, say by powers of ten, would otherwise peel off
+/// a few rows a spread).
+const DEEPEST: u32 = 6;
+
+/// Sorts `positions` by their keys, then by position. Each position of a finite headroom
+/// goes to one of as many buckets as there are positions, in proportion to where its
+/// headroom lies between the highest and the lowest (a bucket's index never falls as the key
+/// rises); the others (infinite, not a number) to a bucket at either end. A bucket keeps its
+/// positions in the order they came, and is sorted the same way in turn. `moved` is the
+/// buffer the positions are spread through.
+fn order_positions(keys: &[u64], positions: &mut [u32], moved: &mut Vec<u32>, depth: u32) {
+    let key = |p: u32| keys.get(p as usize).copied().unwrap_or(u64::MAX);
+    let by_comparison = |positions: &mut [u32]| positions.sort_unstable_by_key(|&p| (key(p), p));
+    let m = positions.len();
+    if m <= SMALL || depth >= DEEPEST {
+        by_comparison(positions);
+        return;
+    }
+    // The lowest and highest keys of finite headrooms (the highest and lowest headrooms).
+    let (mut lo, mut hi) = (u64::MAX, 0);
+    for &p in positions.iter() {
+        let k = key(p);
+        if headroom_of(k).is_finite() {
+            lo = lo.min(k);
+            hi = hi.max(k);
+        }
+    }
+    let (top, bottom) = (headroom_of(lo), headroom_of(hi));
+    let span = top - bottom;
+    if lo > hi || !(span.is_finite() && span > 0.0) {
+        // No two finite headrooms differ (or their span overflows): by comparison, which
+        // is quick on positions already in order.
+        by_comparison(positions);
+        return;
+    }
+    let scale = m as f64 / span;
+    // Keys from `lo` to `hi` are those of finite headrooms; the difference from the top and
+    // the product never fall as the key rises (the headroom falls), nor does their cut.
+    let bucket = |k: u64| {
+        if k < lo {
+            0
+        } else if k > hi {
+            m + 1
+        } else {
+            1 + (((top - headroom_of(k)) * scale) as usize).min(m - 1)
+        }
+    };
+    let mut starts = vec![0usize; m + 3];
+    for &p in positions.iter() {
+        starts[bucket(key(p)) + 1] += 1;
+    }
+    for i in 1..starts.len() {
+        starts[i] += starts[i - 1];
+    }
+    moved.clear();
+    moved.resize(m, 0);
+    let mut next = starts.clone();
+    for &p in positions.iter() {
+        let b = bucket(key(p));
+        if let Some(slot) = moved.get_mut(next[b]) {
+            *slot = p;
+        }
+        next[b] += 1;
+    }
+    positions.copy_from_slice(moved);
+    for pair in starts.windows(2) {
+        if pair[1] - pair[0] > 1 {
+            order_positions(keys, &mut positions[pair[0]..pair[1]], moved, depth + 1);
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// A small deterministic generator for invented headrooms.
+    fn xorshift(mut state: u64) -> impl FnMut() -> u64 {
+        move || {
+            state ^= state << 13;
+            state ^= state >> 7;
+            state ^= state << 17;
+            state
+        }
+    }
+
+    #[test]
+    fn the_positions_come_in_the_order_of_a_full_sort_by_key_and_position() {
+        // Invented headrooms: spread, crowded, repeated, signed zeros, infinities, NaN, a
+        // span that overflows, powers of ten; each ordered by value and against a sort of
+        // the (key, position) pairs.
+        let mut next = xorshift(0x9E37_79B9_7F4A_7C15);
+        let mut lists: Vec<Vec<f64>> = Vec::new();
+        lists.push((0..5_000).map(|_| (next() % 48_000) as f64 / 100.0 - 98.0).collect());
+        lists.push((0..5_000).map(|_| 1.0 + (next() % 7) as f64 * 1e-12).collect());
+        let mut mixed: Vec<f64> = (0..4_000).map(|_| (next() % 1_000) as f64 - 500.0).collect();
+        mixed.extend([f64::INFINITY, f64::NEG_INFINITY, f64::NAN, -f64::NAN, 0.0, -0.0]);
+        mixed.extend([1e300, -1e300, 1e-300, f64::MAX, f64::MIN]);
+        lists.push(mixed.clone());
+        mixed.retain(|x| x.abs() < 1e299);
+        lists.push(mixed);
+        lists.push(vec![7.0; 3_000]);
+        let mut crowd: Vec<f64> = (0..3_000).map(|_| (next() % 3) as f64).collect();
+        crowd.push(1e6);
+        lists.push(crowd);
+        lists.push((0..3_000).map(|i| 10f64.powi(i % 600 - 300)).collect());
+        lists.push(vec![f64::NEG_INFINITY; 100]);
+        lists.push(vec![]);
+        for headrooms in lists {
+            let keys: Vec<u64> = headrooms.iter().map(|&h| descending(h)).collect();
+            let order = ranked(&keys, |_| "");
+            let mut want: Vec<(u64, u32)> = keys.iter().copied().zip(0u32..).collect();
+            want.sort_unstable();
+            let want: Vec<u32> = want.into_iter().map(|(_, p)| p).collect();
+            assert_eq!(order, want, "{:?}", headrooms.get(..3));
+        }
+    }
+
+    #[test]
+    fn equal_headrooms_come_by_name_then_position() {
+        let keys: Vec<u64> = [2.0, 5.0, 2.0, 2.0, f64::NEG_INFINITY, f64::NEG_INFINITY]
+            .iter()
+            .map(|&h| descending(h))
+            .collect();
+        let names = ["b", "x", "a", "b", "d", "c"];
+        let order = ranked(&keys, |p| names[p as usize]);
+        assert_eq!(order, [1, 2, 0, 3, 5, 4]);
+    }
+
+    #[test]
+    fn the_integer_keys_order_as_the_headrooms_reversed() {
+        let values = [
+            f64::NEG_INFINITY,
+            -1e300,
+            -12.5,
+            -0.0,
+            0.0,
+            1e-300,
+            3.0,
+            12.5,
+            f64::INFINITY,
+        ];
+        for a in values {
+            for b in values {
+                assert_eq!(
+                    descending(a).cmp(&descending(b)),
+                    b.total_cmp(&a),
+                    "{a} {b}"
+                );
+            }
+            assert_eq!(headroom_of(descending(a)).to_bits(), a.to_bits());
+        }
+    }
+}

@@ -147,10 +147,27 @@ mod tests {
         // the (key, position) pairs.
         let mut next = xorshift(0x9E37_79B9_7F4A_7C15);
         let mut lists: Vec<Vec<f64>> = Vec::new();
-        lists.push((0..5_000).map(|_| (next() % 48_000) as f64 / 100.0 - 98.0).collect());
-        lists.push((0..5_000).map(|_| 1.0 + (next() % 7) as f64 * 1e-12).collect());
-        let mut mixed: Vec<f64> = (0..4_000).map(|_| (next() % 1_000) as f64 - 500.0).collect();
-        mixed.extend([f64::INFINITY, f64::NEG_INFINITY, f64::NAN, -f64::NAN, 0.0, -0.0]);
+        lists.push(
+            (0..5_000)
+                .map(|_| (next() % 48_000) as f64 / 100.0 - 98.0)
+                .collect(),
+        );
+        lists.push(
+            (0..5_000)
+                .map(|_| 1.0 + (next() % 7) as f64 * 1e-12)
+                .collect(),
+        );
+        let mut mixed: Vec<f64> = (0..4_000)
+            .map(|_| (next() % 1_000) as f64 - 500.0)
+            .collect();
+        mixed.extend([
+            f64::INFINITY,
+            f64::NEG_INFINITY,
+            f64::NAN,
+            -f64::NAN,
+            0.0,
+            -0.0,
+        ]);
         mixed.extend([1e300, -1e300, 1e-300, f64::MAX, f64::MIN]);
         lists.push(mixed.clone());
         mixed.retain(|x| x.abs() < 1e299);

@@ -30,8 +30,15 @@ fn headroom_of(key: u64) -> f64 {
 /// headroom as [`descending`] makes it), equal keys by `name(p)`, then by position.
 pub fn ranked<'a>(keys: &[u64], name: impl Fn(u32) -> &'a str) -> Vec<u32> {
     let n = u32::try_from(keys.len()).unwrap_or(u32::MAX);
-    let mut order: Vec<u32> = (0..n).collect();
-    order_positions(keys, &mut order, &mut Vec::new(), 0);
+    let mut order: Vec<u32> = if keys.len() < SPREAD_FROM {
+        let mut pairs: Vec<(u64, u32)> = keys.iter().copied().zip(0..n).collect();
+        pairs.sort_unstable();
+        pairs.into_iter().map(|(_, p)| p).collect()
+    } else {
+        let mut order: Vec<u32> = (0..n).collect();
+        order_positions(keys, &mut order, &mut Vec::new(), 0);
+        order
+    };
     // Equal headrooms (rare, but every solute that freezes) by name, then position, as a
     // stable sort by (headroom, name) would leave them.
     let key = |p: u32| keys.get(p as usize).copied();
@@ -49,6 +56,10 @@ pub fn ranked<'a>(keys: &[u64], name: impl Fn(u32) -> &'a str) -> Vec<u32> {
     }
     order
 }
+
+/// From how many rows [`ranked`] spreads them over buckets rather than sorting them by
+/// comparison.
+const SPREAD_FROM: usize = 1024;
 
 /// Up to how many positions [`order_positions`] sorts by comparison.
 const SMALL: usize = 32;

@@ -112,6 +112,50 @@ pub fn lowest_with(
     if let Some(m) = lone.and_then(|b| lowest_on_lone(b, t1_k, t2_k, scratch)) {
         return Ok(m);
     }
+    // So too where one branch is the only one stable anywhere in the range, and stable and
+    // covered beyond both its ends: there the stable curve is that branch (see
+    // [`Curve::evaluate`]).
+    if let Some((i, b)) = sole_stable_branch(curve, t1_k, t2_k) {
+        return Ok(Lowest {
+            branch: i,
+            ..lowest_on(b, t1_k, t2_k, scratch)
+        });
+    }
+    lowest_of_all(curve, t1_k, t2_k, extrapolate, scratch)
+}
+
+/// The branch (its index and view) whose known stable range reaches beyond both ends of
+/// [t1_k, t2_k] (and so does the range it covers, which holds its stable range) while no
+/// other branch's known stable range reaches into it: the one branch the stable curve can
+/// be there.
+fn sole_stable_branch(curve: &Curve, t1_k: f64, t2_k: f64) -> Option<(usize, BranchView<'_>)> {
+    let strictly_within = |(lo, hi): (f64, f64)| lo < t1_k && t2_k < hi;
+    let mut sole = None;
+    for (i, branch) in curve.branches.iter().enumerate() {
+        let b = branch.view();
+        match b.stable {
+            Some(stable) if strictly_within(stable) => {
+                if sole.is_some() {
+                    return None;
+                }
+                sole = Some((i, b));
+            }
+            Some((lo, hi)) if lo <= t2_k && hi >= t1_k => return None,
+            _ => {}
+        }
+    }
+    sole
+}
+
+/// [`lowest_with`] from every branch's candidates (the module's comment), each evaluated
+/// on the stable curve.
+fn lowest_of_all(
+    curve: &Curve,
+    t1_k: f64,
+    t2_k: f64,
+    extrapolate: bool,
+    scratch: &mut Scratch,
+) -> Result<Lowest, ScienceError> {
     if extrapolate {
         // Both ends within reach: the window is an interval around the data, so the
         // whole range is.
@@ -246,10 +290,12 @@ fn walked(b: BranchView<'_>, t1_k: f64, t2_k: f64) -> Lowest {
     let (xs, ys) = (b.knots.x(), b.knots.y());
     // The mass fraction as `BranchView::mass_fraction` gives it, from a value of the knots.
     let clamped = |v: f64| v.clamp(0.0, 1.0 - 1e-12);
-    let mut best = (t1_k, b.mass_fraction(t1_k), true);
-    let mut consider = |t: f64, w: f64, at_breakpoint: bool| {
+    // The range's ends come with their basis; any other lowest point gets its own below.
+    let (w1, basis1) = b.mass_fraction_and_basis(t1_k);
+    let mut best = (t1_k, w1, true, Some(basis1));
+    let mut consider_with = |t: f64, w: f64, at_breakpoint: bool, basis: Option<Basis>| {
         if better(w, at_breakpoint, best.1, best.2) {
-            best = (t, w, at_breakpoint);
+            best = (t, w, at_breakpoint, basis);
         }
     };
     let strictly_inside = |t: f64| t > t1_k && t < t2_k;
@@ -260,24 +306,25 @@ fn walked(b: BranchView<'_>, t1_k: f64, t2_k: f64) -> Lowest {
     for (k, &x) in xs.iter().enumerate().take(last).skip(first) {
         if strictly_inside(x) {
             // At a knot the interpolant's value is the knot's own.
-            consider(x, clamped(ys[k]), true);
+            consider_with(x, clamped(ys[k]), true, None);
         }
         let turning = match b.knots.turning_in(k, t1_k, t2_k) {
             [Some(p), Some(q)] if q < p => [Some(q), Some(p)],
             pair => pair,
         };
         for t in turning.into_iter().flatten() {
-            consider(t, clamped(b.knots.value_on(k, t)), false);
+            consider_with(t, clamped(b.knots.value_on(k, t)), false, None);
         }
     }
     if let Some(&x) = xs.get(last)
         && strictly_inside(x)
     {
-        consider(x, b.mass_fraction(x), true);
+        consider_with(x, b.mass_fraction(x), true, None);
     }
-    consider(t2_k, b.mass_fraction(t2_k), true);
-    let (t_k, mass_fraction, _) = best;
-    let (_, basis) = b.mass_fraction_and_basis(t_k);
+    let (w2, basis2) = b.mass_fraction_and_basis(t2_k);
+    consider_with(t2_k, w2, true, Some(basis2));
+    let (t_k, mass_fraction, _, basis) = best;
+    let basis = basis.unwrap_or_else(|| b.mass_fraction_and_basis(t_k).1);
     Lowest {
         t_k,
         mass_fraction,
@@ -446,6 +493,61 @@ mod tests {
                 usize::from(!knots.x().contains(&walk.t_k) && walk.t_k != t1 && walk.t_k != t2);
         }
         assert!(turned > 100, "{turned}");
+    }
+
+    #[test]
+    fn a_branch_stable_alone_over_the_range_gives_what_every_candidate_gives() {
+        // Invented demo curves of two or three branches meeting at transitions (a hydrate
+        // below, another above), stable ranges declared, pseudo-random knots; ranges across
+        // and beside the transitions.
+        let mut state = 0x00C0_FFEE_u64;
+        let mut unit = || {
+            state ^= state << 13;
+            state ^= state >> 7;
+            state ^= state << 17;
+            (state >> 11) as f64 / (1u64 << 53) as f64
+        };
+        let mut scratch = Scratch::default();
+        let (mut alone, mut compared) = (0, 0);
+        for _ in 0..1_000 {
+            let parts = 2 + usize::from(unit() < 0.4);
+            let mut branches = Vec::new();
+            let width = 90.0 / parts as f64;
+            for p in 0..parts {
+                let (from, to) = (273.15 + width * p as f64, 273.15 + width * (p + 1) as f64);
+                let n = 3 + (unit() * 5.0) as usize;
+                // Data inside the stable range, sometimes reaching its ends.
+                let (lo, hi) = (from + 3.0 * unit(), to - 3.0 * unit());
+                let points: Vec<(f64, f64)> = (0..n)
+                    .map(|i| {
+                        let t = lo + (hi - lo) * i as f64 / (n - 1) as f64;
+                        (t, 0.1 + 0.3 * unit() + 0.002 * (t - 273.15))
+                    })
+                    .collect();
+                // Sometimes declared stable a little into its neighbours' ranges too.
+                let overlap = if unit() < 0.3 { 4.0 * unit() } else { 0.0 };
+                let branch = Branch::new(format!("P{p}"), &points)
+                    .and_then(|b| b.with_stable_range(from - overlap, to + overlap))
+                    .unwrap();
+                branches.push(branch);
+            }
+            let Ok(curve) = Curve::new(branches) else {
+                continue;
+            };
+            let (lo, hi) = curve.temperature_range();
+            let t1 = lo + (hi - lo) * unit();
+            let t2 = if unit() < 0.1 {
+                t1
+            } else {
+                t1 + (hi - t1) * unit() * 0.3
+            };
+            alone += usize::from(sole_stable_branch(&curve, t1, t2).is_some());
+            let listed = lowest_of_all(&curve, t1, t2, false, &mut scratch);
+            let with = lowest_with(&curve, None, t1, t2, false, &mut scratch);
+            assert_eq!(with, listed, "{t1} {t2}");
+            compared += 1;
+        }
+        assert!(compared > 900 && alone > 300, "{compared} {alone}");
     }
 
     #[test]

@@ -31,9 +31,14 @@ fn headroom_of(key: u64) -> f64 {
 pub fn ranked<'a>(keys: &[u64], name: impl Fn(u32) -> &'a str) -> Vec<u32> {
     let n = u32::try_from(keys.len()).unwrap_or(u32::MAX);
     let mut order: Vec<u32> = if keys.len() < SPREAD_FROM {
-        let mut pairs: Vec<(u64, u32)> = keys.iter().copied().zip(0..n).collect();
+        // Each key with its position below it: one integer that sorts as the pair.
+        let mut pairs: Vec<u128> = keys
+            .iter()
+            .zip(0..n)
+            .map(|(&key, p)| u128::from(key) << 32 | u128::from(p))
+            .collect();
         pairs.sort_unstable();
-        pairs.into_iter().map(|(_, p)| p).collect()
+        pairs.into_iter().map(|pair| pair as u32).collect()
     } else {
         let mut order: Vec<u32> = (0..n).collect();
         order_positions(keys, &mut order, &mut Vec::new(), 0);

@@ -121,7 +121,7 @@ pub fn lowest_with(
             ..lowest_on(b, t1_k, t2_k, scratch)
         });
     }
-    lowest_of_all(curve, t1_k, t2_k, extrapolate, scratch)
+    lowest_of_all(curve, (t1_k, t2_k), extrapolate, scratch)
 }
 
 /// The branch (its index and view) whose known stable range reaches beyond both ends of
@@ -151,8 +151,7 @@ fn sole_stable_branch(curve: &Curve, t1_k: f64, t2_k: f64) -> Option<(usize, Bra
 /// on the stable curve.
 fn lowest_of_all(
     curve: &Curve,
-    t1_k: f64,
-    t2_k: f64,
+    (t1_k, t2_k): (f64, f64),
     extrapolate: bool,
     scratch: &mut Scratch,
 ) -> Result<Lowest, ScienceError> {
@@ -542,7 +541,7 @@ mod tests {
                 t1 + (hi - t1) * unit() * 0.3
             };
             alone += usize::from(sole_stable_branch(&curve, t1, t2).is_some());
-            let listed = lowest_of_all(&curve, t1, t2, false, &mut scratch);
+            let listed = lowest_of_all(&curve, (t1, t2), false, &mut scratch);
             let with = lowest_with(&curve, None, t1, t2, false, &mut scratch);
             assert_eq!(with, listed, "{t1} {t2}");
             compared += 1;

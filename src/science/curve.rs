@@ -196,39 +196,56 @@ impl<'a> Knots<'a> {
     /// [`Knots::value`] and where `x` falls: on a knot (within 1e-9), between knots, or
     /// outside them; one search for both.
     pub fn value_and_basis(self, x: f64) -> (f64, Basis) {
-        let (xs, ys) = (self.x(), self.y());
-        let n = xs.len();
-        let near = |k: usize| xs.get(k).is_some_and(|&v| (v - x).abs() <= 1e-9);
-        let outside = x < xs[0] || x > xs[n - 1];
-        let basis = |tabulated: bool| {
-            if outside {
-                Basis::Extrapolated
-            } else if tabulated {
-                Basis::Tabulated
-            } else {
-                Basis::Interpolated
-            }
+        let n = self.n();
+        let (xs, rest) = self.0.split_at(n);
+        let (ys, ds) = rest.split_at(n);
+        let (Some(&first), Some(&last)) = (xs.first(), xs.last()) else {
+            return (f64::NAN, Basis::Extrapolated);
         };
-        if n == 1 {
-            return (ys[0], basis(true));
-        }
-        if x <= xs[0] || x >= xs[n - 1] {
-            // On an end knot, or beyond it on its tangent.
-            return (self.piece(x).value(), basis(true));
+        let outside = x < first || x > last;
+        if n == 1 || x <= first || x >= last {
+            // A lone knot, on an end knot, or beyond it on its tangent.
+            let value = if n == 1 { ys[0] } else { self.piece(x).value() };
+            return (
+                value,
+                if outside {
+                    Basis::Extrapolated
+                } else {
+                    Basis::Tabulated
+                },
+            );
         }
         if x.is_nan() {
-            return (f64::NAN, basis(false));
+            return (f64::NAN, Basis::Interpolated);
         }
-        // Strictly between the end knots: `k` is the first knot at or above x, in 1..n−1.
+        // Strictly between the end knots: knot `k` is the first at or above x, in 1..n−1,
+        // and only knots k − 1 and k can lie within 1e-9 of x.
         let k = xs.partition_point(|&v| v < x);
-        match (xs.get(k), k.checked_sub(1)) {
-            (Some(&at), _) if at == x => (ys[k], basis(true)),
-            // Between knots k − 1 and k: only they can lie within 1e-9 of x.
-            (Some(_), Some(before)) => (
-                self.cubic(before, x).value(),
-                basis(near(before) || near(k)),
-            ),
-            _ => (self.value(x), basis(false)),
+        let around = k.checked_sub(1).map(|before| before..k + 1);
+        let (x_pair, y_pair, d_pair) = (
+            around.clone().and_then(|r| xs.get(r)),
+            around.clone().and_then(|r| ys.get(r)),
+            around.and_then(|r| ds.get(r)),
+        );
+        match (x_pair, y_pair, d_pair) {
+            (Some(&[_, x1]), Some(&[_, y1]), _) if x1 == x => (y1, Basis::Tabulated),
+            (Some(&[x0, x1]), Some(&[y0, y1]), Some(&[d0, d1])) => {
+                let h = x1 - x0;
+                let piece = Piece::Cubic {
+                    t: (x - x0) / h,
+                    h,
+                    y: (y0, y1),
+                    d: (d0, d1),
+                };
+                let near = (x0 - x).abs() <= 1e-9 || (x1 - x).abs() <= 1e-9;
+                let basis = if near {
+                    Basis::Tabulated
+                } else {
+                    Basis::Interpolated
+                };
+                (piece.value(), basis)
+            }
+            _ => (self.value(x), Basis::Interpolated),
         }
     }
 
@@ -271,6 +288,7 @@ enum Piece {
 }
 
 impl Piece {
+    #[inline]
     fn value(&self) -> f64 {
         match *self {
             Piece::Line(y, d, dx) => y + d * dx,

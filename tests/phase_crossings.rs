@@ -83,16 +83,45 @@ proptest! {
         prop_assume!(w > 1e-4 && w < 0.99);
         // The statement's loading is printed and read back: use the value it reads.
         let w: f64 = format!("{}", w).parse().unwrap();
-        let reported = saturation_temperatures(&engine, id, w);
-        for t in scanned_crossings(curve, w) {
-            prop_assert!(
-                reported.iter().any(|r| (r - t).abs() < 0.02),
+        if let Err(missed) = every_crossing_reported(&engine, id, curve, w) {
+            prop_assert!(false, "{}", missed);
+        }
+    }
+}
+
+/// Whether every sign change the scan finds is a saturation temperature of the statement
+/// (within 0.02 K); else what was missed.
+fn every_crossing_reported(engine: &Engine, id: &str, curve: &Curve, w: f64) -> Result<(), String> {
+    let reported = saturation_temperatures(engine, id, w);
+    for t in scanned_crossings(curve, w) {
+        if !reported.iter().any(|r| (r - t).abs() < 0.02) {
+            return Err(format!(
                 "{id} at w = {w}: the scan crosses at {:.3} C, saturation reports {:?}",
                 t - 273.15,
                 reported.iter().map(|r| r - 273.15).collect::<Vec<_>>()
-            );
+            ));
         }
     }
+    Ok(())
+}
+
+#[test]
+fn a_loading_inside_the_step_at_a_transition_is_crossed_below_at_and_above_it() {
+    // Found by the property above: the seed's magnesium sulfate curves (hepta- and
+    // hexahydrate) differ by about 1e-4 in mass fraction at their transition near 48.1 C,
+    // and this loading lies in that step. The heptahydrate crosses it just below the
+    // transition, the curve steps below it at the transition, the hexahydrate crosses it
+    // again just above.
+    let engine = Engine::open_embedded().unwrap();
+    let curves = seed_curves(&engine);
+    let (id, curve) = curves
+        .iter()
+        .find(|(id, _)| id == "magnesium-sulfate")
+        .unwrap();
+    let w = 0.33046062480318145;
+    every_crossing_reported(&engine, id, curve, w).unwrap();
+    let reported = saturation_temperatures(&engine, id, w);
+    assert_eq!(reported.len(), 3, "{reported:?}");
 }
 
 #[test]

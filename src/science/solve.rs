@@ -73,6 +73,10 @@ fn scan_grid(curve: &Curve, lo: f64, hi: f64, uncovered_too: bool) -> Vec<f64> {
         .collect()
 }
 
+/// How far inside an interval its end at a transition is read, K (far below the 0.01 K the
+/// answers show).
+const BESIDE_K: f64 = 1e-7;
+
 fn value(curve: &Curve, t: f64) -> f64 {
     curve.mass_fraction(t, true).unwrap_or(f64::NAN)
 }
@@ -81,9 +85,10 @@ fn value(curve: &Curve, t: f64) -> f64 {
 ///
 /// Method: the curve minus the loading is sampled on a grid of every knot and transition
 /// plus 200 steps between neighbours; each sign change is refined by bisection to 1e-7 K
-/// (the curve is continuous on each branch; at a transition the stable curve is continuous
-/// too, as the branches cross there). A grid point equal to the loading counts as a
-/// crossing. Temperatures between branches with no data are not searched (see
+/// (the curve is continuous on each branch). At a transition the stable curve may step,
+/// since two branches' data need not meet exactly there: an interval that ends at one is
+/// judged by the curve's limit inside it, and a step across the loading is a crossing at
+/// the transition. A grid point equal to the loading counts as a crossing. Temperatures between branches with no data are not searched (see
 /// [`saturation_temperatures_with`]).
 pub fn saturation_temperatures(curve: &Curve, w: f64) -> Result<Vec<Crossing>, ScienceError> {
     saturation_temperatures_with(curve, w, false)
@@ -125,9 +130,26 @@ pub fn saturation_temperatures_with(
             });
         }
     };
+    // At a transition the stable curve may step (the branches' data need not meet exactly
+    // there): an interval is judged by the curve's limits inside it, and a step across the
+    // loading is a crossing at the transition itself.
+    let transition = |t: f64| curve.transitions().iter().any(|tr| tr.t_k == t);
+    let inside = |t: f64, toward: f64| {
+        if transition(t) {
+            value(curve, t + (toward - t).signum() * BESIDE_K) - w
+        } else {
+            value(curve, t) - w
+        }
+    };
     for pair in grid.windows(2) {
         let (a, b) = (pair[0], pair[1]);
-        let (fa, fb) = (value(curve, a) - w, value(curve, b) - w);
+        if transition(a) {
+            let (below, above) = (inside(a, a - 1.0), inside(a, a + 1.0));
+            if below * above < 0.0 {
+                push(a, above > below);
+            }
+        }
+        let (fa, fb) = (inside(a, b), inside(b, a));
         if fa == 0.0 {
             push(a, fb > 0.0);
             continue;

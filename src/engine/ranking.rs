@@ -2,7 +2,7 @@
 //! name, then in catalog order. A screening may rank 100,000 rows, so the headrooms are
 //! turned into integers that order as the numbers do ([`descending`]) and the rows'
 //! positions are spread over buckets by their headrooms' values, one pass for most of them
-//! ([`order_positions`]), rather than compared with each other.
+//! ([`spread`]), rather than compared with each other.
 
 /// The headroom's bits turned so that the integers order as `f64::total_cmp` orders the
 /// numbers, reversed (best first).
@@ -30,6 +30,7 @@ fn headroom_of(key: u64) -> f64 {
 /// headroom as [`descending`] makes it), equal keys by `name(p)`, then by position.
 pub fn ranked<'a>(keys: &[u64], name: impl Fn(u32) -> &'a str) -> Vec<u32> {
     let n = u32::try_from(keys.len()).unwrap_or(u32::MAX);
+    let key = |p: u32| keys.get(p as usize).copied().unwrap_or(u64::MAX);
     let mut order: Vec<u32> = if keys.len() < SPREAD_FROM {
         // Each key with its position below it: one integer that sorts as the pair.
         let mut pairs: Vec<u128> = keys
@@ -41,50 +42,69 @@ pub fn ranked<'a>(keys: &[u64], name: impl Fn(u32) -> &'a str) -> Vec<u32> {
         pairs.into_iter().map(|pair| pair as u32).collect()
     } else {
         let mut order: Vec<u32> = (0..n).collect();
-        order_positions(keys, &mut order, &mut Vec::new(), 0);
+        spread(keys, &mut order, &mut Vec::new(), 0);
+        // Every position now lies within its bucket, and a bucket holds at most `SMALL`
+        // positions not yet in order: one pass of insertion puts them in order.
+        insert_in_order(&mut order, |a, b| (key(a), a) < (key(b), b));
         order
     };
     // Equal headrooms (rare, but every solute that freezes) by name, then position, as a
     // stable sort by (headroom, name) would leave them.
-    let key = |p: u32| keys.get(p as usize).copied();
     let mut start = 0;
-    while start < order.len() {
-        let first = key(order[start]);
-        let run = order[start..]
-            .iter()
-            .take_while(|&&p| key(p) == first)
-            .count();
-        if run > 1 {
-            order[start..start + run].sort_by(|&a, &b| name(a).cmp(name(b)).then(a.cmp(&b)));
+    let mut first = order.first().map(|&p| key(p));
+    for i in 1..=order.len() {
+        let here = order.get(i).map(|&p| key(p));
+        if here != first {
+            if i - start > 1 {
+                order[start..i].sort_by(|&a, &b| name(a).cmp(name(b)).then(a.cmp(&b)));
+            }
+            (start, first) = (i, here);
         }
-        start += run;
     }
     order
+}
+
+/// Sorts `positions` by insertion: quick where each is at most a few places from its own.
+fn insert_in_order(positions: &mut [u32], before: impl Fn(u32, u32) -> bool) {
+    for i in 1..positions.len() {
+        let p = positions[i];
+        let mut j = i;
+        while j > 0 && before(p, positions[j - 1]) {
+            positions[j] = positions[j - 1];
+            j -= 1;
+        }
+        positions[j] = p;
+    }
 }
 
 /// From how many rows [`ranked`] spreads them over buckets rather than sorting them by
 /// comparison.
 const SPREAD_FROM: usize = 1024;
 
-/// Up to how many positions [`order_positions`] sorts by comparison.
+/// Up to how many positions a bucket of [`spread`] may hold without being spread again
+/// (its positions are put in order by [`insert_in_order`]).
 const SMALL: usize = 32;
 
-/// How many times [`order_positions`] spreads a bucket again before it sorts it by
-/// comparison (headrooms spread far apart, say by powers of ten, would otherwise peel off
-/// a few rows a spread).
+/// How many times [`spread`] spreads a bucket again before it sorts it by comparison
+/// (headrooms spread far apart, say by powers of ten, would otherwise peel off a few rows a
+/// spread).
 const DEEPEST: u32 = 6;
 
-/// Sorts `positions` by their keys, then by position. Each position of a finite headroom
-/// goes to one of as many buckets as there are positions, in proportion to where its
-/// headroom lies between the highest and the lowest (a bucket's index never falls as the key
-/// rises); the others (infinite, not a number) to a bucket at either end. A bucket keeps its
-/// positions in the order they came, and is sorted the same way in turn. `moved` is the
-/// buffer the positions are spread through.
-fn order_positions(keys: &[u64], positions: &mut [u32], moved: &mut Vec<u32>, depth: u32) {
+/// Puts `positions` in buckets by their keys. Each position of a finite headroom goes to one
+/// of as many buckets as there are positions, in proportion to where its headroom lies
+/// between the highest and the lowest (a bucket's index never falls as the key rises); the
+/// others (infinite, not a number) to a bucket at either end. A bucket of more than `SMALL`
+/// positions is spread the same way in turn, or sorted by key and position once `DEEPEST`
+/// deep; smaller ones are left in the order they came. `moved` is the buffer the positions
+/// are spread through.
+fn spread(keys: &[u64], positions: &mut [u32], moved: &mut Vec<u32>, depth: u32) {
     let key = |p: u32| keys.get(p as usize).copied().unwrap_or(u64::MAX);
     let by_comparison = |positions: &mut [u32]| positions.sort_unstable_by_key(|&p| (key(p), p));
     let m = positions.len();
-    if m <= SMALL || depth >= DEEPEST {
+    if m <= SMALL {
+        return;
+    }
+    if depth >= DEEPEST {
         by_comparison(positions);
         return;
     }
@@ -117,28 +137,40 @@ fn order_positions(keys: &[u64], positions: &mut [u32], moved: &mut Vec<u32>, de
             1 + (((top - headroom_of(k)) * scale) as usize).min(m - 1)
         }
     };
-    let mut starts = vec![0usize; m + 3];
-    for &p in positions.iter() {
-        starts[bucket(key(p)) + 1] += 1;
-    }
-    for i in 1..starts.len() {
-        starts[i] += starts[i - 1];
+    // Each position's bucket, worked out once; then where each bucket starts.
+    let mut ends = vec![0u32; m + 3];
+    let buckets: Vec<u32> = positions
+        .iter()
+        .map(|&p| {
+            let b = bucket(key(p));
+            if let Some(count) = ends.get_mut(b + 1) {
+                *count += 1;
+            }
+            b as u32
+        })
+        .collect();
+    for i in 1..ends.len() {
+        ends[i] += ends[i - 1];
     }
     moved.clear();
     moved.resize(m, 0);
-    let mut next = starts.clone();
-    for &p in positions.iter() {
-        let b = bucket(key(p));
-        if let Some(slot) = moved.get_mut(next[b]) {
-            *slot = p;
+    // Each bucket's start moves on as it is filled, to end where the bucket ends.
+    for (&p, &b) in positions.iter().zip(&buckets) {
+        if let Some(next) = ends.get_mut(b as usize) {
+            if let Some(slot) = moved.get_mut(*next as usize) {
+                *slot = p;
+            }
+            *next += 1;
         }
-        next[b] += 1;
     }
     positions.copy_from_slice(moved);
-    for pair in starts.windows(2) {
-        if pair[1] - pair[0] > 1 {
-            order_positions(keys, &mut positions[pair[0]..pair[1]], moved, depth + 1);
+    let mut start = 0;
+    for &end in &ends[..m + 2] {
+        let end = end as usize;
+        if end - start > SMALL {
+            spread(keys, &mut positions[start..end], moved, depth + 1);
         }
+        start = end;
     }
 }
 
@@ -202,6 +234,17 @@ mod tests {
             want.sort_unstable();
             let want: Vec<u32> = want.into_iter().map(|(_, p)| p).collect();
             assert_eq!(order, want, "{:?}", headrooms.get(..3));
+            // The buckets alone leave no position more than `SMALL` places after one that
+            // comes later in the order, so the pass of insertion stays short (a bucket
+            // index that falls as the key rises breaks this).
+            let mut spread_only: Vec<u32> = (0..want.len() as u32).collect();
+            spread(&keys, &mut spread_only, &mut Vec::new(), 0);
+            let pair = |p: u32| (keys[p as usize], p);
+            let mut highest_before = None;
+            for i in SMALL..spread_only.len() {
+                highest_before = highest_before.max(Some(pair(spread_only[i - SMALL])));
+                assert!(highest_before <= Some(pair(spread_only[i])), "{i}");
+            }
         }
     }
 

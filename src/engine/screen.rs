@@ -19,7 +19,7 @@ use crate::number::round_significant;
 use crate::query::Screen;
 use crate::science::ScienceError;
 use crate::science::freezing::ICE_POINT;
-use crate::science::solve::{Question, Scratch, verdict, verdict_on_lone};
+use crate::science::solve::{Question, Scratch, Target, verdict, verdict_on_lone};
 use crate::science::units::{self, Context};
 
 use super::solid::zero_loading_caveat;
@@ -55,6 +55,7 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
         .then(|| loading_mass_fraction_by_mass(&s.loading, f64::NAN));
     // The source last cited: a screening's solutes mostly share a few sources.
     let mut last_cited: Option<u32> = None;
+    let mut last_target: Option<(u64, Result<Target, ScienceError>)> = None;
     for (index, solute) in solutes.iter().enumerate() {
         // What a screening reads of each solute lies in one flat record; the solute itself
         // is read only for filters, per-litre loadings and ice.
@@ -117,24 +118,40 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
                 Err(reason) => ice_unknown = Some(reason),
             }
         }
-        let question = Question {
-            w,
-            t1_k: from,
-            t2_k: t2,
-            margin,
-            extrapolate: s.options.extrapolate,
+        // The flat copy where it covers the range; else the whole curve (a curve of one
+        // branch with a stable range of its own has no flat copy and is read as it is).
+        // Most screenings judge every solute against one loading: its target is worked out
+        // once (an error in it is raised for each solute, as before).
+        let target = match &last_target {
+            Some((bits, target)) if *bits == w.to_bits() => target.clone(),
+            _ => {
+                let target = Target::checked(w, margin);
+                last_target = Some((w.to_bits(), target.clone()));
+                target
+            }
         };
         // The flat copy where it covers the range; else the whole curve (a curve of one
         // branch with a stable range of its own has no flat copy and is read as it is).
-        let found = match flat
-            .lone
-            .and_then(|lone| verdict_on_lone(lone, &question, &mut scratch))
-        {
-            Some(found) => found,
-            None => match built() {
-                Some(b) => verdict(&b.curve, b.curve.lone(), &question, &mut scratch),
-                None => continue,
-            },
+        let found = match target {
+            Err(e) => Err(e),
+            Ok(target) => {
+                let question = Question {
+                    target,
+                    t1_k: from,
+                    t2_k: t2,
+                    extrapolate: s.options.extrapolate,
+                };
+                match flat
+                    .lone
+                    .and_then(|lone| verdict_on_lone(lone, &question, &mut scratch))
+                {
+                    Some(found) => Ok(found),
+                    None => match built() {
+                        Some(b) => verdict(&b.curve, b.curve.lone(), &question, &mut scratch),
+                        None => continue,
+                    },
+                }
+            }
         };
         let found = match found {
             Ok(found) => found,
@@ -200,8 +217,9 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
                     )
                     .ok()
                 } else {
-                    units::from_mass_fraction(
+                    units::from_mass_fraction_and_ratio(
                         found.limiting_mass_fraction,
+                        found.limiting_ratio,
                         s.loading.unit,
                         &Context::with_molar_mass(flat.molar_mass),
                     )

@@ -193,6 +193,10 @@ impl<'a> Knots<'a> {
         }
     }
 
+    /// Up to how many knots [`Knots::value_and_basis`] counts those below `x` rather than
+    /// searching for them.
+    const FEW_KNOTS: usize = 16;
+
     /// [`Knots::value`] and where `x` falls: on a knot (within 1e-9), between knots, or
     /// outside them; one search for both.
     pub fn value_and_basis(self, x: f64) -> (f64, Basis) {
@@ -219,8 +223,13 @@ impl<'a> Knots<'a> {
             return (f64::NAN, Basis::Interpolated);
         }
         // Strictly between the end knots: knot `k` is the first at or above x, in 1..n−1,
-        // and only knots k − 1 and k can lie within 1e-9 of x.
-        let k = xs.partition_point(|&v| v < x);
+        // and only knots k − 1 and k can lie within 1e-9 of x. A few knots are counted
+        // (no branch to mispredict), more are searched.
+        let k = if n <= Self::FEW_KNOTS {
+            xs.iter().map(|&v| usize::from(v < x)).sum()
+        } else {
+            xs.partition_point(|&v| v < x)
+        };
         let around = k.checked_sub(1).map(|before| before..k + 1);
         let (x_pair, y_pair, d_pair) = (
             around.clone().and_then(|r| xs.get(r)),
@@ -288,7 +297,7 @@ enum Piece {
 }
 
 impl Piece {
-    #[inline]
+    #[inline(always)]
     fn value(&self) -> f64 {
         match *self {
             Piece::Line(y, d, dx) => y + d * dx,
@@ -1007,17 +1016,28 @@ mod tests {
             ],
         )
         .unwrap();
-        let view = branch.view();
-        let mut points = vec![260.0, 273.15, 400.0, f64::NAN, -f64::NAN];
-        for &x in view.knots.x() {
-            points.extend([x, x - 5e-10, x + 5e-10, x - 2e-9, x + 2e-9, x + 3.3]);
-        }
-        for x in points {
-            let (w, basis) = view.knots.value_and_basis(x);
-            let same = w == view.knots.value(x) || (w.is_nan() && view.knots.value(x).is_nan());
-            assert!(same, "{x}");
-            if !x.is_nan() {
-                assert_eq!(basis, view.basis_at(x), "{x}");
+        // And one of more knots than are counted (they are searched).
+        let knots: Vec<(f64, f64)> = (0..=Knots::FEW_KNOTS + 3)
+            .map(|i| {
+                (
+                    273.15 + 5.0 * i as f64,
+                    0.1 + 0.01 * i as f64 + 0.002 * (i % 3) as f64,
+                )
+            })
+            .collect();
+        let many = Branch::new("M", &knots).unwrap();
+        for view in [branch.view(), many.view()] {
+            let mut points = vec![260.0, 273.15, 400.0, f64::NAN, -f64::NAN];
+            for &x in view.knots.x() {
+                points.extend([x, x - 5e-10, x + 5e-10, x - 2e-9, x + 2e-9, x + 3.3]);
+            }
+            for x in points {
+                let (w, basis) = view.knots.value_and_basis(x);
+                let value = view.knots.value(x);
+                assert!(w == value || (w.is_nan() && value.is_nan()), "{x}");
+                if !x.is_nan() {
+                    assert_eq!(basis, view.basis_at(x), "{x}");
+                }
             }
         }
         let one = Branch::new("B", &[(280.0, 0.2)]).unwrap();

@@ -243,10 +243,9 @@ pub fn stays_dissolved_with(
     extrapolate: bool,
 ) -> Result<Screening, ScienceError> {
     let question = Question {
-        w,
+        target: Target::checked(w, margin)?,
         t1_k,
         t2_k,
-        margin,
         extrapolate,
     };
     let v = verdict(curve, curve.lone(), &question, &mut Scratch::default())?;
@@ -269,6 +268,8 @@ pub struct Verdict {
     /// Index of the stable branch at the limiting temperature.
     pub branch: usize,
     pub limiting_mass_fraction: f64,
+    /// The limiting mass fraction as a ratio of solute to water, w/(1 − w).
+    pub limiting_ratio: f64,
     pub headroom_pct: f64,
     pub basis: Basis,
 }
@@ -282,17 +283,15 @@ pub fn verdict(
     question: &Question,
     scratch: &mut Scratch,
 ) -> Result<Verdict, ScienceError> {
-    let Question {
-        w,
-        t1_k,
-        t2_k,
-        margin,
-        extrapolate,
-    } = *question;
-    let w = check_loading_or_zero(w)?;
-    let margin = check_margin(margin)?;
-    let m = lowest_with(curve, lone, t1_k, t2_k, extrapolate, scratch)?;
-    Ok(judged(&m, w, margin))
+    let m = lowest_with(
+        curve,
+        lone,
+        question.t1_k,
+        question.t2_k,
+        question.extrapolate,
+        scratch,
+    )?;
+    Ok(question.target.judge(&m))
 }
 
 /// [`verdict`] from a curve's lone branch alone (a flat copy of it), where the branch
@@ -301,37 +300,55 @@ pub fn verdict_on_lone(
     lone: BranchView<'_>,
     question: &Question,
     scratch: &mut Scratch,
-) -> Option<Result<Verdict, ScienceError>> {
-    let m = lowest_on_lone(lone, question.t1_k, question.t2_k, scratch)?;
-    let checked =
-        check_loading_or_zero(question.w).and_then(|w| Ok((w, check_margin(question.margin)?)));
-    Some(checked.map(|(w, margin)| judged(&m, w, margin)))
+) -> Option<Verdict> {
+    lowest_on_lone(lone, question.t1_k, question.t2_k, scratch).map(|m| question.target.judge(&m))
 }
 
-/// The verdict on a loading `w` (checked) with `margin` (checked) from the curve's lowest
-/// point over the range.
-fn judged(m: &Lowest, w: f64, margin: f64) -> Verdict {
-    let (r_min, r_load) = (ratio(m.mass_fraction), ratio(w));
-    Verdict {
-        // A zero loading holds trivially (nothing is dissolved); its headroom is infinite.
-        holds: r_min >= r_load * (1.0 + margin),
-        limiting_t_k: m.t_k,
-        branch: m.branch,
-        limiting_mass_fraction: m.mass_fraction,
-        headroom_pct: (r_min / r_load - 1.0) * 100.0,
-        basis: m.basis,
+/// A loading (mass fraction) and a margin (a fraction), both checked, with the ratio of
+/// solute to water a curve's lowest point must reach: what every curve of a screening is
+/// judged against.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Target {
+    r_load: f64,
+    r_needed: f64,
+}
+
+impl Target {
+    pub fn checked(w: f64, margin: f64) -> Result<Self, ScienceError> {
+        let w = check_loading_or_zero(w)?;
+        let margin = check_margin(margin)?;
+        let r_load = ratio(w);
+        Ok(Self {
+            r_load,
+            r_needed: r_load * (1.0 + margin),
+        })
+    }
+
+    /// The verdict on the target from the curve's lowest point over the range.
+    fn judge(&self, m: &Lowest) -> Verdict {
+        let r_min = ratio(m.mass_fraction);
+        Verdict {
+            // A zero loading holds trivially (nothing is dissolved); its headroom is
+            // infinite.
+            holds: r_min >= self.r_needed,
+            limiting_t_k: m.t_k,
+            branch: m.branch,
+            limiting_mass_fraction: m.mass_fraction,
+            limiting_ratio: r_min,
+            headroom_pct: (r_min / self.r_load - 1.0) * 100.0,
+            basis: m.basis,
+        }
     }
 }
 
-/// What [`verdict`] asks of a curve: whether the loading `w` (mass fraction) stays
-/// dissolved over [t1_k, t2_k] with `margin`, extrapolating where the range has no data
-/// when `extrapolate` is true.
+/// What [`verdict`] asks of a curve: whether a loading stays dissolved over [t1_k, t2_k]
+/// with a margin (`target`), extrapolating where the range has no data when `extrapolate`
+/// is true.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Question {
-    pub w: f64,
+    pub target: Target,
     pub t1_k: f64,
     pub t2_k: f64,
-    pub margin: f64,
     pub extrapolate: bool,
 }
 

@@ -433,6 +433,17 @@ pub fn from_mass_fraction(
     unit: CompositionUnit,
     ctx: &Context,
 ) -> Result<f64, ScienceError> {
+    from_mass_fraction_and_ratio(w, w / (1.0 - w), unit, ctx)
+}
+
+/// [`from_mass_fraction`] where the ratio of solute to water `r` = w/(1 − w) is known
+/// already (a screening has it from its verdict).
+pub fn from_mass_fraction_and_ratio(
+    w: f64,
+    r: f64,
+    unit: CompositionUnit,
+    ctx: &Context,
+) -> Result<f64, ScienceError> {
     use CompositionUnit::*;
     if !w.is_finite() || !(0.0..1.0).contains(&w) {
         return Err(invalid(
@@ -441,7 +452,6 @@ pub fn from_mass_fraction(
             "a mass fraction must lie in [0, 1)",
         ));
     }
-    let r = w / (1.0 - w);
     Ok(match unit {
         GramsPer100gWater => 100.0 * r,
         MassPercent => 100.0 * w,

@@ -99,7 +99,8 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
             }
         } else {
             match &same_for_all {
-                Some(w) => w.clone()?,
+                Some(Ok(w)) => *w,
+                Some(Err(e)) => return Err(e.clone()),
                 None => loading_mass_fraction_by_mass(&s.loading, flat.molar_mass)?,
             }
         };
@@ -122,21 +123,17 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
         // branch with a stable range of its own has no flat copy and is read as it is).
         // Most screenings judge every solute against one loading: its target is worked out
         // once (an error in it is raised for each solute, as before).
-        let target = match &last_target {
-            Some((bits, target)) if *bits == w.to_bits() => target.clone(),
-            _ => {
-                let target = Target::checked(w, margin);
-                last_target = Some((w.to_bits(), target.clone()));
-                target
-            }
+        let (_, target) = match &mut last_target {
+            Some(last) if last.0 == w.to_bits() => last,
+            slot => slot.insert((w.to_bits(), Target::checked(w, margin))),
         };
         // The flat copy where it covers the range; else the whole curve (a curve of one
         // branch with a stable range of its own has no flat copy and is read as it is).
         let found = match target {
-            Err(e) => Err(e),
+            Err(e) => Err(e.clone()),
             Ok(target) => {
                 let question = Question {
-                    target,
+                    target: *target,
                     t1_k: from,
                     t2_k: t2,
                     extrapolate: s.options.extrapolate,

@@ -199,6 +199,7 @@ impl<'a> Knots<'a> {
 
     /// [`Knots::value`] and where `x` falls: on a knot (within 1e-9), between knots, or
     /// outside them; one search for both.
+    #[inline]
     pub fn value_and_basis(self, x: f64) -> (f64, Basis) {
         let n = self.n();
         let (xs, rest) = self.0.split_at(n);

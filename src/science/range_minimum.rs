@@ -229,6 +229,7 @@ fn lowest_of_all(
 /// The lowest point of a curve's lone branch over [t1_k, t2_k] where the branch covers
 /// the whole range, read from the branch alone (see [`lowest_with`]); `None` when it does
 /// not cover it, or the range is not one, and the whole curve must be asked.
+#[inline]
 pub fn lowest_on_lone(
     lone: BranchView<'_>,
     t1_k: f64,
@@ -236,7 +237,15 @@ pub fn lowest_on_lone(
     scratch: &mut Scratch,
 ) -> Option<Lowest> {
     let range = t1_k.is_finite() && t2_k.is_finite() && t2_k >= t1_k;
-    (range && lone.covers(t1_k) && lone.covers(t2_k)).then(|| lowest_on(lone, t1_k, t2_k, scratch))
+    if !(range && lone.covers(t1_k) && lone.covers(t2_k)) {
+        return None;
+    }
+    // One temperature, the most common question of a large screening, without a call.
+    Some(if t1_k == t2_k {
+        point(lone, t1_k)
+    } else {
+        lowest_on(lone, t1_k, t2_k, scratch)
+    })
 }
 
 /// [`lowest`] on a lone branch that covers the range: the same candidates, each evaluated

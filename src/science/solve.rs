@@ -296,6 +296,7 @@ pub fn verdict(
 
 /// [`verdict`] from a curve's lone branch alone (a flat copy of it), where the branch
 /// covers the whole range; `None` when it does not and the whole curve must be asked.
+#[inline]
 pub fn verdict_on_lone(
     lone: BranchView<'_>,
     question: &Question,

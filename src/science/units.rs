@@ -438,6 +438,7 @@ pub fn from_mass_fraction(
 
 /// [`from_mass_fraction`] where the ratio of solute to water `r` = w/(1 − w) is known
 /// already (a screening has it from its verdict).
+#[inline(always)]
 pub fn from_mass_fraction_and_ratio(
     w: f64,
     r: f64,

@@ -31,6 +31,8 @@ fn headroom_of(key: u64) -> f64 {
 pub fn ranked<'a>(keys: &[u64], name: impl Fn(u32) -> &'a str) -> Vec<u32> {
     let n = u32::try_from(keys.len()).unwrap_or(u32::MAX);
     let key = |p: u32| keys.get(p as usize).copied().unwrap_or(u64::MAX);
+    // Whether two rows may share a headroom: then they are put in order by name below.
+    let mut equal_keys = true;
     let mut order: Vec<u32> = if keys.len() < SPREAD_FROM {
         // Each key with its position below it: one integer that sorts as the pair.
         let mut pairs: Vec<u128> = keys
@@ -44,37 +46,50 @@ pub fn ranked<'a>(keys: &[u64], name: impl Fn(u32) -> &'a str) -> Vec<u32> {
         let mut order: Vec<u32> = (0..n).collect();
         spread(keys, &mut order, &mut Vec::new(), 0);
         // Every position now lies within its bucket, and a bucket holds at most `SMALL`
-        // positions not yet in order: one pass of insertion puts them in order.
-        insert_in_order(&mut order, |a, b| (key(a), a) < (key(b), b));
+        // positions not yet in order: one pass of insertion puts them in order, and sees
+        // every pair of neighbours with the same key.
+        equal_keys = insert_in_order(&mut order, key);
         order
     };
     // Equal headrooms (rare, but every solute that freezes) by name, then position, as a
     // stable sort by (headroom, name) would leave them.
-    let mut start = 0;
-    let mut first = order.first().map(|&p| key(p));
-    for i in 1..=order.len() {
-        let here = order.get(i).map(|&p| key(p));
-        if here != first {
-            if i - start > 1 {
-                order[start..i].sort_by(|&a, &b| name(a).cmp(name(b)).then(a.cmp(&b)));
+    if equal_keys {
+        let mut start = 0;
+        let mut first = order.first().map(|&p| key(p));
+        for i in 1..=order.len() {
+            let here = order.get(i).map(|&p| key(p));
+            if here != first {
+                if i - start > 1 {
+                    order[start..i].sort_by(|&a, &b| name(a).cmp(name(b)).then(a.cmp(&b)));
+                }
+                (start, first) = (i, here);
             }
-            (start, first) = (i, here);
         }
     }
     order
 }
 
-/// Sorts `positions` by insertion: quick where each is at most a few places from its own.
-fn insert_in_order(positions: &mut [u32], before: impl Fn(u32, u32) -> bool) {
+/// Sorts `positions` by (key, position) by insertion: quick where each is at most a few
+/// places from its own. Says whether two of them share a key.
+fn insert_in_order(positions: &mut [u32], key: impl Fn(u32) -> u64) -> bool {
+    let mut equal_keys = false;
     for i in 1..positions.len() {
         let p = positions[i];
+        let kp = key(p);
         let mut j = i;
-        while j > 0 && before(p, positions[j - 1]) {
-            positions[j] = positions[j - 1];
+        while j > 0 {
+            let q = positions[j - 1];
+            let kq = key(q);
+            equal_keys |= kq == kp;
+            if (kq, q) < (kp, p) {
+                break;
+            }
+            positions[j] = q;
             j -= 1;
         }
         positions[j] = p;
     }
+    equal_keys
 }
 
 /// From how many rows [`ranked`] spreads them over buckets rather than sorting them by
@@ -257,6 +272,32 @@ mod tests {
         let names = ["b", "x", "a", "b", "d", "c"];
         let order = ranked(&keys, |p| names[p as usize]);
         assert_eq!(order, [1, 2, 0, 3, 5, 4]);
+        // The same among as many rows as are spread over buckets: a few equal headrooms
+        // (each shared by two rows) among distinct ones, names falling as positions rise.
+        let headrooms: Vec<f64> = (0..3_000)
+            .map(|i| {
+                if i % 500 < 2 {
+                    7.5 + (i / 500) as f64
+                } else {
+                    i as f64 * 0.37
+                }
+            })
+            .collect();
+        let keys: Vec<u64> = headrooms.iter().map(|&h| descending(h)).collect();
+        let names: Vec<String> = (0..3_000).map(|i| format!("{:04}", 3_000 - i)).collect();
+        let order = ranked(&keys, |p| names[p as usize].as_str());
+        let mut want: Vec<u32> = (0..3_000).collect();
+        want.sort_by(|&a, &b| {
+            keys[a as usize]
+                .cmp(&keys[b as usize])
+                .then(names[a as usize].cmp(&names[b as usize]))
+        });
+        assert_eq!(order, want);
+        assert!(
+            order
+                .windows(2)
+                .any(|w| keys[w[0] as usize] == keys[w[1] as usize] && w[0] > w[1])
+        );
     }
 
     #[test]

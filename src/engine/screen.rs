@@ -119,8 +119,6 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
                 Err(reason) => ice_unknown = Some(reason),
             }
         }
-        // The flat copy where it covers the range; else the whole curve (a curve of one
-        // branch with a stable range of its own has no flat copy and is read as it is).
         // Most screenings judge every solute against one loading: its target is worked out
         // once (an error in it is raised for each solute, as before).
         let (_, target) = match &mut last_target {

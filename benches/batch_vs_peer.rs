@@ -164,7 +164,9 @@ fn main() {
                 mine.len().min(peers.len())
             );
         }
-        None => println!("  peer script: not run ({python} with pandas and SciPy is needed)"),
+        None => println!(
+            "  peer script: not run ({python} with pandas, SciPy and periodictable is needed)"
+        ),
     }
     let _ = std::fs::remove_dir_all(&dir);
 }

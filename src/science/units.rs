@@ -437,7 +437,9 @@ pub fn from_mass_fraction(
 }
 
 /// [`from_mass_fraction`] where the ratio of solute to water `r` = w/(1 − w) is known
-/// already (a screening has it from its verdict).
+/// already (a screening has it from its verdict). Always inlined: in a screening's loop the
+/// unit is the same for every solute, and the call cost more than the conversion (100,000
+/// invented solutes at one temperature: 5.4 -> 4.8 ms).
 #[inline(always)]
 pub fn from_mass_fraction_and_ratio(
     w: f64,

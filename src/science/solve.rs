@@ -315,6 +315,8 @@ pub struct Target {
 }
 
 impl Target {
+    /// The target of a loading `w` (mass fraction, 0 allowed) with `margin`; the same
+    /// errors, in the same order, as the loading and the margin checked one by one.
     pub fn checked(w: f64, margin: f64) -> Result<Self, ScienceError> {
         let w = check_loading_or_zero(w)?;
         let margin = check_margin(margin)?;

@@ -366,3 +366,62 @@ fn an_ion_filter_names_the_family() {
     assert!(names.contains(&"sodium sulfate"), "{names:?}");
     assert!(names.iter().all(|n| n.starts_with("sodium")), "{names:?}");
 }
+
+#[test]
+fn each_solute_gets_the_same_row_with_and_without_a_filter() {
+    // A screening without filters judges most solutes on a shorter path than a filtered one
+    // (src/engine/screen.rs); filtering by each cation in turn must give every solute the
+    // row the unfiltered screening gives it (and together, every row of it; a double salt's
+    // first cation names it).
+    let e = engine();
+    let mut cations: Vec<String> = e
+        .catalog()
+        .solutes()
+        .iter()
+        .filter_map(|s| s.cation.as_deref())
+        .filter_map(|c| c.split_whitespace().next())
+        .map(str::to_string)
+        .collect();
+    cations.sort();
+    cations.dedup();
+    assert!(cations.len() > 5, "{cations:?}");
+    for loading in [
+        "30 g/100g water at 5 C",
+        "20 %w/w from 2 C to 8 C margin 10%",
+        "25 g/100g water at 60 C",
+    ] {
+        let whole = answer(&e, &format!("which salts stay dissolved at {loading}"));
+        assert!(whole.ok, "{:?}", whole.error);
+        let row_of = |a: &Answer, name: &str| {
+            a.rows
+                .iter()
+                .find(|r| r.solute.as_deref() == Some(name))
+                .map(|r| serde_json::to_string(r).expect("a row serialises"))
+        };
+        let mut seen = std::collections::BTreeSet::new();
+        for cation in &cations {
+            let part = answer(
+                &e,
+                &format!("which salts with cation {cation} stay dissolved at {loading}"),
+            );
+            assert!(part.ok, "{cation}: {:?}", part.error);
+            for row in &part.rows {
+                let name = row
+                    .solute
+                    .as_deref()
+                    .expect("a screened row names its solute");
+                assert_eq!(
+                    row_of(&part, name),
+                    row_of(&whole, name),
+                    "{name} at {loading}"
+                );
+                seen.insert(name.to_string());
+            }
+        }
+        assert_eq!(
+            seen.len(),
+            whole.rows.len(),
+            "every salt has a cation ({loading})"
+        );
+    }
+}

@@ -11,6 +11,7 @@ use crate::engine::common::{
     loading_mass_fraction_by_mass,
 };
 use crate::engine::error::EvalError;
+use crate::engine::flat_curves::ScreenedSolute;
 use crate::engine::ranking::{descending, ranked};
 use crate::engine::records::{in_class, selects};
 use crate::engine::snapshot::Snapshot;
@@ -19,7 +20,7 @@ use crate::number::round_significant;
 use crate::query::Screen;
 use crate::science::ScienceError;
 use crate::science::freezing::ICE_POINT;
-use crate::science::solve::{Question, Scratch, Target, verdict, verdict_on_lone};
+use crate::science::solve::{Question, Scratch, Target, Verdict, verdict, verdict_on_lone};
 use crate::science::units::{self, Context};
 
 use super::solid::zero_loading_caveat;
@@ -37,7 +38,6 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
     let margin = s.margin.map_or(0.0, |m| m.percent / 100.0);
     let filters = crate::engine::filters::checked(snap, &s.filters, answer)?;
     let solutes = snap.catalog.solutes();
-    let datasets = snap.catalog.datasets();
     let reviewed_only = s.options.reviewed_only;
     let mut rows: Vec<ScreenedRow> = Vec::with_capacity(solutes.len());
     // The ranking key of each row, by position: its headroom as a key that sorts
@@ -56,12 +56,53 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
     // The source last cited: a screening's solutes mostly share a few sources.
     let mut last_cited: Option<u32> = None;
     let mut last_target: Option<(u64, Result<Target, ScienceError>)> = None;
+    // The common screening (no filters, at or above the ice point, one loading and target
+    // for every solute) asks each solute with a flat copy of its curve only that copy,
+    // without the bookkeeping below; the answer is the same as the whole path gives.
+    let common = match (&same_for_all, filters.is_empty() && t1 >= ICE_POINT) {
+        (Some(Ok(w)), true) => Target::checked(*w, margin).ok().map(|target| Question {
+            target,
+            t1_k: t1,
+            t2_k: t2,
+            extrapolate: s.options.extrapolate,
+        }),
+        _ => None,
+    };
     for (index, solute) in solutes.iter().enumerate() {
         // What a screening reads of each solute lies in one flat record; the solute itself
         // is read only for filters, per-litre loadings and ice.
         let Some(flat) = snap.screened_at(index, reviewed_only) else {
             continue;
         };
+        let solute_at = u32::try_from(index).unwrap_or(u32::MAX);
+        if let Some(question) = &common
+            && flat.facts.present
+            && flat.kind != SoluteKind::Gas
+            && in_class(s.class, flat.kind)
+            && let Some(found) = flat
+                .lone
+                .and_then(|lone| verdict_on_lone(lone, question, &mut scratch))
+        {
+            tally(
+                snap,
+                &flat,
+                index,
+                reviewed_only,
+                (&mut counts, &mut last_cited),
+                answer,
+            );
+            let value = units::from_mass_fraction_and_ratio(
+                found.limiting_mass_fraction,
+                found.limiting_ratio,
+                s.loading.unit,
+                &Context::with_molar_mass(flat.molar_mass),
+            )
+            .ok();
+            keys.push(descending(found.headroom_pct));
+            held += usize::from(found.holds);
+            rows.push(solubility_row(solute_at, &found, value));
+            continue;
+        }
         let chosen = if filters.is_empty() {
             in_class(s.class, flat.kind)
         } else {
@@ -70,7 +111,6 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
         if !chosen {
             continue;
         }
-        let solute_at = u32::try_from(index).unwrap_or(u32::MAX);
         let apart = |reason: Missing| (solute_at, reason);
         if flat.kind == SoluteKind::Gas {
             no_data.push(apart(
@@ -170,21 +210,14 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
             ));
             continue;
         }
-        counts.from_memory += usize::from(flat.facts.from_memory);
-        counts.unreviewed += usize::from(flat.facts.unreviewed);
-        match flat.facts.one_source {
-            // Most solutes cite one source, most screenings a few: cite each once.
-            Some(source) if last_cited == Some(source) => {}
-            Some(source) => {
-                last_cited = Some(source);
-                cite_source_at(snap, source as usize, answer);
-            }
-            None => {
-                for &i in built().map_or(&[][..], |b| &b.datasets) {
-                    cite_source(snap, &datasets[i].source, answer);
-                }
-            }
-        }
+        tally(
+            snap,
+            &flat,
+            index,
+            reviewed_only,
+            (&mut counts, &mut last_cited),
+            answer,
+        );
         let row = match ice {
             Some((t_ice, basis)) => {
                 counts.frozen += 1;
@@ -222,17 +255,7 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
                 };
                 keys.push(descending(found.headroom_pct));
                 held += usize::from(found.holds);
-                ScreenedRow::new(
-                    solute_at,
-                    Finding::Solubility {
-                        branch: u16::try_from(found.branch).unwrap_or(u16::MAX),
-                        value,
-                    },
-                    found.basis,
-                    found.holds,
-                    found.limiting_t_k - ICE_POINT,
-                    found.headroom_pct,
-                )
+                solubility_row(solute_at, &found, value)
             }
         };
         rows.push(row);
@@ -256,6 +279,55 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
     }
     caveats(answer, held, with_data, no_data_count, margin, &counts);
     Ok(())
+}
+
+/// The row of a solute whose curve was judged: its solubility in the loading's unit
+/// (`value`), where it is lowest over the range, and the headroom.
+#[inline]
+fn solubility_row(solute_at: u32, found: &Verdict, value: Option<f64>) -> ScreenedRow {
+    ScreenedRow::new(
+        solute_at,
+        Finding::Solubility {
+            branch: u16::try_from(found.branch).unwrap_or(u16::MAX),
+            value,
+        },
+        found.basis,
+        found.holds,
+        found.limiting_t_k - ICE_POINT,
+        found.headroom_pct,
+    )
+}
+
+/// Counts what a screened solute's curve rests on and cites its sources: a source shared
+/// with the solute before it (`last_cited`) is not cited again.
+#[inline]
+fn tally(
+    snap: &Snapshot,
+    flat: &ScreenedSolute<'_>,
+    index: usize,
+    reviewed_only: bool,
+    (counts, last_cited): (&mut Counts, &mut Option<u32>),
+    answer: &mut Answer,
+) {
+    counts.from_memory += usize::from(flat.facts.from_memory);
+    counts.unreviewed += usize::from(flat.facts.unreviewed);
+    match flat.facts.one_source {
+        // Most solutes cite one source, most screenings a few: cite each once.
+        Some(source) if *last_cited == Some(source) => {}
+        Some(source) => {
+            *last_cited = Some(source);
+            cite_source_at(snap, source as usize, answer);
+        }
+        None => {
+            let datasets = snap.catalog.datasets();
+            let built = snap.curve_at(index, reviewed_only);
+            for &i in built.map_or(&[][..], |b| &b.datasets) {
+                if let Some(d) = datasets.get(i) {
+                    cite_source(snap, &d.source, answer);
+                }
+            }
+        }
+    }
 }
 
 /// What a screening says beside its rows: how many passed, the margin, the solutes that

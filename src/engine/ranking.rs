@@ -26,6 +26,10 @@ fn headroom_of(key: u64) -> f64 {
     })
 }
 
+/// The keys of the infinite headrooms: those of finite ones lie strictly between them.
+const KEY_OF_INFINITY: u64 = 0x000F_FFFF_FFFF_FFFF;
+const KEY_OF_MINUS_INFINITY: u64 = 0xFFF0_0000_0000_0000;
+
 /// The positions `0..keys.len()` in the order shown: by key (`keys[p]` is row `p`'s
 /// headroom as [`descending`] makes it), equal keys by `name(p)`, then by position.
 pub fn ranked<'a>(keys: &[u64], name: impl Fn(u32) -> &'a str) -> Vec<u32> {
@@ -43,11 +47,12 @@ pub fn ranked<'a>(keys: &[u64], name: impl Fn(u32) -> &'a str) -> Vec<u32> {
         pairs.sort_unstable();
         pairs.into_iter().map(|pair| pair as u32).collect()
     } else {
-        let mut order: Vec<u32> = (0..n).collect();
-        spread(keys, &mut order, &mut Vec::new(), 0);
-        // Every position now lies within its bucket, and a bucket holds at most `SMALL`
-        // positions not yet in order: one pass of insertion puts them in order, and sees
-        // every pair of neighbours with the same key.
+        // The positions spread straight from the keys, in order (no list of them made
+        // first). Every position then lies within its bucket, and a bucket holds at most
+        // `SMALL` positions not yet in order: one pass of insertion puts them in order,
+        // and sees every pair of neighbours with the same key.
+        let mut order = vec![0; keys.len()];
+        spread_into(keys, keys.iter().copied().zip(0..n), &mut order, 0);
         equal_keys = insert_in_order(&mut order, key);
         order
     };
@@ -96,50 +101,65 @@ fn insert_in_order(positions: &mut [u32], key: impl Fn(u32) -> u64) -> bool {
 /// comparison.
 const SPREAD_FROM: usize = 1024;
 
-/// Up to how many positions a bucket of [`spread`] may hold without being spread again
+/// Up to how many positions a bucket of [`spread_into`] may hold without being spread again
 /// (its positions are put in order by [`insert_in_order`]).
 const SMALL: usize = 32;
 
-/// How many times [`spread`] spreads a bucket again before it sorts it by comparison
-/// (headrooms spread far apart, say by powers of ten, would otherwise peel off a few rows a
-/// spread).
+/// How many times a bucket is spread again before it is sorted by comparison (headrooms
+/// spread far apart, say by powers of ten, would otherwise peel off a few rows a spread).
 const DEEPEST: u32 = 6;
 
-/// Puts `positions` in buckets by their keys. Each position of a finite headroom goes to one
-/// of as many buckets as there are positions, in proportion to where its headroom lies
-/// between the highest and the lowest (a bucket's index never falls as the key rises); the
-/// others (infinite, not a number) to a bucket at either end. A bucket of more than `SMALL`
-/// positions is spread the same way in turn, or sorted by key and position once `DEEPEST`
-/// deep; smaller ones are left in the order they came. `moved` is the buffer the positions
-/// are spread through.
-fn spread(keys: &[u64], positions: &mut [u32], moved: &mut Vec<u32>, depth: u32) {
+/// [`spread_into`] of `positions`, in place: a crowded bucket spread again.
+fn spread(keys: &[u64], positions: &mut [u32], depth: u32) {
+    let from = positions.to_vec();
     let key = |p: u32| keys.get(p as usize).copied().unwrap_or(u64::MAX);
-    let by_comparison = |positions: &mut [u32]| positions.sort_unstable_by_key(|&p| (key(p), p));
-    let m = positions.len();
+    spread_into(keys, from.iter().map(|&p| (key(p), p)), positions, depth);
+}
+
+/// Puts the positions of `from` (each with its key; as many as `into` holds) into `into` by
+/// bucket of their keys. Each position of a finite headroom goes to one of as many buckets as there
+/// are positions, in proportion to where its headroom lies between the highest and the
+/// lowest (a bucket's index never falls as the key rises); the others (infinite, not a
+/// number) to a bucket at either end. A bucket of more than `SMALL` positions is spread the
+/// same way in turn, or sorted by key and position once `DEEPEST` deep; smaller ones are
+/// left in the order they came.
+fn spread_into(
+    keys: &[u64],
+    from: impl Iterator<Item = (u64, u32)> + Clone,
+    into: &mut [u32],
+    depth: u32,
+) {
+    let key = |p: u32| keys.get(p as usize).copied().unwrap_or(u64::MAX);
+    let m = into.len();
+    let in_order = |into: &mut [u32]| {
+        for (slot, (_, p)) in into.iter_mut().zip(from.clone()) {
+            *slot = p;
+        }
+    };
     if m <= SMALL {
-        return;
-    }
-    if depth >= DEEPEST {
-        by_comparison(positions);
+        in_order(into);
         return;
     }
     // The lowest and highest keys of finite headrooms (the highest and lowest headrooms).
     let (mut lo, mut hi) = (u64::MAX, 0);
-    for &p in positions.iter() {
-        let k = key(p);
-        if headroom_of(k).is_finite() {
-            lo = lo.min(k);
-            hi = hi.max(k);
-        }
+    for (k, _) in from.clone() {
+        let finite = k > KEY_OF_INFINITY && k < KEY_OF_MINUS_INFINITY;
+        lo = lo.min(if finite { k } else { u64::MAX });
+        hi = hi.max(if finite { k } else { 0 });
     }
     let (top, bottom) = (headroom_of(lo), headroom_of(hi));
     let span = top - bottom;
-    if lo > hi || !(span.is_finite() && span > 0.0) {
-        // No two finite headrooms differ (or their span overflows): by comparison, which
-        // is quick on positions already in order.
-        by_comparison(positions);
+    // The last bucket of a finite headroom's and the one after it.
+    let buckets = u32::try_from(m - 1).ok().zip(u32::try_from(m + 1).ok());
+    let Some((last, beyond)) =
+        buckets.filter(|_| depth < DEEPEST && lo <= hi && span.is_finite() && span > 0.0)
+    else {
+        // Deep enough, or no two finite headrooms differ (or their span overflows): by
+        // comparison, which is quick on positions already in order.
+        in_order(into);
+        into.sort_unstable_by_key(|&p| (key(p), p));
         return;
-    }
+    };
     let scale = m as f64 / span;
     // Keys from `lo` to `hi` are those of finite headrooms; the difference from the top and
     // the product never fall as the key rises (the headroom falls), nor does their cut.
@@ -147,43 +167,40 @@ fn spread(keys: &[u64], positions: &mut [u32], moved: &mut Vec<u32>, depth: u32)
         if k < lo {
             0
         } else if k > hi {
-            m + 1
+            beyond
         } else {
-            1 + (((top - headroom_of(k)) * scale) as usize).min(m - 1)
+            1 + (((top - headroom_of(k)) * scale) as u32).min(last)
         }
     };
     // Each position's bucket, worked out once; then where each bucket starts.
     let mut ends = vec![0u32; m + 3];
-    let buckets: Vec<u32> = positions
-        .iter()
-        .map(|&p| {
-            let b = bucket(key(p));
-            if let Some(count) = ends.get_mut(b + 1) {
+    let buckets: Vec<u32> = from
+        .clone()
+        .map(|(k, _)| {
+            let b = bucket(k);
+            if let Some(count) = ends.get_mut(b as usize + 1) {
                 *count += 1;
             }
-            b as u32
+            b
         })
         .collect();
     for i in 1..ends.len() {
         ends[i] += ends[i - 1];
     }
-    moved.clear();
-    moved.resize(m, 0);
     // Each bucket's start moves on as it is filled, to end where the bucket ends.
-    for (&p, &b) in positions.iter().zip(&buckets) {
+    for ((_, p), &b) in from.zip(&buckets) {
         if let Some(next) = ends.get_mut(b as usize) {
-            if let Some(slot) = moved.get_mut(*next as usize) {
+            if let Some(slot) = into.get_mut(*next as usize) {
                 *slot = p;
             }
             *next += 1;
         }
     }
-    positions.copy_from_slice(moved);
     let mut start = 0;
     for &end in &ends[..m + 2] {
         let end = end as usize;
         if end - start > SMALL {
-            spread(keys, &mut positions[start..end], moved, depth + 1);
+            spread(keys, &mut into[start..end], depth + 1);
         }
         start = end;
     }
@@ -253,7 +270,7 @@ mod tests {
             // comes later in the order, so the pass of insertion stays short (a bucket
             // index that falls as the key rises breaks this).
             let mut spread_only: Vec<u32> = (0..want.len() as u32).collect();
-            spread(&keys, &mut spread_only, &mut Vec::new(), 0);
+            spread(&keys, &mut spread_only, 0);
             let pair = |p: u32| (keys[p as usize], p);
             let mut highest_before = None;
             for i in SMALL..spread_only.len() {
@@ -323,5 +340,7 @@ mod tests {
             }
             assert_eq!(headroom_of(descending(a)).to_bits(), a.to_bits());
         }
+        assert_eq!(descending(f64::INFINITY), KEY_OF_INFINITY);
+        assert_eq!(descending(f64::NEG_INFINITY), KEY_OF_MINUS_INFINITY);
     }
 }

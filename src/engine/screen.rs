@@ -25,12 +25,14 @@ use crate::science::units::{self, Context};
 
 use super::solid::zero_loading_caveat;
 
-/// How many screened solutes fell into each group the caveats count.
+/// How many screened solutes fell into each group the caveats count, and the source cited
+/// last (a screening's solutes mostly share a few sources).
 #[derive(Default)]
 struct Counts {
     from_memory: usize,
     unreviewed: usize,
     frozen: usize,
+    last_cited: Option<u32>,
 }
 
 pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), EvalError> {
@@ -53,8 +55,6 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
     let unit = s.loading.unit;
     let same_for_all = (!unit.needs_density() && !unit.is_molar())
         .then(|| loading_mass_fraction_by_mass(&s.loading, f64::NAN));
-    // The source last cited: a screening's solutes mostly share a few sources.
-    let mut last_cited: Option<u32> = None;
     let mut last_target: Option<(u64, Result<Target, ScienceError>)> = None;
     // The common screening (no filters, at or above the ice point, one loading and target
     // for every solute) asks each solute with a flat copy of its curve only that copy,
@@ -83,14 +83,7 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
                 .lone
                 .and_then(|lone| verdict_on_lone(lone, question, &mut scratch))
         {
-            tally(
-                snap,
-                &flat,
-                index,
-                reviewed_only,
-                (&mut counts, &mut last_cited),
-                answer,
-            );
+            counts.tally(snap, (&flat, index), reviewed_only, answer);
             let value = units::from_mass_fraction_and_ratio(
                 found.limiting_mass_fraction,
                 found.limiting_ratio,
@@ -210,14 +203,7 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
             ));
             continue;
         }
-        tally(
-            snap,
-            &flat,
-            index,
-            reviewed_only,
-            (&mut counts, &mut last_cited),
-            answer,
-        );
+        counts.tally(snap, (&flat, index), reviewed_only, answer);
         let row = match ice {
             Some((t_ice, basis)) => {
                 counts.frozen += 1;
@@ -298,32 +284,33 @@ fn solubility_row(solute_at: u32, found: &Verdict, value: Option<f64>) -> Screen
     )
 }
 
-/// Counts what a screened solute's curve rests on and cites its sources: a source shared
-/// with the solute before it (`last_cited`) is not cited again.
-#[inline]
-fn tally(
-    snap: &Snapshot,
-    flat: &ScreenedSolute<'_>,
-    index: usize,
-    reviewed_only: bool,
-    (counts, last_cited): (&mut Counts, &mut Option<u32>),
-    answer: &mut Answer,
-) {
-    counts.from_memory += usize::from(flat.facts.from_memory);
-    counts.unreviewed += usize::from(flat.facts.unreviewed);
-    match flat.facts.one_source {
-        // Most solutes cite one source, most screenings a few: cite each once.
-        Some(source) if *last_cited == Some(source) => {}
-        Some(source) => {
-            *last_cited = Some(source);
-            cite_source_at(snap, source as usize, answer);
-        }
-        None => {
-            let datasets = snap.catalog.datasets();
-            let built = snap.curve_at(index, reviewed_only);
-            for &i in built.map_or(&[][..], |b| &b.datasets) {
-                if let Some(d) = datasets.get(i) {
-                    cite_source(snap, &d.source, answer);
+impl Counts {
+    /// Counts what a screened solute's curve rests on and cites its sources: a source
+    /// shared with the solute before it is not cited again.
+    #[inline]
+    fn tally(
+        &mut self,
+        snap: &Snapshot,
+        (flat, index): (&ScreenedSolute<'_>, usize),
+        reviewed_only: bool,
+        answer: &mut Answer,
+    ) {
+        self.from_memory += usize::from(flat.facts.from_memory);
+        self.unreviewed += usize::from(flat.facts.unreviewed);
+        match flat.facts.one_source {
+            // Most solutes cite one source, most screenings a few: cite each once.
+            Some(source) if self.last_cited == Some(source) => {}
+            Some(source) => {
+                self.last_cited = Some(source);
+                cite_source_at(snap, source as usize, answer);
+            }
+            None => {
+                let datasets = snap.catalog.datasets();
+                let built = snap.curve_at(index, reviewed_only);
+                for &i in built.map_or(&[][..], |b| &b.datasets) {
+                    if let Some(d) = datasets.get(i) {
+                        cite_source(snap, &d.source, answer);
+                    }
                 }
             }
         }

@@ -78,15 +78,27 @@ pub fn ranked<'a>(keys: &[u64], name: impl Fn(u32) -> &'a str) -> Vec<u32> {
 /// places from its own. Says whether two of them share a key.
 fn insert_in_order(positions: &mut [u32], key: impl Fn(u32) -> u64) -> bool {
     let mut equal_keys = false;
+    let Some(&first) = positions.first() else {
+        return false;
+    };
+    // The last of the positions in order so far (the greatest), with its key: most
+    // positions come after it and are compared with it alone.
+    let mut last = (key(first), first);
     for i in 1..positions.len() {
         let p = positions[i];
-        let kp = key(p);
-        let mut j = i;
+        let here = (key(p), p);
+        equal_keys |= last.0 == here.0;
+        if last < here {
+            last = here;
+            continue;
+        }
+        positions[i] = last.1;
+        let mut j = i - 1;
         while j > 0 {
             let q = positions[j - 1];
             let kq = key(q);
-            equal_keys |= kq == kp;
-            if (kq, q) < (kp, p) {
+            equal_keys |= kq == here.0;
+            if (kq, q) < here {
                 break;
             }
             positions[j] = q;

@@ -129,10 +129,10 @@ fn spread(keys: &[u64], positions: &mut [u32], depth: u32) {
 }
 
 /// Puts the positions of `from` (each with its key; as many as `into` holds) into `into` by
-/// bucket of their keys. Each position of a finite headroom goes to one of as many buckets as there
-/// are positions, in proportion to where its headroom lies between the highest and the
-/// lowest (a bucket's index never falls as the key rises); the others (infinite, not a
-/// number) to a bucket at either end. A bucket of more than `SMALL` positions is spread the
+/// bucket of their keys. Each position of a finite headroom goes to one of as many buckets
+/// as there are positions, in proportion to where its headroom lies between the highest
+/// and the lowest (a bucket's index never falls as the key rises); the others (infinite,
+/// not a number) to a bucket at either end. A bucket of more than `SMALL` positions is spread the
 /// same way in turn, or sorted by key and position once `DEEPEST` deep; smaller ones are
 /// left in the order they came.
 fn spread_into(
@@ -162,9 +162,9 @@ fn spread_into(
     let (top, bottom) = (headroom_of(lo), headroom_of(hi));
     let span = top - bottom;
     // The last bucket of a finite headroom's and the one after it.
-    let buckets = u32::try_from(m - 1).ok().zip(u32::try_from(m + 1).ok());
+    let edges = u32::try_from(m - 1).ok().zip(u32::try_from(m + 1).ok());
     let Some((last, beyond)) =
-        buckets.filter(|_| depth < DEEPEST && lo <= hi && span.is_finite() && span > 0.0)
+        edges.filter(|_| depth < DEEPEST && lo <= hi && span.is_finite() && span > 0.0)
     else {
         // Deep enough, or no two finite headrooms differ (or their span overflows): by
         // comparison, which is quick on positions already in order.
@@ -302,8 +302,9 @@ mod tests {
         let order = ranked(&keys, |p| names[p as usize]);
         assert_eq!(order, [1, 2, 0, 3, 5, 4]);
         // The same among as many rows as are spread over buckets: a few equal headrooms
-        // (each shared by two rows) among distinct ones, names falling as positions rise.
-        let headrooms: Vec<f64> = (0..3_000)
+        // (each shared by two rows) among distinct ones, names falling as positions rise;
+        // and one shared headroom alone, between neighbours already in order.
+        let few_shared: Vec<f64> = (0..3_000)
             .map(|i| {
                 if i % 500 < 2 {
                     7.5 + (i / 500) as f64
@@ -312,21 +313,26 @@ mod tests {
                 }
             })
             .collect();
-        let keys: Vec<u64> = headrooms.iter().map(|&h| descending(h)).collect();
-        let names: Vec<String> = (0..3_000).map(|i| format!("{:04}", 3_000 - i)).collect();
-        let order = ranked(&keys, |p| names[p as usize].as_str());
-        let mut want: Vec<u32> = (0..3_000).collect();
-        want.sort_by(|&a, &b| {
-            keys[a as usize]
-                .cmp(&keys[b as usize])
-                .then(names[a as usize].cmp(&names[b as usize]))
-        });
-        assert_eq!(order, want);
-        assert!(
-            order
-                .windows(2)
-                .any(|w| keys[w[0] as usize] == keys[w[1] as usize] && w[0] > w[1])
-        );
+        let one_shared: Vec<f64> = (0..3_000)
+            .map(|i| if i == 1_001 { -1_000.0 } else { -(i as f64) })
+            .collect();
+        for headrooms in [few_shared, one_shared] {
+            let keys: Vec<u64> = headrooms.iter().map(|&h| descending(h)).collect();
+            let names: Vec<String> = (0..3_000).map(|i| format!("{:04}", 3_000 - i)).collect();
+            let order = ranked(&keys, |p| names[p as usize].as_str());
+            let mut want: Vec<u32> = (0..3_000).collect();
+            want.sort_by(|&a, &b| {
+                keys[a as usize]
+                    .cmp(&keys[b as usize])
+                    .then(names[a as usize].cmp(&names[b as usize]))
+            });
+            assert_eq!(order, want);
+            assert!(
+                order
+                    .windows(2)
+                    .any(|w| keys[w[0] as usize] == keys[w[1] as usize] && w[0] > w[1])
+            );
+        }
     }
 
     #[test]

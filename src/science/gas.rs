@@ -146,38 +146,46 @@ impl HenryConvention {
     }
 }
 
-/// Converts a Henry's-law constant in `convention` at `t_k` to Hcp, mol/(m³·Pa):
-/// Hcp·(L·atm) ×1000/101325; Hbp ×ρ/10⁵; KH: ρ/(M_w·KH·p_unit) with ρ/M_w the molar
-/// concentration of water (ρ from [`water_density`] at t_k); Hcc: Hcc/(R·T); Bunsen:
-/// α/(R·T_STP).
-pub fn to_hcp(value: f64, convention: HenryConvention, t_k: f64) -> Result<f64, ScienceError> {
-    let value = positive("Henry's-law constant", value)?;
+/// How a Henry's-law constant in one convention relates to Hcp, mol/(m³·Pa), at one
+/// temperature: Hcp = value·k (`Times`), or Hcp = k/value (`Over`, the volatility forms).
+enum ToHcp {
+    Times(f64),
+    Over(f64),
+}
+
+/// The factor of `convention` at `t_k`: Hcp·(L·atm) ×1000/101325; Hbp ×ρ/10⁵; KH:
+/// ρ/(M_w·KH·p_unit) with ρ/M_w the molar concentration of water (ρ from
+/// [`water_density`] at t_k); Hcc: Hcc/(R·T); Bunsen: α/(R·T_STP).
+fn to_hcp_factor(convention: HenryConvention, t_k: f64) -> Result<ToHcp, ScienceError> {
     let t_k = positive("temperature (K)", t_k)?;
     let water_mol_per_m3 = || water_density(t_k).map(|rho| rho * 1000.0 / WATER_MOLAR_MASS);
     Ok(match convention {
-        HenryConvention::HcpSi => value,
-        HenryConvention::HcpMolPerLitreAtm => value * 1000.0 / STANDARD_ATMOSPHERE,
-        HenryConvention::HbpMolPerKgBar => value * water_density(t_k)? / 1.0e5,
-        HenryConvention::KhAtm => water_mol_per_m3()? / (value * STANDARD_ATMOSPHERE),
-        HenryConvention::KhBar => water_mol_per_m3()? / (value * 1.0e5),
-        HenryConvention::Hcc => value / (GAS_CONSTANT * t_k),
-        HenryConvention::Bunsen => value / (GAS_CONSTANT * STP_TEMPERATURE),
+        HenryConvention::HcpSi => ToHcp::Times(1.0),
+        HenryConvention::HcpMolPerLitreAtm => ToHcp::Times(1000.0 / STANDARD_ATMOSPHERE),
+        HenryConvention::HbpMolPerKgBar => ToHcp::Times(water_density(t_k)? / 1.0e5),
+        HenryConvention::KhAtm => ToHcp::Over(water_mol_per_m3()? / STANDARD_ATMOSPHERE),
+        HenryConvention::KhBar => ToHcp::Over(water_mol_per_m3()? / 1.0e5),
+        HenryConvention::Hcc => ToHcp::Times(1.0 / (GAS_CONSTANT * t_k)),
+        HenryConvention::Bunsen => ToHcp::Times(1.0 / (GAS_CONSTANT * STP_TEMPERATURE)),
+    })
+}
+
+/// Converts a Henry's-law constant in `convention` at `t_k` to Hcp, mol/(m³·Pa) (the
+/// factors: [`to_hcp_factor`]).
+pub fn to_hcp(value: f64, convention: HenryConvention, t_k: f64) -> Result<f64, ScienceError> {
+    let value = positive("Henry's-law constant", value)?;
+    Ok(match to_hcp_factor(convention, t_k)? {
+        ToHcp::Times(k) => value * k,
+        ToHcp::Over(k) => k / value,
     })
 }
 
 /// Converts Hcp, mol/(m³·Pa), at `t_k` to `convention`: the inverse of [`to_hcp`].
 pub fn from_hcp(hcp: f64, convention: HenryConvention, t_k: f64) -> Result<f64, ScienceError> {
     let hcp = positive("Henry's-law constant", hcp)?;
-    let t_k = positive("temperature (K)", t_k)?;
-    let water_mol_per_m3 = || water_density(t_k).map(|rho| rho * 1000.0 / WATER_MOLAR_MASS);
-    Ok(match convention {
-        HenryConvention::HcpSi => hcp,
-        HenryConvention::HcpMolPerLitreAtm => hcp * STANDARD_ATMOSPHERE / 1000.0,
-        HenryConvention::HbpMolPerKgBar => hcp * 1.0e5 / water_density(t_k)?,
-        HenryConvention::KhAtm => water_mol_per_m3()? / (hcp * STANDARD_ATMOSPHERE),
-        HenryConvention::KhBar => water_mol_per_m3()? / (hcp * 1.0e5),
-        HenryConvention::Hcc => hcp * GAS_CONSTANT * t_k,
-        HenryConvention::Bunsen => hcp * GAS_CONSTANT * STP_TEMPERATURE,
+    Ok(match to_hcp_factor(convention, t_k)? {
+        ToHcp::Times(k) => hcp / k,
+        ToHcp::Over(k) => k / hcp,
     })
 }
 

@@ -775,14 +775,19 @@ mod tests {
         }
     }
 
-    /// Na–Mg–Cl–SO4 with Harvie, Møller & Weare (1984)'s figures for NaCl, MgCl2, Na2SO4
-    /// and their θ, ψ (the same as seed-data/models/pitzer-harvie-moller-weare-1984.toml).
-    fn system() -> System {
-        let sets = vec![
+    /// Harvie, Møller & Weare (1984)'s figures for NaCl, MgCl2 and Na2SO4 (the same as
+    /// seed-data/models/pitzer-harvie-moller-weare-1984.toml).
+    fn hmw_sets() -> Vec<ParameterSet> {
+        vec![
             test_set("nacl", "NaCl", 1, 1, 1, 1, [0.0765, 0.2644, 0.00127]),
             test_set("mgcl2", "MgCl2", 2, 1, 1, 2, [0.35235, 1.6815, 0.00519]),
             test_set("na2so4", "Na2SO4", 1, 2, 2, 1, [0.01958, 1.113, 0.00497]),
-        ];
+        ]
+    }
+
+    /// Na–Mg–Cl–SO4: the sets of [`hmw_sets`] and their θ, ψ from the same paper.
+    fn system() -> System {
+        let sets = hmw_sets();
         let mix = vec![
             mixing("t-mg-na", &["Mg", "Na"], 0.07),
             mixing("p-mg-na-cl", &["Mg", "Na", "Cl"], -0.012),
@@ -886,11 +891,7 @@ mod tests {
     #[test]
     fn a_parameter_named_twice_counts_once_and_buffers_are_reused() {
         let base = system();
-        let sets = vec![
-            test_set("nacl", "NaCl", 1, 1, 1, 1, [0.0765, 0.2644, 0.00127]),
-            test_set("mgcl2", "MgCl2", 2, 1, 1, 2, [0.35235, 1.6815, 0.00519]),
-            test_set("na2so4", "Na2SO4", 1, 2, 2, 1, [0.01958, 1.113, 0.00497]),
-        ];
+        let sets = hmw_sets();
         let mix = vec![
             mixing("t-mg-na-old", &["Na", "Mg"], 0.5),
             mixing("t-mg-na", &["Mg", "Na"], 0.07),

@@ -66,6 +66,20 @@ pub(crate) fn first_use(
     }
 }
 
+/// Names a record of a seed file (`dataset "crc-97"`) after checking that its key is a slug
+/// used once in the file; `kind` is the record's TOML table, e.g. `dataset`.
+fn keyed_record(
+    seen: &mut HashSet<String>,
+    file: &str,
+    kind: &str,
+    key: &str,
+) -> Result<String, StoreError> {
+    let record = format!("{kind} \"{key}\"");
+    check_slug(file, &record, key)?;
+    first_use(seen, file, &record, &format!("{kind} key"), key)?;
+    Ok(record)
+}
+
 pub(super) fn is_slug(s: &str) -> bool {
     !s.is_empty()
         && s.bytes()
@@ -327,9 +341,7 @@ pub(super) fn parse_sources(file: &str, text: &str) -> Result<Vec<Source>, Store
     let mut seen = HashSet::new();
     let mut out = Vec::with_capacity(raw.source.len());
     for s in raw.source {
-        let record = format!("source \"{}\"", s.key);
-        check_slug(file, &record, &s.key)?;
-        first_use(&mut seen, file, &record, "source key", &s.key)?;
+        keyed_record(&mut seen, file, "source", &s.key)?;
         out.push(Source {
             key: s.key,
             kind: s.kind,
@@ -435,9 +447,7 @@ pub(super) fn parse_solute(
     let mut keys = HashSet::new();
     let mut datasets = Vec::with_capacity(raw.dataset.len());
     for d in raw.dataset {
-        let record = format!("dataset \"{}\"", d.key);
-        check_slug(file, &record, &d.key)?;
-        first_use(&mut keys, file, &record, "dataset key", &d.key)?;
+        let record = keyed_record(&mut keys, file, "dataset", &d.key)?;
         check_source(&record, &d.source)?;
         let unit = composition_unit(file, &record, &d.unit)?;
         let t_unit = temperature_unit(file, &record, &d.temperature_unit)?;
@@ -578,9 +588,7 @@ pub(super) fn parse_solute(
     let mut henry_keys = HashSet::new();
     let mut gas_constants = Vec::with_capacity(raw.henry.len());
     for h in raw.henry {
-        let record = format!("henry \"{}\"", h.key);
-        check_slug(file, &record, &h.key)?;
-        first_use(&mut henry_keys, file, &record, "henry key", &h.key)?;
+        let record = keyed_record(&mut henry_keys, file, "henry", &h.key)?;
         check_source(&record, &h.source)?;
         gas_constants.push(parse_henry(file, &record, &raw.id, h)?);
     }

@@ -66,6 +66,26 @@ fn an_out_of_range_message_never_shows_an_infinite_temperature() {
     assert!(!message.contains("inf C"), "{message}");
 }
 
+/// A huge number the user typed comes back in exponent form, not as hundreds of digits.
+#[test]
+fn a_refused_huge_number_is_shown_short() {
+    let e = engine();
+    for (text, shown) in [
+        (
+            "convert 1e300 mol/kg of NaCl to %w/w",
+            "1e300 mol/kg is not a possible",
+        ),
+        (
+            "dissolved O2 at 25 C under 1e12 bar",
+            "partial pressure of 1e12 bar",
+        ),
+    ] {
+        let message = refused(e, text);
+        assert!(message.contains(shown), "{text}: {message}");
+        assert!(message.len() < 300, "{text}: {message}");
+    }
+}
+
 #[test]
 fn a_plot_with_extrapolate_stops_at_the_reach_and_says_so() {
     let a = answer(engine(), "plot KCl from -5 C to 110 C extrapolate");

@@ -176,7 +176,7 @@ fn henry_pressure(solute: &Solute, partial_pa: f64, span: Span) -> Result<bool, 
         message: format!(
             "{}: a partial pressure of {} bar is beyond the {} bar up to which this reference uses Henry's law (a dilute, low-pressure law); not answered",
             solute.name,
-            round_significant(partial_pa / 1e5, 4),
+            crate::number::display(round_significant(partial_pa / 1e5, 4)),
             bounds::HENRY_LIMIT_PA / 1e5
         ),
         span,

@@ -1,6 +1,7 @@
 //! The one error type of the science module: every way a computation can refuse its input.
 
 use super::formula::FormulaError;
+use crate::number::display;
 
 /// Why a science computation could not give a value.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
@@ -18,7 +19,7 @@ pub enum ScienceError {
     #[error("converting {unit} needs the solute's molar mass (g/mol)")]
     MissingMolarMass { unit: &'static str },
     /// A composition that cannot be: `-3 g/100g water`, `1.2 w`, `NaN %w/w`.
-    #[error("{value} {unit} is not a possible composition: {why}")]
+    #[error("{} {unit} is not a possible composition: {why}", display(*.value))]
     InvalidComposition {
         value: f64,
         unit: &'static str,
@@ -26,7 +27,7 @@ pub enum ScienceError {
     },
     /// A number that must be finite and positive is not: a density of `0` g/mL, a molar mass
     /// of `-1`, a temperature of `-5 K`, a pressure of `NaN`.
-    #[error("{what} must be a finite positive number, got {value}")]
+    #[error("{what} must be a finite positive number, got {}", display(*.value))]
     NotPositive { what: &'static str, value: f64 },
     /// A temperature outside the data, extrapolation not asked for: a curve with data from
     /// 273.15 K to 373.15 K evaluated at 200 K.
@@ -56,14 +57,14 @@ pub enum ScienceError {
     },
     /// Knots not strictly ascending: a branch's temperatures 293.15 K then 283.15 K, or
     /// twice 293.15 K; freezing data's mass fractions 0.1 then 0.05.
-    #[error("{what} must be strictly ascending: {previous} then {next}")]
+    #[error("{what} must be strictly ascending: {} then {}", display(*.previous), display(*.next))]
     NotAscending {
         what: &'static str,
         previous: f64,
         next: f64,
     },
     /// A tabulated number that is not finite: a branch point `(293.15, NaN)`.
-    #[error("{what} must be a finite number, got {value}")]
+    #[error("{what} must be a finite number, got {}", display(*.value))]
     NotFinite { what: &'static str, value: f64 },
     /// A curve with no branch: `Curve::new(vec![])`.
     #[error("a curve needs at least one branch")]
@@ -77,7 +78,7 @@ pub enum ScienceError {
     #[error("the ice line is not known here: {0}")]
     IceLineUnknown(String),
     /// A range whose ends are reversed or not finite: from 308.15 K to 278.15 K.
-    #[error("temperature range {t1_k} K to {t2_k} K is not ascending")]
+    #[error("temperature range {} K to {} K is not ascending", display(*.t1_k), display(*.t2_k))]
     BadRange { t1_k: f64, t2_k: f64 },
     /// A margin below zero or not finite: `margin -10%`.
     #[error("margin must be zero or positive, got {0}")]

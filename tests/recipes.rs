@@ -195,3 +195,34 @@ fn the_guides_and_the_examples_recipe_files_parse() {
         assert_eq!(recipes.len(), 2);
     }
 }
+
+/// A de-icing brine of one salt, asked below 0 °C where no parameter system of Pitzer's
+/// equations reaches, gets the salt's own freezing answer at the recipe's loading (23 %w/w
+/// NaCl is 29.87 g per 100 g of water), saying so; a recipe of two salts is still refused.
+#[test]
+fn a_recipe_of_one_salt_freezes_as_that_salt_and_two_salts_are_still_refused() {
+    let a = answers(
+        "let brine = recipe 23 %w/w NaCl\n\
+         freezing of brine at -10 C\n\
+         freezing of NaCl at 29.8701 g/100g water at -10 C\n\
+         freezing of recipe 10 %w/w NaCl, 5 %w/w KCl at -10 C",
+    );
+    let (recipe, alone) = (&a[1], &a[2]);
+    assert!(recipe.ok, "{:?}", recipe.error);
+    assert!(alone.ok, "{:?}", alone.error);
+    let rows = |x: &Answer| serde_json::to_string(&x.rows).unwrap();
+    assert_eq!(rows(recipe), rows(alone));
+    assert!(!recipe.rows.is_empty());
+    assert!(
+        recipe
+            .caveats
+            .iter()
+            .any(|c| c.contains("holds one solute, NaCl (29.87 g/100g water)")),
+        "{:?}",
+        recipe.caveats
+    );
+    let mixed = &a[3];
+    assert!(!mixed.ok);
+    let message = &mixed.error.as_ref().unwrap().message;
+    assert!(message.contains("Pitzer's equations"), "{message}");
+}

@@ -3,7 +3,9 @@
 //! crystallises when its saturation index reaches 0 (Pitzer's equations for the liquid,
 //! each salt's solubility product from its own pure-water curve). The answer gives the ice
 //! line, the ice and salts out at the temperature, the liquid left and its ions, and the
-//! first salt to crystallise from the concentrating liquid.
+//! first salt to crystallise from the concentrating liquid. A recipe of one solute that no
+//! parameter system covers at the temperature is answered from that solute's own freezing
+//! data instead ([`alone`]).
 
 use std::collections::BTreeMap;
 
@@ -16,12 +18,13 @@ use crate::engine::mixture::{Ask, Mixture, SolidModel};
 use crate::engine::pitzer_solids::{PitzerSolids, choose, ice_line_of};
 use crate::engine::snapshot::Snapshot;
 use crate::number::round_significant;
-use crate::query::{Options, Recipe, Span};
+use crate::query::{Freezing, Loading, Options, Recipe, Span, Temperature};
 use crate::science::activity::freeze::{Candidate, Frozen, freeze};
 use crate::science::activity::ice::ln_water_activity_of_ice;
 use crate::science::bisect::{Until, try_bisect};
 use crate::science::formula::molar_mass;
 use crate::science::freezing::ICE_POINT;
+use crate::science::units::CompositionUnit;
 
 /// What was asked: of which recipe, at which temperature (K), written where.
 pub struct Asked<'r> {
@@ -32,6 +35,56 @@ pub struct Asked<'r> {
 
 fn refuse(message: String, span: Span) -> EvalError {
     EvalError::Unanswerable { message, span }
+}
+
+/// The recipe holds one solute and Pitzer's equations cannot follow it to `at` (no
+/// parameter system covers it there): true when [`alone`] answers it instead.
+pub fn answered_alone(snap: &Snapshot, mixture: &Mixture, options: &Options, at: f64) -> bool {
+    mixture.solutes.len() == 1
+        && at < ICE_POINT
+        && choose(snap, mixture, Some((at, ICE_POINT)), options.extrapolate).is_err()
+}
+
+/// `freezing of RECIPE at T` for a recipe of one solute, answered as `freezing of SOLUTE at
+/// LOADING at T` from the solute's freezing data (its ice line and eutectic), the loading
+/// being the recipe's in g/100g water.
+pub fn alone(
+    snap: &Snapshot,
+    mixture: &Mixture,
+    options: &Options,
+    asked: Asked,
+    answer: &mut Answer,
+) -> Result<(), EvalError> {
+    let Some((solute, name)) = mixture.solutes.first() else {
+        return Err(refuse("the recipe holds no solute".into(), asked.span));
+    };
+    let loading = 100.0 * mixture.per_water(0);
+    // Spans point at the asked temperature: the recipe may have been written elsewhere.
+    let statement = Freezing {
+        solute: crate::query::Name {
+            text: solute.id.clone(),
+            span: asked.span,
+        },
+        loading: Loading {
+            value: loading,
+            unit: CompositionUnit::GramsPer100gWater,
+            span: asked.span,
+        },
+        temperature: Some(Temperature {
+            value: asked.at,
+            unit: crate::science::units::TemperatureUnit::Kelvin,
+            span: asked.span,
+        }),
+        unit: None,
+        options: options.clone(),
+    };
+    answer.caveat(format!(
+        "{} holds one solute, {} ({} g/100g water), and no parameter system of Pitzer's equations covers it at this temperature: answered from its own freezing data (ice line and eutectic)",
+        asked.recipe.title(),
+        name.text,
+        value(loading)
+    ));
+    crate::engine::freezing::freezing(snap, &statement, answer)
 }
 
 /// A salt that may crystallise at a temperature: its solute's index, its solubility

@@ -226,7 +226,12 @@ pub fn recipe(snap: &Snapshot, s: &RecipeStatement, answer: &mut Answer) -> Resu
             at: at.kelvin(),
             span: at.span,
         };
-        crate::engine::freeze_recipe::freezing(snap, &composed.mixture, &s.options, asked, answer)?;
+        let mixture = &composed.mixture;
+        if crate::engine::freeze_recipe::answered_alone(snap, mixture, &s.options, at.kelvin()) {
+            // The solute's own freezing answer carries the caution.
+            return crate::engine::freeze_recipe::alone(snap, mixture, &s.options, asked, answer);
+        }
+        crate::engine::freeze_recipe::freezing(snap, mixture, &s.options, asked, answer)?;
         answer.caveat(CAUTION);
         return Ok(());
     }

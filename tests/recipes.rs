@@ -226,3 +226,49 @@ fn a_recipe_of_one_salt_freezes_as_that_salt_and_two_salts_are_still_refused() {
     let message = &mixed.error.as_ref().unwrap().message;
     assert!(message.contains("Pitzer's equations"), "{message}");
 }
+
+/// A strong recipe of one salt below 0 °C takes the salt's own ice line (its tabulated
+/// freezing points), the figure `freezing of NaCl at ...` gives: 23 %w/w NaCl (29.87 g per
+/// 100 g of water) holds from -10 C and meets ice below its ice line near -20.6 C; beyond
+/// the eutectic composition (30 %w/w CaCl2) ice appears only at the eutectic.
+#[test]
+fn below_zero_a_strong_recipe_of_one_salt_takes_that_salts_ice_line() {
+    let a = answers(
+        "let brine = recipe 23 %w/w NaCl\n\
+         require brine stays dissolved from -10 C to 5 C\n\
+         require brine stays dissolved from -21 C to 5 C\n\
+         freezing of NaCl at 29.8701 g/100g water\n\
+         which solids form in recipe 30 %w/w CaCl2 from -30 C to 5 C\n\
+         freezing of CaCl2 at 30 %w/w",
+    );
+    let (warm, cold, alone) = (&a[1], &a[2], &a[3]);
+    assert!(warm.ok, "{:?}", warm.error);
+    assert_eq!(warm.holds, Some(true));
+    let ice = &warm.rows[0];
+    assert_eq!(ice.solute.as_deref(), Some("ice"));
+    assert_eq!(ice.value, alone.rows[0].value);
+    assert!(
+        ice.value.unwrap() < -20.0 && ice.value.unwrap() > -21.1,
+        "{ice:?}"
+    );
+    assert!(
+        warm.caveats
+            .iter()
+            .any(|c| c.contains("ice line from its own freezing data")),
+        "{:?}",
+        warm.caveats
+    );
+    assert!(cold.ok, "{:?}", cold.error);
+    assert_eq!(cold.holds, Some(false));
+    assert_eq!(cold.rows[0].holds, Some(false));
+    let (solids, eutectic) = (&a[4], &a[5]);
+    assert!(solids.ok, "{:?}", solids.error);
+    let ice = &solids.rows[0];
+    assert_eq!(ice.solute.as_deref(), Some("ice"));
+    let te = eutectic
+        .rows
+        .iter()
+        .find_map(|r| r.temperature_c.or(r.value))
+        .unwrap();
+    assert_eq!(ice.temperature_c, Some(te), "{:?}", eutectic.rows);
+}

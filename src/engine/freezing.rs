@@ -279,6 +279,32 @@ pub fn ice_onset(
         .map_err(|e| e.to_string())
 }
 
+/// Where ice first appears on cooling a solution of `w` (mass fraction) of one solute, from
+/// its freezing data (tabulated ice line, an activity model, or the ideal dilute formula),
+/// with the basis of the figure; its sources cited and its method said in `answer`. The
+/// loading's ice line, or the eutectic for a loading richer than the eutectic's (the salt
+/// comes out first); `Err` with the reason when neither is known.
+pub fn ice_line_alone(
+    snap: &Snapshot,
+    solute: &Solute,
+    w: f64,
+    reviewed_only: bool,
+    answer: &mut Answer,
+) -> Result<(f64, Basis), String> {
+    let models = snap.models_for(&solute.formula);
+    let system = system_of(snap, solute, reviewed_only, &models);
+    let ice = match system.eutectic() {
+        Some((we, te)) if w > we + 1e-9 => IcePoint {
+            t_k: te,
+            basis: IceBasis::Eutectic,
+            model: None,
+        },
+        _ => system.ice_line(w).map_err(|e| e.to_string())?,
+    };
+    ice_caveats(snap, &system, &ice, solute, answer);
+    Ok((ice.t_k, ice_basis(ice.basis)))
+}
+
 /// The sub-zero part of `require`: for a range reaching below 0 °C, the ice line of the
 /// loading decides where the liquid stops being the loading's. Returns the temperature
 /// from which the salt's own curve must be checked (the ice line, or the range's low end

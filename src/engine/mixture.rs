@@ -9,7 +9,7 @@
 //! [`EachOnItsOwn`]: every solute against its own pure-water solubility curve at its amount
 //! per kg of the mixture's water, which ignores common-ion and salting effects.
 
-use crate::answer::Answer;
+use crate::answer::{Answer, Basis};
 use crate::engine::common::{cite_curve, curve_error, curve_of};
 use crate::engine::error::EvalError;
 use crate::engine::snapshot::Snapshot;
@@ -57,8 +57,9 @@ impl Mixture<'_> {
 /// Where ice appears on cooling a mixture, or why it is not said.
 #[derive(Debug, Clone, PartialEq)]
 pub enum IceLine {
-    /// Ice appears below `t_k`; `how` names the method, for a caveat.
-    At { t_k: f64, how: String },
+    /// Ice appears below `t_k`; `how` names the method, for a caveat; `basis` says whether
+    /// `t_k` is read from a table or computed.
+    At { t_k: f64, how: String, basis: Basis },
     /// Not evaluated, with the reason.
     NotEvaluated(String),
 }
@@ -91,8 +92,8 @@ pub trait SolidModel {
     /// The temperatures where solute `index` is saturated; cites the data used.
     fn saturation(&self, ask: &mut Ask, index: usize) -> Result<Vec<Crossing>, EvalError>;
 
-    /// Where ice appears on cooling the mixture.
-    fn ice_line(&self, mixture: &Mixture) -> IceLine;
+    /// Where ice appears on cooling the mixture; cites the data used.
+    fn ice_line(&self, ask: &mut Ask) -> IceLine;
 }
 
 /// Every solute checked against its own solubility in pure water, at its amount per kg of
@@ -148,10 +149,43 @@ impl SolidModel for EachOnItsOwn {
         Ok(crossings)
     }
 
+    /// The ideal dilute estimate ([`EachOnItsOwn::ideal_ice_line`]); beyond the dilute
+    /// limit, a mixture of one solute gets that solute's own ice line (its freezing data,
+    /// [`crate::engine::freezing::ice_line_alone`]).
+    fn ice_line(&self, ask: &mut Ask) -> IceLine {
+        let ideal = EachOnItsOwn::ideal_ice_line(ask.mixture);
+        let (IceLine::NotEvaluated(why), [(solute, name)]) =
+            (&ideal, ask.mixture.solutes.as_slice())
+        else {
+            return ideal;
+        };
+        let w = ask.mixture.alone(0);
+        let reviewed_only = ask.options.reviewed_only;
+        match crate::engine::freezing::ice_line_alone(
+            ask.snap,
+            solute,
+            w,
+            reviewed_only,
+            ask.answer,
+        ) {
+            Ok((t_k, basis)) => IceLine::At {
+                t_k,
+                basis,
+                how: format!(
+                    "the only solute, {}, beyond the ideal dilute limit: ice line from its own freezing data at its loading",
+                    name.text
+                ),
+            },
+            Err(alone) => IceLine::NotEvaluated(format!("{why}; for {} alone: {alone}", name.text)),
+        }
+    }
+}
+
+impl EachOnItsOwn {
     /// The ideal dilute estimate, ΔT = K_f·Σ iₖ·mₖ (van 't Hoff), only while the solution
     /// holds at most [`DILUTE_IONS`] mol/kg of dissolved particles; beyond that the ice
     /// line of a mixture needs the activity of water with every solute together.
-    fn ice_line(&self, mixture: &Mixture) -> IceLine {
+    pub fn ideal_ice_line(mixture: &Mixture) -> IceLine {
         let particles: f64 = (0..mixture.solutes.len())
             .map(|i| {
                 let ions = match mixture.solutes[i].0.kind {
@@ -164,6 +198,7 @@ impl SolidModel for EachOnItsOwn {
         if particles <= DILUTE_IONS {
             IceLine::At {
                 t_k: ICE_POINT - KF_WATER * particles,
+                basis: Basis::Computed,
                 how: format!(
                     "ice line estimated for an ideal dilute solution (ΔT = K_f·Σ i·m, K_f = {KF_WATER} K·kg/mol, {} mol/kg of dissolved particles)",
                     crate::number::round_significant(particles, 3)
@@ -232,7 +267,7 @@ mod tests {
         assert!((m.per_water(1) - 0.2 / 0.7).abs() < 1e-15);
         // Far beyond the dilute limit: no ideal ice line is claimed.
         assert!(matches!(
-            EachOnItsOwn.ice_line(&m),
+            EachOnItsOwn::ideal_ice_line(&m),
             IceLine::NotEvaluated(_)
         ));
     }
@@ -250,7 +285,7 @@ mod tests {
             solutes: vec![(&a, name)],
             ws: vec![r / (1.0 + r)],
         };
-        let IceLine::At { t_k, .. } = EachOnItsOwn.ice_line(&m) else {
+        let IceLine::At { t_k, .. } = EachOnItsOwn::ideal_ice_line(&m) else {
             panic!("dilute")
         };
         assert!((ICE_POINT - t_k - 0.186).abs() < 1e-9);

@@ -400,10 +400,11 @@ impl SolidModel for PitzerSolids<'_> {
 
     /// Where the liquid's water activity equals that of water over ice, scanning down from
     /// 0 °C at most 0.5 K apart and bisecting to 1e-4 K.
-    fn ice_line(&self, _mixture: &Mixture) -> IceLine {
+    fn ice_line(&self, _ask: &mut Ask) -> IceLine {
         match ice_line_of(self, &self.ions) {
             Ok(t_k) => IceLine::At {
                 t_k,
+                basis: Basis::Computed,
                 how: format!(
                     "ice line from the water activity of the whole mixture by Pitzer's equations ({}) and the ice–water equilibrium",
                     self.system.name

@@ -343,8 +343,8 @@ fn ice_in_range(
     if t1 >= ICE_POINT {
         return Ok(false);
     }
-    match model.ice_line(ask.mixture) {
-        IceLine::At { t_k, how } => {
+    match model.ice_line(ask) {
+        IceLine::At { t_k, how, basis } => {
             ask.answer.caveat(how);
             let forms = t_k > t1;
             ask.answer.rows.push(Row {
@@ -352,7 +352,7 @@ fn ice_in_range(
                 quantity: Some("ice appears on cooling below".into()),
                 value: Some(celsius(t_k)),
                 unit: Some("C".into()),
-                basis: Some(Basis::Computed),
+                basis: Some(basis),
                 holds: Some(!forms),
                 ..Row::default()
             });
@@ -421,10 +421,10 @@ fn require(
 }
 
 /// The ice row of `which solids form`, for a range reaching below 0 °C.
-fn ice_row(model: &dyn SolidModel, mixture: &Mixture, t1: f64, answer: &mut Answer) -> Row {
-    let (temperature_c, holds, extra) = match model.ice_line(mixture) {
-        IceLine::At { t_k, how } => {
-            answer.caveat(how);
+fn ice_row(model: &dyn SolidModel, ask: &mut Ask, t1: f64) -> Row {
+    let (temperature_c, holds, extra) = match model.ice_line(ask) {
+        IceLine::At { t_k, how, .. } => {
+            ask.answer.caveat(how);
             let forms = if t_k > t1 {
                 format!("below {} C", celsius(t_k))
             } else {
@@ -516,7 +516,7 @@ fn first_on_cooling(rows: &[Row], top_c: f64) -> Option<Row> {
 fn solids_form(ask: &mut Ask, model: &dyn SolidModel, at: Limits) -> Result<(), EvalError> {
     let first_row = ask.answer.rows.len();
     if at.t1 < ICE_POINT {
-        let row = ice_row(model, ask.mixture, at.t1, ask.answer);
+        let row = ice_row(model, ask, at.t1);
         ask.answer.rows.push(row);
     }
     for index in 0..ask.mixture.solutes.len() {

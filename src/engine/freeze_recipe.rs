@@ -76,7 +76,7 @@ pub fn alone(
             span: asked.span,
         }),
         unit: None,
-        options: options.clone(),
+        options: *options,
     };
     answer.caveat(format!(
         "{} holds one solute, {} ({} g/100g water), and no parameter system of Pitzer's equations covers it at this temperature: answered from its own freezing data (ice line and eutectic)",

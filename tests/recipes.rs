@@ -272,3 +272,37 @@ fn below_zero_a_strong_recipe_of_one_salt_takes_that_salts_ice_line() {
         .unwrap();
     assert_eq!(ice.temperature_c, Some(te), "{:?}", eutectic.rows);
 }
+
+/// `freezing of RECIPE` without a temperature says where the recipe as made starts to
+/// freeze: a recipe of one salt as that salt at its loading; a dilute mixture by the ideal
+/// formula (ΔT = K_f·Σ i·m, K_f = 1.86 K·kg/mol: 0.02 mol/kg each of NaCl and KCl is 0.08
+/// mol/kg of ions, 0.149 K; common practice); a strong mixture refused with the reason; a
+/// buffered recipe sent to the statement with a temperature.
+#[test]
+fn freezing_of_a_recipe_without_a_temperature_gives_where_it_starts_to_freeze() {
+    let a = answers(
+        "let brine = recipe 23 %w/w NaCl\n\
+         freezing of brine\n\
+         freezing of NaCl at 29.8701 g/100g water\n\
+         freezing point of recipe 0.02 mol/kg NaCl, 0.02 mol/kg KCl\n\
+         freezing of recipe 20 g/100g water NaCl, 15 g/100g water KCl\n\
+         freezing of recipe 10 mM sodium phosphate at pH 7.4, 137 mM NaCl",
+    );
+    let (recipe, alone) = (&a[1], &a[2]);
+    assert!(recipe.ok, "{:?}", recipe.error);
+    let rows = |x: &Answer| serde_json::to_string(&x.rows).unwrap();
+    assert_eq!(rows(recipe), rows(alone));
+    let dilute = &a[3];
+    assert!(dilute.ok, "{:?}", dilute.error);
+    let t = dilute.rows[0].value.unwrap();
+    assert!((t + 0.149).abs() < 0.002, "{t}");
+    let strong = &a[4];
+    let message = &strong.error.as_ref().unwrap().message;
+    assert!(
+        message.contains("starts to freeze is not known"),
+        "{message}"
+    );
+    let buffered = &a[5];
+    let message = &buffered.error.as_ref().unwrap().message;
+    assert!(message.contains("at -20 C"), "{message}");
+}

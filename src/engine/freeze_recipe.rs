@@ -14,7 +14,7 @@ use serde_json::json;
 use crate::answer::{Answer, Basis, Row};
 use crate::engine::common::{celsius, value};
 use crate::engine::error::EvalError;
-use crate::engine::mixture::{Ask, Mixture, SolidModel};
+use crate::engine::mixture::{Ask, EachOnItsOwn, IceLine, Mixture, SolidModel};
 use crate::engine::pitzer_solids::{PitzerSolids, choose, ice_line_of};
 use crate::engine::snapshot::Snapshot;
 use crate::number::round_significant;
@@ -59,25 +59,7 @@ pub fn alone(
         return Err(refuse("the recipe holds no solute".into(), asked.span));
     };
     let loading = 100.0 * mixture.per_water(0);
-    // Spans point at the asked temperature: the recipe may have been written elsewhere.
-    let statement = Freezing {
-        solute: crate::query::Name {
-            text: solute.id.clone(),
-            span: asked.span,
-        },
-        loading: Loading {
-            value: loading,
-            unit: CompositionUnit::GramsPer100gWater,
-            span: asked.span,
-        },
-        temperature: Some(Temperature {
-            value: asked.at,
-            unit: crate::science::units::TemperatureUnit::Kelvin,
-            span: asked.span,
-        }),
-        unit: None,
-        options: *options,
-    };
+    let statement = alone_at(solute, loading, Some(asked.at), options, asked.span);
     answer.caveat(format!(
         "{} holds one solute, {} ({} g/100g water), and no parameter system of Pitzer's equations covers it at this temperature: answered from its own freezing data (ice line and eutectic)",
         asked.recipe.title(),
@@ -85,6 +67,117 @@ pub fn alone(
         value(loading)
     ));
     crate::engine::freezing::freezing(snap, &statement, answer)
+}
+
+/// `freezing of RECIPE` without a temperature: where the recipe as made starts to freeze.
+/// A recipe of one solute is answered as `freezing of SOLUTE at LOADING`; a mixture by the
+/// water activity of Pitzer's equations where a parameter system holds all its salts below
+/// 0 °C, else by the ideal dilute formula while it is dilute, else refused with the reason;
+/// a recipe with an acid or base is sent to `freezing of NAME at T` (its own path).
+pub fn onset(
+    snap: &Snapshot,
+    mixture: &Mixture,
+    recipe: &Recipe,
+    options: &Options,
+    answer: &mut Answer,
+) -> Result<(), EvalError> {
+    let span = recipe.span;
+    let title = recipe.title();
+    if crate::engine::buffer::solution_of(snap, mixture).is_some() {
+        return Err(refuse(
+            format!(
+                "{title} holds an acid or base: give the freezer's temperature, `freezing of NAME at -20 C`, which follows the liquid and its pH as ice forms and says where ice appears"
+            ),
+            span,
+        ));
+    }
+    if let [(solute, name)] = mixture.solutes.as_slice() {
+        let loading = 100.0 * mixture.per_water(0);
+        answer.caveat(format!(
+            "{title} holds one solute, {} ({} g/100g water): answered from its own freezing data",
+            name.text,
+            value(loading)
+        ));
+        return crate::engine::freezing::freezing(
+            snap,
+            &alone_at(solute, loading, None, options, span),
+            answer,
+        );
+    }
+    let pitzer = choose(snap, mixture, None, options.extrapolate)
+        .ok()
+        .and_then(|model| ice_line_of(&model, &model.ions).ok().map(|t| (t, model)));
+    let t_k = match pitzer {
+        Some((t_k, model)) => {
+            let mut ask = Ask {
+                snap,
+                mixture,
+                options,
+                answer,
+            };
+            for index in 0..mixture.solutes.len() {
+                model.cite(&mut ask, index)?;
+            }
+            answer.caveat(format!(
+                "ice line from the water activity of the whole mixture by Pitzer's equations ({}) and the ice–water equilibrium",
+                model.system.name
+            ));
+            answer.caveat(model.caveat());
+            t_k
+        }
+        None => match EachOnItsOwn::ideal_ice_line(mixture) {
+            IceLine::At { t_k, how, .. } => {
+                answer.caveat(how);
+                t_k
+            }
+            IceLine::NotEvaluated(why) => {
+                return Err(refuse(
+                    format!("where {title} starts to freeze is not known: {why}"),
+                    span,
+                ));
+            }
+        },
+    };
+    answer.rows.push(Row {
+        solute: Some(title),
+        quantity: Some("ice appears on cooling below".into()),
+        value: Some(celsius(t_k)),
+        unit: Some("C".into()),
+        basis: Some(Basis::Computed),
+        ..Row::default()
+    });
+    answer.caveat("ask `freezing of NAME at T` for the ice, the salts and the liquid left at a freezer's temperature");
+    answer.caveat(crate::engine::CAUTION);
+    Ok(())
+}
+
+/// `freezing of SOLUTE at LOADING [at T]` for the one solute of a recipe, its loading in
+/// g/100g water; every span points at `span` (the recipe may be written elsewhere).
+fn alone_at(
+    solute: &crate::model::Solute,
+    loading: f64,
+    at: Option<f64>,
+    options: &Options,
+    span: Span,
+) -> Freezing {
+    Freezing {
+        solute: crate::query::Name {
+            text: solute.id.clone(),
+            span,
+        },
+        loading: Loading {
+            value: loading,
+            unit: CompositionUnit::GramsPer100gWater,
+            span,
+        },
+        temperature: at.map(|t_k| Temperature {
+            value: t_k,
+            unit: crate::science::units::TemperatureUnit::Kelvin,
+            span,
+        }),
+        unit: None,
+        options: *options,
+    }
 }
 
 /// A salt that may crystallise at a temperature: its solute's index, its solubility

@@ -211,6 +211,16 @@ pub fn recipe(snap: &Snapshot, s: &RecipeStatement, answer: &mut Answer) -> Resu
         return Ok(());
     }
     if let RecipeQuestion::Freezing { at } = &s.question {
+        let Some(at) = at else {
+            // Where the recipe as made starts to freeze.
+            return crate::engine::freeze_recipe::onset(
+                snap,
+                &composed.mixture,
+                recipe,
+                &s.options,
+                answer,
+            );
+        };
         // A recipe with an acid or base: its own path, with the pH of the liquid left.
         if buffer::solution_of(snap, &composed.mixture).is_some() {
             return crate::engine::buffer_freeze::freezing(

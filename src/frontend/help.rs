@@ -111,10 +111,15 @@ pub const TOPICS: &[Topic] = &[
         name: "freezing",
         aliases: &["ice", "eutectic", "chill"],
         summary: "whether ice or salt comes first when a brine is chilled",
-        body: "freezing of SOLUTE at LOADING at TEMPERATURE\n\
-               Below 0 C: whether the solution at this loading freezes (ice), crystallises \
-               (salt) or stays liquid at the temperature.",
-        examples: &["freezing of NaCl at 10 g/100g water at -10 C"],
+        body: "freezing of SOLUTE at LOADING [at TEMPERATURE]\n\
+               freezing of RECIPE [at TEMPERATURE]\n\
+               Without a temperature: where the solution starts to freeze. Below 0 C: \
+               whether the solution freezes (ice), crystallises (salt) or stays liquid at \
+               the temperature; for a recipe, the ice, the salts and the liquid left.",
+        examples: &[
+            "freezing of NaCl at 10 g/100g water at -10 C",
+            "freezing of recipe 23 %w/w NaCl",
+        ],
     },
     Topic {
         name: "convert",

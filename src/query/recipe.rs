@@ -96,8 +96,9 @@ pub enum RecipeQuestion {
     /// temperature given (else the recipe's volume temperature).
     Describe { at: Option<Temperature> },
     /// `freezing of eyewash at -20 C`: the ice and salts out of the recipe at that
-    /// temperature, and the liquid left.
-    Freezing { at: Temperature },
+    /// temperature, and the liquid left; without a temperature, where the recipe as made
+    /// starts to freeze.
+    Freezing { at: Option<Temperature> },
     /// `ph of eyewash from 2 C to 25 C`: the pH at each temperature, the amounts fixed.
     Ph { temperatures: Temperatures },
 }

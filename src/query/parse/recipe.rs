@@ -266,11 +266,11 @@ pub(super) fn saturation<'a>(cx: Cx<'a>, recipe: Recipe, i: &'a str) -> R<'a, St
     ))
 }
 
-/// `freezing of RECIPE at -20 C [extrapolate]`, after the recipe.
+/// `freezing of RECIPE [at -20 C] [extrapolate]`, after the recipe.
 pub(super) fn freezing<'a>(cx: Cx<'a>, recipe: Recipe, i: &'a str) -> R<'a, Statement> {
-    let (i, _) = expect(cx, i, &["at"])?;
-    let (i, at) = committed_temperature(cx, i)?;
-    let (i, tail) = tail(cx, i, &DATA, &[])?;
+    let (i, at) = optional_at(cx, i)?;
+    let earlier: &[&'static str] = if at.is_none() { &["at"] } else { &[] };
+    let (i, tail) = tail(cx, i, &DATA, earlier)?;
     Ok((
         i,
         asked(recipe, RecipeQuestion::Freezing { at }, tail.options),

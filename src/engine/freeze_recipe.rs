@@ -5,7 +5,7 @@
 //! line, the ice and salts out at the temperature, the liquid left and its ions, and the
 //! first salt to crystallise from the concentrating liquid. A recipe of one solute that no
 //! parameter system covers at the temperature is answered from that solute's own freezing
-//! data instead ([`alone`]).
+//! data instead ([`as_its_solute`]).
 
 use std::collections::BTreeMap;
 
@@ -37,35 +37,28 @@ fn refuse(message: String, span: Span) -> EvalError {
     EvalError::Unanswerable { message, span }
 }
 
-/// The recipe holds one solute and Pitzer's equations cannot follow it to `at` (no
-/// parameter system covers it there): true when [`alone`] answers it instead.
-pub fn answered_alone(snap: &Snapshot, mixture: &Mixture, options: &Options, at: f64) -> bool {
-    mixture.solutes.len() == 1
-        && at < ICE_POINT
-        && choose(snap, mixture, Some((at, ICE_POINT)), options.extrapolate).is_err()
-}
-
-/// `freezing of RECIPE at T` for a recipe of one solute, answered as `freezing of SOLUTE at
-/// LOADING at T` from the solute's freezing data (its ice line and eutectic), the loading
-/// being the recipe's in g/100g water.
-pub fn alone(
+/// `freezing of SOLUTE at LOADING [at T]` for the one solute of a recipe, `why` said first
+/// in a note: the solute's own freezing answer (its ice line and eutectic), the loading
+/// being the recipe's in g/100g water. The answer carries the solute's cautions.
+fn as_its_solute(
     snap: &Snapshot,
-    mixture: &Mixture,
+    (mixture, title): (&Mixture, &str),
+    at: Option<f64>,
+    why: &str,
     options: &Options,
-    asked: Asked,
+    span: Span,
     answer: &mut Answer,
 ) -> Result<(), EvalError> {
     let Some((solute, name)) = mixture.solutes.first() else {
-        return Err(refuse("the recipe holds no solute".into(), asked.span));
+        return Err(refuse(format!("{title} holds no solute"), span));
     };
     let loading = 100.0 * mixture.per_water(0);
-    let statement = alone_at(solute, loading, Some(asked.at), options, asked.span);
     answer.caveat(format!(
-        "{} holds one solute, {} ({} g/100g water), and no parameter system of Pitzer's equations covers it at this temperature: answered from its own freezing data (ice line and eutectic)",
-        asked.recipe.title(),
+        "{title} holds one solute, {} ({} g/100g water){why}: answered from its own freezing data",
         name.text,
         value(loading)
     ));
+    let statement = alone_at(solute, loading, at, options, span);
     crate::engine::freezing::freezing(snap, &statement, answer)
 }
 
@@ -91,18 +84,8 @@ pub fn onset(
             span,
         ));
     }
-    if let [(solute, name)] = mixture.solutes.as_slice() {
-        let loading = 100.0 * mixture.per_water(0);
-        answer.caveat(format!(
-            "{title} holds one solute, {} ({} g/100g water): answered from its own freezing data",
-            name.text,
-            value(loading)
-        ));
-        return crate::engine::freezing::freezing(
-            snap,
-            &alone_at(solute, loading, None, options, span),
-            answer,
-        );
+    if mixture.solutes.len() == 1 {
+        return as_its_solute(snap, (mixture, &title), None, "", options, span, answer);
     }
     let pitzer = choose(snap, mixture, None, options.extrapolate)
         .ok()
@@ -282,7 +265,7 @@ fn first_out(
     Ok(None)
 }
 
-/// Answers `freezing of RECIPE at T`.
+/// Answers `freezing of RECIPE at T`, with the cautions.
 pub fn freezing(
     snap: &Snapshot,
     mixture: &Mixture,
@@ -299,15 +282,25 @@ pub fn freezing(
             span,
         ));
     }
-    let model = choose(snap, mixture, Some((t, ICE_POINT)), options.extrapolate).map_err(|note| {
-        refuse(
-            format!(
-                "the freezing of {title} is worked out with Pitzer's equations for all its salts together, and here they cannot be used: {}",
-                note.unwrap_or_else(|| "none of its solutes is a salt a parameter system holds".into())
-            ),
-            span,
-        )
-    })?;
+    let model = match choose(snap, mixture, Some((t, ICE_POINT)), options.extrapolate) {
+        Ok(model) => model,
+        Err(_) if mixture.solutes.len() == 1 => {
+            let why =
+                ", and no parameter system of Pitzer's equations covers it at this temperature";
+            return as_its_solute(snap, (mixture, &title), Some(t), why, options, span, answer);
+        }
+        Err(note) => {
+            return Err(refuse(
+                format!(
+                    "the freezing of {title} is worked out with Pitzer's equations for all its salts together, and here they cannot be used: {}",
+                    note.unwrap_or_else(|| {
+                        "none of its solutes is a salt a parameter system holds".into()
+                    })
+                ),
+                span,
+            ));
+        }
+    };
     let mut ask = Ask {
         snap,
         mixture,
@@ -434,5 +427,6 @@ pub fn freezing(
     ));
     answer.caveat(model.caveat());
     answer.caveat("amounts per anhydrous salt; equilibrium assumed (a real freezer can supercool, or trap brine in the ice)");
+    answer.caveat(crate::engine::CAUTION);
     Ok(())
 }

@@ -236,14 +236,13 @@ pub fn recipe(snap: &Snapshot, s: &RecipeStatement, answer: &mut Answer) -> Resu
             at: at.kelvin(),
             span: at.span,
         };
-        let mixture = &composed.mixture;
-        if crate::engine::freeze_recipe::answered_alone(snap, mixture, &s.options, at.kelvin()) {
-            // The solute's own freezing answer carries the caution.
-            return crate::engine::freeze_recipe::alone(snap, mixture, &s.options, asked, answer);
-        }
-        crate::engine::freeze_recipe::freezing(snap, mixture, &s.options, asked, answer)?;
-        answer.caveat(CAUTION);
-        return Ok(());
+        return crate::engine::freeze_recipe::freezing(
+            snap,
+            &composed.mixture,
+            &s.options,
+            asked,
+            answer,
+        );
     }
     if expanded.is_some() {
         answer.caveat(buffer::PH_CAVEAT);

@@ -10,6 +10,7 @@ use crate::engine::common::{
     value,
 };
 use crate::engine::error::EvalError;
+use crate::engine::mixture::Ask;
 use crate::engine::snapshot::Snapshot;
 use crate::model::{Solute, SoluteKind};
 use crate::query::Freezing;
@@ -279,20 +280,19 @@ pub fn ice_onset(
         .map_err(|e| e.to_string())
 }
 
-/// Where ice first appears on cooling a solution of `w` (mass fraction) of one solute, from
-/// its freezing data (tabulated ice line, an activity model, or the ideal dilute formula),
-/// with the basis of the figure; its sources cited and its method said in `answer`. The
-/// loading's ice line, or the eutectic for a loading richer than the eutectic's (the salt
-/// comes out first); `Err` with the reason when neither is known.
-pub fn ice_line_alone(
-    snap: &Snapshot,
-    solute: &Solute,
-    w: f64,
-    reviewed_only: bool,
-    answer: &mut Answer,
-) -> Result<(f64, Basis), String> {
+/// Where ice first appears on cooling solute `index` of a mixture alone in the mixture's
+/// water, from its freezing data (tabulated ice line, an activity model, or the ideal
+/// dilute formula), with the basis of the figure; its sources cited and its method said in
+/// the answer. The loading's ice line, or the eutectic for a loading richer than the
+/// eutectic's (the salt comes out first); `Err` with the reason when neither is known.
+pub fn ice_line_alone(ask: &mut Ask, index: usize) -> Result<(f64, Basis), String> {
+    let (snap, mixture) = (ask.snap, ask.mixture);
+    let Some((solute, _)) = mixture.solutes.get(index) else {
+        return Err("no such solute in the mixture".into());
+    };
+    let w = mixture.alone(index);
     let models = snap.models_for(&solute.formula);
-    let system = system_of(snap, solute, reviewed_only, &models);
+    let system = system_of(snap, solute, ask.options.reviewed_only, &models);
     let ice = match system.eutectic() {
         Some((we, te)) if w > we + 1e-9 => IcePoint {
             t_k: te,
@@ -301,7 +301,7 @@ pub fn ice_line_alone(
         },
         _ => system.ice_line(w).map_err(|e| e.to_string())?,
     };
-    ice_caveats(snap, &system, &ice, solute, answer);
+    ice_caveats(snap, &system, &ice, solute, ask.answer);
     Ok((ice.t_k, ice_basis(ice.basis)))
 }
 

@@ -154,20 +154,11 @@ impl SolidModel for EachOnItsOwn {
     /// [`crate::engine::freezing::ice_line_alone`]).
     fn ice_line(&self, ask: &mut Ask) -> IceLine {
         let ideal = EachOnItsOwn::ideal_ice_line(ask.mixture);
-        let (IceLine::NotEvaluated(why), [(solute, name)]) =
-            (&ideal, ask.mixture.solutes.as_slice())
-        else {
+        let mixture = ask.mixture;
+        let (IceLine::NotEvaluated(why), [(_, name)]) = (&ideal, mixture.solutes.as_slice()) else {
             return ideal;
         };
-        let w = ask.mixture.alone(0);
-        let reviewed_only = ask.options.reviewed_only;
-        match crate::engine::freezing::ice_line_alone(
-            ask.snap,
-            solute,
-            w,
-            reviewed_only,
-            ask.answer,
-        ) {
+        match crate::engine::freezing::ice_line_alone(ask, 0) {
             Ok((t_k, basis)) => IceLine::At {
                 t_k,
                 basis,

@@ -276,8 +276,8 @@ fn below_zero_a_strong_recipe_of_one_salt_takes_that_salts_ice_line() {
 /// `freezing of RECIPE` without a temperature says where the recipe as made starts to
 /// freeze: a recipe of one salt as that salt at its loading; a dilute mixture by the ideal
 /// formula (ΔT = K_f·Σ i·m, K_f = 1.86 K·kg/mol: 0.02 mol/kg each of NaCl and KCl is 0.08
-/// mol/kg of ions, 0.149 K; common practice); a strong mixture refused with the reason; a
-/// buffered recipe sent to the statement with a temperature.
+/// mol/kg of ions, 0.149 K; common practice), also at the limit itself; a strong mixture
+/// refused with the reason; a buffered recipe sent to the statement with a temperature.
 #[test]
 fn freezing_of_a_recipe_without_a_temperature_gives_where_it_starts_to_freeze() {
     let a = answers(
@@ -286,7 +286,8 @@ fn freezing_of_a_recipe_without_a_temperature_gives_where_it_starts_to_freeze() 
          freezing of NaCl at 29.8701 g/100g water\n\
          freezing point of recipe 0.02 mol/kg NaCl, 0.02 mol/kg KCl\n\
          freezing of recipe 20 g/100g water NaCl, 15 g/100g water KCl\n\
-         freezing of recipe 10 mM sodium phosphate at pH 7.4, 137 mM NaCl",
+         freezing of recipe 10 mM sodium phosphate at pH 7.4, 137 mM NaCl\n\
+         freezing of recipe 0.05 mol/kg NaCl, 0.05 mol/kg KCl",
     );
     let (recipe, alone) = (&a[1], &a[2]);
     assert!(recipe.ok, "{:?}", recipe.error);
@@ -305,4 +306,8 @@ fn freezing_of_a_recipe_without_a_temperature_gives_where_it_starts_to_freeze() 
     let buffered = &a[5];
     let message = &buffered.error.as_ref().unwrap().message;
     assert!(message.contains("at -20 C"), "{message}");
+    // At the dilute limit itself (0.2 mol/kg of ions), still within it: 0.372 K.
+    let at_limit = &a[6];
+    assert!(at_limit.ok, "{:?}", at_limit.error);
+    assert_eq!(at_limit.rows[0].value, Some(-0.37));
 }

@@ -15,7 +15,7 @@ use crate::engine::error::EvalError;
 use crate::engine::snapshot::Snapshot;
 use crate::model::{Solute, SoluteKind};
 use crate::query::{Name, Options};
-use crate::science::freezing::{DILUTE_IONS, ICE_POINT, KF_WATER, molality};
+use crate::science::freezing::{DILUTE_IONS, ICE_POINT, KF_WATER, molality, within_dilute_limit};
 use crate::science::solve::{self, Crossing, Screening};
 
 /// A solution of several solutes, solved: who is in it and how much.
@@ -186,7 +186,7 @@ impl EachOnItsOwn {
                 f64::from(ions) * mixture.molality(i)
             })
             .sum();
-        if particles <= DILUTE_IONS {
+        if within_dilute_limit(particles) {
             IceLine::At {
                 t_k: ICE_POINT - KF_WATER * particles,
                 basis: Basis::Computed,

@@ -55,6 +55,13 @@ impl IceBasis {
 /// 0.37 K) is within about 0.03 K (common practice: the dilute limit of van 't Hoff's law).
 pub const DILUTE_IONS: f64 = 0.2;
 
+/// Whether `particles` (mol/kg of ions and molecules) is within [`DILUTE_IONS`]. A loading
+/// written at the limit comes back from its conversion through mass fractions a few units
+/// of the last place above or below it; those count as at the limit.
+pub fn within_dilute_limit(particles: f64) -> bool {
+    particles <= DILUTE_IONS * (1.0 + 1e-9)
+}
+
 /// Molality (mol/kg water) of a mass fraction w: 1000·w / ((1 − w)·M).
 pub fn molality(w: f64, molar_mass: f64) -> f64 {
     1000.0 * w / ((1.0 - w) * molar_mass)
@@ -185,7 +192,7 @@ impl System<'_> {
             reasons.push("no activity-model parameters".into());
         }
         let ions = f64::from(self.ions.max(1));
-        if ions * mol <= DILUTE_IONS {
+        if within_dilute_limit(ions * mol) {
             return Ok(IcePoint {
                 t_k: ICE_POINT - ideal_depression(mol, self.ions),
                 basis: IceBasis::Ideal,

@@ -87,30 +87,31 @@ pub fn onset(
     if mixture.solutes.len() == 1 {
         return as_its_solute(snap, (mixture, &title), None, "", options, span, answer);
     }
-    let pitzer = choose(snap, mixture, None, options.extrapolate)
+    let mut ask = Ask {
+        snap,
+        mixture,
+        options,
+        answer,
+    };
+    // Pitzer's ice line where a system holds the salts below 0 °C, else the ideal one.
+    let by_pitzer = choose(snap, mixture, None, options.extrapolate)
         .ok()
-        .and_then(|model| ice_line_of(&model, &model.ions).ok().map(|t| (t, model)));
-    let t_k = match pitzer {
-        Some((t_k, model)) => {
-            let mut ask = Ask {
-                snap,
-                mixture,
-                options,
-                answer,
-            };
+        .and_then(|model| match model.ice_line(&mut ask) {
+            IceLine::At { t_k, how, .. } => Some((t_k, how, model)),
+            IceLine::NotEvaluated(_) => None,
+        });
+    let t_k = match by_pitzer {
+        Some((t_k, how, model)) => {
             for index in 0..mixture.solutes.len() {
                 model.cite(&mut ask, index)?;
             }
-            answer.caveat(format!(
-                "ice line from the water activity of the whole mixture by Pitzer's equations ({}) and the ice–water equilibrium",
-                model.system.name
-            ));
-            answer.caveat(model.caveat());
+            ask.answer.caveat(how);
+            ask.answer.caveat(model.caveat());
             t_k
         }
         None => match EachOnItsOwn::ideal_ice_line(mixture) {
             IceLine::At { t_k, how, .. } => {
-                answer.caveat(how);
+                ask.answer.caveat(how);
                 t_k
             }
             IceLine::NotEvaluated(why) => {
@@ -121,6 +122,7 @@ pub fn onset(
             }
         },
     };
+    let answer = ask.answer;
     answer.rows.push(Row {
         solute: Some(title),
         quantity: Some("ice appears on cooling below".into()),

@@ -293,14 +293,8 @@ pub fn ice_line_alone(ask: &mut Ask, index: usize) -> Result<(f64, Basis), Strin
     let w = mixture.alone(index);
     let models = snap.models_for(&solute.formula);
     let system = system_of(snap, solute, ask.options.reviewed_only, &models);
-    let ice = match system.eutectic() {
-        Some((we, te)) if w > we + 1e-9 => IcePoint {
-            t_k: te,
-            basis: IceBasis::Eutectic,
-            model: None,
-        },
-        _ => system.ice_line(w).map_err(|e| e.to_string())?,
-    };
+    // `System::ice_line` gives the eutectic itself for a loading richer than the eutectic's.
+    let ice = system.ice_line(w).map_err(|e| e.to_string())?;
     ice_caveats(snap, &system, &ice, solute, ask.answer);
     Ok((ice.t_k, ice_basis(ice.basis)))
 }

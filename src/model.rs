@@ -15,9 +15,12 @@ pub struct UnknownWord {
 }
 
 /// A fieldless enum defined with the text of each variant beside it, written once:
-/// `as_str`, `from_name`, the list of `NAMES`, `FromStr` and `Display` all come from the
-/// one table (the words are those of the seed format, the database and JSON; serde's own
-/// names are set by the enum's attributes, as for any enum).
+/// `as_str`, `from_name`, the list of `NAMES`, `FromStr`, `Display` and serde's
+/// `Serialize`/`Deserialize` all come from the one table (the words are those of the seed
+/// format, the database, CSV and JSON). The enum derives `Debug`, `Clone`, `Copy`,
+/// `PartialEq`, `Eq` and `Hash`; attributes written before `pub enum` are added to those.
+/// An unknown word read through serde is refused as serde refuses an unknown variant
+/// ("unknown variant `x`, expected one of ...").
 macro_rules! words {
     (
         $(#[$meta:meta])*
@@ -26,6 +29,7 @@ macro_rules! words {
         }
     ) => {
         $(#[$meta])*
+        #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
         pub enum $name {
             $($(#[$variant_meta])* $variant,)+
         }
@@ -66,13 +70,36 @@ macro_rules! words {
                 f.write_str(self.as_str())
             }
         }
+
+        impl ::serde::Serialize for $name {
+            fn serialize<S: ::serde::Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+                s.serialize_str(self.as_str())
+            }
+        }
+
+        impl<'de> ::serde::Deserialize<'de> for $name {
+            fn deserialize<D: ::serde::Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
+                struct Word;
+                impl ::serde::de::Visitor<'_> for Word {
+                    type Value = $name;
+
+                    fn expecting(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+                        write!(f, "a {}: one of {}", $what, $name::NAMES.join(", "))
+                    }
+
+                    fn visit_str<E: ::serde::de::Error>(self, word: &str) -> Result<$name, E> {
+                        $name::from_name(word)
+                            .ok_or_else(|| E::unknown_variant(word, $name::NAMES))
+                    }
+                }
+                d.deserialize_str(Word)
+            }
+        }
     };
 }
 
 words! {
     /// What kind of publication a source is.
-    #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
-    #[serde(rename_all = "kebab-case")]
     pub enum SourceKind as "source kind" {
         Handbook = "handbook",
         Compilation = "compilation",
@@ -185,8 +212,6 @@ source_and_fields! {
 
 words! {
     /// Salt, molecular solute or gas.
-    #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
-    #[serde(rename_all = "kebab-case")]
     pub enum SoluteKind as "solute kind" {
         Salt = "salt",
         Molecular = "molecular",
@@ -196,8 +221,6 @@ words! {
 
 words! {
     /// How a dataset came to be.
-    #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
-    #[serde(rename_all = "kebab-case")]
     pub enum Provenance as "provenance" {
         /// Measured by the authors of the source.
         Measured = "measured",
@@ -212,8 +235,6 @@ words! {
 
 words! {
     /// Review state of a dataset.
-    #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
-    #[serde(rename_all = "kebab-case")]
     pub enum Review as "review" {
         Unreviewed = "unreviewed",
         Reviewed = "reviewed",
@@ -356,7 +377,7 @@ pub struct VantHoffLaw {
 
 words! {
     /// What a gas-solubility fit gives.
-    #[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+    #[derive(Default)]
     pub enum FitQuantity as "gas-law form" {
         /// Mole fraction of dissolved gas (seed form `mole-fraction-fit`).
         #[default]
@@ -474,8 +495,6 @@ pub struct DensityCoefficients {
 
 words! {
     /// The kind of record a corroboration check is about.
-    #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
-    #[serde(rename_all = "kebab-case")]
     pub enum CheckSubject as "check subject kind" {
         /// A solubility dataset (`solute/key`).
         Dataset = "dataset",
@@ -488,8 +507,6 @@ words! {
 
 words! {
     /// What a corroboration check found.
-    #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
-    #[serde(rename_all = "kebab-case")]
     pub enum Verdict as "check verdict" {
         /// The record agrees with the outside reference within the tolerance.
         Pass = "pass",

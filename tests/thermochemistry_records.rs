@@ -142,3 +142,36 @@ fn a_changed_figure_is_one_audited_change_that_keeps_its_place() {
             .unwrap();
     assert!((w.kj_per_mol - (-81.7)).abs() < 1e-6, "{}", w.kj_per_mol);
 }
+
+#[test]
+fn the_json_export_writes_the_seed_words_and_reads_back_unchanged() {
+    let dir = tempfile::tempdir().unwrap();
+    let seeded = dir.path().join("seed.db");
+    init_file(&seeded, satline::seed_files::SEED_FILES, false).unwrap();
+    let contents = Store::open(&seeded).unwrap().read_all().unwrap();
+    let json = satline::store::export::to_json(&contents).unwrap();
+    // A state of formation is written as in the seed files (`cr`, `aq`, `g`, `l`), as every
+    // other word of the reference is, not by the name of its variant in the code.
+    assert!(json.contains("\"state\": \"cr\""), "no crystal state");
+    assert!(json.contains("\"state\": \"aq\""), "no aqueous state");
+    assert!(!json.contains("\"Crystal\""));
+    assert!(json.contains("\"provenance\": \"from-memory\""));
+    use satline::model::thermo::Thermochemistry;
+    let exported: serde_json::Value = serde_json::from_str(&json).unwrap();
+    let part = &exported["thermochemistry"];
+    let back: Thermochemistry = serde_json::from_value(part.clone()).unwrap();
+    assert_eq!(back, contents.thermochemistry);
+    // A word that is none of the reference's is refused as serde refuses an unknown variant.
+    let bad = serde_json::to_string(part).unwrap().replacen(
+        "\"state\":\"cr\"",
+        "\"state\":\"crystal\"",
+        1,
+    );
+    let e = serde_json::from_str::<Thermochemistry>(&bad)
+        .unwrap_err()
+        .to_string();
+    assert!(
+        e.starts_with("unknown variant `crystal`, expected one of `cr`, `aq`, `g`, `l`"),
+        "{e}"
+    );
+}

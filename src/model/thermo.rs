@@ -12,8 +12,6 @@ use super::{Provenance, Review};
 
 words! {
     /// What a [`ThermoValue`] measures.
-    #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
-    #[serde(rename_all = "kebab-case")]
     pub enum ThermoQuantity as "quantity" {
         /// Standard enthalpy of formation at 298.15 K, kJ/mol, in a [`ThermoState`].
         Formation = "formation",
@@ -41,7 +39,6 @@ impl ThermoQuantity {
 
 words! {
     /// The state of a substance an enthalpy of formation is for.
-    #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
     pub enum ThermoState as "state" {
         /// `cr`: crystal.
         Crystal = "cr",

@@ -413,24 +413,28 @@ impl Catalog {
         })
     }
 
-    /// A SHA-256 (hex) of the data in this snapshot: equal catalogs have equal fingerprints.
+    /// A SHA-256 (hex) of the data in this snapshot: equal catalogs have equal fingerprints,
+    /// and a change to any record that can change an answer (checks change caveats, the
+    /// thermochemical tables change heats of solution) changes it.
     pub fn fingerprint(&self) -> &str {
         self.fingerprint.get_or_init(|| {
-            let fingerprint = data_fingerprint(
-                &self.sources,
-                &self.solutes,
-                &self.datasets,
-                &self.gas_constants,
-                &self.freezing,
-                &self.densities,
-            );
-            if self.checks.is_empty() {
-                return fingerprint;
-            }
-            // Checks change what answers say (their caveats), so they count as data.
             let mut hasher = Sha256::new();
-            hasher.update(fingerprint.as_bytes());
-            hasher.update(serde_json::to_vec(&self.checks).unwrap_or_default());
+            // serde_json writes floats in their shortest exact form, so equal data hash equally.
+            let parts = [
+                serde_json::to_vec(&self.sources),
+                serde_json::to_vec(&self.solutes),
+                serde_json::to_vec(&self.datasets),
+                serde_json::to_vec(&self.gas_constants),
+                serde_json::to_vec(&self.freezing),
+                serde_json::to_vec(&self.densities),
+                serde_json::to_vec(&self.checks),
+                serde_json::to_vec(&self.thermochemistry),
+            ];
+            for part in parts {
+                let bytes = part.unwrap_or_default();
+                hasher.update((bytes.len() as u64).to_le_bytes());
+                hasher.update(&bytes);
+            }
             crate::store::seed::hex(&hasher.finalize())
         })
     }
@@ -439,32 +443,6 @@ impl Catalog {
     pub fn schema_version(&self) -> u32 {
         self.schema_version
     }
-}
-
-fn data_fingerprint(
-    sources: &[Source],
-    solutes: &[Solute],
-    datasets: &[Dataset],
-    gas_constants: &[GasConstant],
-    freezing: &[FreezingData],
-    densities: &[DensityCoefficients],
-) -> String {
-    let mut hasher = Sha256::new();
-    // serde_json writes floats in their shortest exact form, so equal data hash equally.
-    let parts = [
-        serde_json::to_vec(sources),
-        serde_json::to_vec(solutes),
-        serde_json::to_vec(datasets),
-        serde_json::to_vec(gas_constants),
-        serde_json::to_vec(freezing),
-        serde_json::to_vec(densities),
-    ];
-    for part in parts {
-        let bytes = part.unwrap_or_default();
-        hasher.update((bytes.len() as u64).to_le_bytes());
-        hasher.update(&bytes);
-    }
-    crate::store::seed::hex(&hasher.finalize())
 }
 
 /// The full citation of a source as one line: authors, title, edition, publisher, year,
@@ -588,6 +566,30 @@ mod tests {
         assert_eq!(
             Catalog::from_contents(contents.clone(), 2).fingerprint(),
             a.fingerprint()
+        );
+        // A thermochemical figure changes heats of solution, so it changes the fingerprint.
+        let mut with_heat = contents.clone();
+        with_heat
+            .thermochemistry
+            .values
+            .push(crate::model::thermo::ThermoValue {
+                file: "invented".into(),
+                quantity: crate::model::thermo::ThermoQuantity::Formation,
+                state: Some(crate::model::thermo::ThermoState::Crystal),
+                stage: None,
+                species: "KNO3".into(),
+                value: -1.0,
+                source: "invented".into(),
+                provenance: crate::model::Provenance::Derived,
+                review: crate::model::Review::Unreviewed,
+                note: None,
+            });
+        let heat = Catalog::from_contents(with_heat.clone(), 2);
+        assert_ne!(heat.fingerprint(), a.fingerprint());
+        with_heat.thermochemistry.values[0].value = -2.0;
+        assert_ne!(
+            Catalog::from_contents(with_heat, 2).fingerprint(),
+            heat.fingerprint()
         );
         contents.solutes[0].name.push('x');
         assert_ne!(

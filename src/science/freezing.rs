@@ -199,8 +199,14 @@ impl System<'_> {
                 model: None,
             });
         }
+        // A molecule that does not ionise (sucrose, urea) counts as one particle, not an ion.
+        let particles = if self.ions > 1 {
+            "ions"
+        } else {
+            "dissolved particles"
+        };
         reasons.push(format!(
-            "the ideal formula holds only in the dilute limit (up to {DILUTE_IONS} mol/kg of ions; this solution has {:.2})",
+            "the ideal formula holds only in the dilute limit (up to {DILUTE_IONS} mol/kg of {particles}; this solution has {:.2})",
             ions * mol
         ));
         Err(ScienceError::IceLineUnknown(reasons.join("; ")))
@@ -422,6 +428,18 @@ mod tests {
         // 1 mol/kg is no longer dilute: refused, with the reasons.
         let e = system(None).ice_line(0.05844 / 1.05844).unwrap_err();
         assert!(e.to_string().contains("dilute limit"), "{e}");
+        assert!(e.to_string().contains("mol/kg of ions"), "{e}");
+        // A molecule that does not ionise (0.32 mol/kg, as 10 %w/w sucrose) is not "ions".
+        let molecule = System {
+            molar_mass: 342.3,
+            ions: 1,
+            ..system(None)
+        };
+        let e = molecule.ice_line(0.10).unwrap_err().to_string();
+        assert!(
+            e.contains("0.2 mol/kg of dissolved particles; this solution has 0.32"),
+            "{e}"
+        );
     }
 
     #[test]

@@ -178,7 +178,8 @@ pub enum Dissolution {
 /// saturation mass fraction at the temperature [`batch_temperature`] gives for x dissolved
 /// (the undissolved solid's own heat capacity left out). `saturation(t_c)` is the saturated
 /// mass fraction at `t_c`, `None` where it is unknown. The first crossing is found on a grid
-/// of 200 steps, then by bisection.
+/// of 200 steps, then by bisection (also where a grid step leaves the data: the batch may
+/// saturate before it does).
 pub fn stops_at_saturation(
     batch: &Batch<'_>,
     saturation: impl Fn(f64) -> Option<f64>,
@@ -205,22 +206,34 @@ pub fn stops_at_saturation(
     let mut low = 0.0;
     for k in 1..=STEPS {
         let x = solute_g * k as f64 / STEPS as f64;
-        let h = match headroom(x)? {
-            Ok((h, _)) => h,
-            Err(t_c) => return Ok(Dissolution::Unknown { t_c }),
-        };
-        if h >= 0.0 {
-            low = x;
-            continue;
-        }
-        let mut high = x;
-        for _ in 0..60 {
-            let mid = 0.5 * (low + high);
-            match headroom(mid)? {
-                Ok((h, _)) if h < 0.0 => high = mid,
-                Ok(_) => low = mid,
-                Err(t_c) => return Ok(Dissolution::Unknown { t_c }),
+        let unknown_at = match headroom(x)? {
+            Ok((h, _)) if h >= 0.0 => {
+                low = x;
+                continue;
             }
+            Ok(_) => None,
+            Err(t_c) => Some(t_c),
+        };
+        // Between `low` (room left) and `x` (saturated, or the saturation unknown there) the
+        // path stops leaving room: find where. A batch far beyond what the water takes can
+        // leave the data by its first grid step and still saturate well before it. The
+        // bracket is halved until it is a part in 1e12 of what it holds (about 130 halvings
+        // from a grid step of 5e27 g down to a few hundred grams).
+        let mut high = x;
+        while high - low > 1e-12 * high {
+            let mid = 0.5 * (low + high);
+            if mid <= low || mid >= high {
+                break;
+            }
+            match headroom(mid)? {
+                Ok((h, _)) if h >= 0.0 => low = mid,
+                _ => high = mid,
+            }
+        }
+        if let Err(t_c) = headroom(high)? {
+            return Ok(Dissolution::Unknown {
+                t_c: unknown_at.unwrap_or(t_c),
+            });
         }
         if low <= 0.0 {
             // Saturated from the first grain: nothing dissolves, nothing changes.
@@ -310,6 +323,27 @@ mod tests {
             stops_at_saturation(&demo(1.0), sat).unwrap(),
             Dissolution::Whole
         );
+        // A batch a thousand times what the water takes stops where the 50 g batch does,
+        // though its first grid step (250 g dissolved) would chill it far below the data.
+        let data = |t: f64| (0.0..=100.0).contains(&t).then_some(0.01 * t);
+        let Dissolution::Stops {
+            dissolved_g: huge, ..
+        } = stops_at_saturation(&demo(50_000.0), data).unwrap()
+        else {
+            panic!("it must stop");
+        };
+        assert!((huge - x).abs() < 1e-6, "{huge} {x}");
+        // A batch that leaves the data before it saturates says where it left them: with
+        // saturation at w = 0.5 from 0 to 100 °C, 50 g at ten times the heat reach 0 °C first.
+        let cold = Batch {
+            delta_h: 418.0,
+            ..demo(50.0)
+        };
+        let flat = |t: f64| (0.0..=100.0).contains(&t).then_some(0.5);
+        assert!(matches!(
+            stops_at_saturation(&cold, flat).unwrap(),
+            Dissolution::Unknown { t_c } if t_c < 0.0
+        ));
         // Unknown saturation on the way is said, not guessed.
         assert!(matches!(
             stops_at_saturation(&demo(50.0), |_| None).unwrap(),

@@ -139,6 +139,12 @@ impl std::fmt::Write for StackText {
     }
 }
 
+/// `x` to `digits` significant figures as text for a sentence: [`round_significant`], then
+/// [`display`] (so a batch of 1e30 g reads `1e30`, not thirty-one digits).
+pub fn shown(x: f64, digits: usize) -> String {
+    display(round_significant(x, digits))
+}
+
 /// Formats a number already rounded for display: shortest decimal form, no exponent for
 /// ordinary magnitudes, exponent form for very small or very large ones.
 pub fn display(x: f64) -> String {

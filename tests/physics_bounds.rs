@@ -87,6 +87,47 @@ fn a_refused_huge_number_is_shown_short() {
 }
 
 #[test]
+fn a_huge_batch_is_shown_short_in_the_notes() {
+    // 1e30 g of KNO3 in 1 kg of water: 9.89e27 mol/kg, which the notes once wrote out in
+    // twenty-eight digits.
+    let a = answer(engine(), "dissolving 1e30 g of KNO3 in 1 kg water at 20 C");
+    assert!(a.ok, "{:?}", a.error);
+    assert!(
+        a.caveats
+            .iter()
+            .any(|c| c.contains("at this batch's 9.89e27 mol/kg")),
+        "{:?}",
+        a.caveats
+    );
+    assert!(
+        a.caveats.iter().all(|c| !c.contains("0000000000")),
+        "{:?}",
+        a.caveats
+    );
+    // And it stops where any batch beyond what the water takes stops: the water takes what
+    // it takes of a 500 g batch (the path was once lost below 0 C by its first step).
+    let modest = answer(engine(), "dissolving 500 g of KNO3 in 1 kg water at 20 C");
+    assert!(modest.ok, "{:?}", modest.error);
+    let final_row = |a: &satline::answer::Answer| {
+        let r = a.rows[0].clone();
+        assert_eq!(r.quantity.as_deref(), Some("final temperature"));
+        assert_eq!(
+            r.extra.get("dissolves_fully"),
+            Some(&serde_json::json!(false))
+        );
+        r.value.expect("a final temperature")
+    };
+    assert_eq!(final_row(&a), final_row(&modest));
+    assert!(
+        a.caveats
+            .iter()
+            .any(|c| c.contains("of the 1e30 g have dissolved")),
+        "{:?}",
+        a.caveats
+    );
+}
+
+#[test]
 fn a_plot_with_extrapolate_stops_at_the_reach_and_says_so() {
     let a = answer(engine(), "plot KCl from -5 C to 110 C extrapolate");
     assert!(a.ok, "{:?}", a.error);

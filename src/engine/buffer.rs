@@ -17,7 +17,7 @@ use crate::engine::error::EvalError;
 use crate::engine::mixture::Mixture;
 use crate::engine::snapshot::Snapshot;
 use crate::model::SoluteKind;
-use crate::number::round_significant;
+use crate::number::{round_significant, shown};
 use crate::query::{Name, Recipe, Span, Temperatures};
 use crate::science::acid_base::{
     AcidSystem, BufferForm, DAVIES_MAX_I, Present, Rung, Solution, Speciation, charge_for_ph, solve,
@@ -350,20 +350,14 @@ pub fn made_of(b: &BufferUse) -> String {
     let parts: Vec<String> = b
         .parts
         .iter()
-        .map(|(name, amount)| {
-            format!(
-                "{} {} {name}",
-                round_significant(*amount, 4),
-                b.unit.symbol()
-            )
-        })
+        .map(|(name, amount)| format!("{} {} {name}", shown(*amount, 4), b.unit.symbol()))
         .collect();
     format!(
         "{} at pH {} is made of {}: the shares that give that pH at 25 C with the rest of the recipe present (ionic strength {} mol/kg); from here on the recipe holds those solutes",
         b.written,
         b.ph,
         parts.join(" and "),
-        round_significant(b.ionic_strength, 3)
+        shown(b.ionic_strength, 3)
     ) + if b.volume_set {
         "; the recipe's per-litre amounts are per litre at 25 C, where the buffer is set (write `volume at T` to choose)"
     } else {

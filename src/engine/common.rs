@@ -6,7 +6,7 @@ use crate::engine::error::EvalError;
 use crate::engine::per_litre::{self, Volume};
 use crate::engine::snapshot::{BuiltCurve, Snapshot};
 use crate::model::{Dataset, Provenance, Review, Solute, SoluteKind};
-use crate::number::round_significant;
+use crate::number::shown;
 use crate::query::{Loading, Name, Options, Span, Temperatures, UnitChoice};
 use crate::science::ScienceError;
 use crate::science::units::{self, CompositionUnit, Context};
@@ -390,7 +390,7 @@ pub fn curve_error(error: ScienceError, solute: &Solute, span: Span) -> EvalErro
                 "{}: extrapolated to {} C the saturated solution would be {} % solute by mass, which {why}; not answered",
                 solute.name,
                 celsius(t_k),
-                round_significant(w * 100.0, 4)
+                shown(w * 100.0, 4)
             ),
             span,
         },

@@ -16,7 +16,7 @@ use crate::engine::heat::cite_records;
 use crate::engine::snapshot::Snapshot;
 use crate::model::thermo::HeatCapacityFit;
 use crate::model::{Solute, SoluteKind};
-use crate::number::round_significant;
+use crate::number::{round_significant, shown};
 use crate::query::Dissolving;
 use crate::science::ScienceError;
 use crate::science::activity::relative_enthalpy::apparent_relative_enthalpy;
@@ -86,7 +86,7 @@ fn cp_caveat(
             cite_source(snap, &f.source, answer);
             answer.caveat(format!(
                 "the solution's heat capacity ({} J/(g·K)) from Laliberté's correlation for {}, {} its published range ({}){}",
-                round_significant(b.cp, 3),
+                shown(b.cp, 3),
                 solute.formula,
                 if inside { "inside" } else { "used outside" },
                 range(f),
@@ -99,7 +99,7 @@ fn cp_caveat(
         }
         _ => answer.caveat(format!(
             "the solution's heat capacity taken as water's ({} J/(g·K)){}: for a concentrated solution this overstates it, so the real change in temperature is somewhat larger",
-            round_significant(b.cp, 3),
+            shown(b.cp, 3),
             if fit.is_some() {
                 ", because Laliberté's correlation gives no sensible value here"
             } else {
@@ -322,18 +322,18 @@ pub fn dissolving(snap: &Snapshot, s: &Dissolving, answer: &mut Answer) -> Resul
             cite_source(snap, &set.source, answer);
             answer.caveat(format!(
                 "the heat of solution at this batch's {} mol/kg is the integral heat ΔH°sol + L_φ = {} + {} = {} kJ/mol at 25 C, L_φ (the relative apparent molar enthalpy) from the temperature dependence of the Pitzer parameter set {}; taken as constant over the change in temperature",
-                round_significant(molality, 3),
-                round_significant(standard.kj_per_mol, 3),
-                round_significant(l, 3),
-                round_significant(delta_h, 3),
+                shown(molality, 3),
+                shown(standard.kj_per_mol, 3),
+                shown(l, 3),
+                shown(delta_h, 3),
                 set.key
             ));
         }
         None => answer.caveat(format!(
             "the heat of solution is the tables' standard value ({} kJ/mol, at 25 C and infinite dilution) taken as constant; the reference holds no integral heat of solution for {} at this batch's {} mol/kg (no Pitzer set with its temperature dependence covers it), and the real heat per mole differs, in concentrated solutions noticeably: the temperature is an estimate",
-            round_significant(delta_h, 3),
+            shown(delta_h, 3),
             solute.formula,
-            round_significant(molality, 3)
+            shown(molality, 3)
         )),
     }
     cite_records(snap, &standard.used, answer);
@@ -343,7 +343,7 @@ pub fn dissolving(snap: &Snapshot, s: &Dissolving, answer: &mut Answer) -> Resul
             - (dissolved_g + water_g) * batch.cp * (BOILING_C - start_c) / 1000.0;
         answer.caveat(format!(
             "with no heat lost the batch would pass 100 C: it reaches the boil, and about {} kJ are left over to boil water off",
-            round_significant(spare.max(0.0), 2)
+            shown(spare.max(0.0), 2)
         ));
     }
     match &dissolution {
@@ -372,8 +372,8 @@ pub fn dissolving(snap: &Snapshot, s: &Dissolving, answer: &mut Answer) -> Resul
                 "{} does not dissolve fully: the solution saturates at {} C after about {} g of the {} g have dissolved, and the rest stays solid until the batch is warmed{}",
                 solute.name,
                 tenth(end_c),
-                round_significant(*dissolved_g, 3),
-                round_significant(solid_g, 4),
+                shown(*dissolved_g, 3),
+                shown(solid_g, 4),
                 if heat < 0.0 {
                     " (dissolving cooled it)"
                 } else {

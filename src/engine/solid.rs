@@ -16,7 +16,7 @@ use crate::engine::error::EvalError;
 use crate::engine::per_litre::{self, DEFAULT_VOLUME_T_K, Volume};
 use crate::engine::snapshot::Snapshot;
 use crate::model::Solute;
-use crate::number::{display, round_significant};
+use crate::number::{display, round_significant, shown};
 use crate::query::{Ceiling, Convert, HeatOfSolution, Require, Saturation, Solubility};
 use crate::science::formula::parse_formula;
 use crate::science::freezing::ICE_POINT;
@@ -150,7 +150,7 @@ pub fn require(snap: &Snapshot, s: &Require, answer: &mut Answer) -> Result<(), 
             saturated,
             s.loading.unit.symbol(),
             headroom(100.0 + screening.headroom_pct),
-            round_significant(needed, 4)
+            shown(needed, 4)
         ));
     }
     if !screening.holds {

@@ -92,18 +92,10 @@ fn a_huge_batch_is_shown_short_in_the_notes() {
     // twenty-eight digits.
     let a = answer(engine(), "dissolving 1e30 g of KNO3 in 1 kg water at 20 C");
     assert!(a.ok, "{:?}", a.error);
-    assert!(
-        a.caveats
-            .iter()
-            .any(|c| c.contains("at this batch's 9.89e27 mol/kg")),
-        "{:?}",
-        a.caveats
-    );
-    assert!(
-        a.caveats.iter().all(|c| !c.contains("0000000000")),
-        "{:?}",
-        a.caveats
-    );
+    let notes = a.caveats.join("\n");
+    assert!(notes.contains("at this batch's 9.89e27 mol/kg"), "{notes}");
+    assert!(notes.contains("of the 1e30 g have dissolved"), "{notes}");
+    assert!(!notes.contains("0000000000"), "{notes}");
     // And it stops where any batch beyond what the water takes stops: the water takes what
     // it takes of a 500 g batch (the path was once lost below 0 C by its first step).
     let modest = answer(engine(), "dissolving 500 g of KNO3 in 1 kg water at 20 C");
@@ -118,13 +110,6 @@ fn a_huge_batch_is_shown_short_in_the_notes() {
         r.value.expect("a final temperature")
     };
     assert_eq!(final_row(&a), final_row(&modest));
-    assert!(
-        a.caveats
-            .iter()
-            .any(|c| c.contains("of the 1e30 g have dissolved")),
-        "{:?}",
-        a.caveats
-    );
 }
 
 #[test]

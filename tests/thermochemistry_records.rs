@@ -20,11 +20,17 @@ fn thermo_files(files: &[(String, String)]) -> Vec<&(String, String)> {
         .collect()
 }
 
-#[test]
-fn thermochemistry_exports_and_imports_into_an_empty_database_unchanged() {
+/// A database file built from the embedded seed, in a directory removed when dropped.
+fn seeded_database() -> (tempfile::TempDir, std::path::PathBuf) {
     let dir = tempfile::tempdir().unwrap();
     let seeded = dir.path().join("seed.db");
     init_file(&seeded, satline::seed_files::SEED_FILES, false).unwrap();
+    (dir, seeded)
+}
+
+#[test]
+fn thermochemistry_exports_and_imports_into_an_empty_database_unchanged() {
+    let (dir, seeded) = seeded_database();
     let original = Store::open(&seeded).unwrap().read_all().unwrap();
     assert!(original.thermochemistry.values.len() > 100);
     assert!(original.thermochemistry.heat_capacity.len() >= 20);
@@ -84,9 +90,7 @@ fn thermochemistry_exports_and_imports_into_an_empty_database_unchanged() {
 
 #[test]
 fn a_changed_figure_is_one_audited_change_that_keeps_its_place() {
-    let dir = tempfile::tempdir().unwrap();
-    let seeded = dir.path().join("seed.db");
-    init_file(&seeded, satline::seed_files::SEED_FILES, false).unwrap();
+    let (_dir, seeded) = seeded_database();
     let mut store = Store::open(&seeded).unwrap();
     let exported = to_toml_files(&store.read_all().unwrap());
     let (_, crc) = exported
@@ -145,9 +149,7 @@ fn a_changed_figure_is_one_audited_change_that_keeps_its_place() {
 
 #[test]
 fn the_json_export_writes_the_seed_words_and_reads_back_unchanged() {
-    let dir = tempfile::tempdir().unwrap();
-    let seeded = dir.path().join("seed.db");
-    init_file(&seeded, satline::seed_files::SEED_FILES, false).unwrap();
+    let (_dir, seeded) = seeded_database();
     let contents = Store::open(&seeded).unwrap().read_all().unwrap();
     let json = satline::store::export::to_json(&contents).unwrap();
     // A state of formation is written as in the seed files (`cr`, `aq`, `g`, `l`), as every

@@ -29,6 +29,53 @@ fn close(actual: f64, expected: f64, tolerance: f64, what: &str) {
 }
 
 #[test]
+fn a_table_over_a_range_is_the_lookups_at_its_temperatures() {
+    // Each row is what `solubility of X at T` gives at that temperature, across the
+    // decahydrate-to-anhydrous transition of Na2SO4 (32.38 C in its seed file) and in a
+    // per-litre unit; the ends are both shown.
+    let e = engine();
+    for (table, at) in [
+        (
+            "solubility of Na2SO4 from 0 C to 50 C",
+            vec![0, 5, 10, 15, 20, 25, 30, 35, 40, 45, 50],
+        ),
+        (
+            "solubility of KNO3 from 2 C to 9 C every 3 C in g/L",
+            vec![2, 5, 8, 9],
+        ),
+    ] {
+        let a = answer(&e, table);
+        assert!(a.ok, "{table}: {:?}", a.error);
+        let temperatures: Vec<f64> = a.rows.iter().filter_map(|r| r.temperature_c).collect();
+        let expected: Vec<f64> = at.iter().map(|&t| f64::from(t)).collect();
+        assert_eq!(temperatures, expected, "{table}");
+        let (solute, unit) = if table.contains("Na2SO4") {
+            ("Na2SO4", "")
+        } else {
+            ("KNO3", " in g/L")
+        };
+        for (row, t) in a.rows.iter().zip(&at) {
+            let one = answer(&e, &format!("solubility of {solute} at {t} C{unit}"));
+            assert_eq!(row.value, one.rows[0].value, "{table} at {t} C");
+            assert_eq!(row.phase, one.rows[0].phase, "{table} at {t} C");
+            assert_eq!(row.basis, one.rows[0].basis, "{table} at {t} C");
+        }
+    }
+    let across = answer(&e, "solubility of Na2SO4 from 30 C to 40 C every 5 C");
+    let phases: Vec<&str> = across
+        .rows
+        .iter()
+        .filter_map(|r| r.phase.as_deref())
+        .collect();
+    assert_eq!(phases, ["Na2SO4·10H2O", "Na2SO4", "Na2SO4"]);
+    // Outside the data the whole table is refused, naming the temperature.
+    let a = answer(&e, "solubility of KNO3 from -10 C to 20 C");
+    assert!(!a.ok);
+    let message = a.error.map(|e| e.message).unwrap_or_default();
+    assert!(message.contains("-10 C is outside the data"), "{message}");
+}
+
+#[test]
 fn lookup_at_a_tabulated_temperature_gives_the_printed_value() {
     // seed-data/solutes/potassium-nitrate.toml (Perry's 7th ed., Section 2 table): 31.6 at 20 C.
     let e = engine();

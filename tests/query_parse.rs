@@ -14,6 +14,47 @@ fn one(text: &str) -> Statement {
     }
 }
 
+/// The one temperature of a solubility statement (not a table over a range).
+fn point(s: &Solubility) -> Temperature {
+    match s.temperatures {
+        Temperatures::At(t) => t,
+        Temperatures::Range(r) => panic!("a range: {r:?}"),
+    }
+}
+
+#[test]
+fn a_solubility_table_over_a_range_with_its_step() {
+    let Statement::Solubility(s) = one("solubility of KNO3 from 0 C to 40 C every 5 C in mol/kg")
+    else {
+        panic!()
+    };
+    assert!(matches!(s.temperatures, Temperatures::Range(r) if close(r.high.value, 40.0)));
+    assert!(close(s.every.map_or(0.0, |e| e.kelvin), 5.0));
+    assert_eq!(s.unit.map(|u| u.unit), Some(CompositionUnit::Molality));
+    // A step in F is a difference: 9 F is 5 K.
+    let Statement::Solubility(s) = one("solubility of KNO3 from 32 F to 104 F every 9 F") else {
+        panic!()
+    };
+    assert!(close(s.every.map_or(0.0, |e| e.kelvin), 5.0));
+    // The step must be above zero, and a temperature.
+    let e = fault("solubility of KNO3 from 0 C to 40 C every 0 C");
+    assert!(
+        e.to_string().contains("a step of temperature above zero"),
+        "{e}"
+    );
+    let e = fault("solubility of KNO3 from 0 C to 40 C every 5 g/L");
+    assert!(e.to_string().contains("expected a temperature"), "{e}");
+    let e = fault("solubility of KNO3 from 0 C to 40 C every 5 C every 2 C");
+    assert!(e.to_string().contains("every"), "{e}");
+    // Neither `at` nor a range: said with both.
+    let e = fault("solubility of KNO3 20 C");
+    assert!(
+        e.to_string()
+            .contains("`at` and a temperature, or `from` and a range"),
+        "{e}"
+    );
+}
+
 /// The error of the last statement of `text` (earlier ones may bind names).
 fn fault(text: &str) -> ParseError {
     match parse_script(text).pop() {
@@ -37,9 +78,9 @@ fn solubility_at_a_temperature() {
     };
     assert_eq!(s.solute.text, "KNO3");
     assert_eq!(s.solute.span, Span::new(14, 18));
-    assert_eq!(s.temperature.unit, TemperatureUnit::Celsius);
-    assert!(close(s.temperature.value, 20.0));
-    assert_eq!(s.temperature.span, Span::new(22, 26));
+    assert_eq!(point(&s).unit, TemperatureUnit::Celsius);
+    assert!(close(point(&s).value, 20.0));
+    assert_eq!(point(&s).span, Span::new(22, 26));
     assert_eq!(s.unit, None);
 }
 
@@ -49,7 +90,7 @@ fn solubility_with_a_multi_word_name_and_a_unit() {
         panic!()
     };
     assert_eq!(s.solute.text, "potassium nitrate");
-    assert!(close(s.temperature.celsius(), 20.0));
+    assert!(close(point(&s).celsius(), 20.0));
     assert_eq!(s.unit.map(|u| u.unit), Some(CompositionUnit::Molality));
 }
 
@@ -332,7 +373,7 @@ fn every_temperature_unit() {
         let Statement::Solubility(s) = one(&format!("solubility of KNO3 at {written}")) else {
             panic!()
         };
-        assert!(close(s.temperature.kelvin(), kelvin), "{written}");
+        assert!(close(point(&s).kelvin(), kelvin), "{written}");
     }
 }
 
@@ -501,7 +542,7 @@ fn let_binds_temperatures_ranges_loadings_and_pressures() {
     let Statement::Solubility(s) = &results[5] else {
         panic!()
     };
-    assert!(close(s.temperature.value, 4.0));
+    assert!(close(point(s).value, 4.0));
     assert!(matches!(
         &results[6],
         Statement::DissolvedGas(DissolvedGas {
@@ -533,7 +574,7 @@ fn let_rebinds_copies_and_ignores_case() {
     let temps: Vec<f64> = parse_script(text)
         .into_iter()
         .filter_map(|r| match r.ok()?.node {
-            Statement::Solubility(s) => Some(s.temperature.value),
+            Statement::Solubility(s) => Some(point(&s).value),
             _ => None,
         })
         .collect();
@@ -561,7 +602,7 @@ fn the_repl_keeps_its_environment_between_calls() {
     assert!(env.get("FRIDGE").is_some());
     let second = parse_statement("solubility of KNO3 at fridge", &mut env);
     assert!(
-        matches!(second, Ok(Located { node: Statement::Solubility(s), .. }) if close(s.temperature.value, 4.0))
+        matches!(second, Ok(Located { node: Statement::Solubility(s), .. }) if close(point(&s).value, 4.0))
     );
     assert_eq!(env.names().collect::<Vec<_>>(), ["fridge"]);
 }
@@ -606,7 +647,7 @@ fn error_expected_names_the_misspelt_keyword() {
     let e = fault("solubility of KNO3 att 20 C");
     assert_eq!(
         e.to_string(),
-        "expected `at`, found `att`; did you mean `at`?"
+        "expected `at`, `from`, `between` or `over`, found `att`; did you mean `at`?"
     );
     let e = fault("which salts stay disolved at 30 g/100g water at 5 C");
     assert!(e.to_string().ends_with("did you mean `dissolved`?"), "{e}");

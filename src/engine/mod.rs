@@ -35,6 +35,7 @@ mod records;
 mod screen;
 mod snapshot;
 mod solid;
+mod table;
 
 use std::path::Path;
 use std::sync::Arc;

@@ -17,7 +17,9 @@ use crate::engine::per_litre::{self, DEFAULT_VOLUME_T_K, Volume};
 use crate::engine::snapshot::Snapshot;
 use crate::model::Solute;
 use crate::number::{display, round_significant, shown};
-use crate::query::{Ceiling, Convert, HeatOfSolution, Require, Saturation, Solubility};
+use crate::query::{
+    Ceiling, Convert, HeatOfSolution, Require, Saturation, Solubility, Temperatures,
+};
 use crate::science::formula::parse_formula;
 use crate::science::freezing::ICE_POINT;
 use crate::science::heat::heat_of_solution;
@@ -26,37 +28,52 @@ use crate::science::units::{
     self, CompositionUnit, TemperatureUnit, anhydrous_to_hydrate, hydrate_to_anhydrous,
 };
 
-/// `solubility of KNO3 at 20 C [in mol/kg]`.
+/// `solubility of KNO3 at 20 C [in mol/kg]`, or a table of rows over a range
+/// (`solubility of KNO3 from 0 C to 40 C every 5 C`, temperatures from [`super::table`]).
 pub fn lookup(snap: &Snapshot, s: &Solubility, answer: &mut Answer) -> Result<(), EvalError> {
     let solute = resolve(snap, &s.solute)?;
     let built = curve_of(snap, solute, &s.solute, &s.options)?;
-    let evaluation = built
-        .curve
-        .evaluate(s.temperature.kelvin(), s.options.extrapolate)
-        .map_err(|e| curve_error(e, solute, s.temperature.span))?;
-    let basis = evaluation.basis;
-    let row = amount_row(
-        snap,
-        evaluation.mass_fraction,
-        s.unit,
-        s.temperature.span,
-        solute,
-        &s.options,
-        answer,
-    )?;
-    answer.rows.push(Row {
-        quantity: Some("solubility".into()),
-        basis: Some(basis),
-        phase: Some(evaluation.phase.clone()),
-        temperature_c: Some(celsius(s.temperature.kelvin())),
-        ..row
-    });
-    if basis == Basis::Extrapolated && !s.options.extrapolate {
-        stable_range_caveat(answer);
-    } else {
-        basis_caveat(basis, answer);
+    let (temperatures, span) = match &s.temperatures {
+        Temperatures::At(t) => {
+            if let Some(step) = s.every {
+                return Err(EvalError::Unanswerable {
+                    message: "`every` gives the step of a table over a range: give a range (`from 0 C to 40 C`), or leave `every` out".into(),
+                    span: step.span,
+                });
+            }
+            (vec![t.kelvin()], t.span)
+        }
+        Temperatures::Range(r) => (super::table::temperatures(r, s.every)?, r.span),
+    };
+    for t_k in temperatures {
+        let evaluation = built
+            .curve
+            .evaluate(t_k, s.options.extrapolate)
+            .map_err(|e| curve_error(e, solute, span))?;
+        let basis = evaluation.basis;
+        let row = amount_row(
+            snap,
+            evaluation.mass_fraction,
+            s.unit,
+            span,
+            solute,
+            &s.options,
+            answer,
+        )?;
+        answer.rows.push(Row {
+            quantity: Some("solubility".into()),
+            basis: Some(basis),
+            phase: Some(evaluation.phase.clone()),
+            temperature_c: Some(celsius(t_k)),
+            ..row
+        });
+        if basis == Basis::Extrapolated && !s.options.extrapolate {
+            stable_range_caveat(answer);
+        } else {
+            basis_caveat(basis, answer);
+        }
+        phase_caveat(&evaluation.phase, answer);
     }
-    phase_caveat(&evaluation.phase, answer);
     cite_curve(snap, built, solute, answer);
     Ok(())
 }

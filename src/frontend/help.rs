@@ -24,14 +24,18 @@ pub const TOPICS: &[Topic] = &[
     Topic {
         name: "solubility",
         aliases: &["lookup"],
-        summary: "how much of a solute dissolves at a temperature",
+        summary: "how much of a solute dissolves at a temperature, or a table over a range",
         body: "solubility of SOLUTE at TEMPERATURE [in UNIT]\n\
+               solubility of SOLUTE RANGE [every STEP] [in UNIT]\n\
                The saturated loading of a solute in water. SOLUTE is a formula, a name or a \
                synonym. The answer is in g/100g water (anhydrous basis) unless a unit is \
-               asked for.",
+               asked for. Over a range the answer is a table: a row at each end and at every \
+               STEP between (5 C, 9 F = 5 K), or a round step giving about ten rows; at most \
+               1001 rows.",
         examples: &[
             "solubility of KNO3 at 20 C",
             "solubility of potassium nitrate at 68 F in mol/kg",
+            "solubility of Na2SO4 from 0 C to 50 C every 5 C",
         ],
     },
     Topic {

@@ -259,13 +259,25 @@ impl ValueKind {
     }
 }
 
-/// `solubility of KNO3 at 20 C [in mol/kg]`.
+/// `solubility of KNO3 at 20 C [in mol/kg]`, or a table over a range:
+/// `solubility of KNO3 from 0 C to 40 C [every 5 C]`.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Solubility {
     pub solute: Name,
-    pub temperature: Temperature,
+    pub temperatures: Temperatures,
+    /// `every 5 C`: the step of a table over a range (none: a round step giving about ten
+    /// rows).
+    pub every: Option<TemperatureStep>,
     pub unit: Option<UnitChoice<CompositionUnit>>,
     pub options: Options,
+}
+
+/// A step of temperature, `every 5 C` (a difference: 5 C and 5 K are the same step, 9 F is
+/// 5 K). Above zero.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct TemperatureStep {
+    pub kelvin: f64,
+    pub span: Span,
 }
 
 /// `which salts [with anion sulfate] stay dissolved at 30 g/100g water from 2 C to 8 C

@@ -48,7 +48,7 @@ pub const NAME_STOP: [&str; 16] = [
 ];
 
 /// Other keywords; none of them may be bound by `let`.
-const OTHER_KEYWORDS: [&str; 24] = [
+const OTHER_KEYWORDS: [&str; 25] = [
     "dissolved",
     "solution",
     "temperature",
@@ -73,6 +73,7 @@ const OTHER_KEYWORDS: [&str; 24] = [
     "volume",
     "assuming",
     "density",
+    "every",
 ];
 
 /// Every keyword of the language, for completion in the REPL.

@@ -179,6 +179,8 @@ pub(super) enum Clause {
     Margin,
     Extrapolate,
     ReviewedOnly,
+    /// `every` and a step of temperature (a solubility table over a range).
+    Every,
 }
 
 #[derive(Default)]
@@ -187,6 +189,7 @@ pub(super) struct Tail {
     pub(super) temperature: Option<UnitChoice<TemperatureUnit>>,
     pub(super) margin: Option<Margin>,
     pub(super) pressure: Option<GasPressure>,
+    pub(super) every: Option<TemperatureStep>,
     pub(super) options: Options,
 }
 
@@ -287,6 +290,8 @@ fn clauses<'a>(
             rest = once(cx, at, "margin", &mut out.margin, |cx, x| {
                 cut(context(ValueKind::Margin.example(), |x| margin(cx, x))).parse(x)
             })?;
+        } else if word == "every" && allows(Clause::Every) {
+            rest = once(cx, at, "every", &mut out.every, temperature_step)?;
         } else if word == "extrapolate" && allows(Clause::Extrapolate) {
             if out.options.extrapolate {
                 return Err(duplicate(cx, t, after, "extrapolate"));
@@ -317,6 +322,7 @@ fn clauses<'a>(
                     Clause::Margin => "margin",
                     Clause::Extrapolate => "extrapolate",
                     Clause::ReviewedOnly => "reviewed",
+                    Clause::Every => "every",
                 });
             }
             words.dedup();

@@ -641,6 +641,37 @@ pub(super) fn ordered_range(
     Ok(TemperatureRange { low, high, span })
 }
 
+/// After `every`: a step of temperature above zero (`5 C`, `5 K`; `9 F` is 5 K).
+pub(super) fn temperature_step<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, TemperatureStep> {
+    const WHAT: &str = "a step of temperature above zero, such as `5 C`";
+    let t = skip(i);
+    let (rest, q) = cut(context(WHAT, |x| quantity(cx, x, ValueKind::Temperature))).parse(t)?;
+    let AnyUnit::Temperature(unit) = q.unit else {
+        return Err(wrong_quantity(ValueKind::Temperature, &q));
+    };
+    let kelvin = match unit {
+        TemperatureUnit::Fahrenheit => q.value * 5.0 / 9.0,
+        TemperatureUnit::Celsius | TemperatureUnit::Kelvin => q.value,
+    };
+    if kelvin <= 0.0 {
+        return Err(failure(
+            ParseErrorKind::Expected {
+                expected: WHAT.into(),
+                found: Some(q.text),
+                suggestion: None,
+            },
+            q.span,
+        ));
+    }
+    Ok((
+        rest,
+        TemperatureStep {
+            kelvin,
+            span: q.span,
+        },
+    ))
+}
+
 pub(super) fn committed_temperature<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Temperature> {
     cut(context(ValueKind::Temperature.example(), |x| {
         temperature(cx, x)

@@ -51,18 +51,41 @@ pub(super) fn statement<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
 
 pub(super) fn solubility<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     let (i, _) = expect(cx, i, &["of"])?;
-    let (i, solute) = solute(cx, i, &["at"])?;
-    const CLAUSES: [Clause; 3] = [Clause::InComposition, DATA[0], DATA[1]];
-    let (i, (temperature, tail)) = with_clauses(cx, i, &CLAUSES, at(committed_temperature))?;
+    let (i, solute) = solute(cx, i, &["at", "from", "between", "over"])?;
+    const CLAUSES: [Clause; 4] = [Clause::InComposition, Clause::Every, DATA[0], DATA[1]];
+    let (i, (temperatures, tail)) = with_clauses(cx, i, &CLAUSES, solubility_temperatures)?;
     Ok((
         i,
         Statement::Solubility(Solubility {
             solute,
-            temperature,
+            temperatures,
+            every: tail.every,
             unit: tail.composition,
             options: tail.options,
         }),
     ))
+}
+
+/// `at T` as before, or a range for a table (`from T1 to T2`, `between ...`, `over NAME`).
+fn solubility_temperatures<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Temperatures> {
+    let t = skip(i);
+    if let Some(range) = range_here(cx, t) {
+        let (rest, range) = range?;
+        return Ok((rest, Temperatures::Range(range)));
+    }
+    if has_keyword(t, "over").is_some() {
+        return temperatures(cx, t);
+    }
+    if has_keyword(t, "at").is_none() {
+        return Err(expected_here(
+            cx,
+            t,
+            "`at` and a temperature, or `from` and a range".into(),
+            &["at", "from", "over"],
+        ));
+    }
+    let (rest, temperature) = at(committed_temperature)(cx, t)?;
+    Ok((rest, Temperatures::At(temperature)))
 }
 
 /// The clauses a screening or a `require` may close with, before or after its temperatures.

@@ -311,3 +311,43 @@ fn freezing_of_a_recipe_without_a_temperature_gives_where_it_starts_to_freeze() 
     assert!(at_limit.ok, "{:?}", at_limit.error);
     assert_eq!(at_limit.rows[0].value, Some(-0.37));
 }
+
+#[test]
+fn a_saturation_is_not_searched_in_a_mixture_model_of_one_temperature() {
+    // KCl and CaCl2 are held together only by a parameter system of 25 C (Harvie, Møller &
+    // Weare 1984), where no saturation temperature can be searched: the recipe was once
+    // answered "no saturation temperature" for 30 g/100g water of KCl, which alone saturates
+    // at 7.11 C. Each solute is now checked on its own, and the answer says why.
+    let a = answers(
+        "saturation of recipe 30 g/100g water KCl, 10 g/100g water CaCl2\n\
+         saturation of KCl at 30 g/100g water",
+    );
+    let (mixture, alone) = (&a[0], &a[1]);
+    assert!(mixture.ok, "{:?}", mixture.error);
+    assert_eq!(
+        mixture.rows[0].solute.as_deref(),
+        Some("potassium chloride")
+    );
+    assert_eq!(mixture.rows[0].value, alone.rows[0].value);
+    assert!(mixture.rows[0].value.is_some());
+    assert!(
+        mixture
+            .caveats
+            .iter()
+            .any(|c| c
+                .contains("holds at 25 C only, where no saturation temperature can be searched")),
+        "{:?}",
+        mixture.caveats
+    );
+    // A system with a range of temperatures is still used, and says where it searched.
+    let a = answers("saturation of recipe 20 g/100g water NaCl, 15 g/100g water KCl");
+    let notes = a[0].caveats.join("\n");
+    assert!(
+        notes.contains("potassium chloride: saturation searched only from 0 C to 100 C"),
+        "{notes}"
+    );
+    assert!(
+        notes.contains("salts checked together by Pitzer's equations"),
+        "{notes}"
+    );
+}

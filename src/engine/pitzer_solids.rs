@@ -101,11 +101,24 @@ pub fn choose<'s>(
     }
     // The widest range first.
     candidates.sort_by(|a, b| (b.t_max_k - b.t_min_k).total_cmp(&(a.t_max_k - a.t_min_k)));
-    let within = |s: &System| range.is_none_or(|(t1, t2)| s.covers(t1) && s.covers(t2));
+    // Asked for no range (a saturation temperature is searched over the data), a system of
+    // one temperature cannot serve: no temperature can be searched in it.
+    let within = |s: &System| match range {
+        Some((t1, t2)) => s.covers(t1) && s.covers(t2),
+        None => s.t_max_k - s.t_min_k >= 1.0,
+    };
     let in_a_phi = |(t1, t2): (f64, f64)| in_a_phi_range(t1) && in_a_phi_range(t2);
     let (system, beyond) = match candidates.iter().find(|s| within(s)) {
         Some(s) => (*s, false),
         None if extrapolate && range.is_none_or(in_a_phi) => (candidates[0], true),
+        None if range.is_none() => {
+            let s = candidates[0];
+            return Err(Some(format!(
+                "Pitzer's equations for mixtures not used: the parameter system {} holds at {} C only, where no saturation temperature can be searched; every solute checked on its own (add `extrapolate` to use the model beyond its range)",
+                s.name,
+                celsius(s.t_min_k)
+            )));
+        }
         None => {
             let s = candidates[0];
             return Err(Some(format!(
@@ -368,6 +381,15 @@ impl SolidModel for PitzerSolids<'_> {
         };
         let (m_lo, m_hi) = self.span_k();
         let (lo, hi) = (c_lo.max(m_lo), c_hi.min(m_hi));
+        if lo > c_lo + 0.01 || hi < c_hi - 0.01 {
+            ask.answer.caveat(format!(
+                "{}: saturation searched only from {} C to {} C, where both its data and the parameter system {} hold",
+                solute.name,
+                celsius(lo),
+                celsius(hi.max(lo)),
+                self.system.name
+            ));
+        }
         let mut out = Vec::new();
         if lo >= hi {
             self.cite(ask, index)?;

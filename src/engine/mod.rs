@@ -252,7 +252,12 @@ impl Engine {
         match result {
             Ok(()) => answer,
             Err(error) => {
-                let span = error.span();
+                // A fault found deep in a model may carry no place of its own (an empty
+                // span): it is the statement's, not the script's first character.
+                let span = match error.span() {
+                    s if s == query::Span::default() => statement.span,
+                    s => s,
+                };
                 let (line, column) = lines.line_column(text, span.start);
                 let mut failed = Answer::failed(
                     written,

@@ -351,3 +351,20 @@ fn a_saturation_is_not_searched_in_a_mixture_model_of_one_temperature() {
         "{notes}"
     );
 }
+
+#[test]
+fn a_fault_found_inside_a_model_is_placed_at_its_statement() {
+    // The mixture model's refusal carries no place of its own; it was once reported at the
+    // script's first character (line 1, column 1) whatever line the statement stood on.
+    let a = answers(
+        "solubility of KNO3 at 20 C\n\n  saturation of recipe 20 %w/w CaCl2, 5 %w/w NaCl extrapolate",
+    );
+    let error = a[1].error.as_ref().expect("refused");
+    assert!(
+        error.message.contains("no solubility product"),
+        "{}",
+        error.message
+    );
+    assert_eq!((error.line, error.column), (3, 3));
+    assert_eq!(error.span, a[1].span);
+}

@@ -828,6 +828,44 @@ fn error_reserved_name() {
 }
 
 #[test]
+fn error_liquid_not_unit() {
+    let e = fault("dissolved O2 at 25 C in recipe 0.9 %w/v NaCl");
+    assert!(matches!(&e.kind, ParseErrorKind::LiquidNotUnit { found, .. } if found == "recipe"));
+    assert_eq!(e.kind.code(), "liquid-not-unit");
+    assert!(e.to_string().contains("salting out"), "{e}");
+    let e = fault("dissolved O2 in water at 25 C");
+    assert!(
+        e.to_string()
+            .starts_with("`in water` names a liquid, not a unit"),
+        "{e}"
+    );
+    // Elsewhere `in` is still a unit's word, with its own message.
+    let e = fault("solubility of KNO3 at 20 C in water");
+    assert_eq!(e.kind.code(), "unknown-unit");
+}
+
+#[test]
+fn a_recipe_where_one_solute_is_asked_names_the_statements_that_take_one() {
+    for text in [
+        "ceiling of recipe 10 %w/w KNO3 from 0 C to 25 C",
+        "solubility of recipe 10 %w/w KNO3 at 20 C",
+        "let r = recipe 10 %w/w KNO3\nheat of solution of r at 25 C",
+    ] {
+        let e = fault(text);
+        assert!(
+            e.to_string()
+                .starts_with("expected a solute: this statement is asked of one solute; a recipe is asked with `require`"),
+            "{text}: {e}"
+        );
+    }
+    // Those that take a recipe still read it.
+    assert!(matches!(
+        one("saturation of recipe 10 %w/w KNO3"),
+        Statement::Recipe(_)
+    ));
+}
+
+#[test]
 fn error_duplicate_clause() {
     let e = fault("ceiling of KCl from 2 C to 8 C margin 10% margin 5%");
     assert_eq!(

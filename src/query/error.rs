@@ -165,6 +165,11 @@ pub enum ParseErrorKind {
         "an invisible character ({code}, {name}) stands here; delete it (it is neither a space nor a letter)"
     )]
     InvisibleCharacter { code: String, name: &'static str },
+
+    /// `in` names a liquid where a unit belongs: `dissolved O2 at 25 C in recipe 0.9 %w/v
+    /// NaCl` (also `in water`).
+    #[error("`in {found}` names a liquid, not a unit: {why}")]
+    LiquidNotUnit { found: String, why: &'static str },
 }
 
 impl ParseErrorKind {
@@ -188,6 +193,7 @@ impl ParseErrorKind {
             ParseErrorKind::ReservedName { .. } => "reserved-name",
             ParseErrorKind::DuplicateClause { .. } => "duplicate-clause",
             ParseErrorKind::InvisibleCharacter { .. } => "invisible-character",
+            ParseErrorKind::LiquidNotUnit { .. } => "liquid-not-unit",
         }
     }
 }

@@ -118,7 +118,29 @@ pub(super) const SOLUTE: &str =
     "a solute such as `KNO3`, `potassium-nitrate` or `potassium nitrate`";
 
 pub(super) fn solute<'a>(cx: Cx<'a>, i: &'a str, followers: &[&'static str]) -> R<'a, Name> {
+    not_a_recipe(cx, i)?;
     cut(context(SOLUTE, |x| name(cx, x, followers))).parse(i)
+}
+
+/// Where a statement is asked of one solute, a recipe (`recipe ...`, or a name bound to
+/// one) is refused with the statements that take one. (Those statements read their recipe
+/// before they ever ask for a solute.)
+fn not_a_recipe<'a>(cx: Cx<'a>, i: &'a str) -> Result<(), NomErr<PErr>> {
+    let t = skip(i);
+    let (word, after) = next_word(t);
+    let is_recipe =
+        word.eq_ignore_ascii_case("recipe") || (!word.is_empty() && cx.env.recipe(word).is_some());
+    if !is_recipe {
+        return Ok(());
+    }
+    Err(failure(
+        ParseErrorKind::Expected {
+            expected: "a solute: this statement is asked of one solute; a recipe is asked with `require`, `which solids form in`, `saturation of`, `freezing of`, `describe` or `ph of`".into(),
+            found: Some(shorten(word)),
+            suggestion: None,
+        },
+        cx.span(t, after),
+    ))
 }
 
 pub(super) fn class<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, SoluteClass> {
@@ -191,6 +213,30 @@ pub(super) struct Tail {
     pub(super) pressure: Option<GasPressure>,
     pub(super) every: Option<TemperatureStep>,
     pub(super) options: Options,
+}
+
+/// After `in` in a dissolved-gas statement (the one that takes `under`): `in water` and
+/// `in recipe ...` name a liquid, not a unit. Said plainly: the answer is for pure water,
+/// and a recipe's liquid is not answered (salting out by its solutes is not modelled).
+fn not_a_liquid_for_a_gas<'a>(cx: Cx<'a>, after: &'a str) -> Result<(), NomErr<PErr>> {
+    let t = skip(after);
+    let (word, rest) = next_word(t);
+    let why = match word.to_lowercase().as_str() {
+        "water" => {
+            "a dissolved gas is answered for pure water; after `in` give a unit such as `mg/L`, or leave `in` out"
+        }
+        "recipe" => {
+            "a gas in a recipe's liquid is not answered, as salting out by its solutes is not modelled; ask for pure water (a salt solution holds less gas) and give a unit such as `mg/L` after `in`"
+        }
+        _ => return Ok(()),
+    };
+    Err(failure(
+        ParseErrorKind::LiquidNotUnit {
+            found: word.to_string(),
+            why,
+        },
+        cx.span(t, rest),
+    ))
 }
 
 pub(super) fn duplicate(cx: Cx, t: &str, after: &str, clause: &str) -> NomErr<PErr> {
@@ -283,6 +329,9 @@ fn clauses<'a>(
         if word == "under" && allows(Clause::Under) {
             rest = once(cx, at, "under", &mut out.pressure, gas_pressure)?;
         } else if word == "in" && allows(Clause::InComposition) {
+            if allows(Clause::Under) {
+                not_a_liquid_for_a_gas(cx, after)?;
+            }
             rest = once(cx, at, "in", &mut out.composition, composition_unit)?;
         } else if word == "in" && allows(Clause::InTemperature) {
             rest = once(cx, at, "in", &mut out.temperature, temperature_unit)?;

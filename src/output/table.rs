@@ -112,11 +112,13 @@ fn columns_for(rows: &[Row]) -> (Vec<Column>, Option<String>) {
     let quantity = (rows.len() > 1 || rows.iter().all(|r| r.value.is_some()))
         .then(|| shared(rows, |r| r.quantity.as_deref()))
         .flatten();
-    let unit = rows
-        .iter()
-        .all(|r| r.value.is_some())
-        .then(|| shared(rows, |r| r.unit.as_deref()))
-        .flatten();
+    // The unit every value shares heads the value column; a verdict row whose value could
+    // not be given in that unit (no density for a per-litre unit) leaves its cell empty.
+    let valued: Vec<Row> = rows.iter().filter(|r| r.value.is_some()).cloned().collect();
+    let unit = shared(&valued, |r| r.unit.as_deref()).filter(|u| {
+        rows.iter()
+            .all(|r| r.value.is_some() || r.unit.as_deref().is_none_or(|own| own == u))
+    });
     let mut columns: Vec<Column> = Vec::new();
     let mut add = |field: &str, heading: String, cell: Cell| {
         if rows.iter().any(|r| cell(r).is_some()) {
@@ -212,10 +214,11 @@ fn fitted_tables(rows: &[Row], layout: Layout) -> Vec<String> {
     tables
 }
 
-/// Which fields a row fills: rows of one shape go in one table.
+/// Which fields a row fills: rows of one shape go in one table. A verdict row (`holds`)
+/// stays with the other verdicts when its value could not be given in the unit asked.
 fn shape(row: &Row) -> (bool, bool, Vec<&str>) {
     (
-        row.value.is_some(),
+        row.value.is_some() || row.holds.is_some(),
         row.holds.is_some(),
         row.extra.keys().map(String::as_str).collect(),
     )
@@ -506,6 +509,30 @@ mod tests {
         assert_eq!(text.matches("┌").count(), 2, "{text}");
         let second = text.split("┌").nth(2).unwrap();
         assert!(!second.contains("holds"), "{text}");
+    }
+
+    #[test]
+    fn a_verdict_without_a_figure_stays_in_its_verdicts_table() {
+        // A screening in a per-litre unit: a solute whose saturated solution lies beyond its
+        // density coefficients has a verdict but no figure; it was once split off into a
+        // table of its own, cutting the ranked list into pieces.
+        let verdict = |name: &str, value: Option<f64>| Row {
+            solute: Some(name.into()),
+            quantity: Some("solubility at the limiting temperature".into()),
+            value,
+            unit: value.map(|_| "mol/L".into()),
+            holds: Some(true),
+            ..Row::default()
+        };
+        let rows = vec![
+            verdict("zinc chloride", None),
+            verdict("sodium chloride", Some(5.395)),
+            verdict("magnesium chloride", None),
+        ];
+        let text = rows_table(&rows);
+        assert_eq!(text.matches("┌").count(), 1, "{text}");
+        assert!(text.contains("│ mol/L │"), "{text}");
+        assert!(text.contains("5.395"), "{text}");
     }
 
     #[test]

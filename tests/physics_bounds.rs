@@ -260,3 +260,33 @@ fn the_binary_refuses_an_unbounded_extrapolation_with_exit_1() {
     assert!(stdout.contains("\"ok\":false"), "{stdout}");
     assert_ne!(output.status.code(), Some(0), "{stdout}");
 }
+
+#[test]
+fn a_screening_says_why_a_per_litre_figure_is_missing() {
+    // ZnCl2's saturated solution (about 78 %w/w at 5 C) lies beyond the mass fractions its
+    // density coefficients cover: its row keeps its verdict, without a figure in mol/L, and
+    // the answer says why.
+    let a = answer(
+        engine(),
+        "which salts with anion chloride stay dissolved at 2 mol/L from 5 C to 25 C",
+    );
+    assert!(a.ok, "{:?}", a.error);
+    let json = serde_json::to_value(&a).unwrap();
+    let rows = json["rows"].as_array().unwrap();
+    let zinc = rows
+        .iter()
+        .find(|r| r["solute"] == "zinc chloride")
+        .expect("a row for zinc chloride");
+    assert_eq!(zinc["holds"], true);
+    assert!(zinc.get("value").is_none(), "{zinc}");
+    let note = a
+        .caveats
+        .iter()
+        .find(|c| c.starts_with("no solubility in mol/L for "))
+        .expect("the reason");
+    assert!(note.contains("zinc chloride"), "{note}");
+    assert!(
+        note.contains("beyond the mass fractions their density coefficients cover"),
+        "{note}"
+    );
+}

@@ -48,6 +48,8 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
     let mut no_data: Vec<(u32, Missing)> = Vec::new();
     let mut counts = Counts::default();
     let mut held = 0;
+    // Solutes whose solubility could not be given in the loading's per-litre unit.
+    let mut no_figure: Vec<&str> = Vec::new();
     let mut scratch = Scratch::default();
     // A loading in a unit neither per litre nor molar is the same mass fraction for every
     // solute: worked out once (an error in it is still raised where the first solute
@@ -221,7 +223,7 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
                 // Rounded when printed (`Finding::Solubility`); a per-litre value comes
                 // rounded already, and rounding it again leaves it as it is.
                 let value = if s.loading.unit.needs_density() {
-                    in_loading_unit(
+                    let figure = in_loading_unit(
                         snap,
                         found.limiting_mass_fraction,
                         &s.loading,
@@ -229,7 +231,11 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
                         &s.options,
                         answer,
                     )
-                    .ok()
+                    .ok();
+                    if figure.is_none() {
+                        no_figure.push(&solute.name);
+                    }
+                    figure
                 } else {
                     units::from_mass_fraction_and_ratio(
                         found.limiting_mass_fraction,
@@ -263,8 +269,30 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
     if s.loading.value == 0.0 {
         zero_loading_caveat(0.0, answer);
     }
+    if !no_figure.is_empty() {
+        answer.caveat(no_figure_caveat(&no_figure, s.loading.unit.symbol()));
+    }
     caveats(answer, held, with_data, no_data_count, margin, &counts);
     Ok(())
+}
+
+/// Why some rows show no solubility in a per-litre unit: the density of their saturated
+/// solutions is not known. Their verdicts stand (they are worked per kg of water).
+fn no_figure_caveat(names: &[&str], unit: &str) -> String {
+    const SHOWN: usize = 5;
+    let mut listed = names
+        .iter()
+        .take(SHOWN)
+        .copied()
+        .collect::<Vec<_>>()
+        .join(", ");
+    if names.len() > SHOWN {
+        listed.push_str(&format!(" and {} more", names.len() - SHOWN));
+    }
+    format!(
+        "no solubility in {unit} for {} of the solutes ({listed}): the saturated solution lies beyond the mass fractions their density coefficients cover; their verdicts and headrooms stand (worked per kg of water)",
+        names.len()
+    )
 }
 
 /// The row of a solute whose curve was judged: its solubility in the loading's unit

@@ -850,11 +850,12 @@ fn a_recipe_where_one_solute_is_asked_names_the_statements_that_take_one() {
         "ceiling of recipe 10 %w/w KNO3 from 0 C to 25 C",
         "solubility of recipe 10 %w/w KNO3 at 20 C",
         "let r = recipe 10 %w/w KNO3\nheat of solution of r at 25 C",
+        "plot KNO3, recipe 10 %w/w KNO3 from 0 C to 40 C",
     ] {
         let e = fault(text);
         assert!(
             e.to_string()
-                .starts_with("expected a solute: this statement is asked of one solute; a recipe is asked with `require`"),
+                .starts_with("expected a solute: this statement is asked of solutes, not of a recipe; a recipe is asked with `require`"),
             "{text}: {e}"
         );
     }

@@ -125,7 +125,7 @@ pub(super) fn solute<'a>(cx: Cx<'a>, i: &'a str, followers: &[&'static str]) -> 
 /// Where a statement is asked of one solute, a recipe (`recipe ...`, or a name bound to
 /// one) is refused with the statements that take one. (Those statements read their recipe
 /// before they ever ask for a solute.)
-fn not_a_recipe<'a>(cx: Cx<'a>, i: &'a str) -> Result<(), NomErr<PErr>> {
+pub(super) fn not_a_recipe<'a>(cx: Cx<'a>, i: &'a str) -> Result<(), NomErr<PErr>> {
     let t = skip(i);
     let (word, after) = next_word(t);
     let is_recipe =
@@ -135,7 +135,7 @@ fn not_a_recipe<'a>(cx: Cx<'a>, i: &'a str) -> Result<(), NomErr<PErr>> {
     }
     Err(failure(
         ParseErrorKind::Expected {
-            expected: "a solute: this statement is asked of one solute; a recipe is asked with `require`, `which solids form in`, `saturation of`, `freezing of`, `describe` or `ph of`".into(),
+            expected: "a solute: this statement is asked of solutes, not of a recipe; a recipe is asked with `require`, `which solids form in`, `saturation of`, `freezing of`, `describe` or `ph of`".into(),
             found: Some(shorten(word)),
             suggestion: None,
         },

@@ -526,6 +526,7 @@ pub(super) fn solute_list<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Vec<Name>> {
     let mut names = Vec::new();
     let mut rest = i;
     loop {
+        not_a_recipe(cx, rest)?;
         let begin = skip(rest);
         let ends = |w: &str| ends_name(w) || ends_as_number(w);
         let misspelt_follower = |t: &'a str, word: &'a str, after: &'a str| {

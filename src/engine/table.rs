@@ -76,6 +76,13 @@ mod tests {
         }
     }
 
+    fn step(kelvin: f64) -> TemperatureStep {
+        TemperatureStep {
+            kelvin,
+            span: Span::default(),
+        }
+    }
+
     fn celsius(list: &[f64]) -> Vec<f64> {
         list.iter()
             .map(|t| ((t - 273.15) * 100.0).round() / 100.0)
@@ -98,28 +105,18 @@ mod tests {
 
     #[test]
     fn a_step_that_misses_the_end_still_gives_the_end() {
-        let step = TemperatureStep {
-            kelvin: 7.0,
-            span: Span::default(),
-        };
-        let t = temperatures(&range(0.0, 20.0), Some(step)).unwrap();
+        let t = temperatures(&range(0.0, 20.0), Some(step(7.0))).unwrap();
         assert_eq!(celsius(&t), [0.0, 7.0, 14.0, 20.0]);
     }
 
     #[test]
     fn too_many_rows_are_refused_with_the_reason() {
-        let step = TemperatureStep {
-            kelvin: 0.01,
-            span: Span::default(),
-        };
-        let e = temperatures(&range(0.0, 100.0), Some(step)).unwrap_err();
+        let e = temperatures(&range(0.0, 100.0), Some(step(0.01))).unwrap_err();
         assert!(e.to_string().contains("10001 rows; at most 1001"), "{e}");
-        let fine = TemperatureStep {
-            kelvin: 0.1,
-            span: Span::default(),
-        };
         assert_eq!(
-            temperatures(&range(0.0, 100.0), Some(fine)).unwrap().len(),
+            temperatures(&range(0.0, 100.0), Some(step(0.1)))
+                .unwrap()
+                .len(),
             1001
         );
     }

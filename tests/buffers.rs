@@ -107,6 +107,33 @@ fn on_freezing_sodium_phosphate_turns_acidic_and_potassium_phosphate_hardly_move
 }
 
 #[test]
+fn a_ph_over_a_range_takes_a_step_as_a_solubility_table_does() {
+    let a = answers(
+        "ph of recipe 50 mmol/kg Tris-HCl at pH 8.0 from 4 C to 37 C every 11 C\n\
+         ph of recipe 50 mmol/kg Tris-HCl at pH 8.0 from 4 C to 37 C\n\
+         ph of recipe 50 mmol/kg Tris-HCl at pH 8.0 at 20 C every 5 C\n",
+    );
+    assert!(a[0].ok, "{:?}", a[0].error);
+    let at = |answer: &Answer| -> Vec<(f64, f64)> {
+        answer
+            .rows
+            .iter()
+            .filter_map(|r| Some((r.temperature_c?, r.value?)))
+            .collect()
+    };
+    let stepped = at(&a[0]);
+    let temperatures: Vec<f64> = stepped.iter().map(|(t, _)| *t).collect();
+    assert_eq!(temperatures, [4.0, 15.0, 26.0, 37.0]);
+    // The ends are the same pH as without a step (every 5 C between).
+    let default = at(&a[1]);
+    assert_eq!(default.first(), stepped.first());
+    assert_eq!(default.last(), stepped.last());
+    assert!(default.len() == 9, "{default:?}");
+    // One temperature takes no step.
+    assert!(!a[2].ok);
+}
+
+#[test]
 fn tris_loses_about_three_hundredths_a_kelvin() {
     let a = answers("ph of recipe 50 mmol/kg Tris-HCl at pH 8.0 from 5 C to 37 C\n");
     assert!(a[0].ok, "{:?}", a[0].error);

@@ -18,7 +18,7 @@ use crate::engine::mixture::Mixture;
 use crate::engine::snapshot::Snapshot;
 use crate::model::SoluteKind;
 use crate::number::{round_significant, shown};
-use crate::query::{Name, Recipe, Span, Temperatures};
+use crate::query::{Name, Recipe, Span, TemperatureStep, Temperatures};
 use crate::science::acid_base::{
     AcidSystem, BufferForm, DAVIES_MAX_I, Present, Rung, Solution, Speciation, charge_for_ph, solve,
 };
@@ -407,12 +407,13 @@ pub fn ph_row(
     Ok((row, s))
 }
 
-/// `ph of RECIPE from T1 to T2`: the pH at each end and every 5 °C between, the amounts
-/// fixed, and the change over the range.
+/// `ph of RECIPE from T1 to T2 [every STEP]`: the pH at each end and at every multiple of
+/// 5 °C between (or every STEP, as a solubility table's), the amounts fixed, and the change
+/// over the range.
 pub fn ph_over(
     snap: &Snapshot,
     mixture: &Mixture,
-    temperatures: &Temperatures,
+    (temperatures, every): (&Temperatures, Option<TemperatureStep>),
     extrapolate: bool,
     answer: &mut Answer,
 ) -> Result<(), EvalError> {
@@ -445,15 +446,27 @@ pub fn ph_over(
             span,
         ));
     }
-    let mut temps = vec![t1];
-    let mut step = ((celsius(t1) / 5.0).floor() + 1.0) * 5.0;
-    while step + 273.15 < t2 - 1e-9 {
-        temps.push(step + 273.15);
-        step += 5.0;
-    }
-    if t2 > t1 {
-        temps.push(t2);
-    }
+    let temps = match (temperatures, every) {
+        (Temperatures::Range(r), Some(step)) => crate::engine::table::temperatures(r, Some(step))?,
+        (Temperatures::At(_), Some(step)) => {
+            return Err(refuse(
+                "`every` gives the step over a range: give a range (`from 4 C to 37 C`), or leave `every` out".into(),
+                step.span,
+            ));
+        }
+        (_, None) => {
+            let mut temps = vec![t1];
+            let mut step = ((celsius(t1) / 5.0).floor() + 1.0) * 5.0;
+            while step + 273.15 < t2 - 1e-9 {
+                temps.push(step + 273.15);
+                step += 5.0;
+            }
+            if t2 > t1 {
+                temps.push(t2);
+            }
+            temps
+        }
+    };
     let mut first = None;
     let mut last = None;
     let mut beyond = false;

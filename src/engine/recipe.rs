@@ -199,11 +199,15 @@ pub fn recipe(snap: &Snapshot, s: &RecipeStatement, answer: &mut Answer) -> Resu
             buffer::cite_acid(snap, b.acid, answer);
         }
     }
-    if let RecipeQuestion::Ph { temperatures } = &s.question {
+    if let RecipeQuestion::Ph {
+        temperatures,
+        every,
+    } = &s.question
+    {
         buffer::ph_over(
             snap,
             &composed.mixture,
-            temperatures,
+            (temperatures, *every),
             s.options.extrapolate,
             answer,
         )?;

@@ -207,13 +207,13 @@ pub const TOPICS: &[Topic] = &[
         name: "ph",
         aliases: &["buffer", "buffers"],
         summary: "buffers in recipes: the pH against temperature and on freezing",
-        body: "ph of RECIPE from T1 to T2 [extrapolate]\n\
+        body: "ph of RECIPE from T1 to T2 [every STEP] [extrapolate]\n\
                A buffer in a recipe is its amount in a mol unit, its name and its pH: \
                `10 mM sodium phosphate at pH 7.4` (also potassium phosphate, citrate, \
                acetate, Tris-HCl, histidine, carbonate, borate). It becomes its forms in \
                the reference, in the shares that give that pH at 25 C, and every recipe \
                answer checks them. `ph of` gives the pH at each end and every 5 C \
-               between, the amounts fixed; `freezing of RECIPE at T` follows the pH of the \
+               between (or every STEP), the amounts fixed; `freezing of RECIPE at T` follows the pH of the \
                liquid left as ice forms and warns past a shift of 0.5.",
         examples: &[
             "ph of recipe 10 mM sodium phosphate at pH 7.4, 137 mM NaCl from 2 C to 25 C",

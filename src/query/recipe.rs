@@ -4,7 +4,9 @@
 
 use serde::Serialize;
 
-use super::ast::{Loading, Margin, Name, Options, Span, Temperature, Temperatures, UnitChoice};
+use super::ast::{
+    Loading, Margin, Name, Options, Span, Temperature, TemperatureStep, Temperatures, UnitChoice,
+};
 use crate::science::units::TemperatureUnit;
 
 /// One line of a recipe: `0.9 %w/v NaCl`. The amount is a loading (never a temperature: the
@@ -99,8 +101,12 @@ pub enum RecipeQuestion {
     /// temperature, and the liquid left; without a temperature, where the recipe as made
     /// starts to freeze.
     Freezing { at: Option<Temperature> },
-    /// `ph of eyewash from 2 C to 25 C`: the pH at each temperature, the amounts fixed.
-    Ph { temperatures: Temperatures },
+    /// `ph of eyewash from 2 C to 25 C [every 1 C]`: the pH at each temperature, the amounts
+    /// fixed (without `every`, at each end and every multiple of 5 °C between).
+    Ph {
+        temperatures: Temperatures,
+        every: Option<TemperatureStep>,
+    },
 }
 
 /// A statement about a recipe, named or written in place.

@@ -221,10 +221,17 @@ pub(super) fn ph<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     let (i, _) = expect(cx, i, &["of"])?;
     let (i, recipe) = required_subject(cx, i)?;
     let (i, temperatures) = temperatures(cx, i)?;
-    let (i, tail) = tail(cx, i, &DATA, &[])?;
+    let (i, tail) = tail(cx, i, &[Clause::Every, DATA[0], DATA[1]], &[])?;
     Ok((
         i,
-        asked(recipe, RecipeQuestion::Ph { temperatures }, tail.options),
+        asked(
+            recipe,
+            RecipeQuestion::Ph {
+                temperatures,
+                every: tail.every,
+            },
+            tail.options,
+        ),
     ))
 }
 

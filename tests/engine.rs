@@ -76,6 +76,30 @@ fn a_table_over_a_range_is_the_lookups_at_its_temperatures() {
 }
 
 #[test]
+fn a_heat_of_solution_without_a_temperature_is_at_25_c_and_says_so() {
+    let e = engine();
+    let bare = answer(&e, "heat of solution of NH4NO3");
+    let at = answer(&e, "heat of solution of NH4NO3 at 25 C");
+    assert!(bare.ok, "{:?}", bare.error);
+    assert_eq!(
+        serde_json::to_value(&bare.rows).unwrap(),
+        serde_json::to_value(&at.rows).unwrap()
+    );
+    assert!(
+        bare.caveats
+            .iter()
+            .any(|c| c.starts_with("at 25 C, the tables' standard temperature")),
+        "{:?}",
+        bare.caveats
+    );
+    assert!(
+        at.caveats
+            .iter()
+            .all(|c| !c.starts_with("at 25 C, the tables'"))
+    );
+}
+
+#[test]
 fn lookup_at_a_tabulated_temperature_gives_the_printed_value() {
     // seed-data/solutes/potassium-nitrate.toml (Perry's 7th ed., Section 2 table): 31.6 at 20 C.
     let e = engine();

@@ -86,6 +86,11 @@ pub fn heat(snap: &Snapshot, s: &HeatOfSolution, answer: &mut Answer) -> Result<
     let solute = resolve(snap, &s.solute)?;
     let thermo = snap.catalog.thermochemistry();
     let is_gas = solute.kind == SoluteKind::Gas;
+    if !s.stated {
+        answer.caveat(
+            "at 25 C, the tables' standard temperature, as no temperature was given (`at T` asks for another)",
+        );
+    }
 
     // View 1: the apparent value from the curve (or the Henry's-law record of a gas).
     let apparent = if is_gas {

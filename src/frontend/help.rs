@@ -74,10 +74,14 @@ pub const TOPICS: &[Topic] = &[
         name: "heat",
         aliases: &["heat of solution", "enthalpy"],
         summary: "the heat of solution at a temperature",
-        body: "heat of solution of SOLUTE at TEMPERATURE\n\
-               The heat of solution in kJ/mol. Positive: the solute dissolves \
+        body: "heat of solution of SOLUTE [at TEMPERATURE]\n\
+               The heat of solution in kJ/mol (at 25 C, the tables' standard \
+               temperature, when none is given). Positive: the solute dissolves \
                endothermically and its solubility rises with temperature.",
-        examples: &["heat of solution of KNO3 at 25 C"],
+        examples: &[
+            "heat of solution of KNO3 at 25 C",
+            "heat of solution of NH4NO3",
+        ],
     },
     Topic {
         name: "dissolving",

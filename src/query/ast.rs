@@ -316,7 +316,10 @@ pub struct Ceiling {
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct HeatOfSolution {
     pub solute: Name,
+    /// The temperature asked, or 25 C (the tables' standard temperature) when none was given
+    /// (`stated` false; its span is then the solute's).
     pub temperature: Temperature,
+    pub stated: bool,
     pub options: Options,
 }
 

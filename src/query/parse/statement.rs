@@ -9,6 +9,7 @@ use super::clause::*;
 use super::plumbing::*;
 use super::quantity::*;
 use super::recipe;
+use crate::science::units::TemperatureUnit;
 
 // ---------------------------------------------------------------------------------------
 // statements
@@ -221,12 +222,29 @@ pub(super) fn heat_of_solution<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
     let (i, _) = expect(cx, i, &["solution"])?;
     let (i, _) = expect(cx, i, &["of"])?;
     let (i, solute) = solute(cx, i, &["at"])?;
-    let (i, (temperature, tail)) = with_clauses(cx, i, &DATA, at(committed_temperature))?;
+    let (i, lead) = lead(cx, i, &DATA)?;
+    // Without `at`, the tables' standard temperature, 25 C.
+    let (i, temperature) = match has_keyword(i, "at") {
+        Some(_) => {
+            let (r, t) = at(committed_temperature)(cx, i)?;
+            (r, Some(t))
+        }
+        None => (i, None),
+    };
+    let earlier: &[&'static str] = if temperature.is_none() { &["at"] } else { &[] };
+    let (i, tail) = tail_after(cx, i, &DATA, earlier, lead)?;
+    let stated = temperature.is_some();
+    let temperature = temperature.unwrap_or(Temperature {
+        value: 25.0,
+        unit: TemperatureUnit::Celsius,
+        span: solute.span,
+    });
     Ok((
         i,
         Statement::HeatOfSolution(HeatOfSolution {
             solute,
             temperature,
+            stated,
             options: tail.options,
         }),
     ))

@@ -449,10 +449,7 @@ pub fn ph_over(
     let temps = match (temperatures, every) {
         (Temperatures::Range(r), Some(step)) => crate::engine::table::temperatures(r, Some(step))?,
         (Temperatures::At(_), Some(step)) => {
-            return Err(refuse(
-                "`every` gives the step over a range: give a range (`from 4 C to 37 C`), or leave `every` out".into(),
-                step.span,
-            ));
+            return Err(crate::engine::table::step_without_a_range(step));
         }
         (_, None) => {
             let mut temps = vec![t1];

@@ -36,10 +36,7 @@ pub fn lookup(snap: &Snapshot, s: &Solubility, answer: &mut Answer) -> Result<()
     let (temperatures, span) = match &s.temperatures {
         Temperatures::At(t) => {
             if let Some(step) = s.every {
-                return Err(EvalError::Unanswerable {
-                    message: "`every` gives the step of a table over a range: give a range (`from 0 C to 40 C`), or leave `every` out".into(),
-                    span: step.span,
-                });
+                return Err(super::table::step_without_a_range(step));
             }
             (vec![t.kelvin()], t.span)
         }

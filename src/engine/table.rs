@@ -44,6 +44,14 @@ pub fn temperatures(
     Ok(out)
 }
 
+/// `every` given with one temperature: refused, pointing at the step.
+pub fn step_without_a_range(step: TemperatureStep) -> EvalError {
+    EvalError::Unanswerable {
+        message: "`every` gives the step over a range: give a range (`from 0 C to 40 C`), or leave `every` out".into(),
+        span: step.span,
+    }
+}
+
 /// The smallest of 1, 2 or 5 × 10^k kelvin that splits `width` into at most ten steps.
 fn round_step(width: f64) -> f64 {
     if width.is_nan() || width <= 0.0 || width.is_infinite() {

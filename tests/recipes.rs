@@ -350,6 +350,18 @@ fn a_saturation_is_not_searched_in_a_mixture_model_of_one_temperature() {
         notes.contains("salts checked together by Pitzer's equations"),
         "{notes}"
     );
+    // Beyond its range, as asked, the search stops where the model can no longer be had
+    // (CaCl2's saturated solution above 25 C is beyond the ionic strength the 25 C system is
+    // answered to), and says so, instead of refusing the whole answer.
+    let a = answers("saturation of recipe 20 %w/w CaCl2, 5 %w/w NaCl extrapolate");
+    assert!(a[0].ok, "{:?}", a[0].error);
+    let notes = a[0].caveats.join("\n");
+    assert!(
+        notes.contains(
+            "calcium chloride: saturation searched only up to 25 C; beyond, no solubility product at 26 C"
+        ),
+        "{notes}"
+    );
 }
 
 #[test]
@@ -357,7 +369,7 @@ fn a_fault_found_inside_a_model_is_placed_at_its_statement() {
     // The mixture model's refusal carries no place of its own; it was once reported at the
     // script's first character (line 1, column 1) whatever line the statement stood on.
     let a = answers(
-        "solubility of KNO3 at 20 C\n\n  saturation of recipe 20 %w/w CaCl2, 5 %w/w NaCl extrapolate",
+        "solubility of KNO3 at 20 C\n\n  require recipe 20 %w/w CaCl2, 5 %w/w NaCl stays dissolved from 0 C to 30 C extrapolate",
     );
     let error = a[1].error.as_ref().expect("refused");
     assert!(

@@ -383,11 +383,16 @@ impl SolidModel for PitzerSolids<'_> {
         let (lo, hi) = (c_lo.max(m_lo), c_hi.min(m_hi));
         if lo > c_lo + 0.01 || hi < c_hi - 0.01 {
             ask.answer.caveat(format!(
-                "{}: saturation searched only from {} C to {} C, where both its data and the parameter system {} hold",
+                "{}: saturation searched only from {} C to {} C, where both its data and the parameter system {} can be used{}",
                 solute.name,
                 celsius(lo),
                 celsius(hi.max(lo)),
-                self.system.name
+                self.system.name,
+                if self.extrapolate {
+                    " (beyond its published range, as asked)"
+                } else {
+                    ""
+                }
             ));
         }
         let mut out = Vec::new();
@@ -399,7 +404,22 @@ impl SolidModel for PitzerSolids<'_> {
         let ts = grid(lo, hi);
         let mut prev = (ts[0], f(ts[0])?);
         for &t in &ts[1..] {
-            let v = f(t)?;
+            // Where the model cannot be had any more (a salt's saturated solution beyond the
+            // ionic strength the system is answered to), the search stops there and says so.
+            let v = match f(t) {
+                Ok(v) => v,
+                Err(e) => {
+                    let why = e.to_string();
+                    let prefix = format!("{}: ", solute.name);
+                    ask.answer.caveat(format!(
+                        "{}: saturation searched only up to {} C; beyond, {}",
+                        solute.name,
+                        celsius(prev.0),
+                        why.strip_prefix(&prefix).unwrap_or(&why)
+                    ));
+                    break;
+                }
+            };
             if (prev.1 > 0.0) != (v > 0.0) {
                 let fa_positive = prev.1 > 0.0;
                 let t_k = try_bisect(prev.0, t, Until::Width(1e-4), |m| {

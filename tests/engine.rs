@@ -145,6 +145,47 @@ fn outside_the_data_is_an_error_unless_extrapolation_is_asked() {
 }
 
 #[test]
+fn data_of_one_temperature_are_not_extrapolated() {
+    // trisodium-citrate.toml holds one point (20 C, 54.1 g/100g water): below it the
+    // solubility is not known, and a flat extrapolation would overstate it in a cold room.
+    let e = engine();
+    for asked in [
+        "solubility of trisodium citrate at 4 C",
+        "solubility of trisodium citrate at 4 C extrapolate",
+        "ceiling of trisodium citrate from 2 C to 8 C extrapolate",
+        "plot trisodium citrate from 0 C to 40 C extrapolate",
+    ] {
+        let a = answer(&e, asked);
+        assert!(!a.ok, "{asked}: {:?}", a.rows);
+        let error = a.error.expect("an error");
+        assert_eq!(error.code, "out-of-range", "{asked}");
+        assert!(
+            error.message.contains("one temperature only (20 C)")
+                && !error.message.contains("add `extrapolate`"),
+            "{asked}: {}",
+            error.message
+        );
+    }
+    let at = answer(&e, "solubility of trisodium citrate at 20 C extrapolate");
+    assert_eq!(at.rows[0].value, Some(54.1));
+    let screened = answer(
+        &e,
+        "which salts stay dissolved at 3 %w/w from 2 C to 8 C extrapolate",
+    );
+    let citrate = screened
+        .rows
+        .iter()
+        .find(|r| r.solute.as_deref() == Some("trisodium citrate"))
+        .expect("trisodium citrate is listed");
+    assert_eq!(citrate.value, None);
+    let reason = citrate.extra.get("reason").and_then(|r| r.as_str());
+    assert_eq!(
+        reason,
+        Some("data hold one temperature only (20 C), too little to extrapolate from")
+    );
+}
+
+#[test]
 fn unknown_solute_suggests_the_closest_names() {
     let e = engine();
     let a = answer(&e, "solubility of KNO4 at 20 C");

@@ -168,10 +168,17 @@ impl Missing {
             Missing::Uncovered { from_c, to_c } => {
                 use std::fmt::Write;
                 // Writing into a String does not fail.
-                let _ = write!(
-                    out,
-                    "data do not cover the whole range (they cover {from_c} C to {to_c} C)"
-                );
+                let _ = if from_c == to_c {
+                    write!(
+                        out,
+                        "data hold one temperature only ({from_c} C), too little to extrapolate from"
+                    )
+                } else {
+                    write!(
+                        out,
+                        "data do not cover the whole range (they cover {from_c} C to {to_c} C)"
+                    )
+                };
             }
         }
     }

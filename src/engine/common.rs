@@ -350,6 +350,19 @@ pub fn curve_error(error: ScienceError, solute: &Solute, span: Span) -> EvalErro
             t_k,
             t_min_k,
             t_max_k,
+        } if t_min_k == t_max_k => EvalError::OutOfRange {
+            message: format!(
+                "{} C is outside the data for {}, which hold one temperature only ({} C): one point gives no trend to extrapolate from",
+                celsius_text(t_k),
+                solute.name,
+                celsius(t_min_k)
+            ),
+            span,
+        },
+        ScienceError::OutOfRange {
+            t_k,
+            t_min_k,
+            t_max_k,
         } => EvalError::OutOfRange {
             message: format!(
                 "{} C is outside the data for {} ({} C to {} C); add `extrapolate` to go beyond it",
@@ -358,6 +371,31 @@ pub fn curve_error(error: ScienceError, solute: &Solute, span: Span) -> EvalErro
                 celsius(t_min_k),
                 celsius(t_max_k)
             ),
+            span,
+        },
+        ScienceError::NoTrend {
+            t_k,
+            end_k,
+            t_min_k,
+            t_max_k,
+        } => EvalError::OutOfRange {
+            message: if t_min_k == t_max_k {
+                format!(
+                    "{} C is outside the data for {}, which hold one temperature only ({} C): one point gives no trend to extrapolate from",
+                    celsius_text(t_k),
+                    solute.name,
+                    celsius(t_min_k)
+                )
+            } else {
+                format!(
+                    "{} C is beyond the data for {} ({} C to {} C), whose end at {} C is a single point: it gives no trend to extrapolate from",
+                    celsius_text(t_k),
+                    solute.name,
+                    celsius(t_min_k),
+                    celsius(t_max_k),
+                    celsius(end_k)
+                )
+            },
             span,
         },
         ScienceError::InGap {

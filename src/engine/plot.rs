@@ -316,6 +316,16 @@ fn solids(
             previous_t = Some(t);
         }
         finish(run.take(), &mut by_branch);
+        if by_branch.iter().all(Vec::is_empty) && lo == hi {
+            return Err(EvalError::OutOfRange {
+                message: format!(
+                    "{}'s data hold one temperature only ({} C): one point draws no curve and gives no trend to extrapolate from",
+                    solute.name,
+                    celsius(lo)
+                ),
+                span: range_span(s),
+            });
+        }
         if by_branch.iter().all(Vec::is_empty) {
             return Err(EvalError::OutOfRange {
                 message: format!(
@@ -329,7 +339,15 @@ fn solids(
                 span: range_span(s),
             });
         }
-        if s.options.extrapolate && (t0 < reach_lo - 1e-9 || t1 > reach_hi + 1e-9) {
+        let trendless = !curve.has_trend_at(lo) || !curve.has_trend_at(hi);
+        if s.options.extrapolate && trendless && (t0 < lo - 1e-9 || t1 > hi + 1e-9) {
+            answer.caveat(format!(
+                "{}: its data cover {} C to {} C and an end of them is a single point, which gives no trend to extrapolate from; the rest of the range is not drawn",
+                solute.name,
+                celsius(lo),
+                celsius(hi)
+            ));
+        } else if s.options.extrapolate && (t0 < reach_lo - 1e-9 || t1 > reach_hi + 1e-9) {
             answer.caveat(format!(
                 "{}: extrapolation reaches only {} C to {} C (at most {} K beyond the data, never past the boiling point of water at one atmosphere); the rest of the range is not drawn",
                 solute.name,

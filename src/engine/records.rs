@@ -246,7 +246,11 @@ pub fn list(snap: &Snapshot, s: &List, answer: &mut Answer) -> Result<(), EvalEr
         }
         let range = snap.curve(&solute.id, s.options.reviewed_only).map(|b| {
             let (lo, hi) = b.curve.temperature_range();
-            format!("{} C to {} C", celsius(lo), celsius(hi))
+            if lo == hi {
+                format!("{} C only", celsius(lo))
+            } else {
+                format!("{} C to {} C", celsius(lo), celsius(hi))
+            }
         });
         let henry = snap.catalog.gas_constants_of(&solute.id).len();
         answer.rows.push(Row {
@@ -259,7 +263,10 @@ pub fn list(snap: &Snapshot, s: &List, answer: &mut Answer) -> Result<(), EvalEr
                     "data",
                     json!(
                         range
-                            .or_else(|| (henry > 0).then(|| format!("{henry} Henry's-law records")))
+                            .or_else(|| (henry > 0).then(|| match henry {
+                                1 => "1 Henry's-law record".to_string(),
+                                n => format!("{n} Henry's-law records"),
+                            }))
                             .unwrap_or_else(|| "none yet".into())
                     ),
                 ),

@@ -185,7 +185,11 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
         };
         let found = match found {
             Ok(found) => found,
-            Err(ScienceError::OutOfRange { .. } | ScienceError::InGap { .. }) => {
+            Err(
+                ScienceError::OutOfRange { .. }
+                | ScienceError::InGap { .. }
+                | ScienceError::NoTrend { .. },
+            ) => {
                 let (lo, hi) =
                     built().map_or((f64::NAN, f64::NAN), |b| b.curve.temperature_range());
                 no_data.push(apart(Missing::Uncovered {

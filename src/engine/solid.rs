@@ -270,6 +270,11 @@ pub fn saturation(snap: &Snapshot, s: &Saturation, answer: &mut Answer) -> Resul
         let (lo, hi) = built.curve.temperature_range();
         let at_low = built.curve.evaluate(lo, false).map(|e| e.mass_fraction);
         let text = match at_low {
+            Ok(w_low) if lo == hi => format!(
+                "the data hold one temperature only ({} C), where the loading is {} the solubility: one point gives no saturation temperature",
+                celsius(lo),
+                if w_low > w { "below" } else { "above" }
+            ),
             Ok(w_low) if w_low > w => format!(
                 "the loading stays below the solubility over the whole data range ({} C to {} C): no saturation temperature there",
                 celsius(lo),

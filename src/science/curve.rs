@@ -567,6 +567,12 @@ impl Branch {
         self.interpolant.knots()
     }
 
+    /// True when the branch has a trend to follow beyond its data: two points or more. A
+    /// single point has none (its end tangent would be flat, a guess).
+    pub fn has_trend(&self) -> bool {
+        self.knots().len() >= 2
+    }
+
     /// See [`Pchip::turning_points`]: where the branch's interpolant can turn inside
     /// (`lo`, `hi`), K.
     pub fn turning_points(&self, lo: f64, hi: f64, out: &mut Vec<f64>) {
@@ -635,6 +641,14 @@ impl Branch {
             });
         }
         if !self.covers(t_k) {
+            if !self.has_trend() {
+                return Err(ScienceError::NoTrend {
+                    t_k,
+                    end_k: if t_k < lo { lo } else { hi },
+                    t_min_k: lo,
+                    t_max_k: hi,
+                });
+            }
             super::bounds::check_window(t_k, lo, hi)?;
             super::bounds::check_extrapolated_fraction(
                 &self.phase,
@@ -834,12 +848,18 @@ impl Curve {
     fn stable(&self, t_k: f64) -> (usize, f64, f64) {
         let covering = self.covers(t_k);
         let declared = self.branches.iter().any(|b| b.stable_at(t_k));
+        // Where no branch has data, a branch of one point has no trend to follow: it is
+        // passed over while another has one.
+        let trending = !covering && self.branches.iter().any(Branch::has_trend);
         let mut best: Option<(usize, f64, f64)> = None;
         for (i, b) in self.branches.iter().enumerate() {
             if covering && !b.covers(t_k) {
                 continue;
             }
             if declared && !b.stable_at(t_k) {
+                continue;
+            }
+            if trending && !b.has_trend() {
                 continue;
             }
             let (w, d) = b.value_unchecked(t_k);
@@ -929,7 +949,7 @@ impl Curve {
         let (lo, hi) = self.temperature_range();
         if t_k < lo || t_k > hi {
             // Extrapolated beyond every branch: within reach, and a possible composition.
-            super::bounds::check_window(t_k, lo, hi)?;
+            self.check_reach(t_k)?;
             let (i, w, d) = self.stable(t_k);
             let branch = &self.branches[i];
             super::bounds::check_extrapolated_fraction(
@@ -942,10 +962,45 @@ impl Curve {
         Ok(self.stable(t_k))
     }
 
-    /// The temperatures (K) `extrapolate` may reach: see [`super::bounds::extrapolation_window`].
+    /// The temperatures (K) `extrapolate` may reach: see [`super::bounds::extrapolation_window`],
+    /// but not beyond an end of the data where every branch reaching it holds a single
+    /// point ([`Curve::has_trend_at`]).
     pub fn extrapolation_window(&self) -> (f64, f64) {
         let (lo, hi) = self.temperature_range();
-        super::bounds::extrapolation_window(lo, hi)
+        let (low, high) = super::bounds::extrapolation_window(lo, hi);
+        (
+            if self.has_trend_at(lo) { low } else { lo },
+            if self.has_trend_at(hi) { high } else { hi },
+        )
+    }
+
+    /// True when some branch whose data reach the end `end_k` of the curve's data (its
+    /// lowest or highest temperature) has a trend to follow beyond it ([`Branch::has_trend`]).
+    pub fn has_trend_at(&self, end_k: f64) -> bool {
+        self.branches.iter().any(|b| {
+            let (lo, hi) = b.range();
+            (lo == end_k || hi == end_k) && b.has_trend()
+        })
+    }
+
+    /// Checks that `extrapolate` may reach `t_k`: inside the data, or within
+    /// [`super::bounds::check_window`] beyond an end that has a trend to follow
+    /// ([`ScienceError::NoTrend`] where that end is a single point).
+    pub fn check_reach(&self, t_k: f64) -> Result<(), ScienceError> {
+        let (lo, hi) = self.temperature_range();
+        if t_k >= lo && t_k <= hi {
+            return Ok(());
+        }
+        let end_k = if t_k < lo { lo } else { hi };
+        if !self.has_trend_at(end_k) {
+            return Err(ScienceError::NoTrend {
+                t_k,
+                end_k,
+                t_min_k: lo,
+                t_max_k: hi,
+            });
+        }
+        super::bounds::check_window(t_k, lo, hi)
     }
 
     /// Where the stable branch changes: found on a grid of every knot plus 50 steps per
@@ -1078,6 +1133,56 @@ mod tests {
             Err(ScienceError::OutOfRange { .. })
         ));
         assert_eq!(c.evaluate(260.0, true).unwrap().basis, Basis::Extrapolated);
+    }
+
+    #[test]
+    fn a_single_point_gives_no_trend_to_extrapolate() {
+        // Invented: one point at 293.15 K. Asked beyond it, with or without `extrapolate`,
+        // there is no value: its flat end tangent would be a guess.
+        let c = Curve::single(Branch::new("A", &[(293.15, 0.35)]).unwrap());
+        assert!(matches!(
+            c.evaluate(277.15, false),
+            Err(ScienceError::OutOfRange { .. })
+        ));
+        assert!(matches!(
+            c.evaluate(277.15, true),
+            Err(ScienceError::NoTrend { end_k, .. }) if end_k == 293.15
+        ));
+        assert!(matches!(
+            c.branches[0].evaluate(300.0, true),
+            Err(ScienceError::NoTrend { .. })
+        ));
+        assert_eq!(c.extrapolation_window(), (293.15, 293.15));
+        assert_eq!(c.evaluate(293.15, true).unwrap().basis, Basis::Tabulated);
+        assert!(matches!(
+            crate::science::range_minimum::minimum(&c, 275.15, 281.15, true),
+            Err(ScienceError::NoTrend { .. })
+        ));
+    }
+
+    #[test]
+    fn a_branch_of_one_point_is_not_followed_beyond_the_data() {
+        // Invented: a rising branch to 320 K, then a one-point branch inside the range with
+        // a lower value than the first branch's extrapolation above 330 K would be flat.
+        // Beyond the data only the branch with a trend is followed.
+        let rising = Branch::new("A·H2O", &[(273.15, 0.10), (300.0, 0.30), (330.0, 0.50)]).unwrap();
+        let lone = Branch::new("A", &[(310.0, 0.40)]).unwrap();
+        let c = Curve::new(vec![rising, lone]).unwrap();
+        let e = c.evaluate(335.0, true).unwrap();
+        assert_eq!(e.phase, "A·H2O");
+        assert!(e.mass_fraction > 0.50);
+        // An end reached only by a one-point branch is not extrapolated.
+        let ending = Curve::new(vec![
+            Branch::new("A·H2O", &[(273.15, 0.10), (300.0, 0.30)]).unwrap(),
+            Branch::new("A", &[(320.0, 0.40)]).unwrap(),
+        ])
+        .unwrap();
+        assert!(matches!(
+            ending.evaluate(325.0, true),
+            Err(ScienceError::NoTrend { end_k, .. }) if end_k == 320.0
+        ));
+        assert_eq!(ending.extrapolation_window().1, 320.0);
+        assert!(ending.extrapolation_window().0 < 273.15);
     }
 
     #[test]

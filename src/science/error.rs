@@ -103,6 +103,17 @@ pub enum ScienceError {
     /// [`super::bounds`] allow: data from 273.15 K to 373.15 K evaluated at 5273.15 K.
     #[error("{t_k:.2} K is beyond what extrapolation may reach ({low_k:.2} K to {high_k:.2} K)")]
     BeyondExtrapolation { t_k: f64, low_k: f64, high_k: f64 },
+    /// `extrapolate` asked beyond an end of the data where that end is a single point, which
+    /// gives no trend to follow: data at 293.15 K only, evaluated at 277.15 K.
+    #[error(
+        "{t_k:.2} K is beyond the data ({t_min_k:.2} K to {t_max_k:.2} K), whose end at {end_k:.2} K is a single point: no trend to extrapolate"
+    )]
+    NoTrend {
+        t_k: f64,
+        end_k: f64,
+        t_min_k: f64,
+        t_max_k: f64,
+    },
     /// An extrapolated composition no solution could have: an end tangent reaching a mass
     /// fraction of 1 (all solute, no water) or below 0.
     #[error("extrapolated to {t_k:.2} K the mass fraction would be {w:.4}, which {why}")]

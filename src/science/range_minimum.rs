@@ -158,9 +158,8 @@ fn lowest_of_all(
     if extrapolate {
         // Both ends within reach: the window is an interval around the data, so the
         // whole range is.
-        let (lo, hi) = curve.temperature_range();
-        super::bounds::check_window(t1_k, lo, hi)?;
-        super::bounds::check_window(t2_k, lo, hi)?;
+        curve.check_reach(t1_k)?;
+        curve.check_reach(t2_k)?;
     }
     if t1_k == t2_k {
         let uncovered = !curve.covers(t1_k);

@@ -61,6 +61,20 @@ fn describe_gives_every_basis_and_matches_the_worked_saline_figures() {
     // Mass balance: the solutes and the water make up the whole solution.
     let total = number(&a[0], 0, "percent_w_w") + number(&a[0], 1, "water_percent_w_w");
     assert!((total - 100.0).abs() < 0.01);
+    // The volume's temperature is said once, also when the recipe is shown at the
+    // temperature it was read at; a different temperature is said beside it.
+    for (text, said) in [
+        ("describe recipe 0.9 %w/v NaCl at 20 C", 1),
+        ("describe recipe 0.9 %w/v NaCl at 25 C", 2),
+    ] {
+        let a = answers(text);
+        let volume = a[0]
+            .caveats
+            .iter()
+            .filter(|c| c.starts_with("per-litre amounts are per litre of solution at"))
+            .count();
+        assert_eq!(volume, said, "{text}: {:?}", a[0].caveats);
+    }
 }
 
 #[test]

@@ -145,13 +145,16 @@ fn refused(unit: CompositionUnit, why: &str, span: Span) -> EvalError {
 /// density's source.
 fn note(snap: &Snapshot, solutes: &[&Solute], volume: &Volume, answer: &mut Answer) {
     let t = celsius(volume.t_k);
-    answer.caveat(if volume.stated {
-        format!("per-litre amounts are per litre of solution at {t} C")
-    } else {
-        format!(
-            "per-litre amounts are per litre of solution at {t} C (the default, as no temperature was given for the volume)"
-        )
-    });
+    let at = format!("per-litre amounts are per litre of solution at {t} C");
+    // Said once: a recipe read with the default temperature and then shown at that same
+    // temperature needs no second sentence.
+    if !answer.caveats.iter().any(|c| c.starts_with(&at)) {
+        answer.caveat(if volume.stated {
+            at
+        } else {
+            format!("{at} (the default, as no temperature was given for the volume)")
+        });
+    }
     if volume.unit_density {
         answer.caveat(
             "assuming density 1.000 kg/L, as asked: per-litre amounts are approximate (a real solution is denser than water)",

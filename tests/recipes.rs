@@ -131,6 +131,16 @@ fn below_zero_a_strong_mixture_is_refused_and_a_dilute_one_gets_its_ice_line() {
     assert_eq!(ice.solute.as_deref(), Some("ice"));
     // Ideal: ΔT = 1.86 K·kg/mol × 2 × 0.01 mol/kg = 0.037 K.
     assert!((ice.temperature_c.unwrap() + 0.04).abs() < 0.006);
+    // A recipe of one solute with no freezing data of its own is refused for that solute's
+    // reason, not for a mixture's (citric-acid.toml has no freezing points; 10 %w/w is
+    // 0.58 mol/kg, beyond the ideal limit).
+    let one = answers("require recipe 10 %w/w citric acid stays dissolved from -5 C to 25 C");
+    let message = &one[0].error.as_ref().expect("refused").message;
+    assert!(
+        message.contains("citric acid is the only solute: the ice line is not known here")
+            && !message.contains("mixture"),
+        "{message}"
+    );
 }
 
 /// The binary with a recipe file, in a fresh temporary directory.

@@ -155,7 +155,7 @@ impl SolidModel for EachOnItsOwn {
     fn ice_line(&self, ask: &mut Ask) -> IceLine {
         let ideal = EachOnItsOwn::ideal_ice_line(ask.mixture);
         let mixture = ask.mixture;
-        let (IceLine::NotEvaluated(why), [(_, name)]) = (&ideal, mixture.solutes.as_slice()) else {
+        let (IceLine::NotEvaluated(_), [(_, name)]) = (&ideal, mixture.solutes.as_slice()) else {
             return ideal;
         };
         match crate::engine::freezing::ice_line_alone(ask, 0) {
@@ -167,7 +167,11 @@ impl SolidModel for EachOnItsOwn {
                     name.text
                 ),
             },
-            Err(alone) => IceLine::NotEvaluated(format!("{why}; for {} alone: {alone}", name.text)),
+            // One solute: its own reason is the whole reason (the dilute limit's sentence
+            // speaks of mixtures).
+            Err(alone) => {
+                IceLine::NotEvaluated(format!("{} is the only solute: {alone}", name.text))
+            }
         }
     }
 }

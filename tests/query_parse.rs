@@ -1058,3 +1058,33 @@ fn plot_errors() {
     // `plot` is a word of the language.
     assert_eq!(fault("let plot = 5 C").kind.code(), "reserved-name");
 }
+
+#[test]
+fn a_closing_clause_written_too_early_is_told_where_it_goes() {
+    for (text, word) in [
+        (
+            "require recipe 1.5 %w/v boric acid assuming density 1.000 kg/L stays dissolved from 2 C to 8 C",
+            "assuming",
+        ),
+        (
+            "which solids form in recipe 10 %w/w NaCl extrapolate from 2 C to 8 C",
+            "extrapolate",
+        ),
+        (
+            "require KCl stays dissolved margin 10% at 20 g/100g water from 2 C to 8 C",
+            "margin",
+        ),
+    ] {
+        let e = fault(text);
+        assert_eq!(e.kind.code(), "expected", "{text}");
+        assert!(
+            e.to_string().contains(&format!(
+                "(`{word}` goes at the end of the statement), found `{word}`"
+            )),
+            "{text}: {e}"
+        );
+    }
+    // Where the word is expected, nothing is added.
+    let e = fault("require KCl stays dissolved at 20 g/100g water from 2 C to 8 C margin");
+    assert!(!e.to_string().contains("goes at the end"), "{e}");
+}

@@ -216,6 +216,14 @@ pub(super) fn expected_here(
         .as_deref()
         .and_then(|w| nearest(w, candidates))
         .map(str::to_string);
+    // A closing clause written too early (`require recipe ... assuming density 1 kg/L
+    // stays dissolved ...`): say where it goes.
+    let expected = match found.as_deref().filter(|w| !candidates.contains(w)) {
+        Some(w @ ("assuming" | "extrapolate" | "reviewed" | "margin")) => {
+            format!("{expected} (`{w}` goes at the end of the statement)")
+        }
+        _ => expected,
+    };
     failure(
         ParseErrorKind::Expected {
             expected,

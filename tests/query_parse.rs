@@ -829,10 +829,10 @@ fn error_reserved_name() {
 
 #[test]
 fn error_liquid_not_unit() {
-    let e = fault("dissolved O2 at 25 C in recipe 0.9 %w/v NaCl");
-    assert!(matches!(&e.kind, ParseErrorKind::LiquidNotUnit { found, .. } if found == "recipe"));
+    let e = fault("dissolved O2 at 25 C in water");
+    assert!(matches!(&e.kind, ParseErrorKind::LiquidNotUnit { found, .. } if found == "water"));
     assert_eq!(e.kind.code(), "liquid-not-unit");
-    assert!(e.to_string().contains("salting out"), "{e}");
+    assert!(e.to_string().contains("or a recipe"), "{e}");
     let e = fault("dissolved O2 in water at 25 C");
     assert!(
         e.to_string()
@@ -1087,4 +1087,43 @@ fn a_closing_clause_written_too_early_is_told_where_it_goes() {
     // Where the word is expected, nothing is added.
     let e = fault("require KCl stays dissolved at 20 g/100g water from 2 C to 8 C margin");
     assert!(!e.to_string().contains("goes at the end"), "{e}");
+}
+
+#[test]
+fn a_dissolved_gas_takes_a_recipe_as_its_liquid() {
+    let liquid = |text: &str| match one(text) {
+        Statement::DissolvedGas(d) => (
+            d.liquid.map(|r| r.ingredients.len()),
+            d.unit.map(|u| u.unit),
+        ),
+        other => panic!("{other:?}"),
+    };
+    assert_eq!(
+        liquid("dissolved O2 at 25 C in recipe 0.9 %w/v NaCl"),
+        (Some(1), None)
+    );
+    assert_eq!(
+        liquid("dissolved O2 at 25 C in recipe 137 mM NaCl, 2.7 mM KCl in mg/L under air"),
+        (Some(2), Some(CompositionUnit::MilligramsPerLitre))
+    );
+    assert_eq!(
+        liquid("dissolved O2 in mg/L at 25 C"),
+        (None, Some(CompositionUnit::MilligramsPerLitre))
+    );
+    let mut results = parse_script(
+        "let saline = recipe 0.9 %w/v NaCl\ndissolved CO2 at 4 C under 2 bar in saline in g/L",
+    )
+    .into_iter();
+    assert!(results.next().is_some_and(|r| r.is_ok()));
+    match results.next().map(|r| r.map(|s| s.node)) {
+        Some(Ok(Statement::DissolvedGas(d))) => {
+            assert_eq!(
+                d.liquid.and_then(|r| r.name).map(|n| n.text),
+                Some("saline".into())
+            );
+        }
+        other => panic!("{other:?}"),
+    }
+    let e = fault("dissolved O2 at 25 C in recipe 0.9 %w/v NaCl in recipe 1 %w/w KCl");
+    assert_eq!(e.kind.code(), "duplicate-clause");
 }

@@ -1,6 +1,8 @@
 //! Statements about gases: dissolved amount at a temperature and pressure, and a gas's heat
 //! of solution.
 
+use std::collections::BTreeMap;
+
 use serde_json::json;
 
 use crate::answer::{Answer, Basis, Row};
@@ -283,6 +285,76 @@ pub fn dissolved(snap: &Snapshot, s: &DissolvedGas, answer: &mut Answer) -> Resu
     let span = s.unit.map_or(s.temperature.span, |u| u.span);
     let number = amount_in(unit, &amount, span)?;
     let basis = amount.basis;
+    let mut extra: BTreeMap<String, serde_json::Value> = [
+        (
+            "partial_pressure_kpa".to_string(),
+            json!(round_significant(partial_pa / 1000.0, 4)),
+        ),
+        (
+            "ml_stp_per_l".to_string(),
+            json!(value(amount.ml_stp_per_l)),
+        ),
+        ("henry_record".to_string(), json!(law.key)),
+    ]
+    .into_iter()
+    .collect();
+    let number = match &s.liquid {
+        None => {
+            answer.caveat(format!(
+                "Henry's law for {described} in pure water; dilute solution taken as dense as pure water"
+            ));
+            number
+        }
+        Some(recipe) => {
+            if !matches!(
+                unit,
+                CompositionUnit::MilligramsPerLitre
+                    | CompositionUnit::GramsPerLitre
+                    | CompositionUnit::MolesPerLitre
+            ) {
+                return Err(EvalError::Unanswerable {
+                    message: format!(
+                        "in a recipe's liquid a dissolved gas is given per litre of the solution: mg/L, g/L or mol/L, not {}",
+                        unit.symbol()
+                    ),
+                    span,
+                });
+            }
+            // Over a salt solution the water's vapour pressure is a little lower, so the
+            // gas's share of a mixture's pressure a little higher (under 1 % below a few
+            // mol/kg): said, not corrected.
+            let vapour = if s
+                .pressure
+                .as_ref()
+                .is_some_and(|p| matches!(p, GasPressure::Partial(_)))
+            {
+                ""
+            } else {
+                " (the water vapour taken as over pure water)"
+            };
+            answer.caveat(format!(
+                "Henry's law for {described}{vapour}, then salted out by the recipe's ions"
+            ));
+            let ratio = crate::engine::salting::ratio_in(
+                snap,
+                recipe,
+                solute,
+                (t_k, s.temperature.span),
+                &s.options,
+                answer,
+            )?;
+            extra.insert("in_pure_water".to_string(), json!(value(number)));
+            extra.insert(
+                "ratio_to_pure_water".to_string(),
+                json!(round_significant(ratio, 4)),
+            );
+            extra.insert(
+                "ml_stp_per_l".to_string(),
+                json!(value(amount.ml_stp_per_l * ratio)),
+            );
+            number * ratio
+        }
+    };
     answer.rows.push(Row {
         solute: Some(solute.name.clone()),
         quantity: Some("dissolved at saturation".into()),
@@ -290,31 +362,16 @@ pub fn dissolved(snap: &Snapshot, s: &DissolvedGas, answer: &mut Answer) -> Resu
         unit: Some(unit.symbol().into()),
         basis: Some(basis),
         temperature_c: Some(celsius(t_k)),
-        extra: [
-            (
-                "partial_pressure_kpa".to_string(),
-                json!(round_significant(partial_pa / 1000.0, 4)),
-            ),
-            (
-                "ml_stp_per_l".to_string(),
-                json!(value(amount.ml_stp_per_l)),
-            ),
-            ("henry_record".to_string(), json!(law.key)),
-        ]
-        .into_iter()
-        .collect(),
+        extra,
         ..Row::default()
     });
-    answer.caveat(format!(
-        "Henry's law for {described} in pure water; dilute solution taken as dense as pure water"
-    ));
     if high_pressure {
         answer.caveat(format!(
             "above {} bar of partial pressure Henry's law overstates the amount dissolved (the gas is no longer ideal and the pressure acts on the liquid): treat the value as an upper estimate",
             bounds::HENRY_CAVEAT_PA / 1e5
         ));
     }
-    if unit.needs_density() {
+    if unit.needs_density() && s.liquid.is_none() {
         answer.caveat("per-litre amounts use the density of pure water at this temperature");
     }
     basis_caveat(basis, answer);

@@ -32,6 +32,7 @@ mod plot;
 mod ranking;
 mod recipe;
 mod records;
+mod salting;
 mod screen;
 mod snapshot;
 mod solid;

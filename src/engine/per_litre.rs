@@ -83,7 +83,7 @@ fn reason(refusal: &Refusal, solutes: &[&Solute]) -> String {
 }
 
 /// The density of a solution of `solutes` at mass fractions `ws`, g/mL, or why not.
-fn density_of(
+pub(crate) fn density_of(
     snap: &Snapshot,
     solutes: &[&Solute],
     ws: &[f64],

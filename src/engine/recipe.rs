@@ -178,27 +178,59 @@ pub fn file_faults(snap: &Snapshot, recipe: &Recipe) -> Vec<EvalError> {
     faults
 }
 
+/// A buffer set to a pH turned into its forms (`None` when the recipe has none): a first
+/// pass sets it alone, a second with the rest of the recipe's ions present (the ionic
+/// strength moves the shares a little).
+fn expanded<'s>(
+    snap: &'s Snapshot,
+    recipe: &Recipe,
+    options: &Options,
+    answer: &Answer,
+) -> Result<Option<buffer::Expanded<'s>>, EvalError> {
+    match buffer::expand(snap, recipe, None)? {
+        None => Ok(None),
+        Some(first) => {
+            let mut scratch = answer.clone();
+            let pass = compose(snap, &first.recipe, options, &mut scratch)?;
+            buffer::expand(snap, recipe, Some(&pass.mixture))
+        }
+    }
+}
+
+/// Says what each buffer set to a pH was made of, and cites its constants.
+fn buffers_made_of(snap: &Snapshot, expanded: &Option<buffer::Expanded>, answer: &mut Answer) {
+    for b in expanded.iter().flat_map(|e| &e.buffers) {
+        answer.caveat(buffer::made_of(b));
+        buffer::cite_acid(snap, b.acid, answer);
+    }
+}
+
+/// The recipe's solved composition, a buffer set to a pH turned into its forms: what a
+/// statement about something else in the recipe's liquid (a dissolved gas) reads.
+pub fn mixture_of<'s>(
+    snap: &'s Snapshot,
+    recipe: &Recipe,
+    options: &Options,
+    answer: &mut Answer,
+) -> Result<Mixture<'s>, EvalError> {
+    let expanded = expanded(snap, recipe, options, answer)?;
+    let composed = compose(
+        snap,
+        expanded.as_ref().map_or(recipe, |e| &e.recipe),
+        options,
+        answer,
+    )?;
+    buffers_made_of(snap, &expanded, answer);
+    Ok(composed.mixture)
+}
+
 /// Answers a statement about a recipe: solves its composition once, then asks the
 /// mixture's model.
 pub fn recipe(snap: &Snapshot, s: &RecipeStatement, answer: &mut Answer) -> Result<(), EvalError> {
-    // A buffer set to a pH becomes its forms: a first pass sets it alone, a second with the
-    // rest of the recipe's ions present (the ionic strength moves the shares a little).
-    let expanded = match buffer::expand(snap, &s.recipe, None)? {
-        None => None,
-        Some(first) => {
-            let mut scratch = answer.clone();
-            let pass = compose(snap, &first.recipe, &s.options, &mut scratch)?;
-            buffer::expand(snap, &s.recipe, Some(&pass.mixture))?
-        }
-    };
+    let expanded = expanded(snap, &s.recipe, &s.options, answer)?;
     let recipe = expanded.as_ref().map_or(&s.recipe, |e| &e.recipe);
     let composed = compose(snap, recipe, &s.options, answer)?;
-    if let Some(e) = &expanded {
-        for b in &e.buffers {
-            answer.caveat(buffer::made_of(b));
-            buffer::cite_acid(snap, b.acid, answer);
-        }
-    }
+    buffers_made_of(snap, &expanded, answer);
     if let RecipeQuestion::Ph {
         temperatures,
         every,

@@ -12,6 +12,7 @@ use crate::model::{Dataset, Provenance, Review};
 use crate::science::acid_base::{AcidSystem, BufferForm};
 use crate::science::activity::{ParameterSet, System};
 use crate::science::curve::{Branch, Curve};
+use crate::science::salting_out::{SaltingGas, SaltingIon};
 
 use super::flat_curves::{FlatCurves, ScreenedSolute};
 
@@ -64,6 +65,9 @@ pub struct Snapshot {
     systems: Vec<System>,
     /// The acid-base records of buffers (`[[acid]]` in `seed-data/models/`), compiled in.
     acids: Vec<AcidSystem>,
+    /// The Sechenov parameters of ions and gases (`[[salting_ion]]`, `[[salting_gas]]`),
+    /// compiled in.
+    salting: (Vec<SaltingIon>, Vec<SaltingGas>),
 }
 
 /// Ranks datasets of one phase: reviewed before unreviewed, then measured or compiled data
@@ -199,6 +203,8 @@ impl Snapshot {
             .unwrap_or_default();
         let acids =
             crate::store::models::acid_systems(crate::seed_files::SEED_FILES).unwrap_or_default();
+        let salting =
+            crate::store::models::salting_out(crate::seed_files::SEED_FILES).unwrap_or_default();
         let citations = catalog
             .sources()
             .iter()
@@ -215,7 +221,18 @@ impl Snapshot {
             models,
             systems,
             acids,
+            salting,
         }
+    }
+
+    /// The Sechenov parameter of an ion (by its symbol, `Na`), if the model files hold one.
+    pub fn salting_ion(&self, symbol: &str) -> Option<&SaltingIon> {
+        self.salting.0.iter().find(|i| i.key == symbol)
+    }
+
+    /// The Sechenov parameters of a gas (by its solute id), if the model files hold them.
+    pub fn salting_gas(&self, id: &str) -> Option<&SaltingGas> {
+        self.salting.1.iter().find(|g| g.key == id)
     }
 
     /// The acid-base records (water's own among them, key `water`).

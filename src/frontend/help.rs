@@ -107,12 +107,15 @@ pub const TOPICS: &[Topic] = &[
         name: "dissolved",
         aliases: &["gas", "gases", "henry"],
         summary: "dissolved gas at a temperature and pressure",
-        body: "dissolved GAS at TEMPERATURE under PRESSURE|air [in UNIT]\n\
+        body: "dissolved GAS at TEMPERATURE under PRESSURE|air [in UNIT] [in RECIPE]\n\
                Gas dissolved in water in equilibrium with the gas at a partial pressure, or \
-               with air. The answer is in mg/L unless a unit is asked for.",
+               with air. The answer is in mg/L unless a unit is asked for. With a recipe \
+               (`in recipe ...` or a name bound to one) its ions salt the gas out \
+               (Sechenov's relation), per litre of the solution.",
         examples: &[
             "dissolved O2 at 25 C under air",
             "dissolved CO2 at 4 C under 2.5 bar in g/L",
+            "dissolved O2 at 25 C in recipe 0.9 %w/v NaCl",
         ],
     },
     Topic {

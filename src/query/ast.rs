@@ -389,7 +389,7 @@ pub struct Dissolving {
     pub options: Options,
 }
 
-/// `dissolved O2 at 25 C [under air] [in mg/L]`.
+/// `dissolved O2 at 25 C [under air] [in mg/L] [in RECIPE]`.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct DissolvedGas {
     pub gas: Name,
@@ -397,6 +397,8 @@ pub struct DissolvedGas {
     /// `None`: no `under` clause; the engine's default applies.
     pub pressure: Option<GasPressure>,
     pub unit: Option<UnitChoice<CompositionUnit>>,
+    /// The liquid, `in recipe ...` or `in NAME`; `None`: pure water.
+    pub liquid: Option<super::recipe::Recipe>,
     pub options: Options,
 }
 

@@ -166,8 +166,8 @@ pub enum ParseErrorKind {
     )]
     InvisibleCharacter { code: String, name: &'static str },
 
-    /// `in` names a liquid where a unit belongs: `dissolved O2 at 25 C in recipe 0.9 %w/v
-    /// NaCl` (also `in water`).
+    /// `in water` where a unit or a recipe belongs (pure water is what the statement
+    /// answers without it): `dissolved O2 at 25 C in water`.
     #[error("`in {found}` names a liquid, not a unit: {why}")]
     LiquidNotUnit { found: String, why: &'static str },
 }

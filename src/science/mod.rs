@@ -16,6 +16,7 @@ pub mod freezing;
 pub mod gas;
 pub mod heat;
 pub mod range_minimum;
+pub mod salting_out;
 pub mod solve;
 pub mod units;
 

@@ -11,6 +11,7 @@ use super::StoreError;
 use crate::science::acid_base::AcidSystem;
 use crate::science::activity::{MixingSet, ParameterSet, System, SystemSpec};
 use crate::science::formula::parse_formula;
+use crate::science::salting_out::{SaltingGas, SaltingIon};
 
 #[derive(Deserialize)]
 #[serde(deny_unknown_fields)]
@@ -23,6 +24,10 @@ struct ModelFile {
     system: Vec<SystemSpec>,
     #[serde(default)]
     acid: Vec<AcidSystem>,
+    #[serde(default)]
+    salting_ion: Vec<SaltingIon>,
+    #[serde(default)]
+    salting_gas: Vec<SaltingGas>,
 }
 
 fn bad(file: &str, record: impl Into<String>, problem: impl Into<String>) -> StoreError {
@@ -106,7 +111,9 @@ macro_rules! model_record {
 model_record!(
     ParameterSet = "set",
     MixingSet = "mixing",
-    AcidSystem = "acid"
+    AcidSystem = "acid",
+    SaltingIon = "salting_ion",
+    SaltingGas = "salting_gas"
 );
 
 /// The checks every record of a model file passes: a known source, a provenance of
@@ -274,6 +281,46 @@ pub fn acid_systems<P: AsRef<str>, C: AsRef<str>>(
     Ok(acids)
 }
 
+/// The Sechenov parameters of the `models/` files among `files` (`[[salting_ion]]` and
+/// `[[salting_gas]]`): each cites a source of `sources.toml`, has a provenance, a temperature
+/// range and a key used once; an ion's key is an ion symbol the mixture model knows
+/// ([`crate::science::activity::ions::IONS`]), every parameter a finite number.
+pub fn salting_out<P: AsRef<str>, C: AsRef<str>>(
+    files: &[(P, C)],
+) -> Result<(Vec<SaltingIon>, Vec<SaltingGas>), StoreError> {
+    let sources = source_keys(files)?;
+    let parsed = model_files(files)?;
+    let ions = model_records(
+        &sources,
+        &parsed,
+        |f| &f.salting_ion,
+        |ion| {
+            if crate::science::activity::ions::charge(&ion.key).is_none() {
+                return Err(format!(
+                    "\"{}\" is not an ion symbol the model knows (such as Na, Cl, SO4)",
+                    ion.key
+                ));
+            }
+            finite(&[ion.h])
+        },
+    )?;
+    let gases = model_records(
+        &sources,
+        &parsed,
+        |f| &f.salting_gas,
+        |gas| finite(&[gas.h0, gas.ht]),
+    )?;
+    Ok((ions, gases))
+}
+
+fn finite(values: &[f64]) -> Result<(), String> {
+    if values.iter().all(|v| v.is_finite()) {
+        Ok(())
+    } else {
+        Err("every parameter must be a finite number".to_string())
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -304,6 +351,29 @@ mod tests {
             .unwrap();
         // The sets hold to 523.15 K; A-phi (Clegg, Rard & Pitzer 1994) to 373.15 K.
         assert_eq!((gm.t_min_k, gm.t_max_k), (273.15, 373.15));
+    }
+
+    #[test]
+    fn the_seed_salting_out_parameters_load() {
+        let (ions, gases) = salting_out(crate::seed_files::SEED_FILES).unwrap();
+        for key in ["Na", "K", "Cl", "SO4", "H2PO4", "HPO4"] {
+            assert!(ions.iter().any(|i| i.key == key), "{key}");
+        }
+        for key in ["oxygen", "nitrogen", "carbon-dioxide"] {
+            assert!(gases.iter().any(|g| g.key == key), "{key}");
+        }
+        let files = [
+            ("sources.toml", "[[source]]\nkey = \"a\"\n"),
+            (
+                "models/s.toml",
+                "[[salting_ion]]\nkey = \"Xx\"\nh = 0.1\nsource = \"a\"\nlocator = \"\"\nprovenance = \"from-memory\"\nt_min_k = 273.15\nt_max_k = 363.15\n",
+            ),
+        ];
+        let e = salting_out(&files).unwrap_err().to_string();
+        assert!(
+            e.contains("salting_ion \"Xx\"") && e.contains("not an ion symbol"),
+            "{e}"
+        );
     }
 
     #[test]

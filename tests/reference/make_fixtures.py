@@ -134,6 +134,7 @@ def main():
     fixtures_corroboration.write_checks()
     __import__("fixtures_brine_checks").write_checks()  # ice lines, water activity, density ranges
     __import__("fixtures_thermochemistry").write_all()
+    __import__("fixtures_salting").write(HERE)  # O2 in seawater: gsw
 
 
 if __name__ == "__main__":

@@ -6,6 +6,7 @@ use nom::{Err as NomErr, Parser, combinator::cut, error::context};
 use super::super::ast::*;
 use super::super::error::ParseErrorKind;
 use super::super::lexicon::{ends_name, is_keyword, nearest, one_of};
+use super::super::recipe::Recipe;
 use super::plumbing::*;
 use super::quantity::*;
 use super::statement::gas_pressure;
@@ -212,28 +213,24 @@ pub(super) struct Tail {
     pub(super) margin: Option<Margin>,
     pub(super) pressure: Option<GasPressure>,
     pub(super) every: Option<TemperatureStep>,
+    /// `in recipe ...` or `in NAME` (a bound recipe) after a dissolved gas: the liquid.
+    pub(super) liquid: Option<Recipe>,
     pub(super) options: Options,
 }
 
-/// After `in` in a dissolved-gas statement (the one that takes `under`): `in water` and
-/// `in recipe ...` name a liquid, not a unit. Said plainly: the answer is for pure water,
-/// and a recipe's liquid is not answered (salting out by its solutes is not modelled).
+/// After `in` in a dissolved-gas statement (the one that takes `under`): `in water` names a
+/// liquid, not a unit; said plainly, as pure water is what the statement answers without
+/// `in` (a recipe's liquid, `in recipe ...` or `in NAME`, is read before this).
 fn not_a_liquid_for_a_gas<'a>(cx: Cx<'a>, after: &'a str) -> Result<(), NomErr<PErr>> {
     let t = skip(after);
     let (word, rest) = next_word(t);
-    let why = match word.to_lowercase().as_str() {
-        "water" => {
-            "a dissolved gas is answered for pure water; after `in` give a unit such as `mg/L`, or leave `in` out"
-        }
-        "recipe" => {
-            "a gas in a recipe's liquid is not answered, as salting out by its solutes is not modelled; ask for pure water (a salt solution holds less gas) and give a unit such as `mg/L` after `in`"
-        }
-        _ => return Ok(()),
-    };
+    if !word.eq_ignore_ascii_case("water") {
+        return Ok(());
+    }
     Err(failure(
         ParseErrorKind::LiquidNotUnit {
             found: word.to_string(),
-            why,
+            why: "a dissolved gas is answered for pure water without `in`; after `in` give a unit such as `mg/L`, or a recipe (`in recipe 0.9 %w/v NaCl`, or a name bound to one)",
         },
         cx.span(t, rest),
     ))
@@ -330,6 +327,15 @@ fn clauses<'a>(
             rest = once(cx, at, "under", &mut out.pressure, gas_pressure)?;
         } else if word == "in" && allows(Clause::InComposition) {
             if allows(Clause::Under) {
+                // A gas in a recipe's liquid: `in recipe ...` or `in NAME`.
+                if let (r, Some(recipe)) = super::recipe::subject(cx, after)? {
+                    if out.liquid.is_some() {
+                        return Err(duplicate(cx, t, r, "in RECIPE"));
+                    }
+                    out.liquid = Some(recipe);
+                    rest = r;
+                    continue;
+                }
                 not_a_liquid_for_a_gas(cx, after)?;
             }
             rest = once(cx, at, "in", &mut out.composition, composition_unit)?;

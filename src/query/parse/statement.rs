@@ -312,6 +312,7 @@ pub(super) fn dissolved<'a>(cx: Cx<'a>, i: &'a str) -> R<'a, Statement> {
             temperature,
             pressure: tail.pressure,
             unit: tail.composition,
+            liquid: tail.liquid,
             options: tail.options,
         }),
     ))

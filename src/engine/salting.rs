@@ -13,7 +13,7 @@ use crate::model::{Solute, SoluteKind};
 use crate::number::{round_significant, shown};
 use crate::query::{Options, Recipe, Span};
 use crate::science::activity::ions::electrolyte;
-use crate::science::salting_out::{SaltingGas, ratio_to_pure_water};
+use crate::science::salting_out::{Sechenov, ratio_to_pure_water};
 use crate::science::units::TemperatureUnit;
 
 /// The source every salting-out record of the seed cites.
@@ -151,7 +151,7 @@ fn gas_parameters<'s>(
     gas: &Solute,
     title: &str,
     span: Span,
-) -> Result<&'s SaltingGas, EvalError> {
+) -> Result<&'s Sechenov, EvalError> {
     snap.salting_gas(&gas.id)
         .ok_or_else(|| EvalError::Unanswerable {
             message: format!(

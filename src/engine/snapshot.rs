@@ -12,7 +12,7 @@ use crate::model::{Dataset, Provenance, Review};
 use crate::science::acid_base::{AcidSystem, BufferForm};
 use crate::science::activity::{ParameterSet, System};
 use crate::science::curve::{Branch, Curve};
-use crate::science::salting_out::{SaltingGas, SaltingIon};
+use crate::science::salting_out::Sechenov;
 
 use super::flat_curves::{FlatCurves, ScreenedSolute};
 
@@ -67,7 +67,7 @@ pub struct Snapshot {
     acids: Vec<AcidSystem>,
     /// The Sechenov parameters of ions and gases (`[[salting_ion]]`, `[[salting_gas]]`),
     /// compiled in.
-    salting: (Vec<SaltingIon>, Vec<SaltingGas>),
+    salting: (Vec<Sechenov>, Vec<Sechenov>),
 }
 
 /// Ranks datasets of one phase: reviewed before unreviewed, then measured or compiled data
@@ -226,12 +226,12 @@ impl Snapshot {
     }
 
     /// The Sechenov parameter of an ion (by its symbol, `Na`), if the model files hold one.
-    pub fn salting_ion(&self, symbol: &str) -> Option<&SaltingIon> {
+    pub fn salting_ion(&self, symbol: &str) -> Option<&Sechenov> {
         self.salting.0.iter().find(|i| i.key == symbol)
     }
 
     /// The Sechenov parameters of a gas (by its solute id), if the model files hold them.
-    pub fn salting_gas(&self, id: &str) -> Option<&SaltingGas> {
+    pub fn salting_gas(&self, id: &str) -> Option<&Sechenov> {
         self.salting.1.iter().find(|g| g.key == id)
     }
 

@@ -7,22 +7,25 @@
 //! where c_G,0 and c_G are the gas's concentrations (per volume) in pure water and in the
 //! salt solution at the same partial pressure, cᵢ the concentration of ion i (mol/L), hᵢ its
 //! parameter and h_G,0, h_T the gas's (L/mol, L/(mol·K)). The parameters are data in
-//! `seed-data/models/` ([`SaltingIon`], [`SaltingGas`]).
+//! `seed-data/models/` ([`Sechenov`]).
 
 use serde::Deserialize;
 
 /// The temperature the gas parameter's temperature term is counted from, K.
 pub const REFERENCE_K: f64 = 298.15;
 
-/// An ion's Sechenov parameter, keyed by the ion's symbol as
-/// [`crate::science::activity::ions::IONS`] writes it (`Na`, `SO4`, `H2PO4`).
+/// A Sechenov parameter of an ion (`[[salting_ion]]`, keyed by the ion's symbol as
+/// [`crate::science::activity::ions::IONS`] writes it: `Na`, `SO4`, `H2PO4`) or of a gas
+/// (`[[salting_gas]]`, keyed by the gas's solute id: `oxygen`).
 #[derive(Debug, Clone, PartialEq, Deserialize)]
 #[serde(deny_unknown_fields)]
-pub struct SaltingIon {
-    /// The ion's symbol, without its charge.
+pub struct Sechenov {
     pub key: String,
-    /// hᵢ, L/mol.
+    /// An ion's hᵢ, or a gas's h_G,0: L/mol.
     pub h: f64,
+    /// A gas's h_T, L/(mol·K); an ion's parameter has no temperature term (0).
+    #[serde(default)]
+    pub ht: f64,
     pub source: String,
     /// Where in the source (table, entry).
     pub locator: String,
@@ -34,28 +37,10 @@ pub struct SaltingIon {
     pub t_max_k: f64,
 }
 
-/// A gas's Sechenov parameters, keyed by the gas's solute id (`oxygen`).
-#[derive(Debug, Clone, PartialEq, Deserialize)]
-#[serde(deny_unknown_fields)]
-pub struct SaltingGas {
-    pub key: String,
-    /// h_G,0, L/mol.
-    pub h0: f64,
-    /// h_T, L/(mol·K).
-    pub ht: f64,
-    pub source: String,
-    pub locator: String,
-    pub provenance: String,
-    #[serde(default)]
-    pub review: String,
-    pub t_min_k: f64,
-    pub t_max_k: f64,
-}
-
-impl SaltingGas {
-    /// h_G at `t_k`, L/mol.
+impl Sechenov {
+    /// The parameter at `t_k`: h + h_T (T − 298.15 K), L/mol.
     pub fn h_at(&self, t_k: f64) -> f64 {
-        self.h0 + self.ht * (t_k - REFERENCE_K)
+        self.h + self.ht * (t_k - REFERENCE_K)
     }
 
     /// True when `t_k` lies within the temperatures the parameters were fitted over.
@@ -67,7 +52,7 @@ impl SaltingGas {
 /// The gas's concentration in the salt solution over its concentration in pure water at the
 /// same partial pressure and temperature: 10^(−Σᵢ (hᵢ + h_G) cᵢ), with `ions` as (hᵢ in L/mol,
 /// cᵢ in mol/L). 1 with no ions.
-pub fn ratio_to_pure_water(gas: &SaltingGas, ions: &[(f64, f64)], t_k: f64) -> f64 {
+pub fn ratio_to_pure_water(gas: &Sechenov, ions: &[(f64, f64)], t_k: f64) -> f64 {
     let h_gas = gas.h_at(t_k);
     let exponent: f64 = ions.iter().map(|(h, c)| (h + h_gas) * c).sum();
     10f64.powf(-exponent)
@@ -77,10 +62,10 @@ pub fn ratio_to_pure_water(gas: &SaltingGas, ions: &[(f64, f64)], t_k: f64) -> f
 mod tests {
     use super::*;
 
-    fn gas(h0: f64, ht: f64) -> SaltingGas {
-        SaltingGas {
+    fn gas(h: f64, ht: f64) -> Sechenov {
+        Sechenov {
             key: "g".into(),
-            h0,
+            h,
             ht,
             source: String::new(),
             locator: String::new(),

@@ -11,7 +11,7 @@ use super::StoreError;
 use crate::science::acid_base::AcidSystem;
 use crate::science::activity::{MixingSet, ParameterSet, System, SystemSpec};
 use crate::science::formula::parse_formula;
-use crate::science::salting_out::{SaltingGas, SaltingIon};
+use crate::science::salting_out::Sechenov;
 
 #[derive(Deserialize)]
 #[serde(deny_unknown_fields)]
@@ -25,9 +25,9 @@ struct ModelFile {
     #[serde(default)]
     acid: Vec<AcidSystem>,
     #[serde(default)]
-    salting_ion: Vec<SaltingIon>,
+    salting_ion: Vec<Sechenov>,
     #[serde(default)]
-    salting_gas: Vec<SaltingGas>,
+    salting_gas: Vec<Sechenov>,
 }
 
 fn bad(file: &str, record: impl Into<String>, problem: impl Into<String>) -> StoreError {
@@ -112,8 +112,7 @@ model_record!(
     ParameterSet = "set",
     MixingSet = "mixing",
     AcidSystem = "acid",
-    SaltingIon = "salting_ion",
-    SaltingGas = "salting_gas"
+    Sechenov = "salting-out parameter"
 );
 
 /// The checks every record of a model file passes: a known source, a provenance of
@@ -287,7 +286,7 @@ pub fn acid_systems<P: AsRef<str>, C: AsRef<str>>(
 /// ([`crate::science::activity::ions::IONS`]), every parameter a finite number.
 pub fn salting_out<P: AsRef<str>, C: AsRef<str>>(
     files: &[(P, C)],
-) -> Result<(Vec<SaltingIon>, Vec<SaltingGas>), StoreError> {
+) -> Result<(Vec<Sechenov>, Vec<Sechenov>), StoreError> {
     let sources = source_keys(files)?;
     let parsed = model_files(files)?;
     let ions = model_records(
@@ -301,6 +300,9 @@ pub fn salting_out<P: AsRef<str>, C: AsRef<str>>(
                     ion.key
                 ));
             }
+            if ion.ht != 0.0 {
+                return Err("an ion's parameter has no temperature term (ht)".to_string());
+            }
             finite(&[ion.h])
         },
     )?;
@@ -308,7 +310,7 @@ pub fn salting_out<P: AsRef<str>, C: AsRef<str>>(
         &sources,
         &parsed,
         |f| &f.salting_gas,
-        |gas| finite(&[gas.h0, gas.ht]),
+        |gas| finite(&[gas.h, gas.ht]),
     )?;
     Ok((ions, gases))
 }
@@ -371,7 +373,7 @@ mod tests {
         ];
         let e = salting_out(&files).unwrap_err().to_string();
         assert!(
-            e.contains("salting_ion \"Xx\"") && e.contains("not an ion symbol"),
+            e.contains("salting-out parameter \"Xx\"") && e.contains("not an ion symbol"),
             "{e}"
         );
     }

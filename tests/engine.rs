@@ -535,3 +535,31 @@ fn each_solute_gets_the_same_row_with_and_without_a_filter() {
         );
     }
 }
+
+#[test]
+fn water_by_volume_is_its_mass_at_the_start_temperature() {
+    // Kell (1975): pure water at 20 C is 998.2 g/L (998.21), at 4 C 1000.0 g/L (999.97).
+    let e = engine();
+    for (volume, mass, t) in [("1 L", "998.21 g", 20), ("250 mL", "249.99 g", 4)] {
+        let by_volume = answer(
+            &e,
+            &format!("dissolving 50 g NaCl in {volume} water from {t} C"),
+        );
+        let by_mass = answer(
+            &e,
+            &format!("dissolving 50 g NaCl in {mass} water from {t} C"),
+        );
+        assert!(by_volume.ok, "{:?}", by_volume.error);
+        for (a, b) in by_volume.rows.iter().zip(&by_mass.rows) {
+            assert_eq!(a.value, b.value, "{volume} at {t} C: {:?}", a.quantity);
+        }
+        assert!(
+            by_volume
+                .caveats
+                .iter()
+                .any(|c| c.contains("of water at") && c.contains("pure water's density")),
+            "{:?}",
+            by_volume.caveats
+        );
+    }
+}

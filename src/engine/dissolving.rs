@@ -17,7 +17,7 @@ use crate::engine::snapshot::Snapshot;
 use crate::model::thermo::HeatCapacityFit;
 use crate::model::{Solute, SoluteKind};
 use crate::number::{round_significant, shown};
-use crate::query::Dissolving;
+use crate::query::{Dissolving, WaterAmount};
 use crate::science::ScienceError;
 use crate::science::activity::relative_enthalpy::apparent_relative_enthalpy;
 use crate::science::dissolving::{
@@ -174,7 +174,26 @@ pub fn dissolving(snap: &Snapshot, s: &Dissolving, answer: &mut Answer) -> Resul
         });
     };
     let fit = thermo.heat_capacity_of(&solute.formula);
-    let (solid_g, water_g) = (s.solid.grams(), s.water.grams());
+    let water_g = match s.water {
+        WaterAmount::Mass(m) => m.grams(),
+        WaterAmount::Litres { value, span } => {
+            // Kell's density of pure water, g/L, at the batch's start.
+            let g_per_l = crate::science::gas::water_density(s.start.kelvin()).map_err(|e| {
+                EvalError::OutOfRange {
+                    message: format!("the water's density at the start: {e}"),
+                    span,
+                }
+            })?;
+            answer.caveat(format!(
+                "{} L of water at {} C taken as {} g (pure water's density there, Kell 1975)",
+                shown(value, 4),
+                round_significant(start_c, 4),
+                shown(value * g_per_l, 5)
+            ));
+            value * g_per_l
+        }
+    };
+    let solid_g = s.solid.grams();
     let molality = solid_g / solute.molar_mass / (water_g / 1000.0);
     // The integral heat at the batch's molality where a Pitzer set gives L_φ at 25 C.
     let models = snap.models_for(&solute.formula);

@@ -92,12 +92,12 @@ pub const TOPICS: &[Topic] = &[
             "endothermic",
         ],
         summary: "how warm or cold a batch gets while its solid dissolves",
-        body: "dissolving MASS SOLUTE in MASS water from TEMPERATURE [extrapolate]\n\
+        body: "dissolving MASS SOLUTE in MASS|VOLUME water from TEMPERATURE [extrapolate]\n\
                The temperature a batch reaches when the solid dissolves with no heat \
                exchanged (adiabatic), from the tables' standard heat of solution and the \
                solution's heat capacity; whether it all dissolves at that temperature; and \
                the cautions of a batch that heats sharply or chills. Masses in mg, g, kg \
-               or lb.",
+               or lb; the water also by volume in L or mL (pure water's mass at the start).",
         examples: &[
             "dissolving 300 g CaCl2 in 1 kg water from 20 C",
             "dissolving 300 g NH4NO3 in 1 kg water from 20 C",

@@ -378,13 +378,34 @@ impl Mass {
     }
 }
 
+/// The water of a batch as written: a mass (`1 kg`), or a volume (`1 L`, `500 mL`) that the
+/// engine turns into a mass with pure water's density at the start temperature.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub enum WaterAmount {
+    Mass(Mass),
+    /// Litres of water (`500 mL` is 0.5), above zero.
+    Litres {
+        value: f64,
+        span: Span,
+    },
+}
+
+impl WaterAmount {
+    pub fn span(&self) -> Span {
+        match self {
+            WaterAmount::Mass(m) => m.span,
+            WaterAmount::Litres { span, .. } => *span,
+        }
+    }
+}
+
 /// `dissolving 300 g CaCl2 in 1 kg water from 20 C`: how warm or cold the batch gets
 /// while the solid dissolves, with no heat exchanged.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Dissolving {
     pub solid: Mass,
     pub solute: Name,
-    pub water: Mass,
+    pub water: WaterAmount,
     pub start: Temperature,
     pub options: Options,
 }

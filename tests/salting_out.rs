@@ -123,8 +123,8 @@ fn what_the_relation_cannot_say_is_refused_with_the_reason() {
             "no salting-out parameters for argon",
         ),
         (
-            "dissolved O2 at 25 C in recipe 1 %w/w NaCl in mg/kg",
-            "given per litre of the solution",
+            "dissolved O2 at 25 C in recipe 1 %w/w NaCl in x",
+            "not as a mole fraction",
         ),
         (
             "dissolved O2 at 95 C in recipe 1 %w/w NaCl",
@@ -139,4 +139,40 @@ fn what_the_relation_cannot_say_is_refused_with_the_reason() {
         let message = a.error.map(|e| e.message).unwrap_or_default();
         assert!(message.contains(says), "{text}: {message}");
     }
+}
+
+#[test]
+fn per_kg_units_go_through_the_liquids_density_and_water() {
+    // 0.9 %w/v NaCl: per kg of the solution is per litre over the density; per kg of its
+    // water, also over the water's share (both given in the answer's caveats and rows).
+    let per_litre = one("dissolved O2 at 25 C in recipe 0.9 %w/v NaCl in mg/L");
+    let per_kg = one("dissolved O2 at 25 C in recipe 0.9 %w/v NaCl in mg/kg");
+    let molal = one("dissolved O2 at 25 C in recipe 0.9 %w/v NaCl in mmol/kg");
+    let density = one("describe recipe 0.9 %w/v NaCl at 25 C");
+    let rho = density.rows[1].extra["density_kg_per_l"]
+        .as_f64()
+        .expect("a density");
+    let water = density.rows[1].extra["water_percent_w_w"]
+        .as_f64()
+        .expect("the water")
+        / 100.0;
+    let mg_l = per_litre.rows[0].value.expect("mg/L");
+    let mg_kg = per_kg.rows[0].value.expect("mg/kg");
+    let mmol_kg = molal.rows[0].value.expect("mmol/kg");
+    assert!(
+        (mg_kg - mg_l / rho).abs() < 2e-3 * mg_kg,
+        "{mg_kg} {mg_l} {rho}"
+    );
+    // O2: 31.998 g/mol.
+    let expected = mg_l / 31.998 / (rho * water);
+    assert!(
+        (mmol_kg - expected).abs() < 2e-3 * expected,
+        "{mmol_kg} {expected}"
+    );
+    assert!(
+        molal
+            .caveats
+            .iter()
+            .any(|c| c == "mmol/kg is per kg of the recipe's water")
+    );
 }

@@ -306,17 +306,9 @@ pub fn dissolved(snap: &Snapshot, s: &DissolvedGas, answer: &mut Answer) -> Resu
             number
         }
         Some(recipe) => {
-            if !matches!(
-                unit,
-                CompositionUnit::MilligramsPerLitre
-                    | CompositionUnit::GramsPerLitre
-                    | CompositionUnit::MolesPerLitre
-            ) {
+            if unit == CompositionUnit::MoleFraction {
                 return Err(EvalError::Unanswerable {
-                    message: format!(
-                        "in a recipe's liquid a dissolved gas is given per litre of the solution: mg/L, g/L or mol/L, not {}",
-                        unit.symbol()
-                    ),
+                    message: "in a recipe's liquid a dissolved gas is given per litre of the solution (mg/L, g/L, mol/L), per kg of the solution (mg/kg) or per kg of its water (mmol/kg, umol/kg, mol/kg), not as a mole fraction".into(),
                     span,
                 });
             }
@@ -335,7 +327,7 @@ pub fn dissolved(snap: &Snapshot, s: &DissolvedGas, answer: &mut Answer) -> Resu
             answer.caveat(format!(
                 "Henry's law for {described}{vapour}, then salted out by the recipe's ions"
             ));
-            let ratio = crate::engine::salting::ratio_in(
+            let liquid = crate::engine::salting::ratio_in(
                 snap,
                 recipe,
                 solute,
@@ -343,6 +335,7 @@ pub fn dissolved(snap: &Snapshot, s: &DissolvedGas, answer: &mut Answer) -> Resu
                 &s.options,
                 answer,
             )?;
+            let ratio = liquid.ratio;
             extra.insert("in_pure_water".to_string(), json!(value(number)));
             extra.insert(
                 "ratio_to_pure_water".to_string(),
@@ -352,7 +345,29 @@ pub fn dissolved(snap: &Snapshot, s: &DissolvedGas, answer: &mut Answer) -> Resu
                 "ml_stp_per_l".to_string(),
                 json!(value(amount.ml_stp_per_l * ratio)),
             );
-            number * ratio
+            // The salted-out amount is per litre of the liquid; per kg of the liquid (mg/kg)
+            // or of its water (mmol/kg, umol/kg, mol/kg) through its density and water share.
+            let per_litre = |x: f64| x * ratio;
+            match unit {
+                CompositionUnit::MilligramsPerKilogram => {
+                    answer.caveat("mg/kg is per kg of the recipe's solution");
+                    per_litre(amount.mg_per_l) / liquid.density
+                }
+                CompositionUnit::MillimolesPerKilogram
+                | CompositionUnit::MicromolesPerKilogram
+                | CompositionUnit::Molality => {
+                    answer.caveat(format!("{} is per kg of the recipe's water", unit.symbol()));
+                    let mol_per_kg_water =
+                        per_litre(amount.mol_per_m3 / 1000.0) / (liquid.density * liquid.water);
+                    mol_per_kg_water
+                        * match unit {
+                            CompositionUnit::MillimolesPerKilogram => 1e3,
+                            CompositionUnit::MicromolesPerKilogram => 1e6,
+                            _ => 1.0,
+                        }
+                }
+                _ => number * ratio,
+            }
         }
     };
     answer.rows.push(Row {

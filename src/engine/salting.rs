@@ -19,9 +19,20 @@ use crate::science::units::TemperatureUnit;
 /// The source every salting-out record of the seed cites.
 const SOURCE: &str = "weisenberger-schumpe-1996";
 
-/// The gas's concentration in `recipe`'s liquid over its concentration in pure water at the
-/// same partial pressure and temperature `t_k`; says how in `answer`'s caveats and cites the
-/// data. `t_span`: where the temperature was written.
+/// A gas in a recipe's liquid, against pure water.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct InRecipe {
+    /// The gas's concentration (per litre) in the liquid over its concentration in pure
+    /// water at the same partial pressure and temperature.
+    pub ratio: f64,
+    /// The liquid's density, kg/L, as the ions' concentrations were read with it.
+    pub density: f64,
+    /// The liquid's water, as a mass fraction.
+    pub water: f64,
+}
+
+/// The gas in `recipe`'s liquid at `t_k` ([`InRecipe`]); says how in `answer`'s caveats and
+/// cites the data. `t_span`: where the temperature was written.
 pub fn ratio_in(
     snap: &Snapshot,
     recipe: &Recipe,
@@ -29,7 +40,7 @@ pub fn ratio_in(
     (t_k, t_span): (f64, Span),
     options: &Options,
     answer: &mut Answer,
-) -> Result<f64, EvalError> {
+) -> Result<InRecipe, EvalError> {
     let title = recipe.title();
     let parameters = gas_parameters(snap, gas, &title, recipe.span)?;
     if !parameters.covers(t_k) {
@@ -142,7 +153,11 @@ pub fn ratio_in(
         "salting-out parameters typed from memory of the cited tables, not yet checked against them (from-memory)",
     );
     cite_source(snap, SOURCE, answer);
-    Ok(ratio)
+    Ok(InRecipe {
+        ratio,
+        density,
+        water: mixture.water(),
+    })
 }
 
 /// The gas's Sechenov parameters, or a refusal naming the gases that have them.

@@ -111,7 +111,7 @@ pub const TOPICS: &[Topic] = &[
                Gas dissolved in water in equilibrium with the gas at a partial pressure, or \
                with air. The answer is in mg/L unless a unit is asked for. With a recipe \
                (`in recipe ...` or a name bound to one) its ions salt the gas out \
-               (Sechenov's relation), per litre of the solution.",
+               (Sechenov's relation).",
         examples: &[
             "dissolved O2 at 25 C under air",
             "dissolved CO2 at 4 C under 2.5 bar in g/L",

@@ -33,6 +33,7 @@ pub(crate) const EXAMPLES: &[&str] = &[
     "ceiling of KCl from 2 C to 8 C margin 10% in mol/kg",
     "plot KNO3, KCl from 0 C to 100 C",
     "dissolved O2 at 25 C under air",
+    "dissolved O2 at 4 C in recipe 0.9 %w/v NaCl",
     "convert 20 g/100g water of KCl to mol/kg",
     "let cold = from 2 C to 8 C\nrequire KCl stays dissolved at 20 g/100g water over cold margin 10%",
     "describe NaCl",

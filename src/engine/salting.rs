@@ -160,7 +160,7 @@ pub fn ratio_in(
     })
 }
 
-/// The gas's Sechenov parameters, or a refusal naming the gases that have them.
+/// The gas's Sechenov parameters, or a refusal that says the gas has none.
 fn gas_parameters<'s>(
     snap: &'s Snapshot,
     gas: &Solute,

@@ -404,3 +404,26 @@ fn a_fault_found_inside_a_model_is_placed_at_its_statement() {
     assert_eq!((error.line, error.column), (3, 3));
     assert_eq!(error.span, a[1].span);
 }
+
+#[test]
+fn a_density_read_a_few_kelvin_from_the_volume_is_said_and_farther_is_refused() {
+    // densities.toml: Na2HPO4's coefficients cover 25 C to 45 C. A phosphate-buffered saline
+    // in mM with its volume at 20 C (the default) reads the density at 25 C and says so, with
+    // pure water's change between them (Kell 1975: 998.21 and 997.05 g/L, 0.12 %); at 5 C,
+    // 20 K away, the per-litre amounts are refused as before.
+    let pbs = "recipe 137 mM NaCl, 2.7 mM KCl, 10 mM Na2HPO4, 1.8 mM KH2PO4";
+    let a = answers(&format!("require {pbs} stays dissolved from 2 C to 8 C"));
+    assert!(a[0].ok, "{:?}", a[0].error);
+    assert!(
+        a[0].caveats.iter().any(|c| c.starts_with(
+            "disodium hydrogen phosphate: density coefficients do not reach 20 C; the solution's density at 25 C"
+        ) && c.contains("differs by 0.12 %")),
+        "{:?}",
+        a[0].caveats
+    );
+    let far = answers(&format!(
+        "require {pbs} volume at 5 C stays dissolved from 2 C to 8 C"
+    ));
+    let message = &far[0].error.as_ref().expect("refused").message;
+    assert!(message.contains("cover 25 C to 45 C, not 5 C"), "{message}");
+}

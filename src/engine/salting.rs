@@ -7,14 +7,13 @@
 use crate::answer::Answer;
 use crate::engine::common::{celsius, cite_source};
 use crate::engine::error::EvalError;
-use crate::engine::per_litre::{Volume, density_of};
+use crate::engine::per_litre::{Volume, coefficient_sets, density_of, nearest_density_temperature};
 use crate::engine::snapshot::Snapshot;
 use crate::model::{Solute, SoluteKind};
 use crate::number::{round_significant, shown};
 use crate::query::{Options, Recipe, Span};
 use crate::science::activity::ions::electrolyte;
 use crate::science::salting_out::{Sechenov, ratio_to_pure_water};
-use crate::science::units::TemperatureUnit;
 
 /// The source every salting-out record of the seed cites.
 const SOURCE: &str = "weisenberger-schumpe-1996";
@@ -65,38 +64,33 @@ pub fn ratio_in(
     }
     let mixture = crate::engine::recipe::mixture_of(snap, recipe, options, answer)?;
     let solutes: Vec<&Solute> = mixture.solutes.iter().map(|(s, _)| *s).collect();
-    let at = |t_k: f64| {
-        let volume = Volume {
-            t_k,
-            stated: true,
-            unit_density: options.assume_unit_density,
-            reviewed_only: options.reviewed_only,
-        };
-        density_of(snap, &solutes, &mixture.ws, &volume)
+    let volume = Volume {
+        t_k,
+        stated: true,
+        unit_density: options.assume_unit_density,
+        reviewed_only: options.reviewed_only,
     };
     // Where some solute's density coefficients do not reach the temperature, the density at
-    // the nearest temperature they all reach: a solution's density moves by tenths of a
-    // percent over tens of kelvin, which moves the estimate far less than its uncertainty.
-    let (density, density_t_k) = match at(t_k) {
-        Ok(d) => (d, t_k),
-        Err(why) => {
-            let nearest = shared_density_range(snap, &solutes)
-                .map(|(lo, hi)| t_k.clamp(lo, hi))
-                .filter(|&t| t != t_k);
-            match nearest.map(|t| (at(t), t)) {
-                Some((Ok(d), t)) => (d, t),
-                _ => {
-                    return Err(EvalError::Unanswerable {
-                        message: format!(
-                            "the salting out is reckoned from the ions per litre of {title} at {} C, which needs its density, but {why}; or add `assuming density 1.000 kg/L`",
-                            celsius(t_k)
-                        ),
-                        span: recipe.span,
-                    });
-                }
-            }
-        }
+    // the nearest temperature they all reach, however far: a solution's density moves by
+    // tenths of a percent over tens of kelvin, which moves the estimate far less than its
+    // uncertainty.
+    let density_t_k = coefficient_sets(snap, &solutes, &volume)
+        .filter(|_| !options.assume_unit_density)
+        .and_then(|sets| nearest_density_temperature(&sets, t_k, f64::INFINITY))
+        .unwrap_or(t_k);
+    let read_at = Volume {
+        t_k: density_t_k,
+        ..volume
     };
+    let density = density_of(snap, &solutes, &mixture.ws, &read_at).map_err(|why| {
+        EvalError::Unanswerable {
+            message: format!(
+                "the salting out is reckoned from the ions per litre of {title} at {} C, which needs its density, but {why}; or add `assuming density 1.000 kg/L`",
+                celsius(t_k)
+            ),
+            span: recipe.span,
+        }
+    })?;
     // (hᵢ, cᵢ in mol/L) of every ion of every salt.
     let mut ions: Vec<(f64, f64)> = Vec::new();
     for ((solute, name), w) in mixture.solutes.iter().zip(&mixture.ws) {
@@ -175,15 +169,4 @@ fn gas_parameters<'s>(
             ),
             span,
         })
-}
-
-/// The temperatures (K) every solute's density coefficients reach, if they overlap.
-fn shared_density_range(snap: &Snapshot, solutes: &[&Solute]) -> Option<(f64, f64)> {
-    let mut range = (f64::NEG_INFINITY, f64::INFINITY);
-    for s in solutes {
-        let d = snap.catalog.density_of(&s.id)?;
-        range.0 = range.0.max(TemperatureUnit::Celsius.to_kelvin(d.t_min_c));
-        range.1 = range.1.min(TemperatureUnit::Celsius.to_kelvin(d.t_max_c));
-    }
-    (range.0 <= range.1).then_some(range)
 }

@@ -364,13 +364,10 @@ mod tests {
         for key in ["oxygen", "nitrogen", "carbon-dioxide"] {
             assert!(gases.iter().any(|g| g.key == key), "{key}");
         }
-        let files = [
-            ("sources.toml", "[[source]]\nkey = \"a\"\n"),
-            (
-                "models/s.toml",
-                "[[salting_ion]]\nkey = \"Xx\"\nh = 0.1\nsource = \"a\"\nlocator = \"\"\nprovenance = \"from-memory\"\nt_min_k = 273.15\nt_max_k = 363.15\n",
-            ),
-        ];
+        let files = with_source_a(
+            "models/s.toml",
+            "[[salting_ion]]\nkey = \"Xx\"\nh = 0.1\nsource = \"a\"\nlocator = \"\"\nprovenance = \"from-memory\"\nt_min_k = 273.15\nt_max_k = 363.15\n",
+        );
         let e = salting_out(&files).unwrap_err().to_string();
         assert!(
             e.contains("salting-out parameter \"Xx\"") && e.contains("not an ion symbol"),

@@ -346,10 +346,17 @@ fn per_volume(error: ScienceError, unit: CompositionUnit, span: Span) -> EvalErr
 /// A science error from evaluating a curve, with temperatures in °C.
 pub fn curve_error(error: ScienceError, solute: &Solute, span: Span) -> EvalError {
     match error {
+        // Data of one temperature: the same words with or without `extrapolate`.
         ScienceError::OutOfRange {
             t_k,
             t_min_k,
             t_max_k,
+        }
+        | ScienceError::NoTrend {
+            t_k,
+            t_min_k,
+            t_max_k,
+            ..
         } if t_min_k == t_max_k => EvalError::OutOfRange {
             message: format!(
                 "{} C is outside the data for {}, which hold one temperature only ({} C): one point gives no trend to extrapolate from",
@@ -379,23 +386,14 @@ pub fn curve_error(error: ScienceError, solute: &Solute, span: Span) -> EvalErro
             t_min_k,
             t_max_k,
         } => EvalError::OutOfRange {
-            message: if t_min_k == t_max_k {
-                format!(
-                    "{} C is outside the data for {}, which hold one temperature only ({} C): one point gives no trend to extrapolate from",
-                    celsius_text(t_k),
-                    solute.name,
-                    celsius(t_min_k)
-                )
-            } else {
-                format!(
-                    "{} C is beyond the data for {} ({} C to {} C), whose end at {} C is a single point: it gives no trend to extrapolate from",
-                    celsius_text(t_k),
-                    solute.name,
-                    celsius(t_min_k),
-                    celsius(t_max_k),
-                    celsius(end_k)
-                )
-            },
+            message: format!(
+                "{} C is beyond the data for {} ({} C to {} C), whose end at {} C is a single point: it gives no trend to extrapolate from",
+                celsius_text(t_k),
+                solute.name,
+                celsius(t_min_k),
+                celsius(t_max_k),
+                celsius(end_k)
+            ),
             span,
         },
         ScienceError::InGap {

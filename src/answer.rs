@@ -70,6 +70,10 @@ impl AnswerKind {
 
 pub use crate::science::curve::Basis;
 
+/// The quantity of a row that gives the temperature below which ice appears (its figure, in
+/// °C).
+pub const ICE_ROW: &str = "ice appears on cooling below";
+
 /// One row of an answer. Fields that do not apply to a kind of answer are absent from JSON.
 #[derive(Debug, Clone, Default, PartialEq, Serialize, utoipa::ToSchema)]
 pub struct Row {

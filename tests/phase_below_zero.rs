@@ -178,3 +178,59 @@ fn a_screening_from_below_zero_fails_a_solute_whose_loading_freezes_in_the_range
     assert_eq!(kcl.holds, None);
     assert!(kcl.extra["reason"].as_str().unwrap().contains("ice"));
 }
+
+#[test]
+fn ice_in_the_range_decides_though_the_data_stop_above_the_range() {
+    // A de-icing brine asked about down to −30 C: 20 %w/w NaCl freezes near −16.5 C (the
+    // seed's CRC freezing table), above the end of NaCl's data (−21.1 C, its eutectic). The
+    // requirement fails at the ice line; the salt is checked from there up, where the
+    // liquid is the recipe as made. The old answer refused: −30 C outside the data.
+    let a = run("require recipe 20 %w/w NaCl stays dissolved from -30 C to 30 C");
+    assert!(a.ok, "{:?}", a.error);
+    assert_eq!(a.holds, Some(false));
+    let ice = row_value(&a, "ice appears on cooling below").unwrap();
+    assert!(ice > -17.0 && ice < -16.0, "{ice}");
+    let salt = a
+        .rows
+        .iter()
+        .find(|r| r.solute.as_deref() == Some("sodium chloride"))
+        .unwrap();
+    assert_eq!(salt.holds, Some(true));
+    assert_eq!(salt.temperature_c, Some(ice));
+    assert_eq!(
+        a.shortfall.as_deref(),
+        Some(format!("ice appears below {ice} C").as_str())
+    );
+
+    // 10 %w/w MgCl2 freezes at −8.28 C (Melinder's table), and MgCl2's solubility data
+    // start at 0 C: the salt cannot be checked down to the ice line, but ice forms in the
+    // range, so the requirement fails whatever the salt does. Alike for a loading asked
+    // of the solute itself.
+    for statement in [
+        "require recipe 10 %w/w MgCl2 stays dissolved from -20 C to 30 C",
+        "require MgCl2 stays dissolved at 10 %w/w from -20 C to 30 C",
+    ] {
+        let a = run(statement);
+        assert!(a.ok, "{statement}: {:?}", a.error);
+        assert_eq!(a.holds, Some(false), "{statement}");
+        let salt = a
+            .rows
+            .iter()
+            .find(|r| {
+                r.solute.as_deref() == Some("magnesium chloride") && r.extra.contains_key("reason")
+            })
+            .unwrap();
+        assert_eq!(salt.extra["forms"], "not evaluated", "{statement}");
+        assert!(
+            salt.extra["reason"]
+                .as_str()
+                .unwrap()
+                .contains("outside the data")
+        );
+    }
+
+    // Where no ice forms in the range, a range beyond the data is refused as before.
+    let a = run("require recipe 10 %w/w MgCl2 stays dissolved from -5 C to 30 C");
+    assert!(!a.ok);
+    assert!(a.error.unwrap().message.contains("outside the data"));
+}

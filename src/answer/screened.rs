@@ -333,7 +333,7 @@ impl ScreenTable {
         match r.finding() {
             Finding::Ice => Row {
                 solute: Some(solute),
-                quantity: Some(Cow::Borrowed("ice appears on cooling below")),
+                quantity: Some(Cow::Borrowed(crate::answer::ICE_ROW)),
                 value: Some(temperature_c),
                 unit: Some(Cow::Borrowed("C")),
                 basis: Some(r.basis),

@@ -14,7 +14,7 @@
 
 use serde_json::json;
 
-use crate::answer::{Answer, Basis, Row};
+use crate::answer::{Answer, Basis, ICE_ROW, Row};
 use crate::engine::CAUTION;
 use crate::engine::buffer::{PH_CAVEAT, cite_acid};
 use crate::engine::common::celsius;
@@ -417,7 +417,7 @@ pub fn freezing(
     ));
     match onset {
         Some(t_ice) => answer.rows.push(Row {
-            quantity: Some("ice appears on cooling below".into()),
+            quantity: Some(ICE_ROW.into()),
             value: Some(round_significant(celsius(t_ice), 3)),
             unit: Some("C".into()),
             basis: Some(Basis::Computed),

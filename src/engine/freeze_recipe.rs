@@ -11,7 +11,7 @@ use std::collections::BTreeMap;
 
 use serde_json::json;
 
-use crate::answer::{Answer, Basis, Row};
+use crate::answer::{Answer, Basis, ICE_ROW, Row};
 use crate::engine::common::{celsius, value};
 use crate::engine::error::EvalError;
 use crate::engine::mixture::{Ask, EachOnItsOwn, IceLine, Mixture, SolidModel};
@@ -125,7 +125,7 @@ pub fn onset(
     let answer = ask.answer;
     answer.rows.push(Row {
         solute: Some(title),
-        quantity: Some("ice appears on cooling below".into()),
+        quantity: Some(ICE_ROW.into()),
         value: Some(celsius(t_k)),
         unit: Some("C".into()),
         basis: Some(Basis::Computed),

@@ -1,9 +1,11 @@
 //! Statements below 0 °C: `freezing` (the ice line, the first solid, the liquid left as
 //! ice forms) and the sub-zero part of `require` (ice before salt, from the eutectic up).
 
+use std::collections::BTreeMap;
+
 use serde_json::json;
 
-use crate::answer::{Answer, Basis, Row};
+use crate::answer::{Answer, Basis, ICE_ROW, Row};
 use crate::engine::CAUTION;
 use crate::engine::common::{
     celsius, cite_curve, cite_source, cite_typed, curve_error, hazard, in_loading_unit, resolve,
@@ -134,12 +136,9 @@ pub fn freezing(snap: &Snapshot, s: &Freezing, answer: &mut Answer) -> Result<()
                 let ice = system
                     .ice_line(w)
                     .map_err(|e| curve_error(e, solute, s.loading.span))?;
-                answer.rows.push(t_row(
-                    solute,
-                    "ice appears on cooling below",
-                    ice.t_k,
-                    ice_basis(ice.basis),
-                ));
+                answer
+                    .rows
+                    .push(t_row(solute, ICE_ROW, ice.t_k, ice_basis(ice.basis)));
                 ice_caveats(snap, &system, &ice, solute, answer);
             }
         }
@@ -151,12 +150,9 @@ pub fn freezing(snap: &Snapshot, s: &Freezing, answer: &mut Answer) -> Result<()
                 }
             })?;
             if let Some(ice) = &check.ice {
-                answer.rows.push(t_row(
-                    solute,
-                    "ice appears on cooling below",
-                    ice.t_k,
-                    ice_basis(ice.basis),
-                ));
+                answer
+                    .rows
+                    .push(t_row(solute, ICE_ROW, ice.t_k, ice_basis(ice.basis)));
                 ice_caveats(snap, &system, ice, solute, answer);
             }
             if let Some(reason) = &check.ice_unknown {
@@ -299,6 +295,23 @@ pub fn ice_line_alone(ask: &mut Ask, index: usize) -> Result<(f64, Basis), Strin
     Ok((ice.t_k, ice_basis(ice.basis)))
 }
 
+/// A solute whose solid cannot be checked down to the ice line of a requirement where ice
+/// forms in the range: the requirement fails whatever the solute does, so it is named with
+/// the reason (a row and a caveat) rather than refused.
+pub fn unchecked_above_ice(solute: &Solute, why: &EvalError, answer: &mut Answer) {
+    answer.rows.push(Row {
+        extra: BTreeMap::from([
+            ("forms".to_string(), json!("not evaluated")),
+            ("reason".to_string(), json!(why.to_string())),
+        ]),
+        ..row(solute, "solubility at the limiting temperature")
+    });
+    answer.caveat(format!(
+        "{}: its own curve could not be checked down to the ice line (its row gives the reason); ice forms in the range, so the requirement does not hold whatever it does",
+        solute.name
+    ));
+}
+
 /// The sub-zero part of `require`: for a range reaching below 0 °C, the ice line of the
 /// loading decides where the liquid stops being the loading's. Returns the temperature
 /// from which the salt's own curve must be checked (the ice line, or the range's low end
@@ -332,7 +345,7 @@ pub fn require_below_zero(
                 value: Some(celsius(ice.t_k)),
                 unit: Some("C".into()),
                 basis: Some(ice_basis(ice.basis)),
-                ..row(solute, "ice appears on cooling below")
+                ..row(solute, ICE_ROW)
             });
             match eutectic {
                 Some((_, te)) => answer.caveat(format!(

@@ -10,7 +10,7 @@ use std::collections::BTreeMap;
 
 use serde_json::json;
 
-use crate::answer::{Answer, Basis, Row};
+use crate::answer::{Answer, Basis, ICE_ROW, Row};
 use crate::engine::CAUTION;
 use crate::engine::buffer;
 use crate::engine::common::{bounds, celsius, phase_caveat, resolve, value};
@@ -377,16 +377,16 @@ fn define(ask: &mut Ask, recipe: &Recipe) -> Result<(), EvalError> {
     Ok(())
 }
 
-/// The ice line's part of a range reaching below 0 °C: whether ice forms in it (a row and a
-/// caveat), or a refusal when it cannot be said.
+/// The ice line's part of a range reaching below 0 °C: where ice forms in it, if it does (a
+/// row and a caveat), or a refusal when it cannot be said.
 fn ice_in_range(
     ask: &mut Ask,
     model: &dyn SolidModel,
     t1: f64,
     span: Span,
-) -> Result<bool, EvalError> {
+) -> Result<Option<f64>, EvalError> {
     if t1 >= ICE_POINT {
-        return Ok(false);
+        return Ok(None);
     }
     match model.ice_line(ask) {
         IceLine::At { t_k, how, basis } => {
@@ -394,14 +394,14 @@ fn ice_in_range(
             let forms = t_k > t1;
             ask.answer.rows.push(Row {
                 solute: Some("ice".into()),
-                quantity: Some("ice appears on cooling below".into()),
+                quantity: Some(ICE_ROW.into()),
                 value: Some(celsius(t_k)),
                 unit: Some("C".into()),
                 basis: Some(basis),
                 holds: Some(!forms),
                 ..Row::default()
             });
-            Ok(forms)
+            Ok(forms.then_some(t_k))
         }
         IceLine::NotEvaluated(why) => Err(EvalError::Unanswerable {
             message: format!(
@@ -409,6 +409,24 @@ fn ice_in_range(
             ),
             span,
         }),
+    }
+}
+
+/// The part of the range where the liquid is the recipe as made: all of it, or from the ice
+/// line up when ice forms in it (below the ice line ice takes water out of the liquid, and a
+/// solute's amount per kg of water is no longer the recipe's; `freezing of NAME at T`
+/// follows that). Says so when it cuts the range.
+fn above_the_ice(answer: &mut Answer, at: Limits, ice: Option<f64>) -> Limits {
+    let Some(t_ice) = ice else {
+        return at;
+    };
+    answer.caveat(format!(
+        "the solutes are checked from the ice line ({} C) up: below it ice takes water out of the liquid, which is then no longer the recipe as made (`freezing of NAME at T` follows it)",
+        celsius(t_ice)
+    ));
+    Limits {
+        t1: t_ice.min(at.t2),
+        ..at
     }
 }
 
@@ -420,10 +438,21 @@ fn require(
     at: Limits,
     span: Span,
 ) -> Result<(), EvalError> {
-    let mut all_hold = !ice_in_range(ask, model, at.t1, span)?;
+    let ice = ice_in_range(ask, model, at.t1, span)?;
+    let mut all_hold = ice.is_none();
+    let above_ice = above_the_ice(ask.answer, at, ice);
     for index in 0..ask.mixture.solutes.len() {
         let solute = ask.mixture.solutes[index].0;
-        let screening = model.check(ask, index, at)?;
+        let screening = match model.check(ask, index, above_ice) {
+            Ok(screening) => screening,
+            // Ice forms in the range: the requirement fails whatever this solute does, so a
+            // solute that cannot be checked down to the ice line is named, not a refusal.
+            Err(e) if ice.is_some() => {
+                crate::engine::freezing::unchecked_above_ice(solute, &e, ask.answer);
+                continue;
+            }
+            Err(e) => return Err(e),
+        };
         all_hold &= screening.holds;
         let r = screening.limiting_mass_fraction / (1.0 - screening.limiting_mass_fraction);
         phase_caveat(&screening.phase, ask.answer);
@@ -465,9 +494,10 @@ fn require(
     Ok(())
 }
 
-/// The ice row of `which solids form`, for a range reaching below 0 °C.
-fn ice_row(model: &dyn SolidModel, ask: &mut Ask, t1: f64) -> Row {
-    let (temperature_c, holds, extra) = match model.ice_line(ask) {
+/// The ice row of `which solids form`, for a range reaching below 0 °C, and the ice line when
+/// ice forms in the range.
+fn ice_row(model: &dyn SolidModel, ask: &mut Ask, t1: f64) -> (Row, Option<f64>) {
+    let (temperature_c, holds, extra, ice) = match model.ice_line(ask) {
         IceLine::At { t_k, how, .. } => {
             ask.answer.caveat(how);
             let forms = if t_k > t1 {
@@ -479,6 +509,7 @@ fn ice_row(model: &dyn SolidModel, ask: &mut Ask, t1: f64) -> Row {
                 Some(celsius(t_k)),
                 Some(t_k <= t1),
                 BTreeMap::from([("forms".to_string(), json!(forms))]),
+                (t_k > t1).then_some(t_k),
             )
         }
         IceLine::NotEvaluated(why) => (
@@ -488,9 +519,10 @@ fn ice_row(model: &dyn SolidModel, ask: &mut Ask, t1: f64) -> Row {
                 ("forms".to_string(), json!("not evaluated")),
                 ("reason".to_string(), json!(why)),
             ]),
+            None,
         ),
     };
-    Row {
+    let row = Row {
         solute: Some("ice".into()),
         quantity: Some("solid".into()),
         phase: Some("ice".into()),
@@ -498,7 +530,8 @@ fn ice_row(model: &dyn SolidModel, ask: &mut Ask, t1: f64) -> Row {
         holds,
         extra,
         ..Row::default()
-    }
+    };
+    (row, ice)
 }
 
 /// Where a solute's solid appears within the limits, in words: `no`, `over the whole
@@ -560,13 +593,15 @@ fn first_on_cooling(rows: &[Row], top_c: f64) -> Option<Row> {
 /// first solid to appear on cooling.
 fn solids_form(ask: &mut Ask, model: &dyn SolidModel, at: Limits) -> Result<(), EvalError> {
     let first_row = ask.answer.rows.len();
+    let mut checked = at;
     if at.t1 < ICE_POINT {
-        let row = ice_row(model, ask, at.t1);
+        let (row, ice) = ice_row(model, ask, at.t1);
         ask.answer.rows.push(row);
+        checked = above_the_ice(ask.answer, at, ice);
     }
     for index in 0..ask.mixture.solutes.len() {
         let solute = ask.mixture.solutes[index].0;
-        let screening = match model.check(ask, index, at) {
+        let screening = match model.check(ask, index, checked) {
             Ok(screening) => screening,
             Err(e) => {
                 ask.answer.rows.push(Row {
@@ -593,7 +628,7 @@ fn solids_form(ask: &mut Ask, model: &dyn SolidModel, at: Limits) -> Result<(), 
             extra: BTreeMap::from([
                 (
                     "forms".to_string(),
-                    json!(forms_in(&screening, &crossings, at)),
+                    json!(forms_in(&screening, &crossings, checked)),
                 ),
                 (
                     "loading_g_per_100g_water".to_string(),

@@ -5,7 +5,7 @@ use std::collections::BTreeMap;
 
 use serde_json::json;
 
-use crate::answer::{Answer, Basis, Row};
+use crate::answer::{Answer, Basis, ICE_ROW, Row};
 use crate::engine::CAUTION;
 use crate::engine::common;
 use crate::engine::common::{
@@ -127,8 +127,21 @@ pub fn require(snap: &Snapshot, s: &Require, answer: &mut Answer) -> Result<(), 
         (t1, false)
     };
     let screening =
-        solve::stays_dissolved_with(&built.curve, w, from, t2, margin, s.options.extrapolate)
-            .map_err(|e| curve_error(e, solute, s.temperatures.span()))?;
+        match solve::stays_dissolved_with(&built.curve, w, from, t2, margin, s.options.extrapolate)
+            .map_err(|e| curve_error(e, solute, s.temperatures.span()))
+        {
+            Ok(screening) => screening,
+            // Ice forms in the range: the requirement fails whatever the salt does.
+            Err(e) if ice_forms => {
+                crate::engine::freezing::unchecked_above_ice(solute, &e, answer);
+                answer.holds = Some(false);
+                answer.shortfall = shortfall(&answer.rows);
+                cite_curve(snap, built, solute, answer);
+                answer.caveat(CAUTION);
+                return Ok(());
+            }
+            Err(e) => return Err(e),
+        };
     let saturated = in_loading_unit(
         snap,
         screening.limiting_mass_fraction,
@@ -167,7 +180,7 @@ pub fn require(snap: &Snapshot, s: &Require, answer: &mut Answer) -> Result<(), 
             shown(needed, 4)
         ));
     }
-    if !screening.holds {
+    if !answer.holds.unwrap_or(true) {
         answer.shortfall = shortfall(&answer.rows);
     }
     phase_caveat(&screening.phase, answer);
@@ -196,6 +209,11 @@ pub(crate) fn shortfall(rows: &[Row]) -> Option<String> {
             a.total_cmp(&b)
         })
         .or_else(|| rows.first())?;
+    if limiting.quantity.as_deref() == Some(ICE_ROW) {
+        return limiting
+            .value
+            .map(|t| format!("ice appears below {} C", figure(t)));
+    }
     let mut parts = Vec::new();
     if let Some(solute) = &limiting.solute {
         parts.push(solute.clone());

@@ -7,14 +7,17 @@
 //! mixture's salts together ([`crate::engine::pitzer_solids`]), chosen by [`model_for`]
 //! when one parameter system holds every ion over the temperatures asked; otherwise
 //! [`EachOnItsOwn`]: every solute against its own pure-water solubility curve at its amount
-//! per kg of the mixture's water, which ignores common-ion and salting effects.
+//! per kg of the mixture's water, a salt sharing an ion with another solute also by the
+//! ideal common-ion estimate ([`crate::engine::common_ion`]); salting effects are left out.
 
 use crate::answer::{Answer, Basis};
 use crate::engine::common::{cite_curve, curve_error, curve_of};
+use crate::engine::common_ion::{self, Reading};
 use crate::engine::error::EvalError;
 use crate::engine::snapshot::Snapshot;
 use crate::model::{Solute, SoluteKind};
 use crate::query::{Name, Options};
+use crate::science::bisect::{Until, try_bisect};
 use crate::science::freezing::{DILUTE_IONS, ICE_POINT, KF_WATER, molality, within_dilute_limit};
 use crate::science::solve::{self, Crossing, Screening};
 
@@ -102,8 +105,7 @@ pub trait SolidModel {
 pub struct EachOnItsOwn;
 
 /// The caveat of [`EachOnItsOwn`].
-pub const EACH_ON_ITS_OWN: &str =
-    "each solute checked on its own; interactions between solutes not accounted for";
+pub const EACH_ON_ITS_OWN: &str = "each solute checked against its own solubility in pure water, a salt sharing an ion with another solute also by the ideal common-ion estimate (the lower decides); other interactions between solutes not accounted for";
 
 fn entry<'m, 'a>(
     mixture: &'m Mixture<'a>,
@@ -123,6 +125,9 @@ impl SolidModel for EachOnItsOwn {
         EACH_ON_ITS_OWN.to_string()
     }
 
+    /// The solute's own curve over the range; for a salt sharing an ion with another solute,
+    /// also the ideal common-ion estimate at every temperature of a scan at most 1 K apart
+    /// (and at the own curve's limiting temperature), the lower deciding.
     fn check(&self, ask: &mut Ask, index: usize, at: Limits) -> Result<Screening, EvalError> {
         let (solute, name) = entry(ask.mixture, index)?;
         let built = curve_of(ask.snap, solute, name, ask.options)?;
@@ -132,15 +137,60 @@ impl SolidModel for EachOnItsOwn {
             solve::stays_dissolved_with(&built.curve, w, at.t1, at.t2, at.margin, extrapolate)
                 .map_err(|e| curve_error(e, solute, name.span))?;
         cite_curve(ask.snap, built, solute, ask.answer);
-        Ok(screening)
+        let Some(shared) = common_ion::shared(ask.mixture, index) else {
+            return Ok(screening);
+        };
+        let mut worst: Option<(f64, Reading)> = None;
+        let mut temperatures = grid(at.t1, at.t2);
+        temperatures.push(screening.limiting_t_k);
+        for t in temperatures {
+            let reading = shared
+                .at(&built.curve, t, extrapolate)
+                .map_err(|e| curve_error(e, solute, name.span))?;
+            if worst.as_ref().is_none_or(|(_, w)| reading.here < w.here) {
+                worst = Some((t, reading));
+            }
+        }
+        let Some((t_k, reading)) = worst.filter(|(_, r)| r.estimated) else {
+            return Ok(screening);
+        };
+        ask.answer.caveat(common_ion::METHOD);
+        ask.answer
+            .caveat(shared.caveat(&solute.name, t_k, &reading));
+        let m = ask.mixture.molality(index);
+        let r = shared.per_100g(reading.here) / 100.0;
+        Ok(Screening {
+            holds: reading.here >= m * (1.0 + at.margin),
+            limiting_t_k: t_k,
+            phase: reading.phase,
+            limiting_mass_fraction: r / (1.0 + r),
+            headroom_pct: (reading.here / m - 1.0) * 100.0,
+            basis: reading.basis,
+        })
     }
 
+    /// The solute's own crossings; for a salt sharing an ion with another solute, where the
+    /// lower of its own curve and the common-ion estimate crosses its amount (a scan at most
+    /// 1 K apart over the curve's range, each crossing bisected to 1e-4 K).
     fn saturation(&self, ask: &mut Ask, index: usize) -> Result<Vec<Crossing>, EvalError> {
         let (solute, name) = entry(ask.mixture, index)?;
         let built = curve_of(ask.snap, solute, name, ask.options)?;
         let w = ask.mixture.alone(index);
         if w == 0.0 {
             return Ok(Vec::new());
+        }
+        if let Some(shared) = common_ion::shared(ask.mixture, index) {
+            let m = ask.mixture.molality(index);
+            let crossings = common_ion_crossings(&shared, &built.curve, m, ask.options.extrapolate)
+                .map_err(|e| curve_error(e, solute, name.span))?;
+            ask.answer.caveat(common_ion::METHOD);
+            ask.answer.caveat(format!(
+                "{} shares {} with other solutes of the recipe: its saturation temperatures are where the lower of its own curve and the common-ion estimate meets its amount",
+                solute.name,
+                shared.ions.join(" and ")
+            ));
+            cite_curve(ask.snap, built, solute, ask.answer);
+            return Ok(crossings);
         }
         let crossings =
             solve::saturation_temperatures_with(&built.curve, w, ask.options.extrapolate)
@@ -174,6 +224,52 @@ impl SolidModel for EachOnItsOwn {
             }
         }
     }
+}
+
+/// Temperatures from `t1` to `t2` (K), at most 1 K apart, both ends included.
+pub fn grid(t1: f64, t2: f64) -> Vec<f64> {
+    let n = ((t2 - t1).abs().ceil() as usize).clamp(1, 400);
+    (0..=n)
+        .map(|k| t1 + (t2 - t1) * k as f64 / n as f64)
+        .collect()
+}
+
+/// Where a salt's solubility in the recipe (the lower of its own curve and the common-ion
+/// estimate) crosses its amount `m` (mol/kg water), over the curve's range.
+fn common_ion_crossings(
+    shared: &common_ion::Shared,
+    curve: &crate::science::curve::Curve,
+    m: f64,
+    extrapolate: bool,
+) -> Result<Vec<Crossing>, crate::science::ScienceError> {
+    let (lo, hi) = if extrapolate {
+        curve.extrapolation_window()
+    } else {
+        curve.temperature_range()
+    };
+    let over = |t: f64| shared.at(curve, t, extrapolate).map(|r| m > r.here);
+    let ts = grid(lo, hi);
+    let mut out = Vec::new();
+    let mut prev = (ts[0], over(ts[0])?);
+    for &t in &ts[1..] {
+        let now = over(t)?;
+        if now != prev.1 {
+            let below = prev.1;
+            let t_k = try_bisect(prev.0, t, Until::Width(1e-4), |x| {
+                over(x).map(|o| o == below)
+            })?
+            .mid();
+            let reading = shared.at(curve, t_k, extrapolate)?;
+            out.push(Crossing {
+                t_k,
+                phase: reading.phase,
+                rising: below,
+                basis: reading.basis,
+            });
+        }
+        prev = (t, now);
+    }
+    Ok(out)
 }
 
 impl EachOnItsOwn {

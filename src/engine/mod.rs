@@ -14,6 +14,7 @@ mod basis;
 pub mod buffer;
 mod buffer_freeze;
 mod common;
+mod common_ion;
 mod corroboration;
 mod dissolving;
 mod echo;

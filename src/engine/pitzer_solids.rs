@@ -16,7 +16,7 @@
 
 use crate::engine::common::{celsius, cite_curve, cite_source, curve_error, curve_of};
 use crate::engine::error::EvalError;
-use crate::engine::mixture::{Ask, IceLine, Limits, Mixture, SolidModel};
+use crate::engine::mixture::{Ask, IceLine, Limits, Mixture, SolidModel, grid};
 use crate::engine::snapshot::Snapshot;
 use crate::model::SoluteKind;
 use crate::science::ScienceError;
@@ -167,14 +167,6 @@ fn ionic_strength(system: &System, molalities: &[f64]) -> f64 {
         .zip(molalities)
         .map(|((_, z), m)| m * f64::from(z * z))
         .sum::<f64>()
-}
-
-/// Temperatures from `t1` to `t2` (K), at most 1 K apart, both ends included.
-fn grid(t1: f64, t2: f64) -> Vec<f64> {
-    let n = ((t2 - t1).abs().ceil() as usize).clamp(1, 400);
-    (0..=n)
-        .map(|k| t1 + (t2 - t1) * k as f64 / n as f64)
-        .collect()
 }
 
 fn unanswerable(message: String) -> EvalError {

@@ -5,6 +5,7 @@ pub mod acid_base;
 pub mod activity;
 pub mod bisect;
 pub mod bounds;
+pub mod common_ion;
 pub mod curve;
 pub mod density;
 pub mod dissolving;

@@ -90,6 +90,56 @@ fn migrates_from_each_earlier_version_keeping_the_data() {
 }
 
 #[test]
+fn density_coefficients_survive_the_rebuild_that_lets_a_set_reach_the_pure_liquid() {
+    // Migration 6 rebuilds `density_coefficients` (its CHECK now allows w_max = 1): a set
+    // written at version 5 is there after it, and a set reaching w = 1 is then accepted.
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("five.db");
+    {
+        let conn = rusqlite::Connection::open(&path).unwrap();
+        for m in &MIGRATIONS[..5] {
+            conn.execute_batch(m.sql).unwrap();
+        }
+        conn.pragma_update(None, "user_version", 5).unwrap();
+        conn.execute_batch(
+            "INSERT INTO sources (key, kind, title, authors) VALUES ('old', 'other', 'Invented', 'nobody');
+             INSERT INTO solutes (id, name, formula, kind, molar_mass, ions) VALUES ('salt-x', 'salt x', 'NaCl', 'salt', 58.44, 2);
+             INSERT INTO solutes (id, name, formula, kind, molar_mass, ions) VALUES ('liquid-y', 'liquid y', 'C2H4O2', 'molecular', 60.05, 1);
+             INSERT INTO density_coefficients (solute, source, c0, c1, c2, c3, c4, t_min_c, t_max_c, w_max, provenance, review, note)
+                 VALUES ('salt-x', 'old', 1, 2, 3, 4, 5, 0, 50, 0.25, 'compiled', 'unreviewed', 'kept');",
+        )
+        .unwrap();
+        let refused = conn.execute(
+            "INSERT INTO density_coefficients (solute, source, c0, c1, c2, c3, c4, t_min_c, t_max_c, w_max, provenance, review)
+                 VALUES ('liquid-y', 'old', 1, 2, 3, 4, 5, 0, 50, 1, 'compiled', 'unreviewed')",
+            [],
+        );
+        assert!(refused.is_err(), "version 5 refuses w_max = 1");
+    }
+    drop(Store::open(&path).unwrap());
+    let conn = rusqlite::Connection::open(&path).unwrap();
+    let kept: (f64, f64, String) = conn
+        .query_row(
+            "SELECT c4, w_max, note FROM density_coefficients WHERE solute = 'salt-x'",
+            [],
+            |r| Ok((r.get(0)?, r.get(1)?, r.get(2)?)),
+        )
+        .unwrap();
+    assert_eq!(kept, (5.0, 0.25, "kept".to_string()));
+    conn.execute(
+        "INSERT INTO density_coefficients (solute, source, c0, c1, c2, c3, c4, t_min_c, t_max_c, w_max, provenance, review)
+             VALUES ('liquid-y', 'old', 1, 2, 3, 4, 5, 0, 50, 1, 'compiled', 'unreviewed')",
+        [],
+    )
+    .unwrap();
+    let above = conn.execute(
+        "UPDATE density_coefficients SET w_max = 1.5 WHERE solute = 'liquid-y'",
+        [],
+    );
+    assert!(above.is_err(), "above 1 is still refused");
+}
+
+#[test]
 fn a_newer_schema_is_refused_naming_both_versions() {
     let dir = tempfile::tempdir().unwrap();
     let path = dir.path().join("future.db");

@@ -119,10 +119,11 @@ pub fn parse(
                 ),
             ));
         }
-        if !(d.w_max > 0.0 && d.w_max < 1.0) {
+        // A liquid miscible with water (acetic acid) is fitted up to itself: w_max = 1.
+        if !(d.w_max > 0.0 && d.w_max <= 1.0) {
             return Err(out_of_range(
                 &record,
-                &format!("w_max {} must lie between 0 and 1", d.w_max),
+                &format!("w_max {} must be above 0 and at most 1", d.w_max),
             ));
         }
         out.push(DensityCoefficients {

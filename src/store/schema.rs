@@ -34,6 +34,7 @@ pub const MIGRATIONS: &[Migration] = &[
     migration!(3, "0003_density_coefficients"),
     migration!(4, "0004_corroboration_checks"),
     migration!(5, "0005_thermochemistry"),
+    migration!(6, "0006_density_up_to_the_pure_liquid"),
 ];
 
 /// The schema version this binary writes and reads.

@@ -2,7 +2,8 @@
 implements M. Laliberté, J. Chem. Eng. Data 54 (2009) 1725 with the published coefficients
 of its data file), for every solute seed-data/densities.toml holds: at 0, 20 and 40 °C where
 that temperature lies in the solute's fitted range and at the ends of that range (some sets
-cover only a few kelvin), over its valid mass fractions; and a few
+cover only a few kelvin), over its valid mass fractions (up to 0.95 for a set fitted up to
+the pure liquid, w_max = 1, since satline refuses a "solution" of no water); and a few
 mixtures, for the additive rule.
 """
 import os
@@ -36,8 +37,9 @@ def densities():
     for d in sets:
         inside = [t for t in (0.0, 20.0, 40.0) if d["t_min"] <= t <= d["t_max"]]
         for t_c in sorted(set(inside + [float(d["t_min"]), float(d["t_max"])])):
+            top = d["w_max"] if d["w_max"] < 1.0 else 0.95
             for k in range(0, 9):
-                w = d["w_max"] * k / 8.0
+                w = top * k / 8.0
                 rho = electrochem.Laliberte_density(t_c + 273.15, [w], [by_solute[d["solute"]]])
                 rows.append({"solutes": [d["solute"]], "w": [w], "t_c": t_c, "kg_per_m3": float(rho)})
     for solutes, ws in MIXTURES:

@@ -235,19 +235,19 @@ pub fn grid(t1: f64, t2: f64) -> Vec<f64> {
 }
 
 /// Where a salt's solubility in the recipe (the lower of its own curve and the common-ion
-/// estimate) crosses its amount `m` (mol/kg water), over the curve's range.
+/// estimate) crosses its amount `m` (mol/kg water), over the data's range.
 fn common_ion_crossings(
     shared: &common_ion::Shared,
     curve: &crate::science::curve::Curve,
     m: f64,
     extrapolate: bool,
 ) -> Result<Vec<Crossing>, crate::science::ScienceError> {
-    let (lo, hi) = if extrapolate {
-        curve.extrapolation_window()
-    } else {
-        curve.temperature_range()
-    };
-    let over = |t: f64| shared.at(curve, t, extrapolate).map(|r| m > r.here);
+    // As for a solute alone (`solve::saturation_temperatures_with`): the data's range is
+    // searched, through gaps between branches on their end tangents (as `Curve::evaluate`
+    // reads them when extrapolating), and a crossing in a gap is kept only with
+    // `extrapolate`.
+    let (lo, hi) = curve.temperature_range();
+    let over = |t: f64| shared.at(curve, t, true).map(|r| m > r.here);
     let ts = grid(lo, hi);
     let mut out = Vec::new();
     let mut prev = (ts[0], over(ts[0])?);
@@ -259,7 +259,11 @@ fn common_ion_crossings(
                 over(x).map(|o| o == below)
             })?
             .mid();
-            let reading = shared.at(curve, t_k, extrapolate)?;
+            if !extrapolate && !curve.covers(t_k) {
+                prev = (t, now);
+                continue;
+            }
+            let reading = shared.at(curve, t_k, true)?;
             out.push(Crossing {
                 t_k,
                 phase: reading.phase,

@@ -437,3 +437,48 @@ fn a_density_read_a_few_kelvin_from_the_volume_is_said_and_farther_is_refused() 
     let message = &far[0].error.as_ref().expect("refused").message;
     assert!(message.contains("cover 25 C to 45 C, not 5 C"), "{message}");
 }
+
+#[test]
+fn a_liquid_that_mixes_with_water_has_no_limit_and_its_ice_line_decides() {
+    // 30 %w/w propylene glycol, a heat-transfer fluid: it was refused ("no saturation limit
+    // to give"). Its freezing point, −12.79 C, is Melinder's fitted curve (the seed's table,
+    // entered from CoolProp's copy of it).
+    let a = answers(
+        "require recipe 30 %w/w propylene glycol stays dissolved from -20 C to 20 C\n\
+         require recipe 30 %w/w propylene glycol stays dissolved from -10 C to 20 C\n\
+         saturation of recipe 2.5 %w/w glycerol, 0.5 %w/w boric acid\n\
+         which solids form in recipe 40 %w/w ethylene glycol from -30 C to 20 C",
+    );
+    for answer in &a {
+        assert!(answer.ok, "{}: {:?}", answer.statement, answer.error);
+    }
+    assert_eq!(a[0].holds, Some(false));
+    assert_eq!(
+        a[0].shortfall.as_deref(),
+        Some("ice appears below -12.79 C")
+    );
+    assert_eq!(a[1].holds, Some(true));
+    let glycol = a[1]
+        .rows
+        .iter()
+        .find(|r| r.solute.as_deref() == Some("propylene glycol"))
+        .unwrap();
+    assert_eq!(glycol.holds, Some(true));
+    assert!(glycol.extra["forms"].as_str().unwrap().contains("miscible"));
+    assert!(a[1].sources.iter().any(|s| s.key == "melinder-2010"));
+    // Beside another solute, the answer says that a co-solvent is not accounted for.
+    assert!(
+        a[2].caveats
+            .iter()
+            .any(|c| c.starts_with("glycerol mixes with water in all proportions")),
+        "{:?}",
+        a[2].caveats
+    );
+    let first = a[3]
+        .rows
+        .iter()
+        .find(|r| r.quantity.as_deref() == Some("first solid on cooling"))
+        .unwrap();
+    assert_eq!(first.solute.as_deref(), Some("ice"));
+    assert_eq!(first.temperature_c, Some(-23.81));
+}

@@ -430,6 +430,38 @@ fn above_the_ice(answer: &mut Answer, at: Limits, ice: Option<f64>) -> Limits {
     }
 }
 
+/// What a solute that mixes with water in all proportions (and has no solubility data) is
+/// said to form: none — it has no saturation limit, and stays in the liquid.
+const MISCIBLE: &str = "none: mixes with water in all proportions (miscible)";
+
+/// True for a solute that mixes with water in all proportions and has no solubility data:
+/// no solid of its own is checked (only ice, below 0 °C).
+fn miscible(snap: &Snapshot, solute: &Solute) -> bool {
+    solute.tags.iter().any(|t| t == "miscible") && snap.curve(&solute.id, false).is_none()
+}
+
+/// The row of a miscible solute, and the caveat on the solutes beside it (once).
+fn miscible_row(ask: &mut Ask, solute: &Solute, quantity: &'static str, key: &str) -> Row {
+    let others = ask
+        .mixture
+        .solutes
+        .iter()
+        .filter(|(s, _)| !miscible(ask.snap, s))
+        .count();
+    crate::engine::common::hazard(solute, ask.answer);
+    if others > 0 {
+        ask.answer.caveat(format!(
+            "{} mixes with water in all proportions and stays in the liquid; the other solutes are read against their solubility in pure water, and a salt is usually less soluble in water mixed with an organic liquid (not accounted for: confirm by test)",
+            solute.name
+        ));
+    }
+    Row {
+        holds: (key == "forms").then_some(true),
+        extra: BTreeMap::from([(key.to_string(), json!(MISCIBLE))]),
+        ..solute_row(solute, quantity)
+    }
+}
+
 /// `require eyewash stays dissolved from 2 C to 8 C margin 10%`.
 fn require(
     ask: &mut Ask,
@@ -443,6 +475,16 @@ fn require(
     let above_ice = above_the_ice(ask.answer, at, ice);
     for index in 0..ask.mixture.solutes.len() {
         let solute = ask.mixture.solutes[index].0;
+        if miscible(ask.snap, solute) {
+            let row = miscible_row(
+                ask,
+                solute,
+                "solubility at the limiting temperature",
+                "forms",
+            );
+            ask.answer.rows.push(row);
+            continue;
+        }
         let screening = match model.check(ask, index, above_ice) {
             Ok(screening) => screening,
             // Ice forms in the range: the requirement fails whatever this solute does, so a
@@ -601,6 +643,11 @@ fn solids_form(ask: &mut Ask, model: &dyn SolidModel, at: Limits) -> Result<(), 
     }
     for index in 0..ask.mixture.solutes.len() {
         let solute = ask.mixture.solutes[index].0;
+        if miscible(ask.snap, solute) {
+            let row = miscible_row(ask, solute, "solid", "forms");
+            ask.answer.rows.push(row);
+            continue;
+        }
         let screening = match model.check(ask, index, checked) {
             Ok(screening) => screening,
             Err(e) => {
@@ -660,6 +707,11 @@ fn saturation(
 ) -> Result<(), EvalError> {
     for index in 0..ask.mixture.solutes.len() {
         let solute = ask.mixture.solutes[index].0;
+        if miscible(ask.snap, solute) {
+            let row = miscible_row(ask, solute, "saturation temperature", "crystals");
+            ask.answer.rows.push(row);
+            continue;
+        }
         let crossings = model.saturation(ask, index)?;
         if crossings.is_empty() {
             ask.answer.rows.push(Row {

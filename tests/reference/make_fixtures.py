@@ -135,6 +135,7 @@ def main():
     __import__("fixtures_brine_checks").write_checks()  # ice lines, water activity, density ranges
     __import__("fixtures_thermochemistry").write_all()
     __import__("fixtures_salting").write(HERE)  # O2 in seawater: gsw
+    __import__("fixtures_antifreeze").write(HERE)  # glycol, glycerol, methanol ice lines: CoolProp
 
 
 if __name__ == "__main__":

@@ -1,5 +1,5 @@
-"""Freezing points of water–glycol, water–glycerol and water–methanol solutions from PyPI
-CoolProp's incompressible fluids (INCOMP::MPG, MEG, MGL, MMA: Melinder 2010's fitted
+"""Freezing points of water–glycol, water–glycerol, water–methanol and water–ethanol solutions from PyPI
+CoolProp's incompressible fluids (INCOMP::MPG, MEG, MGL, MMA, MEA: Melinder 2010's fitted
 freezing curves), at half mass percents between the whole percents the seed's tables were
 entered at, so that satline's interpolation between table points is checked against the
 fitted curve itself.
@@ -16,6 +16,7 @@ FLUIDS = {
     "MEG": ("ethylene-glycol", 60),
     "MGL": ("glycerol", 60),
     "MMA": ("methanol", 50),
+    "MEA": ("ethanol", 60),
 }
 
 

@@ -563,3 +563,37 @@ fn water_by_volume_is_its_mass_at_the_start_temperature() {
         );
     }
 }
+
+#[test]
+fn a_table_of_freezing_points_is_shown_and_counted_as_data() {
+    // Propylene glycol holds no solubility data (it is miscible) but a table of freezing
+    // points (Melinder 2010, 0 to 60 %w/w): `describe` shows it, `list` names it, and the
+    // solute is no longer said to have no data.
+    let e = engine();
+    let a = answer(&e, "describe propylene glycol");
+    assert!(a.ok, "{:?}", a.error);
+    let row = a
+        .rows
+        .iter()
+        .find(|r| r.quantity.as_deref() == Some("freezing points"))
+        .unwrap();
+    assert_eq!(row.extra["compositions"], "0 to 60 %w/w");
+    assert_eq!(row.extra["down_to_c"], -50.0);
+    assert_eq!(row.extra["source"], "melinder-2010");
+    assert!(a.caveats.iter().all(|c| !c.contains("has no data")));
+    let a = answer(&e, "list solutes with tag miscible");
+    let glycol = a
+        .rows
+        .iter()
+        .find(|r| r.solute.as_deref() == Some("propylene glycol"))
+        .unwrap();
+    assert_eq!(glycol.extra["data"], "freezing points only");
+    // A salt's table gives its eutectic too.
+    let a = answer(&e, "describe NaCl");
+    let row = a
+        .rows
+        .iter()
+        .find(|r| r.quantity.as_deref() == Some("freezing points"))
+        .unwrap();
+    assert_eq!(row.extra["eutectic"], "23.3 %w/w at -21.1 C");
+}

@@ -141,6 +141,7 @@ pub fn describe(snap: &Snapshot, s: &Describe, answer: &mut Answer) -> Result<()
     }
     for data in snap.catalog.freezing_of(&solute.id) {
         cite_source(snap, &data.source, answer);
+        answer.rows.push(freezing_row(solute, data));
     }
     let has_data = answer.rows.len() > 1;
     let shown: Vec<&crate::model::Dataset> = snap
@@ -183,6 +184,39 @@ pub fn describe(snap: &Snapshot, s: &Describe, answer: &mut Answer) -> Result<()
     }
     hazard(solute, answer);
     Ok(())
+}
+
+/// A row for a table of freezing points (the ice line): its compositions and temperatures,
+/// and its eutectic where the source gives one.
+fn freezing_row(solute: &crate::model::Solute, data: &crate::model::FreezingData) -> Row {
+    let percent = |w: f64| crate::number::shown(w * 100.0, 4);
+    let compositions = match (data.points.first(), data.points.last()) {
+        (Some(first), Some(last)) => format!("{} to {} %w/w", percent(first.0), percent(last.0)),
+        _ => "none".to_string(),
+    };
+    let lowest = data.points.iter().map(|p| p.1).reduce(f64::min);
+    Row {
+        solute: Some(solute.name.clone()),
+        quantity: Some("freezing points".into()),
+        extra: extra(vec![
+            ("record", json!(data.key)),
+            ("compositions", json!(compositions)),
+            ("points", json!(data.points.len())),
+            ("down_to_c", json!(lowest.map(celsius))),
+            (
+                "eutectic",
+                json!(data.eutectic.map(|(w, t)| format!(
+                    "{} %w/w at {} C",
+                    percent(w),
+                    celsius(t)
+                ))),
+            ),
+            ("provenance", json!(data.provenance.as_str())),
+            ("review", json!(data.review.as_str())),
+            ("source", json!(data.source)),
+        ]),
+        ..Row::default()
+    }
 }
 
 /// `sources of NaCl`, or `sources` for every source in the reference.
@@ -253,6 +287,7 @@ pub fn list(snap: &Snapshot, s: &List, answer: &mut Answer) -> Result<(), EvalEr
             }
         });
         let henry = snap.catalog.gas_constants_of(&solute.id).len();
+        let freezing = !snap.catalog.freezing_of(&solute.id).is_empty();
         answer.rows.push(Row {
             solute: Some(solute.name.clone()),
             extra: extra(vec![
@@ -267,6 +302,7 @@ pub fn list(snap: &Snapshot, s: &List, answer: &mut Answer) -> Result<(), EvalEr
                                 1 => "1 Henry's-law record".to_string(),
                                 n => format!("{n} Henry's-law records"),
                             }))
+                            .or_else(|| freezing.then(|| "freezing points only".to_string()))
                             .unwrap_or_else(|| "none yet".into())
                     ),
                 ),

@@ -39,6 +39,12 @@ pub fn resolve<'a>(snap: &'a Snapshot, name: &Name) -> Result<&'a Solute, EvalEr
         })
 }
 
+/// True for a solute that mixes with water in all proportions and has no solubility data:
+/// it has no saturation limit (no solid of its own to check; only ice, below 0 °C).
+pub fn miscible(snap: &Snapshot, solute: &Solute) -> bool {
+    solute.tags.iter().any(|t| t == "miscible") && snap.curve(&solute.id, false).is_none()
+}
+
 /// The curve of a solid solute, or why there is none.
 pub fn curve_of<'a>(
     snap: &'a Snapshot,
@@ -55,7 +61,7 @@ pub fn curve_of<'a>(
             span: name.span,
         });
     }
-    if solute.tags.iter().any(|t| t == "miscible") && snap.curve(&solute.id, false).is_none() {
+    if miscible(snap, solute) {
         return Err(EvalError::NoData {
             message: format!(
                 "{} mixes with water in all proportions (miscible): there is no saturation limit to give",

@@ -10,13 +10,16 @@ use std::collections::BTreeMap;
 
 use serde_json::json;
 
-use crate::answer::{Answer, Basis, ICE_ROW, Row};
+use crate::answer::{Answer, Basis, Row};
 use crate::engine::CAUTION;
 use crate::engine::buffer;
+use crate::engine::common::miscible;
 use crate::engine::common::{bounds, celsius, phase_caveat, resolve, value};
 use crate::engine::error::EvalError;
-use crate::engine::mixture::{Ask, IceLine, Limits, Mixture, SolidModel, model_for};
+use crate::engine::miscible::miscible_row;
+use crate::engine::mixture::{Ask, Limits, Mixture, SolidModel, model_for};
 use crate::engine::per_litre::{self, DEFAULT_VOLUME_T_K, Solution, Volume};
+use crate::engine::recipe_ice::{above_the_ice, ice_in_range, ice_row};
 use crate::engine::snapshot::Snapshot;
 use crate::model::{Solute, SoluteKind};
 use crate::number::round_significant;
@@ -331,7 +334,7 @@ pub fn recipe(snap: &Snapshot, s: &RecipeStatement, answer: &mut Answer) -> Resu
     Ok(())
 }
 
-fn solute_row(solute: &Solute, quantity: &'static str) -> Row {
+pub(super) fn solute_row(solute: &Solute, quantity: &'static str) -> Row {
     Row {
         solute: Some(solute.name.clone()),
         quantity: Some(quantity.into()),
@@ -375,91 +378,6 @@ fn define(ask: &mut Ask, recipe: &Recipe) -> Result<(), EvalError> {
     }
     ask.answer.caveat("ask `describe NAME` for the composition in every basis, `require NAME stays dissolved from T1 to T2` to check it");
     Ok(())
-}
-
-/// The ice line's part of a range reaching below 0 °C: where ice forms in it, if it does (a
-/// row and a caveat), or a refusal when it cannot be said.
-fn ice_in_range(
-    ask: &mut Ask,
-    model: &dyn SolidModel,
-    t1: f64,
-    span: Span,
-) -> Result<Option<f64>, EvalError> {
-    if t1 >= ICE_POINT {
-        return Ok(None);
-    }
-    match model.ice_line(ask) {
-        IceLine::At { t_k, how, basis } => {
-            ask.answer.caveat(how);
-            let forms = t_k > t1;
-            ask.answer.rows.push(Row {
-                solute: Some("ice".into()),
-                quantity: Some(ICE_ROW.into()),
-                value: Some(celsius(t_k)),
-                unit: Some("C".into()),
-                basis: Some(basis),
-                holds: Some(!forms),
-                ..Row::default()
-            });
-            Ok(forms.then_some(t_k))
-        }
-        IceLine::NotEvaluated(why) => Err(EvalError::Unanswerable {
-            message: format!(
-                "the range reaches below 0 C, where ice may form, and {why}; ask from 0 C up"
-            ),
-            span,
-        }),
-    }
-}
-
-/// The part of the range where the liquid is the recipe as made: all of it, or from the ice
-/// line up when ice forms in it (below the ice line ice takes water out of the liquid, and a
-/// solute's amount per kg of water is no longer the recipe's; `freezing of NAME at T`
-/// follows that). Says so when it cuts the range.
-fn above_the_ice(answer: &mut Answer, at: Limits, ice: Option<f64>) -> Limits {
-    let Some(t_ice) = ice else {
-        return at;
-    };
-    answer.caveat(format!(
-        "the solutes are checked from the ice line ({} C) up: below it ice takes water out of the liquid, which is then no longer the recipe as made (`freezing of NAME at T` follows it)",
-        celsius(t_ice)
-    ));
-    Limits {
-        t1: t_ice.min(at.t2),
-        ..at
-    }
-}
-
-/// What a solute that mixes with water in all proportions (and has no solubility data) is
-/// said to form: none — it has no saturation limit, and stays in the liquid.
-const MISCIBLE: &str = "none: mixes with water in all proportions (miscible)";
-
-/// True for a solute that mixes with water in all proportions and has no solubility data:
-/// no solid of its own is checked (only ice, below 0 °C).
-fn miscible(snap: &Snapshot, solute: &Solute) -> bool {
-    solute.tags.iter().any(|t| t == "miscible") && snap.curve(&solute.id, false).is_none()
-}
-
-/// The row of a miscible solute, and the caveat on the solutes beside it (once).
-fn miscible_row(ask: &mut Ask, solute: &Solute, quantity: &'static str, key: &str) -> Row {
-    let others = ask
-        .mixture
-        .solutes
-        .iter()
-        .filter(|(s, _)| !miscible(ask.snap, s))
-        .count();
-    crate::engine::common::hazard(solute, ask.answer);
-    if others > 0 {
-        ask.answer.caveat(format!(
-            "{} mixes with water in all proportions and stays in the liquid; the other solutes are read against their solubility in pure water, and a salt is usually less soluble in water mixed with an organic liquid (not accounted for: confirm by test)",
-            solute.name
-        ));
-    }
-    Row {
-        holds: (key == "forms").then_some(true),
-        extra: BTreeMap::from([(key.to_string(), json!(MISCIBLE))]),
-        ..solute_row(solute, quantity)
-    }
 }
 
 /// `require eyewash stays dissolved from 2 C to 8 C margin 10%`.
@@ -534,46 +452,6 @@ fn require(
         ask.answer.shortfall = crate::engine::solid::shortfall(&ask.answer.rows);
     }
     Ok(())
-}
-
-/// The ice row of `which solids form`, for a range reaching below 0 °C, and the ice line when
-/// ice forms in the range.
-fn ice_row(model: &dyn SolidModel, ask: &mut Ask, t1: f64) -> (Row, Option<f64>) {
-    let (temperature_c, holds, extra, ice) = match model.ice_line(ask) {
-        IceLine::At { t_k, how, .. } => {
-            ask.answer.caveat(how);
-            let forms = if t_k > t1 {
-                format!("below {} C", celsius(t_k))
-            } else {
-                "no".to_string()
-            };
-            (
-                Some(celsius(t_k)),
-                Some(t_k <= t1),
-                BTreeMap::from([("forms".to_string(), json!(forms))]),
-                (t_k > t1).then_some(t_k),
-            )
-        }
-        IceLine::NotEvaluated(why) => (
-            None,
-            None,
-            BTreeMap::from([
-                ("forms".to_string(), json!("not evaluated")),
-                ("reason".to_string(), json!(why)),
-            ]),
-            None,
-        ),
-    };
-    let row = Row {
-        solute: Some("ice".into()),
-        quantity: Some("solid".into()),
-        phase: Some("ice".into()),
-        temperature_c,
-        holds,
-        extra,
-        ..Row::default()
-    };
-    (row, ice)
 }
 
 /// Where a solute's solid appears within the limits, in words: `no`, `over the whole

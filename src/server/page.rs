@@ -34,8 +34,6 @@ pub(crate) const EXAMPLES: &[&str] = &[
     "plot KNO3, KCl from 0 C to 100 C",
     "dissolved O2 at 25 C under air",
     "dissolved O2 at 4 C in recipe 0.9 %w/v NaCl",
-    "require recipe 1370 mM NaCl, 27 mM KCl, 100 mM Na2HPO4, 18 mM KH2PO4 stays dissolved from 2 C to 8 C",
-    "require recipe 30 %w/w propylene glycol stays dissolved from -20 C to 20 C",
     "convert 20 g/100g water of KCl to mol/kg",
     "let cold = from 2 C to 8 C\nrequire KCl stays dissolved at 20 g/100g water over cold margin 10%",
     "describe NaCl",

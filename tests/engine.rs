@@ -597,3 +597,32 @@ fn a_table_of_freezing_points_is_shown_and_counted_as_data() {
         .unwrap();
     assert_eq!(row.extra["eutectic"], "23.3 %w/w at -21.1 C");
 }
+
+#[test]
+fn a_screening_says_a_miscible_liquid_has_no_limit_rather_than_no_data() {
+    let e = engine();
+    let a = answer(
+        &e,
+        "which solutes stay dissolved at 30 %w/w from -10 C to 20 C",
+    );
+    assert!(a.ok, "{:?}", a.error);
+    let glycol = a
+        .rows
+        .iter()
+        .find(|r| r.solute.as_deref() == Some("propylene glycol"))
+        .unwrap();
+    let reason = glycol.extra["reason"].as_str().unwrap();
+    assert!(
+        reason.starts_with("mixes with water in all proportions"),
+        "{reason}"
+    );
+    // A solute that simply has no data yet is still said so.
+    let without_data = a
+        .rows
+        .iter()
+        .filter(|r| {
+            r.extra.get("reason").and_then(|v| v.as_str()) == Some("no solubility data yet")
+        })
+        .count();
+    assert!(without_data > 0);
+}

@@ -115,7 +115,10 @@ pub fn screen(snap: &Snapshot, s: &Screen, answer: &mut Answer) -> Result<(), Ev
         }
         let built = || snap.curve_at(index, reviewed_only);
         if !flat.facts.present {
-            no_data.push(apart(if reviewed_only {
+            no_data.push(apart(if crate::engine::common::miscible(snap, solute) {
+                // Not a gap in the data: there is no limit to tabulate.
+                "mixes with water in all proportions: no saturation limit to screen (a recipe of it gives its ice line)".into()
+            } else if reviewed_only {
                 "no reviewed solubility data".into()
             } else {
                 "no solubility data yet".into()

@@ -15,13 +15,24 @@ use crate::model::Solute;
 /// said to form: none — it has no saturation limit, and stays in the liquid.
 const MISCIBLE: &str = "none: mixes with water in all proportions (miscible)";
 
-/// The row of a miscible solute, and the caveat on the solutes beside it (once).
-pub(super) fn miscible_row(
+/// For a miscible solute, adds its row (the `key` column says it forms no solid) and the
+/// caveats, and says true: the caller passes over it.
+pub(super) fn miscible_named(
     ask: &mut Ask,
     solute: &Solute,
     quantity: &'static str,
     key: &str,
-) -> Row {
+) -> bool {
+    if !miscible(ask.snap, solute) {
+        return false;
+    }
+    let row = miscible_row(ask, solute, quantity, key);
+    ask.answer.rows.push(row);
+    true
+}
+
+/// The row of a miscible solute, and the caveat on the solutes beside it (once).
+fn miscible_row(ask: &mut Ask, solute: &Solute, quantity: &'static str, key: &str) -> Row {
     let others = ask
         .mixture
         .solutes

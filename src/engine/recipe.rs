@@ -13,10 +13,9 @@ use serde_json::json;
 use crate::answer::{Answer, Basis, Row};
 use crate::engine::CAUTION;
 use crate::engine::buffer;
-use crate::engine::common::miscible;
 use crate::engine::common::{bounds, celsius, phase_caveat, resolve, value};
 use crate::engine::error::EvalError;
-use crate::engine::miscible::miscible_row;
+use crate::engine::miscible::miscible_named;
 use crate::engine::mixture::{Ask, Limits, Mixture, SolidModel, model_for};
 use crate::engine::per_litre::{self, DEFAULT_VOLUME_T_K, Solution, Volume};
 use crate::engine::recipe_ice::{above_the_ice, ice_in_range, ice_row};
@@ -393,14 +392,12 @@ fn require(
     let above_ice = above_the_ice(ask.answer, at, ice);
     for index in 0..ask.mixture.solutes.len() {
         let solute = ask.mixture.solutes[index].0;
-        if miscible(ask.snap, solute) {
-            let row = miscible_row(
-                ask,
-                solute,
-                "solubility at the limiting temperature",
-                "forms",
-            );
-            ask.answer.rows.push(row);
+        if miscible_named(
+            ask,
+            solute,
+            "solubility at the limiting temperature",
+            "forms",
+        ) {
             continue;
         }
         let screening = match model.check(ask, index, above_ice) {
@@ -521,9 +518,7 @@ fn solids_form(ask: &mut Ask, model: &dyn SolidModel, at: Limits) -> Result<(), 
     }
     for index in 0..ask.mixture.solutes.len() {
         let solute = ask.mixture.solutes[index].0;
-        if miscible(ask.snap, solute) {
-            let row = miscible_row(ask, solute, "solid", "forms");
-            ask.answer.rows.push(row);
+        if miscible_named(ask, solute, "solid", "forms") {
             continue;
         }
         let screening = match model.check(ask, index, checked) {
@@ -585,9 +580,7 @@ fn saturation(
 ) -> Result<(), EvalError> {
     for index in 0..ask.mixture.solutes.len() {
         let solute = ask.mixture.solutes[index].0;
-        if miscible(ask.snap, solute) {
-            let row = miscible_row(ask, solute, "saturation temperature", "crystals");
-            ask.answer.rows.push(row);
+        if miscible_named(ask, solute, "saturation temperature", "crystals") {
             continue;
         }
         let crossings = model.saturation(ask, index)?;

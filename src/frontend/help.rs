@@ -211,6 +211,30 @@ pub const TOPICS: &[Topic] = &[
         ],
     },
     Topic {
+        name: "recipe",
+        aliases: &["recipes", "mixture", "mixtures", "formulation"],
+        summary: "several solutes together: the questions a formulation asks",
+        body: "let NAME = recipe AMOUNT SOLUTE, AMOUNT SOLUTE, ...\n\
+               A recipe is solutes with their amounts in any unit of the units topic \
+               (%w/v, mM, g/L, %w/w, g/100g water, mol/kg), bound to a name or written in \
+               place (`recipe 0.9 %w/v NaCl, 5 %w/v sucrose`). Ask of it: `require NAME \
+               stays dissolved over RANGE [margin P]`, `which solids form in NAME over \
+               RANGE`, `saturation of NAME`, `freezing of NAME [at T]`, `describe NAME`, \
+               `ph of NAME` (see ph) and `dissolved GAS at T in NAME`. Salts that one \
+               Pitzer parameter system holds are checked together; otherwise each solute \
+               against its own solubility, a salt sharing an ion with another also by a \
+               common-ion estimate (every answer names the model it used); a liquid that \
+               mixes with water has no limit, only its ice line. Per-litre amounts need \
+               the solution's density, from the reference or `assuming density 1.000 \
+               kg/L`.",
+        examples: &[
+            "let rinse = recipe 0.9 %w/v NaCl, 10 mM KH2PO4, 5 %w/v sucrose",
+            "require rinse stays dissolved from 2 C to 8 C margin 10%",
+            "which solids form in recipe 20 %w/w NaCl from -30 C to 20 C",
+            "freezing of recipe 30 %w/w propylene glycol",
+        ],
+    },
+    Topic {
         name: "ph",
         aliases: &["buffer", "buffers"],
         summary: "buffers in recipes: the pH against temperature and on freezing",

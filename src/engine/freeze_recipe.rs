@@ -5,7 +5,8 @@
 //! line, the ice and salts out at the temperature, the liquid left and its ions, and the
 //! first salt to crystallise from the concentrating liquid. A recipe of one solute that no
 //! parameter system covers at the temperature is answered from that solute's own freezing
-//! data instead ([`as_its_solute`]).
+//! data instead ([`as_its_solute`]); a recipe of several from each solute's own freezing
+//! points and curve ([`crate::engine::mixture_ice::freezing_at`]).
 
 use std::collections::BTreeMap;
 
@@ -109,7 +110,7 @@ pub fn onset(
             ask.answer.caveat(model.caveat());
             t_k
         }
-        None => match EachOnItsOwn::ideal_ice_line(mixture) {
+        None => match EachOnItsOwn.ice_line(&mut ask) {
             IceLine::At { t_k, how, .. } => {
                 ask.answer.caveat(how);
                 t_k
@@ -292,15 +293,25 @@ pub fn freezing(
             return as_its_solute(snap, (mixture, &title), Some(t), why, options, span, answer);
         }
         Err(note) => {
-            return Err(refuse(
-                format!(
-                    "the freezing of {title} is worked out with Pitzer's equations for all its salts together, and here they cannot be used: {}",
-                    note.unwrap_or_else(|| {
-                        "none of its solutes is a salt a parameter system holds".into()
-                    })
-                ),
-                span,
-            ));
+            let mut ask = Ask {
+                snap,
+                mixture,
+                options,
+                answer,
+            };
+            if let Some(note) = &note {
+                ask.answer.caveat(note.clone());
+            }
+            // Refused: why Pitzer's equations could not be used is said too (it may name
+            // `extrapolate`).
+            return crate::engine::mixture_ice::freezing_at(&mut ask, &title, t, span).map_err(
+                |e| match (e, note) {
+                    (EvalError::Unanswerable { message, span }, Some(note)) => {
+                        refuse(format!("{message}; {note}"), span)
+                    }
+                    (e, _) => e,
+                },
+            );
         }
     };
     let mut ask = Ask {

@@ -201,12 +201,20 @@ impl SolidModel for EachOnItsOwn {
 
     /// The ideal dilute estimate ([`EachOnItsOwn::ideal_ice_line`]); beyond the dilute
     /// limit, a mixture of one solute gets that solute's own ice line (its freezing data,
-    /// [`crate::engine::freezing::ice_line_alone`]).
+    /// [`crate::engine::freezing::ice_line_alone`]), a mixture of several the ice line of
+    /// the solutes' own freezing points by the Zdanovskii–Stokes–Robinson rule
+    /// ([`crate::engine::mixture_ice::ice_line`]).
     fn ice_line(&self, ask: &mut Ask) -> IceLine {
         let ideal = EachOnItsOwn::ideal_ice_line(ask.mixture);
         let mixture = ask.mixture;
-        let (IceLine::NotEvaluated(_), [(_, name)]) = (&ideal, mixture.solutes.as_slice()) else {
+        let IceLine::NotEvaluated(dilute) = &ideal else {
             return ideal;
+        };
+        let [(_, name)] = mixture.solutes.as_slice() else {
+            return match crate::engine::mixture_ice::ice_line(ask) {
+                IceLine::NotEvaluated(why) => IceLine::NotEvaluated(format!("{dilute}; {why}")),
+                found => found,
+            };
         };
         match crate::engine::freezing::ice_line_alone(ask, 0) {
             Ok((t_k, basis)) => IceLine::At {
@@ -276,20 +284,29 @@ fn common_ion_crossings(
     Ok(out)
 }
 
+/// Particles per formula unit as a freezing point counts them: a salt its ions (full
+/// dissociation), any other solute one.
+pub fn particles_per_unit(solute: &Solute) -> u32 {
+    match solute.kind {
+        SoluteKind::Salt => solute.ions.max(1),
+        _ => 1,
+    }
+}
+
+/// Dissolved particles of a mixture, mol/kg of its water: Σ iₖ·mₖ.
+fn particles(mixture: &Mixture) -> f64 {
+    (0..mixture.solutes.len())
+        .map(|i| f64::from(particles_per_unit(mixture.solutes[i].0)) * mixture.molality(i))
+        .sum()
+}
+
 impl EachOnItsOwn {
     /// The ideal dilute estimate, ΔT = K_f·Σ iₖ·mₖ (van 't Hoff), only while the solution
     /// holds at most [`DILUTE_IONS`] mol/kg of dissolved particles; beyond that the ice
-    /// line of a mixture needs the activity of water with every solute together.
+    /// line of a mixture is read from its solutes' own freezing points
+    /// ([`crate::engine::mixture_ice`]).
     pub fn ideal_ice_line(mixture: &Mixture) -> IceLine {
-        let particles: f64 = (0..mixture.solutes.len())
-            .map(|i| {
-                let ions = match mixture.solutes[i].0.kind {
-                    SoluteKind::Salt => mixture.solutes[i].0.ions.max(1),
-                    _ => 1,
-                };
-                f64::from(ions) * mixture.molality(i)
-            })
-            .sum();
+        let particles = particles(mixture);
         if within_dilute_limit(particles) {
             IceLine::At {
                 t_k: ICE_POINT - KF_WATER * particles,
@@ -301,7 +318,7 @@ impl EachOnItsOwn {
             }
         } else {
             IceLine::NotEvaluated(format!(
-                "the solution holds {} mol/kg of dissolved particles, beyond the ideal dilute limit ({DILUTE_IONS} mol/kg); the ice line of a mixture that strong needs the activity of water with every solute together, which this version does not compute",
+                "the solution holds {} mol/kg of dissolved particles, beyond the ideal dilute limit ({DILUTE_IONS} mol/kg)",
                 crate::number::round_significant(particles, 3)
             ))
         }

@@ -27,6 +27,7 @@ mod gas;
 mod heat;
 mod miscible;
 pub mod mixture;
+mod mixture_ice;
 mod per_litre;
 mod phase_plot;
 pub mod pitzer_solids;

@@ -117,6 +117,12 @@ impl System<'_> {
         self.data.and_then(|d| d.eutectic)
     }
 
+    /// Whether the data give an ice line to read: at least two freezing points, the
+    /// eutectic counted as one.
+    pub fn has_table(&self) -> bool {
+        self.table().is_some()
+    }
+
     /// The tabulated ice line: the freezing points with the eutectic as a last point.
     fn table(&self) -> Option<Vec<(f64, f64)>> {
         let d = self.data?;

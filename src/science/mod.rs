@@ -16,6 +16,7 @@ pub mod formula;
 pub mod freezing;
 pub mod gas;
 pub mod heat;
+pub mod mixture_ice;
 pub mod range_minimum;
 pub mod salting_out;
 pub mod solve;

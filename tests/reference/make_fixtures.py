@@ -136,6 +136,7 @@ def main():
     __import__("fixtures_thermochemistry").write_all()
     __import__("fixtures_salting").write(HERE)  # O2 in seawater: gsw
     __import__("fixtures_antifreeze").write(HERE)  # glycol, glycerol, methanol ice lines: CoolProp
+    __import__("fixtures_mixture_ice").write(HERE)  # ice lines of mixtures by Pitzer: pytzer
 
 
 if __name__ == "__main__":

@@ -224,14 +224,16 @@ pub const TOPICS: &[Topic] = &[
                Pitzer parameter system holds are checked together; otherwise each solute \
                against its own solubility, a salt sharing an ion with another also by a \
                common-ion estimate (every answer names the model it used); a liquid that \
-               mixes with water has no limit, only its ice line. Per-litre amounts need \
-               the solution's density, from the reference or `assuming density 1.000 \
-               kg/L`.",
+               mixes with water has no limit, only its ice line. Below 0 C a mixture no \
+               parameter system holds freezes by the Zdanovskii-Stokes-Robinson rule, \
+               from each solute's own freezing points. Per-litre amounts need the \
+               solution's density, from the reference or `assuming density 1.000 kg/L`.",
         examples: &[
             "let rinse = recipe 0.9 %w/v NaCl, 10 mM KH2PO4, 5 %w/v sucrose",
             "require rinse stays dissolved from 2 C to 8 C margin 10%",
             "which solids form in recipe 20 %w/w NaCl from -30 C to 20 C",
             "freezing of recipe 30 %w/w propylene glycol",
+            "freezing of recipe 15 %w/w NaCl, 5 %w/w CaCl2 at -20 C",
         ],
     },
     Topic {

@@ -8,17 +8,13 @@
 //! data instead ([`as_its_solute`]); a recipe of several from each solute's own freezing
 //! points and curve ([`crate::engine::mixture_ice::freezing_at`]).
 
-use std::collections::BTreeMap;
-
-use serde_json::json;
-
 use crate::answer::{Answer, Basis, ICE_ROW, Row};
 use crate::engine::common::{celsius, value};
 use crate::engine::error::EvalError;
+use crate::engine::freeze_rows::PathRows;
 use crate::engine::mixture::{Ask, EachOnItsOwn, IceLine, Mixture, SolidModel};
 use crate::engine::pitzer_solids::{PitzerSolids, choose, ice_line_of};
 use crate::engine::snapshot::Snapshot;
-use crate::number::round_significant;
 use crate::query::{Freezing, Loading, Options, Recipe, Span, Temperature};
 use crate::science::activity::freeze::{Candidate, Frozen, freeze};
 use crate::science::activity::ice::ln_water_activity_of_ice;
@@ -340,44 +336,29 @@ pub fn freezing(
         model.cite(&mut ask, index)?;
     }
     // Per kg of the recipe's water at the start the recipe weighs 1/water kg.
-    let recipe_kg = 1.0 / mixture.water();
-    let percent = |kg: f64| value(100.0 * kg / recipe_kg);
+    let rows = PathRows {
+        recipe_kg: 1.0 / mixture.water(),
+        t_k: t,
+    };
     let answer = &mut *ask.answer;
-    answer.rows.push(Row {
-        solute: Some("ice".into()),
-        quantity: Some("ice".into()),
-        value: Some(percent(frozen.ice_kg)),
-        unit: Some("% of the recipe's mass".into()),
-        basis: Some(Basis::Computed),
-        phase: Some("ice".into()),
-        temperature_c: Some(celsius(t)),
-        extra: BTreeMap::from([
-            ("ice_line_c".to_string(), json!(celsius(ice_line))),
-            ("ice_from_c".to_string(), json!(ice_from.map(celsius))),
-            (
-                "water_frozen_pct".to_string(),
-                json!(value(100.0 * frozen.ice_kg)),
-            ),
-        ]),
-        ..Row::default()
-    });
+    answer
+        .rows
+        .push(rows.ice(frozen.ice_kg, Some(ice_line), ice_from));
     for (index, (solute, _)) in mixture.solutes.iter().enumerate() {
-        let mut row = Row {
-            solute: Some(solute.name.clone()),
-            quantity: Some("crystallised".into()),
-            ..Row::default()
-        };
         if let Some((_, why)) = skipped.iter().find(|(i, _)| *i == index) {
-            row.extra = BTreeMap::from([("reason".to_string(), json!(why))]);
+            answer.rows.push(PathRows::not_said(&solute.name, why));
         } else if let Some((k, salt)) = salts.iter().enumerate().find(|(_, s)| s.index == index) {
             let mol = frozen.crystallised.get(k).copied().unwrap_or(0.0);
-            row.value = Some(percent(mol * solute.molar_mass / 1000.0));
-            row.unit = Some("% of the recipe's mass".into());
-            row.basis = Some(Basis::Computed);
-            row.phase = Some(salt.phase.clone());
-            row.temperature_c = Some(celsius(t));
+            answer
+                .rows
+                .push(rows.crystallised(&solute.name, mol, solute.molar_mass, &salt.phase));
+        } else {
+            answer.rows.push(Row {
+                solute: Some(solute.name.clone()),
+                quantity: Some("crystallised".into()),
+                ..Row::default()
+            });
         }
-        answer.rows.push(row);
     }
     let mut liquid_kg = frozen.water_kg;
     for (i, (symbol, z)) in model.system.ions.iter().enumerate() {
@@ -392,38 +373,19 @@ pub fn freezing(
         } else {
             sign.to_string()
         };
-        answer.rows.push(Row {
-            solute: Some(format!("{symbol}{charge}")),
-            quantity: Some("in the liquid".into()),
-            value: Some(value(m)),
-            unit: Some("mol/kg".into()),
-            basis: Some(Basis::Computed),
-            temperature_c: Some(celsius(t)),
-            ..Row::default()
-        });
+        answer
+            .rows
+            .push(rows.in_liquid(format!("{symbol}{charge}"), m));
     }
-    answer.rows.push(Row {
-        solute: Some(title.clone()),
-        quantity: Some("liquid".into()),
-        value: Some(percent(liquid_kg)),
-        unit: Some("% of the recipe's mass".into()),
-        basis: Some(Basis::Computed),
-        temperature_c: Some(celsius(t)),
-        extra: BTreeMap::from([(
-            "water_activity".to_string(),
-            json!(round_significant(frozen.ln_water.exp(), 5)),
-        )]),
-        ..Row::default()
-    });
+    answer
+        .rows
+        .push(rows.liquid(&title, liquid_kg, Some(frozen.ln_water.exp())));
     match (first, first_which) {
-        (Some(t_first), Some((index, phase))) => answer.rows.push(Row {
-            solute: mixture.solutes.get(index).map(|(s, _)| s.name.clone()),
-            quantity: Some("first salt on cooling".into()),
-            phase: Some(phase),
-            temperature_c: Some(celsius(t_first)),
-            basis: Some(Basis::Computed),
-            ..Row::default()
-        }),
+        (Some(t_first), Some((index, phase))) => answer.rows.push(PathRows::first(
+            mixture.solutes.get(index).map(|(s, _)| s.name.clone()),
+            Some(phase),
+            t_first,
+        )),
         _ => answer.caveat(format!(
             "no salt {}crystallises from the recipe between 0 C and {} C",
             if skipped.is_empty() {

@@ -3,13 +3,10 @@
 //! freezing points by the Zdanovskii–Stokes–Robinson rule
 //! ([`crate::science::mixture_ice`]), each solid from its own curve in pure water.
 
-use std::collections::BTreeMap;
-
-use serde_json::json;
-
-use crate::answer::{Answer, Basis, Row};
-use crate::engine::common::{celsius, cite_curve, cite_typed, curve_error, miscible, value};
+use crate::answer::{Answer, Basis};
+use crate::engine::common::{celsius, cite_curve, cite_typed, curve_error, miscible};
 use crate::engine::error::EvalError;
+use crate::engine::freeze_rows::PathRows;
 use crate::engine::freezing::system_of;
 use crate::engine::mixture::{Ask, IceLine, Mixture, particles_per_unit};
 use crate::engine::snapshot::Snapshot;
@@ -271,89 +268,42 @@ pub fn freezing_at(ask: &mut Ask, title: &str, t_k: f64, span: Span) -> Result<(
             cite_curve(snap, built, solute, ask.answer);
         }
     }
-    let recipe_kg = 1.0 / mixture.water();
-    let percent = |kg: f64| value(100.0 * kg / recipe_kg);
+    let rows = PathRows {
+        recipe_kg: 1.0 / mixture.water(),
+        t_k,
+    };
     let answer = &mut *ask.answer;
-    answer.rows.push(Row {
-        solute: Some("ice".into()),
-        quantity: Some("ice".into()),
-        value: Some(percent(frozen.ice_kg)),
-        unit: Some("% of the recipe's mass".into()),
-        basis: Some(Basis::Computed),
-        phase: Some("ice".into()),
-        temperature_c: Some(celsius(t_k)),
-        extra: BTreeMap::from([
-            ("ice_line_c".to_string(), json!(ice_line.map(celsius))),
-            ("ice_from_c".to_string(), json!(ice_from.map(celsius))),
-            (
-                "water_frozen_pct".to_string(),
-                json!(value(100.0 * frozen.ice_kg)),
-            ),
-        ]),
-        ..Row::default()
-    });
+    answer
+        .rows
+        .push(rows.ice(frozen.ice_kg, ice_line, ice_from));
     let mut liquid_kg = frozen.water_kg;
     for (i, (solute, _)) in mixture.solutes.iter().enumerate() {
-        let mut row = Row {
-            solute: Some(solute.name.clone()),
-            quantity: Some("crystallised".into()),
-            ..Row::default()
-        };
-        match (
-            solids.get(i).and_then(|s| s.as_ref()),
-            why.get(i).cloned().flatten(),
-        ) {
-            (Some((_, phase)), _) => {
-                let mol = frozen.crystallised.get(i).copied().unwrap_or(0.0);
-                row.value = Some(percent(mol * solute.molar_mass / 1000.0));
-                row.unit = Some("% of the recipe's mass".into());
-                row.basis = Some(Basis::Computed);
-                row.phase = Some(phase.clone());
-                row.temperature_c = Some(celsius(t_k));
-            }
-            (None, reason) => {
-                row.extra =
-                    BTreeMap::from([("reason".to_string(), json!(reason.unwrap_or_default()))]);
-            }
-        }
-        answer.rows.push(row);
+        answer
+            .rows
+            .push(match solids.get(i).and_then(|s| s.as_ref()) {
+                Some((_, phase)) => {
+                    let mol = frozen.crystallised.get(i).copied().unwrap_or(0.0);
+                    rows.crystallised(&solute.name, mol, solute.molar_mass, phase)
+                }
+                None => PathRows::not_said(
+                    &solute.name,
+                    why.get(i).cloned().flatten().as_deref().unwrap_or_default(),
+                ),
+            });
         let m = frozen.liquid.get(i).copied().unwrap_or(0.0);
         liquid_kg += m * frozen.water_kg * solute.molar_mass / 1000.0;
-        answer.rows.push(Row {
-            solute: Some(solute.name.clone()),
-            quantity: Some("in the liquid".into()),
-            value: Some(value(m)),
-            unit: Some("mol/kg".into()),
-            basis: Some(Basis::Computed),
-            temperature_c: Some(celsius(t_k)),
-            ..Row::default()
-        });
+        answer.rows.push(rows.in_liquid(solute.name.clone(), m));
     }
-    let mut liquid = Row {
-        solute: Some(title.to_string()),
-        quantity: Some("liquid".into()),
-        value: Some(percent(liquid_kg)),
-        unit: Some("% of the recipe's mass".into()),
-        basis: Some(Basis::Computed),
-        temperature_c: Some(celsius(t_k)),
-        ..Row::default()
-    };
-    if frozen.ice_kg > 0.0 {
-        liquid.extra = BTreeMap::from([(
-            "water_activity".to_string(),
-            json!(round_significant(ln_water_activity_of_ice(t_k).exp(), 5)),
-        )]);
-    }
-    answer.rows.push(liquid);
+    let water_activity = (frozen.ice_kg > 0.0).then(|| ln_water_activity_of_ice(t_k).exp());
+    answer
+        .rows
+        .push(rows.liquid(title, liquid_kg, water_activity));
     match (first, first_which) {
-        (Some(t_first), Some(index)) => answer.rows.push(Row {
-            solute: mixture.solutes.get(index).map(|(s, _)| s.name.clone()),
-            quantity: Some("first salt on cooling".into()),
-            phase: state_phase(&solids, index),
-            temperature_c: Some(celsius(t_first)),
-            basis: Some(Basis::Computed),
-            ..Row::default()
-        }),
+        (Some(t_first), Some(index)) => answer.rows.push(PathRows::first(
+            mixture.solutes.get(index).map(|(s, _)| s.name.clone()),
+            state_phase(&solids, index),
+            t_first,
+        )),
         _ => answer.caveat(format!(
             "no solid but ice comes out of the recipe between 0 C and {} C{}",
             celsius(t_k),

@@ -22,6 +22,7 @@ mod error;
 mod filters;
 mod flat_curves;
 pub mod freeze_recipe;
+mod freeze_rows;
 mod freezing;
 mod gas;
 mod heat;

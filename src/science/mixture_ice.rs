@@ -288,20 +288,36 @@ mod tests {
         data(points, None)
     }
 
+    fn table_part(s: System<'_>, molality: f64) -> Part<'_> {
+        Part {
+            alone: Alone::Table(s),
+            molality,
+        }
+    }
+
+    fn ideal_part(ions: u32, molality: f64) -> Part<'static> {
+        Part {
+            alone: Alone::Ideal { ions },
+            molality,
+        }
+    }
+
+    /// The ice line, K, of a mixture that has one.
+    fn at(parts: &[Part]) -> f64 {
+        match ice_line(parts) {
+            Ok(MixtureIce::At(t)) => t,
+            other => panic!("no ice line: {other:?}"),
+        }
+    }
+
     #[test]
     fn one_solute_gives_back_its_own_ice_line() {
         let d = ideal_table();
         let s = system(&d, 100.0);
         let w = 0.1; // 1.111 mol/kg
-        let own = s.ice_line(w).map(|p| p.t_k);
-        let parts = [Part {
-            alone: Alone::Table(s),
-            molality: molality(w, 100.0),
-        }];
-        let Ok(MixtureIce::At(t)) = ice_line(&parts) else {
-            panic!("answered")
-        };
-        assert!((t - own.unwrap_or(0.0)).abs() < 1e-4, "{t}");
+        let own = s.ice_line(w).map(|p| p.t_k).unwrap_or(0.0);
+        let t = at(&[table_part(s, molality(w, 100.0))]);
+        assert!((t - own).abs() < 1e-4, "{t}");
     }
 
     #[test]
@@ -310,19 +326,8 @@ mod tests {
         // freezes where 1.2 mol/kg does.
         let d = ideal_table();
         let s = system(&d, 100.0);
-        let half = Part {
-            alone: Alone::Table(s),
-            molality: 0.6,
-        };
-        let whole = Part {
-            alone: Alone::Table(s),
-            molality: 1.2,
-        };
-        let (Ok(MixtureIce::At(a)), Ok(MixtureIce::At(b))) =
-            (ice_line(&[half, half]), ice_line(&[whole]))
-        else {
-            panic!("answered")
-        };
+        let a = at(&[table_part(s, 0.6), table_part(s, 0.6)]);
+        let b = at(&[table_part(s, 1.2)]);
         assert!((a - b).abs() < 1e-4, "{a} {b}");
         // By hand from the table: 273.15 − 2·1.86·1.2 = 268.686 K.
         assert!((b - 268.686).abs() < 0.01, "{b}");
@@ -332,55 +337,22 @@ mod tests {
     fn more_solute_lowers_the_ice_line_and_the_table_end_is_said() {
         let d = ideal_table();
         let s = system(&d, 100.0);
-        let a = Part {
-            alone: Alone::Table(s),
-            molality: 0.5,
-        };
-        let b = Part {
-            alone: Alone::Ideal { ions: 1 },
-            molality: 0.1,
-        };
-        let (Ok(MixtureIce::At(t1)), Ok(MixtureIce::At(t2))) = (ice_line(&[a]), ice_line(&[a, b]))
-        else {
-            panic!("answered")
-        };
+        let t1 = at(&[table_part(s, 0.5)]);
+        let t2 = at(&[table_part(s, 0.5), ideal_part(1, 0.1)]);
         assert!(t2 < t1, "{t1} {t2}");
         // Beyond the table (it ends at 2 mol/kg, 265.71 K): the line lies below its end.
-        let strong = Part {
-            alone: Alone::Table(s),
-            molality: 1.9,
-        };
-        let more = Part {
-            alone: Alone::Ideal { ions: 1 },
-            molality: 0.5,
-        };
         assert!(matches!(
-            ice_line(&[strong, more]),
+            ice_line(&[table_part(s, 1.9), ideal_part(1, 0.5)]),
             Ok(MixtureIce::Below { limit: 0, .. })
         ));
-        assert!(
-            ice_line(&[Part {
-                alone: Alone::Ideal { ions: 1 },
-                molality: -1.0
-            }])
-            .is_err()
-        );
+        assert!(ice_line(&[ideal_part(1, -1.0)]).is_err());
     }
 
     #[test]
     fn below_the_ice_line_ice_takes_the_water_the_rule_says() {
         let d = ideal_table();
         let s = system(&d, 100.0);
-        let parts = [
-            Part {
-                alone: Alone::Table(s),
-                molality: 0.5,
-            },
-            Part {
-                alone: Alone::Ideal { ions: 2 },
-                molality: 0.1,
-            },
-        ];
+        let parts = [table_part(s, 0.5), ideal_part(2, 0.1)];
         // Ideal throughout: 1.2 mol/kg of particles, ice line near −2.23 C. At −4.464 C
         // (2.4 mol/kg by the table's ideal law, nearly) about half the water is ice.
         let t = ICE_POINT - 2.0 * 1.86 * 1.2;

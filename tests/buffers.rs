@@ -215,3 +215,28 @@ fn an_acetate_buffer_in_millimoles_per_litre_has_its_density() {
     let rho = a[0].rows[1].extra["density_kg_per_l"].as_f64().unwrap();
     assert!((rho - 1.005).abs() < 0.002, "{rho}");
 }
+
+/// Potassium acetate is a form of the acetate buffer as sodium acetate is. It once was not:
+/// a recipe of it beside acetic acid read as the acid alone (pH 3.09 for 15 %w/w with
+/// 0.2 %w/w acid), and on the freezing path it counted as one particle, not two (ice below
+/// -3.9 C beside 2 %w/w Na2HPO4).
+#[test]
+fn potassium_acetate_is_an_acetate_buffer_form() {
+    let a = answers("ph of recipe 15 %w/w potassium acetate, 0.2 %w/w acetic acid at 20 C");
+    assert!(a[0].ok, "{:?}", a[0].error);
+    let ph = a[0].rows[0].value.unwrap();
+    // By hand (Henderson–Hasselbalch, ideal): acetate 15/98.14/0.848 = 1.80 mol/kg, acid
+    // 0.2/60.05/0.848 = 0.0393; pKa 4.756 + log10(1.80/0.0393) = 6.42; activity
+    // coefficients below 1 take a little off.
+    assert!(ph > 6.1 && ph < 6.45, "{ph}");
+    let set = answers("ph of recipe 100 mM potassium acetate at pH 5 at 20 C");
+    assert!(set[0].ok, "{:?}", set[0].error);
+    let frozen = answers(
+        "freezing of recipe 15 %w/w potassium acetate, 2 %w/w disodium hydrogen phosphate at -15 C",
+    );
+    assert!(frozen[0].ok, "{:?}", frozen[0].error);
+    // Ideal (Raoult): 2·1.80 + 3·0.17 mol/kg of particles freeze near -7.4 C; less the
+    // phosphate that crystallises first.
+    let ice = value(&frozen[0], "ice appears");
+    assert!(ice < -6.5 && ice > -8.0, "{ice}");
+}

@@ -247,16 +247,10 @@ fn salts_and_liquid<'s>(snap: &'s Snapshot, mixture: &Mixture) -> (Vec<Salt<'s>>
                     total: mol * rung.units,
                 }),
             }
-            // The counter-ion: the formula's first element for a cation (Na, K), chloride
-            // for a hydrochloride.
+            // The counter-ion: the formula's alkali metal for a cation (Na, K, wherever the
+            // formula writes it: `NaC2H3O2`, `CH3COOK`), chloride for a hydrochloride.
             let counter = if rung.charge > 0 {
-                let f = &solute.formula;
-                let end = f
-                    .char_indices()
-                    .skip(1)
-                    .find(|(_, c)| !c.is_ascii_lowercase())
-                    .map_or(f.len(), |(i, _)| i);
-                f[..end].to_string()
+                alkali_of(&solute.formula)
             } else {
                 "Cl".to_string()
             };
@@ -288,6 +282,28 @@ fn salts_and_liquid<'s>(snap: &'s Snapshot, mixture: &Mixture) -> (Vec<Salt<'s>>
         }
     }
     (salts, liquid)
+}
+
+/// The alkali metal of a buffer salt's formula (its counter-ion), else the formula's first
+/// element.
+fn alkali_of(formula: &str) -> String {
+    let symbols: Vec<&str> = formula
+        .char_indices()
+        .filter(|(_, c)| c.is_ascii_uppercase())
+        .map(|(i, _)| {
+            let rest = &formula[i + 1..];
+            let len = rest
+                .char_indices()
+                .find(|(_, c)| !c.is_ascii_lowercase())
+                .map_or(rest.len(), |(j, _)| j);
+            &formula[i..=i + len]
+        })
+        .collect();
+    ["Na", "K", "Li", "Rb", "Cs"]
+        .iter()
+        .find(|a| symbols.contains(a))
+        .or(symbols.first())
+        .map_or_else(String::new, |s| (*s).to_string())
 }
 
 /// `freezing of RECIPE at T` for a buffered recipe (see the module's comment).
@@ -549,4 +565,18 @@ pub fn freezing(
     cite_acid(snap, water, answer);
     answer.caveat(CAUTION);
     Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn the_counter_ion_is_the_alkali_metal_wherever_the_formula_writes_it() {
+        assert_eq!(alkali_of("NaC2H3O2"), "Na");
+        assert_eq!(alkali_of("CH3COOK"), "K");
+        assert_eq!(alkali_of("K3C6H5O7"), "K");
+        assert_eq!(alkali_of("NaHCO3"), "Na");
+        assert_eq!(alkali_of("C4H11NO3"), "C");
+    }
 }

@@ -216,11 +216,14 @@ async fn same_numbers_as_json(client: &Client, addr: SocketAddr, query: &str) {
     assert!(compared > 0, "no number compared for `{query}`");
 }
 
-/// Waits until the first picture of the answers has loaded, and checks what it is.
+/// Waits until the first picture of the answers has loaded, and checks what it is. The page
+/// loads a picture only when it is scrolled to (`loading="lazy"`), as a reader would, so the
+/// wait scrolls it into view.
 async fn picture_is_shown(client: &Client, addr: SocketAddr) {
     let src = wait_until(
         client,
         "const i = document.querySelector('#answers figure.curve img');
+         if (i && !i.complete) i.scrollIntoView();
          return i && i.complete && i.naturalWidth > 0 ? i.getAttribute('src') : null",
         "the picture",
     )

@@ -37,6 +37,8 @@ pub(crate) const EXAMPLES: &[&str] = &[
     "convert 20 g/100g water of KCl to mol/kg",
     "let cold = from 2 C to 8 C\nrequire KCl stays dissolved at 20 g/100g water over cold margin 10%",
     "describe NaCl",
+    "require recipe 1370 mM NaCl, 27 mM KCl, 100 mM Na2HPO4, 18 mM KH2PO4 stays dissolved from 2 C to 8 C",
+    "freezing of recipe 15 %w/w NaCl, 5 %w/w CaCl2 at -20 C",
 ];
 
 /// The page's routes; merged into the server's router.

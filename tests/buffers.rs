@@ -239,4 +239,16 @@ fn potassium_acetate_is_an_acetate_buffer_form() {
     // phosphate that crystallises first.
     let ice = value(&frozen[0], "ice appears");
     assert!(ice < -6.5 && ice > -8.0, "{ice}");
+    // A de-icing brine of potassium acetate alone (no acid beside it) still freezes by its
+    // own measured freezing points, not by the buffer path's ideal water activity.
+    let brine = answers(
+        "freezing of recipe 30 %w/w potassium acetate\nfreezing of potassium acetate at 30 %w/w",
+    );
+    assert!(brine[0].ok, "{:?}", brine[0].error);
+    let (recipe, alone) = (
+        value(&brine[0], "ice appears"),
+        value(&brine[1], "ice appears"),
+    );
+    assert_eq!(recipe, alone);
+    assert!(recipe < -20.0, "{recipe}");
 }

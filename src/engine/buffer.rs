@@ -111,6 +111,29 @@ fn collect<'s>(
     (acids, charge, ionic)
 }
 
+/// Whether a recipe holding acid-base forms still freezes as salts do, by its solutes' own
+/// freezing points: every form in it is the salt of its acid (not the acid or base
+/// itself), has a freezing table of its own, and stands alone among its acid's forms (a
+/// de-icing brine of potassium acetate or potassium carbonate, whose measured freezing
+/// curves answer better than the buffer path's ideal water activity). Its pH on freezing
+/// is then not followed.
+pub fn freezes_as_salts(snap: &Snapshot, mixture: &Mixture) -> bool {
+    let mut acids: Vec<&str> = Vec::new();
+    for (solute, _) in &mixture.solutes {
+        let Some((acid, rung)) = rung_of(snap, &solute.id) else {
+            continue;
+        };
+        if rung.charge == 0
+            || snap.catalog.freezing_of(&solute.id).is_empty()
+            || acids.contains(&acid.key.as_str())
+        {
+            return false;
+        }
+        acids.push(&acid.key);
+    }
+    !acids.is_empty()
+}
+
 /// What sets the pH of a mixture: its acids (from the solutes that are forms of a buffer)
 /// and its fully dissociated ions. `None` when it holds no acid or water's record is missing.
 pub fn solution_of<'s>(snap: &'s Snapshot, mixture: &Mixture) -> Option<Solution<'s>> {

@@ -73,7 +73,9 @@ pub fn onset(
 ) -> Result<(), EvalError> {
     let span = recipe.span;
     let title = recipe.title();
-    if crate::engine::buffer::solution_of(snap, mixture).is_some() {
+    if crate::engine::buffer::solution_of(snap, mixture).is_some()
+        && !crate::engine::buffer::freezes_as_salts(snap, mixture)
+    {
         return Err(refuse(
             format!(
                 "{title} holds an acid or base: give the freezer's temperature, `freezing of NAME at -20 C`, which follows the liquid and its pH as ice forms and says where ice appears"

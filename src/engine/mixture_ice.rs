@@ -23,7 +23,7 @@ use crate::science::mixture_ice::{
 
 /// The caveat of an ice line found this way; the figures are those of
 /// `tests/mixture_ice.rs::the_rule_beside_pitzers_equations_for_chloride_pairs`.
-pub const METHOD: &str = "ice line of the mixture by the Zdanovskii–Stokes–Robinson rule (Stokes & Robinson 1966): it starts to freeze at the temperature T where Σ mᵢ/mᵢ*(T) = 1, mᵢ being each solute's molality in the recipe's water and mᵢ*(T) the molality at which that solute alone in water freezes at T, read from its own freezing points (a solute without them, present only in the dilute limit, counted as ideal); it leaves out how the solutes act on each other: fed the curves of NaCl, KCl and MgCl2 alone from Pitzer's equations (pytzer), it gave the same equations' ice line of their mixtures down to -9 C within 0.05 K; other pairs, and a salt beside a glycol, not checked";
+pub const METHOD: &str = "ice line of the mixture by the Zdanovskii–Stokes–Robinson rule (Stokes & Robinson 1966): it starts to freeze at the temperature T where Σ mᵢ/mᵢ*(T) = 1, mᵢ being each solute's molality in the recipe's water and mᵢ*(T) the molality at which that solute alone in water freezes at T, read from its own freezing points (a solute without them, present only in the dilute limit, counted as ideal); it leaves out how the solutes act on each other: fed the curves of NaCl, KCl and MgCl2 alone from Pitzer's equations (pytzer), it gave the same equations' ice line of their mixtures down to -9 C to within 0.06 K (largest difference 0.050 K); other pairs, and a salt beside a glycol, not checked";
 
 /// The activity-model sets of each solute of `mixture` (the systems borrow them).
 fn models_of<'s>(snap: &'s Snapshot, mixture: &Mixture) -> Vec<Vec<&'s ParameterSet>> {

@@ -251,4 +251,10 @@ fn potassium_acetate_is_an_acetate_buffer_form() {
     );
     assert_eq!(recipe, alone);
     assert!(recipe < -20.0, "{recipe}");
+    assert!(
+        brine[0]
+            .caveats
+            .iter()
+            .any(|c| c.contains("the pH of the liquid left as ice forms is not followed"))
+    );
 }

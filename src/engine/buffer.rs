@@ -134,6 +134,9 @@ pub fn freezes_as_salts(snap: &Snapshot, mixture: &Mixture) -> bool {
     !acids.is_empty()
 }
 
+/// The caveat of a recipe that [`freezes_as_salts`].
+pub const FROZEN_AS_SALTS: &str = "the recipe's acid-base salts freeze here by their own freezing points, like any salt: the pH of the liquid left as ice forms is not followed (`ph of NAME` gives the recipe's pH as made)";
+
 /// What sets the pH of a mixture: its acids (from the solutes that are forms of a buffer)
 /// and its fully dissociated ions. `None` when it holds no acid or water's record is missing.
 pub fn solution_of<'s>(snap: &'s Snapshot, mixture: &Mixture) -> Option<Solution<'s>> {

@@ -73,15 +73,16 @@ pub fn onset(
 ) -> Result<(), EvalError> {
     let span = recipe.span;
     let title = recipe.title();
-    if crate::engine::buffer::solution_of(snap, mixture).is_some()
-        && !crate::engine::buffer::freezes_as_salts(snap, mixture)
-    {
-        return Err(refuse(
-            format!(
-                "{title} holds an acid or base: give the freezer's temperature, `freezing of NAME at -20 C`, which follows the liquid and its pH as ice forms and says where ice appears"
-            ),
-            span,
-        ));
+    if crate::engine::buffer::solution_of(snap, mixture).is_some() {
+        if !crate::engine::buffer::freezes_as_salts(snap, mixture) {
+            return Err(refuse(
+                format!(
+                    "{title} holds an acid or base: give the freezer's temperature, `freezing of NAME at -20 C`, which follows the liquid and its pH as ice forms and says where ice appears"
+                ),
+                span,
+            ));
+        }
+        answer.caveat(crate::engine::buffer::FROZEN_AS_SALTS);
     }
     if mixture.solutes.len() == 1 {
         return as_its_solute(snap, (mixture, &title), None, "", options, span, answer);

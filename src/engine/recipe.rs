@@ -260,16 +260,17 @@ pub fn recipe(snap: &Snapshot, s: &RecipeStatement, answer: &mut Answer) -> Resu
             );
         };
         // A recipe with an acid or base: its own path, with the pH of the liquid left.
-        if buffer::solution_of(snap, &composed.mixture).is_some()
-            && !buffer::freezes_as_salts(snap, &composed.mixture)
-        {
-            return crate::engine::buffer_freeze::freezing(
-                snap,
-                &composed.mixture,
-                at.kelvin(),
-                at.span,
-                answer,
-            );
+        if buffer::solution_of(snap, &composed.mixture).is_some() {
+            if !buffer::freezes_as_salts(snap, &composed.mixture) {
+                return crate::engine::buffer_freeze::freezing(
+                    snap,
+                    &composed.mixture,
+                    at.kelvin(),
+                    at.span,
+                    answer,
+                );
+            }
+            answer.caveat(buffer::FROZEN_AS_SALTS);
         }
         let asked = crate::engine::freeze_recipe::Asked {
             recipe,

@@ -71,7 +71,7 @@ fn the_rule_beside_pitzers_equations_for_chloride_pairs() {
                     alone: Alone::Table(System {
                         curve: None,
                         molar_mass: molar_mass(salt).unwrap(),
-                        ions: 2,
+                        ions: if *salt == "MgCl2" { 3 } else { 2 },
                         data: Some(d),
                         models: &[],
                     }),

@@ -18,7 +18,7 @@ use crate::engine::snapshot::Snapshot;
 use crate::query::{Freezing, Loading, Options, Recipe, Span, Temperature};
 use crate::science::activity::freeze::{Candidate, Frozen, freeze};
 use crate::science::activity::ice::ln_water_activity_of_ice;
-use crate::science::bisect::{Until, try_bisect};
+use crate::science::bisect::first_going_down;
 use crate::science::formula::molar_mass;
 use crate::science::freezing::ICE_POINT;
 use crate::science::units::CompositionUnit;
@@ -250,21 +250,7 @@ fn first_out(
             }
         }))
     };
-    let top = ICE_POINT;
-    if out(top)? {
-        return Ok(Some(top));
-    }
-    let n = (((top - bottom) / 0.5).ceil() as usize).max(1);
-    let mut above = top;
-    for k in 1..=n {
-        let t = top - (top - bottom) * k as f64 / n as f64;
-        if out(t)? {
-            let bracket = try_bisect(t, above, Until::Width(1e-3), out)?;
-            return Ok(Some(bracket.mid()));
-        }
-        above = t;
-    }
-    Ok(None)
+    first_going_down(ICE_POINT, bottom, 0.5, 1e-3, out)
 }
 
 /// Answers `freezing of RECIPE at T`, with the cautions.

@@ -14,7 +14,7 @@ use crate::number::round_significant;
 use crate::query::{Options, Span};
 use crate::science::activity::ParameterSet;
 use crate::science::activity::ice::ln_water_activity_of_ice;
-use crate::science::bisect::{Until, try_bisect};
+use crate::science::bisect::first_going_down;
 use crate::science::formula::parse_formula;
 use crate::science::freezing::{ICE_POINT, molality, within_dilute_limit};
 use crate::science::mixture_ice::{
@@ -176,25 +176,14 @@ fn state_at(ask: &Ask, parts: &[Part], t_k: f64) -> Result<Frozen, String> {
 /// Where something first comes out on cooling from 0 °C to `bottom` (K): ice
 /// (`ice = true`) or any solute's solid; scanned 0.25 K apart, then bisected to 1e-3 K.
 fn first_out(ask: &Ask, parts: &[Part], bottom: f64, ice: bool) -> Result<Option<f64>, String> {
-    let out = |t: f64| -> Result<bool, String> {
+    first_going_down(ICE_POINT, bottom, 0.25, 1e-3, |t| {
         let f = state_at(ask, parts, t)?;
         Ok(if ice {
             f.ice_kg > 0.0
         } else {
             f.crystallised.iter().any(|x| *x > 0.0)
         })
-    };
-    let n = (((ICE_POINT - bottom) / 0.25).ceil() as usize).max(1);
-    let mut above = ICE_POINT;
-    for k in 1..=n {
-        let t = ICE_POINT - (ICE_POINT - bottom) * k as f64 / n as f64;
-        if out(t)? {
-            let bracket = try_bisect(t, above, Until::Width(1e-3), &out)?;
-            return Ok(Some(bracket.mid()));
-        }
-        above = t;
-    }
-    Ok(None)
+    })
 }
 
 /// `freezing of RECIPE at T` for a recipe of several solutes no parameter system holds

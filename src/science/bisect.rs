@@ -31,6 +31,34 @@ impl Bracket {
     }
 }
 
+/// The first place, going down from `top` to `bottom`, where `is_out` turns true: `top`
+/// itself when it holds there; else a scan in steps of at most `step`, and the first step
+/// where it holds bisected against the one above it to `width`. `None` when it holds
+/// nowhere on the way (where something first comes out of a cooling liquid).
+pub fn first_going_down<E>(
+    top: f64,
+    bottom: f64,
+    step: f64,
+    width: f64,
+    mut is_out: impl FnMut(f64) -> Result<bool, E>,
+) -> Result<Option<f64>, E> {
+    if is_out(top)? {
+        return Ok(Some(top));
+    }
+    let n = (((top - bottom) / step).ceil() as usize).max(1);
+    let mut above = top;
+    for k in 1..=n {
+        let t = top - (top - bottom) * k as f64 / n as f64;
+        if is_out(t)? {
+            return Ok(Some(
+                try_bisect(t, above, Until::Width(width), is_out)?.mid(),
+            ));
+        }
+        above = t;
+    }
+    Ok(None)
+}
+
 /// Narrows `[lo, hi]` by halving it: where `is_low(mid)` holds, the point sought lies
 /// above `mid` and the lower end moves up to it; otherwise the upper end moves down.
 /// An error from `is_low` ends the search.
@@ -71,6 +99,26 @@ pub fn bisect(lo: f64, hi: f64, until: Until, mut is_low: impl FnMut(f64) -> boo
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn the_first_place_going_down_is_found_between_scan_steps() {
+        let below = |edge: f64| move |t: f64| Ok::<bool, ()>(t < edge);
+        // Out below 7.3 on the way from 10 down to 0: found to the width asked.
+        let t = first_going_down(10.0, 0.0, 1.0, 1e-6, below(7.3));
+        assert!(t.is_ok_and(|t| t.is_some_and(|t| (t - 7.3).abs() < 1e-6)));
+        // Out at the top already, and nowhere on the way.
+        assert_eq!(
+            first_going_down(10.0, 0.0, 1.0, 1e-6, below(11.0)),
+            Ok(Some(10.0))
+        );
+        assert_eq!(
+            first_going_down(10.0, 0.0, 1.0, 1e-6, below(-1.0)),
+            Ok(None)
+        );
+        // An error from the test ends the search.
+        let failing = first_going_down(10.0, 0.0, 1.0, 1e-6, |_| Err::<bool, &str>("no"));
+        assert_eq!(failing, Err("no"));
+    }
 
     #[test]
     fn finds_a_square_root_to_the_width_asked() {
